@@ -1,0 +1,107 @@
+"""Generate docs/functions.md from the catalog (the function reference is never hand-kept)."""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+from .catalog import CATALOG, FAMILIES, Func
+from .units import DEFAULT_SYSTEM, unit_system
+
+CAUTION = (
+    "> **Caution.** Results are engineering estimates. Pressure equipment, trapped liquid and "
+    "stored energy are governed by the applicable codes and standards and by the judgement of a "
+    "competent, licensed engineer; joulebook does not replace either."
+)
+
+
+def _result_unit(f: Func) -> str:
+    if f.result == "asked":
+        return "the unit written in the formula (`want`), else the default of the unit system"
+    if f.result in ("text", "number"):
+        return f.result
+    unit = unit_system(None).unit(f.result)
+    return f"{f.result.replace('_', ' ')}, default `{unit or '—'}`"
+
+
+def _example_text(f: Func) -> str:
+    def lit(a):
+        return f'"{a}"' if isinstance(a, str) else repr(a)
+
+    call = f"={f.name}({', '.join(lit(a) for a in f.example.args)})"
+    val = f.example.value
+    shown = (
+        f'"{val}…"'
+        if f.example.match == "prefix"
+        else (f'"{val}"' if isinstance(val, str) else repr(val))
+    )
+    return f"`{call}` → {shown}"
+
+
+def functions_markdown() -> str:
+    """The complete text of docs/functions.md."""
+    out = [
+        "# Worksheet function reference",
+        "",
+        "Generated from `funcs/joulebook/catalog.py` by `joulebook docs`; do not edit by hand.",
+        "",
+        f"Numbers without a written unit use the unit system in force: the optional last argument "
+        f"`units` (default `{DEFAULT_SYSTEM}`). Every scalar argument also accepts a range; the "
+        "result then spills, one value per cell. Sign conventions are in docs/sign-convention.md "
+        "once the process functions land.",
+        "",
+        CAUTION,
+        "",
+    ]
+    for fam, title in FAMILIES.items():
+        funcs = [f for f in CATALOG if f.family == fam]
+        if not funcs:
+            continue
+        out += [f"## {title}", ""]
+        for f in funcs:
+            out += [f"### {f.name}", "", f.help, "", f"`{f.signature()}`", ""]
+            out += ["| argument | meaning | unit |", "| --- | --- | --- |"]
+            for a in f.all_args:
+                unit = (
+                    a.quantity.replace("_", " ")
+                    if a.quantity
+                    else ("text" if a.type == "text" else "—")
+                )
+                opt = " (optional)" if a.optional else ""
+                out.append(f"| `{a.name}`{opt} | {a.help} | {unit} |")
+            out += [
+                "",
+                f"- **Result:** {_result_unit(f)}",
+                f"- **Equation:** {f.equation}",
+                f"- **References:** {'; '.join(f.references)}",
+                f"- **Example:** {_example_text(f)}",
+            ]
+            if f.notes:
+                out.append(f"- **Note:** {f.notes}")
+            out.append("")
+    out += _materials_section()
+    return "\n".join(out).rstrip() + "\n"
+
+
+def _materials_section() -> list[str]:
+    from .substances.solids import MATERIALS
+
+    out = [
+        "## Materials of the incompressible model",
+        "",
+        "| material | aliases | valid range, K | source |",
+        "| --- | --- | --- | --- |",
+    ]
+    for m in MATERIALS:
+        note = f" {m.note}." if m.note else ""
+        out.append(
+            f"| {m.name} | {', '.join(m.aliases)} | {m.T_min:g}–{m.T_max:g} | {m.source}.{note} |"
+        )
+    return out + [""]
+
+
+def write(root: Path) -> list[Path]:
+    """Write every generated document under *root*; return the paths written."""
+    path = root / "docs" / "functions.md"
+    path.parent.mkdir(parents=True, exist_ok=True)
+    path.write_text(functions_markdown(), encoding="utf-8")
+    return [path]

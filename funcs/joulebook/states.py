@@ -1,0 +1,113 @@
+"""State text: a real-fluid state written out in full, e.g. ``water | T = 25 degC | P = 200 kPa``.
+
+The text *is* the state: there is no hidden object store, so a formula gives the same result
+in Excel and headless.  Every property function accepts a state text in place of a substance
+and two specifications.  Formatting uses the shortest decimal that reads back to the same
+float, so text → state → text round-trips exactly.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from dataclasses import dataclass
+from functools import lru_cache
+
+from .errors import BadInput
+from .substances import fluids
+from .units import Phrase, UnitSystem, parse_phrase, unit_system
+
+__all__ = ["State", "parse_state", "format_state", "is_state_text", "format_number", "spec_phrase"]
+
+#: the symbols a state may be fixed by
+STATE_INPUTS = fluids.INPUTS
+
+
+@dataclass(frozen=True)
+class State:
+    """A fluid and two specifications, each with the value as written and its unit phrase."""
+
+    fluid: str  # display name
+    specs: tuple[tuple[Phrase, float], tuple[Phrase, float]]
+
+    def si(self) -> tuple[str, float, str, float]:
+        (p1, v1), (p2, v2) = self.specs
+        return p1.symbol, p1.conv.to_si(v1), p2.symbol, p2.conv.to_si(v2)
+
+    def shows(self) -> dict:
+        return {p.symbol: p.conv for p, _ in self.specs}
+
+
+def format_number(x: float) -> str:
+    """Shortest text that reads back to the same float (``25`` not ``25.0``)."""
+    x = float(x)
+    if math.isfinite(x) and x == int(x) and abs(x) < 1e15:
+        return str(int(x))
+    return repr(x)
+
+
+def is_state_text(text: object) -> bool:
+    return isinstance(text, str) and "|" in text
+
+
+def spec_phrase(text: object, arg: str, system: UnitSystem) -> Phrase:
+    if not isinstance(text, str) or not text.strip():
+        raise BadInput(f"{arg} must be a property phrase such as 'T in degC' (got {text!r})")
+    try:
+        return parse_phrase(text, system, STATE_INPUTS)
+    except BadInput as e:
+        raise BadInput(f"{arg}: {e.message}") from None
+
+
+def format_state(st: State) -> str:
+    parts = [st.fluid]
+    for p, v in st.specs:
+        unit = f" {p.unit}" if p.unit else ""
+        parts.append(f"{p.symbol} = {format_number(v)}{unit}")
+    return " | ".join(parts)
+
+
+_SPEC = re.compile(
+    r"^\s*(?P<sym>[A-Za-z]+)\s*=\s*(?P<num>[-+]?(?:\d+\.?\d*|\.\d+)(?:[eE][-+]?\d+)?)\s*(?P<unit>.*?)\s*$"
+)
+
+
+@lru_cache(maxsize=4096)
+def parse_state(text: str) -> State:
+    """Parse state text ``fluid | SYM = value unit | SYM = value unit``.
+
+    Raises
+    ------
+    BadInput
+        Malformed text, unknown fluid, symbol or unit.
+    """
+    parts = [p.strip() for p in str(text).split("|")]
+    if len(parts) != 3:
+        raise BadInput(
+            f"state text {text[:60]!r} needs a fluid and two specs: 'water | T = 25 degC | P = 200 kPa'"
+        )
+    info = fluids.fluid_info(parts[0])
+    specs = []
+    system = unit_system(None)
+    for part in parts[1:]:
+        m = _SPEC.match(part)
+        if not m:
+            raise BadInput(f"state text: {part!r} is not 'SYMBOL = number unit'")
+        unit = m.group("unit")
+        phrase = parse_phrase(
+            f"{m.group('sym')} in {unit}" if unit else m.group("sym"), system, STATE_INPUTS
+        )
+        if not unit and phrase.kind != "dimensionless":
+            raise BadInput(
+                f"state text: {part!r} needs its unit (e.g. {phrase.symbol} = 1 {phrase.unit})"
+            )
+        specs.append((phrase, float(m.group("num"))))
+    return State(info.name, (specs[0], specs[1]))
+
+
+def make_state(fluid: str, spec1, value1: float, spec2, value2: float, system: UnitSystem) -> State:
+    """Build a :class:`State` from worksheet arguments (values in the phrases' units)."""
+    info = fluids.fluid_info(fluid)
+    p1 = spec_phrase(spec1, "spec1", system)
+    p2 = spec_phrase(spec2, "spec2", system)
+    return State(info.name, ((p1, float(value1)), (p2, float(value2))))

@@ -1,0 +1,1 @@
+"""Substance models: real fluids, ideal gases and incompressible solids and liquids."""

@@ -1,0 +1,735 @@
+"""Real fluids: states and properties on reference equations of state.
+
+Every pure and pseudo-pure fluid that CoolProp's Helmholtz-energy backend carries is
+available by a common name with aliases (``water``/``steam``/``H2O``, ``air``, ``nitrogen``,
+``R134a``, ``CO2``, ``ammonia``, ``propane`` …).  All values here are SI: K, Pa, kg/m³, J/kg,
+J/(kg·K).
+
+A state is fixed by two independent properties among ``T P v rho u h s x``.  Inputs the
+library flashes directly are passed straight through one cached ``AbstractState`` per fluid
+and thread; the pairs it lacks (T with u, h or s; x with u, h or s) are solved here by a
+bracketing search on density (or on temperature along the saturation line), which refuses
+rather than guesses when a pair has no state or more than one.
+
+References
+----------
+I. H. Bell, J. Wronski, S. Quoilin, V. Lemort, "Pure and Pseudo-pure Fluid Thermophysical
+Property Evaluation and the Open-Source Thermophysical Property Library CoolProp",
+Ind. Eng. Chem. Res. 53 (2014) 2498–2508.
+W. Wagner, A. Pruß, "The IAPWS Formulation 1995 for the Thermodynamic Properties of Ordinary
+Water Substance for General and Scientific Use", J. Phys. Chem. Ref. Data 31 (2002) 387.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+import threading
+from dataclasses import dataclass
+from functools import cache, lru_cache
+
+import numpy as np
+
+from ..errors import BadInput, JoulebookError, OutOfRange, fmt_value
+from ..roots import scan_roots
+
+__all__ = [
+    "FluidInfo",
+    "fluid_info",
+    "fluid_names",
+    "INPUTS",
+    "VALID_PAIRS",
+    "OUTPUTS",
+    "state_props",
+    "column_props",
+    "reader",
+    "saturation",
+    "phase_word",
+    "coolprop_version",
+]
+
+#: symbols that may fix a state
+INPUTS = ("T", "P", "v", "rho", "u", "h", "s", "x")
+#: symbols a state can report
+OUTPUTS = ("T", "P", "v", "rho", "u", "h", "s", "cp", "cv", "k", "x", "Z", "Tsat", "Psat", "phase")
+
+_CP = None
+
+
+def _coolprop():
+    """CoolProp's module, imported on first use (the import takes seconds)."""
+    global _CP
+    if _CP is None:
+        import CoolProp.CoolProp as CP  # noqa: N814
+
+        _CP = CP
+    return _CP
+
+
+def coolprop_version() -> str:
+    import CoolProp
+
+    return f"CoolProp {CoolProp.__version__}"
+
+
+# ---------------------------------------------------------------------------------------
+# names
+
+_DISPLAY = {
+    "Water": "water",
+    "Air": "air",
+    "Nitrogen": "nitrogen",
+    "Oxygen": "oxygen",
+    "Argon": "argon",
+    "CarbonDioxide": "CO2",
+    "CarbonMonoxide": "CO",
+    "Ammonia": "ammonia",
+    "n-Propane": "propane",
+    "n-Butane": "butane",
+    "IsoButane": "isobutane",
+    "Methane": "methane",
+    "Ethane": "ethane",
+    "Hydrogen": "hydrogen",
+    "Helium": "helium",
+    "Neon": "neon",
+    "HeavyWater": "heavy water",
+    "SulfurHexafluoride": "SF6",
+}
+_EXTRA_ALIASES = {
+    "Water": ["steam", "H2O", "R718", "water vapour", "water vapor"],
+    "Air": ["dry air", "R729"],
+    "CarbonDioxide": ["carbon dioxide", "R744", "CO2"],
+    "Ammonia": ["NH3", "R717"],
+    "n-Propane": ["R290", "C3H8"],
+    "IsoButane": ["R600a", "i-butane"],
+    "n-Butane": ["R600"],
+    "Methane": ["CH4", "R50", "natural gas (as methane)"],
+    "Ethane": ["R170"],
+    "Propylene": ["R1270", "propene"],
+    "Nitrogen": ["N2", "R728"],
+    "Oxygen": ["O2", "R732"],
+    "Argon": ["Ar", "R740"],
+    "Hydrogen": ["H2", "R702"],
+    "Helium": ["He", "R704"],
+}
+
+# readable references for the equations of state most used in closed-system work
+_EOS_TEXT = {
+    "Water": "IAPWS-95 (Wagner & Pruss, J. Phys. Chem. Ref. Data 31, 387, 2002)",
+    "Air": "Lemmon et al., J. Phys. Chem. Ref. Data 29, 331 (2000), pseudo-pure air",
+    "Nitrogen": "Span et al., J. Phys. Chem. Ref. Data 29, 1361 (2000)",
+    "Oxygen": "Schmidt & Wagner, Fluid Phase Equilib. 19, 175 (1985)",
+    "CarbonDioxide": "Span & Wagner, J. Phys. Chem. Ref. Data 25, 1509 (1996)",
+    "Argon": "Tegeler et al., J. Phys. Chem. Ref. Data 28, 779 (1999)",
+    "R134a": "Tillner-Roth & Baehr, J. Phys. Chem. Ref. Data 23, 657 (1994)",
+    "Ammonia": "Gao et al., J. Phys. Chem. Ref. Data 52, 013102 (2023)",
+    "Methane": "Setzmann & Wagner, J. Phys. Chem. Ref. Data 20, 1061 (1991)",
+    "Hydrogen": "Leachman et al., J. Phys. Chem. Ref. Data 38, 721 (2009), normal hydrogen",
+}
+
+
+def _key(name: str) -> str:
+    return re.sub(r"[\s\-_]", "", str(name)).lower()
+
+
+def _display_name(cp_name: str) -> str:
+    if cp_name in _DISPLAY:
+        return _DISPLAY[cp_name]
+    if re.search(r"\d|\(", cp_name) or cp_name.isupper():
+        return cp_name
+    words = re.sub(r"(?<=[a-z])(?=[A-Z])", " ", cp_name)
+    return words.lower()
+
+
+@dataclass(frozen=True)
+class FluidInfo:
+    """Constants of one real fluid (SI)."""
+
+    name: str  # our display name
+    internal: str  # the property library's name (never shown in the worksheet interface)
+    aliases: tuple[str, ...]
+    T_min: float
+    T_max: float
+    P_max: float
+    T_crit: float
+    P_crit: float
+    rho_crit: float
+    T_triple: float
+    P_triple: float
+    molar_mass: float  # kg/mol
+    R: float  # J/(kg K)
+    pure: bool
+    eos: str
+
+
+@lru_cache(maxsize=1)
+def _registry() -> tuple[dict[str, str], dict[str, str]]:
+    """(normalised alias -> internal name, internal -> display)."""
+    CP = _coolprop()
+    names = CP.get_global_param_string("FluidsList").split(",")
+    alias_map: dict[str, str] = {}
+    display: dict[str, str] = {}
+    claimed: dict[str, str] = {}
+    for n in names:
+        disp = _display_name(n)
+        display[n] = disp
+        cands = [
+            disp,
+            n,
+            *CP.get_fluid_param_string(n, "aliases").split(","),
+            *_EXTRA_ALIASES.get(n, []),
+        ]
+        cas = CP.get_fluid_param_string(n, "CAS")
+        if re.fullmatch(r"\d+-\d+-\d", cas):
+            cands.append(cas)
+        for c in cands:
+            k = _key(c)
+            if not k:
+                continue
+            if k in claimed and claimed[k] != n:
+                continue  # first owner keeps an ambiguous alias
+            claimed[k] = n
+            alias_map[k] = n
+    return alias_map, display
+
+
+def fluid_names() -> list[str]:
+    """Display names of every real fluid, sorted case-insensitively."""
+    return sorted(_registry()[1].values(), key=str.lower)
+
+
+@lru_cache(maxsize=512)
+def fluid_info(name: str) -> FluidInfo:
+    """Resolve a fluid name or alias (case, spaces and hyphens ignored).
+
+    Raises
+    ------
+    BadInput
+        Unknown name; the message suggests close names.
+    """
+    alias_map, display = _registry()
+    internal = alias_map.get(_key(name))
+    if internal is None:
+        import difflib
+
+        close = difflib.get_close_matches(_key(name), list(alias_map), n=3, cutoff=0.6)
+        hint = ", ".join(display[alias_map[c]] for c in close) if close else "see JB_ABOUT / docs"
+        raise BadInput(f"unknown fluid {fmt_value(str(name))}; did you mean: {hint}")
+    CP = _coolprop()
+    a = CP.AbstractState("HEOS", internal)
+    aliases = tuple(sorted({k for k, v in alias_map.items() if v == internal}))
+    bib = a.fluid_param_string("BibTeX-EOS")
+    return FluidInfo(
+        name=display[internal],
+        internal=internal,
+        aliases=aliases,
+        T_min=a.Tmin(),
+        T_max=a.Tmax(),
+        P_max=a.pmax(),
+        T_crit=a.T_critical(),
+        P_crit=a.p_critical(),
+        rho_crit=a.rhomass_critical(),
+        T_triple=a.Ttriple(),
+        P_triple=a.p_triple(),
+        molar_mass=a.molar_mass(),
+        R=a.gas_constant() / a.molar_mass(),
+        pure=a.fluid_param_string("pure") == "true",
+        eos=_EOS_TEXT.get(internal, f"reference equation of state {bib}")
+        + " via "
+        + coolprop_version(),
+    )
+
+
+# ---------------------------------------------------------------------------------------
+# cached low-level states, one per fluid and thread
+
+_local = threading.local()
+
+
+def _state(internal: str, slot: int = 0):
+    cache = getattr(_local, "states", None)
+    if cache is None:
+        cache = _local.states = {}
+    key = (internal, slot)
+    st = cache.get(key)
+    if st is None:
+        st = cache[key] = _coolprop().AbstractState("HEOS", internal)
+    return st
+
+
+# ---------------------------------------------------------------------------------------
+# messages in readable units
+
+_SHOW = {
+    "T": ("K", 1.0, 0.0),
+    "P": ("kPa", 1e3, 0.0),
+    "v": ("m3/kg", 1.0, 0.0),
+    "rho": ("kg/m3", 1.0, 0.0),
+    "u": ("kJ/kg", 1e3, 0.0),
+    "h": ("kJ/kg", 1e3, 0.0),
+    "s": ("kJ/(kg*K)", 1e3, 0.0),
+    "x": ("", 1.0, 0.0),
+}
+
+
+def _show(sym: str, si: float, shows=None) -> str:
+    """``T = 300 K`` in the unit the user wrote when known (*shows*: sym -> Conv)."""
+    if shows and sym in shows:
+        c = shows[sym]
+        return f"{sym} = {fmt_value(float(c.from_si(si)))} {c.unit}".rstrip()
+    unit, f, off = _SHOW.get(sym, ("", 1.0, 0.0))
+    return f"{sym} = {fmt_value((si - off) / f)} {unit}".rstrip()
+
+
+# ---------------------------------------------------------------------------------------
+# flashing a state
+
+_DIRECT = {
+    frozenset(pair): key
+    for key, pair in {
+        "PT_INPUTS": ("P", "T"),
+        "DmassT_INPUTS": ("rho", "T"),
+        "DmassP_INPUTS": ("rho", "P"),
+        "DmassUmass_INPUTS": ("rho", "u"),
+        "DmassHmass_INPUTS": ("rho", "h"),
+        "DmassSmass_INPUTS": ("rho", "s"),
+        "DmassQ_INPUTS": ("rho", "x"),
+        "HmassP_INPUTS": ("h", "P"),
+        "PSmass_INPUTS": ("P", "s"),
+        "PUmass_INPUTS": ("P", "u"),
+        "PQ_INPUTS": ("P", "x"),
+        "QT_INPUTS": ("x", "T"),
+        "HmassSmass_INPUTS": ("h", "s"),
+    }.items()
+}
+# the argument order CoolProp expects for each key (first, second)
+_ORDER = {
+    "PT_INPUTS": ("P", "T"),
+    "DmassT_INPUTS": ("rho", "T"),
+    "DmassP_INPUTS": ("rho", "P"),
+    "DmassUmass_INPUTS": ("rho", "u"),
+    "DmassHmass_INPUTS": ("rho", "h"),
+    "DmassSmass_INPUTS": ("rho", "s"),
+    "DmassQ_INPUTS": ("rho", "x"),
+    "HmassP_INPUTS": ("h", "P"),
+    "PSmass_INPUTS": ("P", "s"),
+    "PUmass_INPUTS": ("P", "u"),
+    "PQ_INPUTS": ("P", "x"),
+    "QT_INPUTS": ("x", "T"),
+    "HmassSmass_INPUTS": ("h", "s"),
+}
+_SOLVED = {
+    frozenset(p) for p in (("T", "u"), ("T", "h"), ("T", "s"), ("x", "h"), ("x", "u"), ("x", "s"))
+}
+_READ = {"u": "umass", "h": "hmass", "s": "smass"}
+
+_SYM_ORDER = {s: i for i, s in enumerate(INPUTS)}
+VALID_PAIRS = sorted(tuple(sorted(p, key=_SYM_ORDER.get)) for p in (set(_DIRECT) | _SOLVED))
+
+
+def _pair_text() -> str:
+    return ", ".join("–".join(p) for p in VALID_PAIRS).replace("rho", "v")
+
+
+def _check_basic(info: FluidInfo, sym: str, val: float, shows) -> None:
+    if not math.isfinite(val):
+        raise BadInput(f"{info.name}: {sym} is not a finite number")
+    if sym == "T" and not (info.T_min <= val <= info.T_max):
+        raise OutOfRange(
+            f"{info.name}: {_show('T', val, shows)} is outside the model's range "
+            f"{_show('T', info.T_min, shows).split('= ')[1]} to {_show('T', info.T_max, shows).split('= ')[1]}"
+        )
+    if sym == "P" and not (0.0 < val <= info.P_max):
+        if val <= 0.0:
+            raise OutOfRange(
+                f"{info.name}: {_show('P', val, shows)} absolute; pressure must be > 0"
+            )
+        raise OutOfRange(
+            f"{info.name}: {_show('P', val, shows)} is above the model's limit "
+            f"{_show('P', info.P_max, shows).split('= ')[1]}"
+        )
+    if sym == "x" and not (0.0 <= val <= 1.0):
+        raise OutOfRange(f"{info.name}: quality x = {fmt_value(val)} is outside 0 to 1")
+    if sym == "rho" and not val > 0.0:
+        raise OutOfRange(f"{info.name}: density/specific volume must be > 0 (got {fmt_value(val)})")
+
+
+def _check_result(info: FluidInfo, st, shows) -> None:
+    T, P = st.T(), st.p()
+    if not (math.isfinite(T) and math.isfinite(P)):
+        raise OutOfRange(f"{info.name}: no valid state for these inputs")
+    # a small tolerance: the library lands a hair outside its limits at the boundaries
+    if not (info.T_min * (1 - 1e-9) <= T <= info.T_max * (1 + 1e-9)):
+        raise OutOfRange(
+            f"{info.name}: the state lies at {_show('T', T, shows)}, outside the model's "
+            f"range {fmt_value(info.T_min)}–{fmt_value(info.T_max)} K"
+        )
+    if not (0.0 < P <= info.P_max * (1 + 1e-9)):
+        raise OutOfRange(
+            f"{info.name}: the state lies at {_show('P', P, shows)}, outside the model's "
+            f"range 0–{fmt_value(info.P_max / 1e3)} kPa"
+        )
+
+
+@cache
+def _plan(a: str, b: str):
+    """How to flash the pair (a, b): ("direct", key, a_first) or ("solved", fixed, other)."""
+    if a == b:
+        return ("same", None, None)
+    pair = frozenset((a, b))
+    if pair in _DIRECT:
+        name = _DIRECT[pair]
+        return ("direct", getattr(_coolprop(), name), _ORDER[name][0] == a)
+    if pair in _SOLVED:
+        fixed = "T" if "T" in pair else "x"
+        return ("solved", fixed, next(iter(pair - {fixed})))
+    return ("bad", None, None)
+
+
+def _flash(info: FluidInfo, a: str, va: float, b: str, vb: float, shows=None):
+    """Set and return the cached state of *info* at (a=va, b=vb); SI inputs."""
+    if a == "v":
+        a, va = "rho", (1.0 / va if va > 0 else -1.0)
+    if b == "v":
+        b, vb = "rho", (1.0 / vb if vb > 0 else -1.0)
+    mode, key, first = _plan(a, b)
+    if mode == "same":
+        raise BadInput(f"{info.name}: the two state properties must differ (both are {a})")
+    _check_basic(info, a, va, shows)
+    _check_basic(info, b, vb, shows)
+    st = _state(info.internal)
+    if mode == "direct":
+        try:
+            if first:
+                st.update(key, va, vb)
+            else:
+                st.update(key, vb, va)
+        except ValueError:
+            if {a, b} == {"T", "P"}:
+                T, P = (va, vb) if a == "T" else (vb, va)
+                _check_not_saturated(info, T, P, shows)
+            raise OutOfRange(
+                f"{info.name}: no state for {_show(a, va, shows)}, {_show(b, vb, shows)} "
+                "within the equation of state"
+            ) from None
+    elif mode == "solved":
+        vals = {a: va, b: vb}
+        if key == "T":
+            _solve_T_y(info, st, vals["T"], first, vals[first], shows)
+        else:
+            _solve_x_y(info, st, vals["x"], first, vals[first], shows)
+    else:
+        raise BadInput(
+            f"{info.name}: the pair {a}, {b} does not fix a state here; use one of {_pair_text()}"
+        )
+    _check_result(info, st, shows)
+    return st
+
+
+def _check_not_saturated(info: FluidInfo, T: float, P: float, shows) -> None:
+    """Called when the library refused a T, P pair: say so plainly if it is on the line."""
+    if info.pure and info.T_triple <= T < info.T_crit:
+        ps = _psat(info, T)
+        if abs(P - ps) <= 1e-5 * ps:
+            raise BadInput(
+                f"{info.name}: {_show('T', T, shows)} and {_show('P', P, shows)} lie on the "
+                "saturation line; T and P do not fix a two-phase state, give x or v"
+            )
+
+
+@lru_cache(maxsize=65536)
+def _psat(info: FluidInfo, T: float) -> float:
+    s = _state(info.internal, 1)
+    s.update(_coolprop().QT_INPUTS, 0.0, T)
+    return s.p()
+
+
+@lru_cache(maxsize=65536)
+def _tsat(info: FluidInfo, P: float) -> float:
+    s = _state(info.internal, 1)
+    s.update(_coolprop().PQ_INPUTS, P, 0.0)
+    return s.T()
+
+
+def _solve_T_y(info: FluidInfo, st, T: float, y_sym: str, y: float, shows) -> None:
+    """State at temperature T with u, h or s given: search on density."""
+    CP = _coolprop()
+    read = getattr(st, _READ[y_sym])
+    two_phase_x = None
+    if info.pure and info.T_triple <= T < info.T_crit:
+        st.update(CP.QT_INPUTS, 0.0, T)
+        yf, rf = read(), st.rhomass()
+        st.update(CP.QT_INPUTS, 1.0, T)
+        yg, rg = read(), st.rhomass()
+        if min(yf, yg) <= y <= max(yf, yg):
+            two_phase_x = (y - yf) / (yg - yf)
+        branches = [(rf, None), (None, rg)]
+    else:
+        branches = [(None, None)]
+    rho_lo = max(1e-3 * info.P_triple / (info.R * T), 1e-12) if info.P_triple > 0 else 1e-10
+    rho_lo = max(rho_lo, 1e-10)
+    try:
+        st.update(CP.PT_INPUTS, info.P_max, T)
+        rho_hi = st.rhomass()
+    except ValueError:
+        rho_hi = info.rho_crit * 3.5
+
+    def f(lnr: float) -> float:
+        st.update(CP.DmassT_INPUTS, math.exp(lnr), T)
+        if st.p() > info.P_max * 1.0000001 or st.p() <= 0:
+            return float("nan")
+        return read() - y
+
+    roots: list[float] = []
+    for lo, hi in branches:
+        lo_r = lo if lo is not None else rho_lo
+        hi_r = hi if hi is not None else rho_hi
+        if hi_r <= lo_r:
+            continue
+        grid = np.linspace(math.log(lo_r), math.log(hi_r), 80)
+        roots += scan_roots(f, grid, what=f"{info.name} state at T and {y_sym}", xtol=1e-14)
+    # the saturation boundaries themselves belong to the two-phase candidate
+    if two_phase_x is not None:
+        lims = (math.log(rf), math.log(rg))
+        roots = [r for r in roots if min(abs(r - q) for q in lims) > 1e-7]
+    distinct = sorted(roots)
+    distinct = [r for i, r in enumerate(distinct) if i == 0 or r - distinct[i - 1] > 1e-9]
+    count = len(distinct) + (two_phase_x is not None)
+    if count == 0:
+        raise OutOfRange(
+            f"{info.name}: no single-phase or saturated state has {_show('T', T, shows)} "
+            f"and {_show(y_sym, y, shows)}"
+        )
+    if count > 1:
+        raise BadInput(
+            f"{info.name}: {_show('T', T, shows)} and {_show(y_sym, y, shows)} fit more than "
+            "one state; give P or v instead"
+        )
+    if two_phase_x is not None:
+        st.update(CP.QT_INPUTS, two_phase_x, T)
+        return
+    st.update(CP.DmassT_INPUTS, math.exp(distinct[0]), T)
+
+
+def _solve_x_y(info: FluidInfo, st, x: float, y_sym: str, y: float, shows) -> None:
+    """Saturated state with quality x and u, h or s given: search on temperature."""
+    CP = _coolprop()
+    if not info.pure:
+        raise BadInput(f"{info.name} is a pseudo-pure mixture: give x with T or P")
+    read = getattr(st, _READ[y_sym])
+
+    def f(T: float) -> float:
+        st.update(CP.QT_INPUTS, x, T)
+        return read() - y
+
+    top = info.T_crit * (1 - 1e-6)
+    grid = np.linspace(info.T_triple, top, 120)
+    roots = scan_roots(f, grid, what=f"{info.name} saturated state", xtol=1e-10)
+    if not roots:
+        raise OutOfRange(
+            f"{info.name}: no saturated state has x = {fmt_value(x)} and {_show(y_sym, y, shows)}"
+        )
+    if len(roots) > 1:
+        raise BadInput(
+            f"{info.name}: x = {fmt_value(x)} and {_show(y_sym, y, shows)} fit "
+            f"{len(roots)} saturated states; give T or P instead"
+        )
+    st.update(CP.QT_INPUTS, x, roots[0])
+
+
+# ---------------------------------------------------------------------------------------
+# reading properties
+
+
+def _is_two_phase(st) -> bool:
+    q = st.Q()
+    return 0.0 <= q <= 1.0 and int(st.phase()) == int(_coolprop().iphase_twophase)
+
+
+def phase_word(info: FluidInfo, st) -> str:
+    """Plain-English phase of the current state."""
+    CP = _coolprop()
+    if _is_two_phase(st):
+        q = st.Q()
+        if q == 0.0:
+            return "saturated liquid"
+        if q == 1.0:
+            return "saturated vapor"
+        return "saturated mixture"
+    T, P = st.T(), st.p()
+    if T >= info.T_crit and P >= info.P_crit:
+        return "supercritical fluid"
+    if T >= info.T_crit:
+        return "gas above the critical temperature"
+    if P >= info.P_crit:
+        return "compressed liquid"
+    ph = int(st.phase())
+    if ph == int(CP.iphase_liquid) or ph == int(CP.iphase_supercritical_liquid):
+        return "compressed liquid"
+    return "superheated vapor"
+
+
+def _read(info: FluidInfo, st, want: str, shows=None):
+    if want == "T":
+        return st.T()
+    if want == "P":
+        return st.p()
+    if want == "rho":
+        return st.rhomass()
+    if want == "v":
+        return 1.0 / st.rhomass()
+    if want == "u":
+        return st.umass()
+    if want == "h":
+        return st.hmass()
+    if want == "s":
+        return st.smass()
+    if want == "Z":
+        return st.p() / (st.rhomass() * info.R * st.T())
+    if want == "phase":
+        return phase_word(info, st)
+    if want in ("cp", "cv", "k"):
+        if _is_two_phase(st):
+            raise OutOfRange(
+                f"{info.name}: {want} is not defined for a two-phase state (x = {fmt_value(st.Q())})"
+            )
+        cp, cv = st.cpmass(), st.cvmass()
+        val = cp if want == "cp" else cv if want == "cv" else cp / cv
+        if not (math.isfinite(val) and val > 0):
+            raise OutOfRange(f"{info.name}: {want} is not defined at this state (critical point?)")
+        return val
+    if want == "x":
+        if _is_two_phase(st):
+            return st.Q()
+        raise OutOfRange(
+            f"{info.name}: quality x is defined only for saturated states; this state is "
+            f"{phase_word(info, st)}"
+        )
+    if want == "Tsat":
+        P = st.p()
+        if not info.P_triple <= P < info.P_crit:
+            raise OutOfRange(
+                f"{info.name}: Tsat needs {fmt_value(info.P_triple / 1e3)} ≤ P < "
+                f"{fmt_value(info.P_crit / 1e3)} kPa; the state has {_show('P', P, shows)}"
+            )
+        return _tsat(info, P)
+    if want == "Psat":
+        T = st.T()
+        if not info.T_triple <= T < info.T_crit:
+            raise OutOfRange(
+                f"{info.name}: Psat needs {fmt_value(info.T_triple)} ≤ T < "
+                f"{fmt_value(info.T_crit)} K; the state has {_show('T', T, shows)}"
+            )
+        return _psat(info, T)
+    raise BadInput(f"unknown output {want!r}; use one of {' '.join(OUTPUTS)}")
+
+
+_FAST_READ = {"T": "T", "P": "p", "rho": "rhomass", "u": "umass", "h": "hmass", "s": "smass"}
+
+
+def reader(want: str):
+    """A function ``(info, state, shows) -> value`` for output *want* (fast for the plain ones)."""
+    if want in _FAST_READ:
+        name = _FAST_READ[want]
+        return lambda info, st, shows: getattr(st, name)()
+    if want == "v":
+        return lambda info, st, shows: 1.0 / st.rhomass()
+    if want not in OUTPUTS:
+        raise BadInput(f"unknown output {want!r}; use one of {' '.join(OUTPUTS)}")
+    return lambda info, st, shows: _read(info, st, want, shows)
+
+
+def state_props(fluid: str, wants, a: str, va: float, b: str, vb: float, shows=None):
+    """Properties *wants* (list of symbols) of one state fixed by (a, va), (b, vb), SI.
+
+    Examples
+    --------
+    >>> state_props("water", ["h"], "T", 298.15, "P", 101325.0)[0]  # J/kg
+    104920.1...
+    """
+    info = fluid_info(fluid)
+    st = _flash(info, a, float(va), b, float(vb), shows)
+    return [_read(info, st, w, shows) for w in wants]
+
+
+def column_props(fluid: str, want: str, a: str, va, b: str, vb, shows=None, out_conv=None):
+    """One property over broadcast columns of SI inputs; repeated states are computed once.
+
+    Returns
+    -------
+    values : numpy.ndarray (object)
+        Float results (converted by *out_conv* when given), or a
+        :class:`~joulebook.errors.JoulebookError` instance where that element failed;
+        ``None`` where an input was missing (NaN).
+    """
+    info = fluid_info(fluid)
+    read = reader(want)
+    va, vb = np.broadcast_arrays(np.asarray(va, dtype=float), np.asarray(vb, dtype=float))
+    out = np.empty(va.shape, dtype=object)
+    memo: dict[tuple[float, float], object] = {}
+    fo = out.reshape(-1)
+    for i, (x, y) in enumerate(zip(va.ravel().tolist(), vb.ravel().tolist())):
+        if x != x or y != y:
+            fo[i] = None
+            continue
+        key = (x, y)
+        r = memo.get(key)
+        if r is None:
+            try:
+                r = read(info, _flash(info, a, x, b, y, shows), shows)
+                if out_conv is not None and type(r) is float:
+                    r = out_conv.from_si(r)
+            except JoulebookError as e:
+                r = e
+            memo[key] = r
+        fo[i] = r
+    return out
+
+
+def saturation(fluid: str, by: str, value: float, want: str, shows=None) -> float:
+    """A saturation property at a given T or P (``want`` in Tsat, Psat, and the liquid/vapor
+    values ``vf vg uf ug hf hg sf sg hfg``), SI.
+
+    Raises
+    ------
+    OutOfRange
+        *value* outside triple point – critical point.
+    """
+    info = fluid_info(fluid)
+    if by not in ("T", "P"):
+        raise BadInput(f"saturation is given by T or P, not {by!r}")
+    lo, hi = (info.T_triple, info.T_crit) if by == "T" else (info.P_triple, info.P_crit)
+    if not (lo <= value <= hi):
+        raise OutOfRange(
+            f"{info.name}: saturation needs {by} between the triple and critical points "
+            f"({_show(by, lo, shows).split('= ')[1]} to {_show(by, hi, shows).split('= ')[1]}); "
+            f"got {_show(by, value, shows)}"
+        )
+    if not info.pure:
+        raise BadInput(f"{info.name} is a pseudo-pure mixture without a single saturation line")
+    T = value if by == "T" else _tsat(info, value)
+    if want == "Tsat":
+        return T
+    if want == "Psat":
+        return value if by == "P" else _psat(info, value)
+    m = re.fullmatch(r"(v|u|h|s)(f|g|fg)", want)
+    if not m:
+        raise BadInput(
+            f"unknown saturation output {want!r}; use Tsat Psat vf vg uf ug hf hg sf sg hfg"
+        )
+    prop, side = m.groups()
+    st = _state(info.internal, 2)
+    CP = _coolprop()
+
+    def at(q: float) -> float:
+        if by == "T":
+            st.update(CP.QT_INPUTS, q, value)
+        else:
+            st.update(CP.PQ_INPUTS, value, q)
+        return 1.0 / st.rhomass() if prop == "v" else getattr(st, _READ[prop])()
+
+    if side == "f":
+        return at(0.0)
+    if side == "g":
+        return at(1.0)
+    return at(1.0) - at(0.0)

@@ -1,0 +1,605 @@
+"""Units written in the formula: unit phrases, unit systems and cached conversion factors.
+
+Everything inside joulebook is SI (K, Pa, m³, kg, J).  A unit string is parsed by pint once;
+the resulting linear map ``SI = value * factor + offset`` is cached, so a worksheet call never
+builds a pint object.
+
+Unit phrases
+    ``"T in degC"``, ``"P in kPa"``, ``"h in kJ/kg"``; a bare symbol (``"h"``) takes the
+    default unit of the unit system in force.
+Unit systems
+    named by their key units, ``K-kPa-kJ`` (default), ``K-Pa-J``, ``degC-bar-kJ``,
+    ``degF-psia-Btu``, ``R-psia-Btu``; per-quantity overrides such as ``"P=psig, V=L"``,
+    optionally after a system name: ``"degC-bar-kJ, V=L"``.
+Gauge pressure
+    ``kPag``, ``barg``, ``MPag``, ``psig``: absolute = gauge + atmospheric reference,
+    101.325 kPa unless written, e.g. ``"kPag @ 95 kPa"``.
+Temperature
+    an absolute temperature (``T``) and a temperature difference (``dT``) are different
+    quantities; ``degC`` inside a compound unit such as ``kJ/(kg*degC)`` is a difference, so
+    kJ/(kg·K) and kJ/(kg·°C) are the same number.
+
+References
+----------
+NIST Special Publication 811 (2008), *Guide for the Use of the International System of
+Units*, Appendix B (factors for psi, Btu_IT, lbm, °F, °R).
+"""
+
+from __future__ import annotations
+
+import re
+import threading
+from dataclasses import dataclass
+from functools import lru_cache
+
+from .errors import BadInput, OutOfRange, fmt_value
+
+__all__ = [
+    "Conv",
+    "KINDS",
+    "SYMBOLS",
+    "STANDARD_ATMOSPHERE",
+    "UnitSystem",
+    "unit_system",
+    "parse_unit",
+    "parse_phrase",
+    "Phrase",
+    "convert",
+    "kind_of_unit",
+    "DEFAULT_SYSTEM",
+]
+
+#: standard atmosphere, Pa (the default reference of gauge pressure)
+STANDARD_ATMOSPHERE = 101_325.0
+DEFAULT_SYSTEM = "K-kPa-kJ"
+
+
+@dataclass(frozen=True)
+class Conv:
+    """Linear map from a unit to SI: ``si = value * factor + offset``."""
+
+    factor: float
+    offset: float = 0.0
+    unit: str = ""
+
+    def to_si(self, value):
+        if self.offset == 0.0:
+            return value * self.factor if self.factor != 1.0 else value
+        return value * self.factor + self.offset
+
+    def from_si(self, value):
+        if self.offset == 0.0:
+            return value / self.factor if self.factor != 1.0 else value
+        return (value - self.offset) / self.factor
+
+
+# kind -> (SI unit text, pint dimensionality expressed as a unit with that dimension)
+KINDS: dict[str, tuple[str, str]] = {
+    "temperature": ("K", "K"),
+    "temperature_difference": ("K", "K"),
+    "pressure": ("Pa", "Pa"),
+    "specific_volume": ("m**3/kg", "m**3/kg"),
+    "density": ("kg/m**3", "kg/m**3"),
+    "specific_energy": ("J/kg", "J/kg"),
+    "specific_entropy": ("J/(kg*K)", "J/(kg*K)"),
+    "volume": ("m**3", "m**3"),
+    "mass": ("kg", "kg"),
+    "energy": ("J", "J"),
+    "power": ("W", "W"),
+    "molar_mass": ("kg/mol", "kg/mol"),
+    "time": ("s", "s"),
+    "length": ("m", "m"),
+    "speed": ("m/s", "m/s"),
+    "acceleration": ("m/s**2", "m/s**2"),
+    "voltage": ("V", "V"),
+    "current": ("A", "A"),
+    "torque": ("N*m", "N*m"),
+    "dimensionless": ("", ""),
+}
+
+#: human words for each kind, used in messages
+KIND_WORDS = {
+    "temperature": "temperature",
+    "temperature_difference": "temperature difference",
+    "pressure": "pressure",
+    "specific_volume": "specific volume",
+    "density": "density",
+    "specific_energy": "specific energy",
+    "specific_entropy": "specific entropy / specific heat",
+    "volume": "volume",
+    "mass": "mass",
+    "energy": "energy",
+    "power": "power",
+    "molar_mass": "molar mass",
+    "time": "time",
+    "length": "length",
+    "speed": "speed",
+    "acceleration": "acceleration",
+    "voltage": "voltage",
+    "current": "current",
+    "torque": "torque",
+    "dimensionless": "dimensionless number",
+}
+
+#: trade symbols and the quantity each denotes (case matters: V is volume, v specific volume)
+SYMBOLS: dict[str, str] = {
+    "T": "temperature",
+    "Tsat": "temperature",
+    "dT": "temperature_difference",
+    "P": "pressure",
+    "Psat": "pressure",
+    "v": "specific_volume",
+    "rho": "density",
+    "u": "specific_energy",
+    "h": "specific_energy",
+    "s": "specific_entropy",
+    "cp": "specific_entropy",
+    "cv": "specific_entropy",
+    "c": "specific_entropy",
+    "R": "specific_entropy",
+    "x": "dimensionless",
+    "k": "dimensionless",
+    "Z": "dimensionless",
+    "n": "dimensionless",
+    "V": "volume",
+    "m": "mass",
+    "E": "energy",
+    "Q": "energy",
+    "W": "energy",
+    "U": "energy",
+    "H": "energy",
+    "M": "molar_mass",
+    "t": "time",
+    "z": "length",
+    "vel": "speed",
+    "g": "acceleration",
+    "Pow": "power",
+}
+
+# ---------------------------------------------------------------------------------------
+# pint, loaded once and only when a unit string is first parsed
+
+_UREG = None
+_UREG_LOCK = threading.Lock()
+
+
+def _ureg():
+    global _UREG
+    if _UREG is None:
+        with _UREG_LOCK:
+            if _UREG is None:
+                import pint
+
+                _UREG = pint.UnitRegistry()
+    return _UREG
+
+
+# identifiers engineers type -> pint's spelling
+_WORDS = {
+    "C": "degC",
+    "F": "degF",
+    "R": "degR",
+    "Ra": "degR",
+    "degRa": "degR",
+    "lbm": "lb",
+    "Btu": "Btu_it",
+    "BTU": "Btu_it",
+    "btu": "Btu_it",
+    "bara": "bar",
+    "psia": "psi",
+    "kPaa": "kPa",
+    "MPaa": "MPa",
+    "sec": "s",
+    "hr": "hour",
+    "cc": "cm**3",
+    "Nm": "N*m",
+}
+_GAUGE = {"Pag": "Pa", "kPag": "kPa", "MPag": "MPa", "barg": "bar", "mbarg": "mbar", "psig": "psi"}
+_ABS_TEMPS = {"K": "K", "degC": "degC", "degF": "degF", "degR": "degR", "kelvin": "K"}
+_DELTA = {"degC": "delta_degC", "degF": "delta_degF"}
+_IDENT = re.compile(r"[A-Za-z_][A-Za-z_]*")
+_ATM = re.compile(r"^(?P<unit>[^@]+?)\s*@\s*(?P<num>[-+0-9.eE]+)\s*(?P<au>[A-Za-z]+)\s*$")
+
+
+def _clean(text: str) -> str:
+    t = text.strip()
+    for a, b in (
+        ("°C", "degC"),
+        ("ºC", "degC"),
+        ("℃", "degC"),
+        ("°F", "degF"),
+        ("ºF", "degF"),
+        ("°R", "degR"),
+        ("°K", "K"),
+        ("²", "**2"),
+        ("³", "**3"),
+        ("·", "*"),
+        ("×", "*"),
+        ("^", "**"),
+    ):
+        t = t.replace(a, b)
+    return t
+
+
+def _to_pint(text: str, kind: str | None) -> str:
+    """Rewrite an engineer's unit spelling into pint syntax."""
+    t = _clean(text)
+    # exponent glued to a unit: m3 -> m**3, ft3 -> ft**3, s2 -> s**2
+    t = re.sub(r"([A-Za-z])(\d)", r"\1**\2", t)
+
+    # kJ/kg.K, kJ/kg-K, Btu/lbm-R: everything after a single '/' is the denominator
+    if t.count("/") == 1 and "(" not in t:
+        num, den = t.split("/")
+        den = re.sub(r"(?<=[A-Za-z0-9)])\s*[.\-*\s]\s*(?=[A-Za-z])", "*", den.strip())
+        t = f"{num.strip()}/({den})" if "*" in den else f"{num.strip()}/{den}"
+    else:
+        t = re.sub(r"(?<=[A-Za-z])\.(?=[A-Za-z])", "*", t)
+
+    single = _IDENT.fullmatch(t) is not None
+
+    def word(m: re.Match) -> str:
+        w = m.group(0)
+        w = _WORDS.get(w, w)
+        if w in _DELTA and not (single and kind == "temperature"):
+            w = _DELTA[w]
+        return w
+
+    return _IDENT.sub(word, t)
+
+
+@lru_cache(maxsize=4096)
+def parse_unit(text: str, kind: str) -> Conv:
+    """Parse *text* as a unit of quantity *kind* and return its cached SI map.
+
+    Parameters
+    ----------
+    text : str
+        Unit as typed, e.g. ``"degC"``, ``"kJ/kg.K"``, ``"m3"``, ``"psig"``,
+        ``"kPag @ 95 kPa"``.
+    kind : str
+        One of :data:`KINDS`.
+
+    Returns
+    -------
+    Conv
+        ``si = value * factor + offset``.
+
+    Raises
+    ------
+    BadInput
+        Unknown unit, or a unit of another quantity (a pressure unit given for T).
+    """
+    if kind not in KINDS:
+        raise BadInput(f"unknown quantity kind {kind!r}")
+    raw = str(text).strip()
+    if raw == "" or raw in ("-", "1") and kind == "dimensionless":
+        if kind == "dimensionless":
+            return Conv(1.0, 0.0, "")
+        raise BadInput(f"empty unit for {KIND_WORDS[kind]}")
+
+    # gauge pressure, optionally with its atmospheric reference
+    atm = STANDARD_ATMOSPHERE
+    m = _ATM.match(raw)
+    base = raw
+    if m:
+        base = m.group("unit").strip()
+        try:
+            num = float(m.group("num"))
+        except ValueError:
+            raise BadInput(f"atmospheric reference in unit {raw!r} is not a number") from None
+        aconv = parse_unit(m.group("au"), "pressure")
+        atm = aconv.to_si(num)
+        if base not in _GAUGE:
+            raise BadInput(
+                f"unit {raw!r}: '@ reference' is only for gauge units (kPag, barg, psig)"
+            )
+        if not 50_000.0 <= atm <= 110_000.0:
+            raise OutOfRange(
+                f"atmospheric reference {fmt_value(num)} {m.group('au')} in {raw!r} is outside "
+                "50–110 kPa"
+            )
+    if base in _GAUGE:
+        if kind != "pressure":
+            raise BadInput(f"unit {raw!r} is a gauge pressure, not a {KIND_WORDS[kind]} unit")
+        c = parse_unit(_GAUGE[base], "pressure")
+        return Conv(c.factor, atm, raw)
+
+    if kind == "dimensionless":
+        if base in ("%", "percent"):
+            return Conv(0.01, 0.0, raw)
+        raise BadInput(f"unit {raw!r} given for a dimensionless number (use no unit or %)")
+
+    pint_text = _to_pint(base, kind)
+    ureg = _ureg()
+    try:
+        q1 = ureg.Quantity(1.0, pint_text)
+    except Exception:
+        raise BadInput(f"unknown unit {raw!r} for {KIND_WORDS[kind]}") from None
+    si_text, dim_text = KINDS[kind]
+    want_dim = ureg.Quantity(1.0, dim_text).dimensionality
+    if q1.dimensionality != want_dim:
+        got = kind_of_unit(raw, _quiet=True)
+        got_words = KIND_WORDS.get(got, str(q1.dimensionality)) if got else str(q1.dimensionality)
+        raise BadInput(
+            f"unit {raw!r} is a {got_words} unit; {KIND_WORDS[kind]} needs e.g. "
+            f"{_EXAMPLE_UNITS[kind]}"
+        )
+    try:
+        if kind == "temperature":
+            if pint_text not in _ABS_TEMPS:
+                raise BadInput(
+                    f"unit {raw!r} is not an absolute temperature unit (K, degC, degF, R)"
+                )
+            q0 = ureg.Quantity(0.0, pint_text).to("K").magnitude
+            f = ureg.Quantity(1.0, _DELTA.get(pint_text, pint_text)).to("K").magnitude
+            return Conv(float(f), float(q0), raw)
+        f = q1.to(si_text).magnitude
+    except BadInput:
+        raise
+    except Exception:
+        raise BadInput(f"unit {raw!r} cannot be converted to {si_text}") from None
+    return Conv(float(f), 0.0, raw)
+
+
+_EXAMPLE_UNITS = {
+    "temperature": "K, degC, degF, R",
+    "temperature_difference": "K, degC, degF, R",
+    "pressure": "Pa, kPa, MPa, bar, psia, kPag, barg, psig",
+    "specific_volume": "m3/kg, L/kg, ft3/lbm",
+    "density": "kg/m3, lbm/ft3",
+    "specific_energy": "J/kg, kJ/kg, Btu/lbm",
+    "specific_entropy": "J/(kg*K), kJ/kg.K, kJ/(kg*degC), Btu/lbm-R",
+    "volume": "m3, L, ft3, gal",
+    "mass": "kg, g, t, lbm",
+    "energy": "J, kJ, MJ, kWh, Btu",
+    "power": "W, kW, hp",
+    "molar_mass": "kg/kmol, g/mol",
+    "time": "s, min, hour",
+    "length": "m, mm, ft",
+    "speed": "m/s, km/hour",
+    "acceleration": "m/s2",
+    "voltage": "V",
+    "current": "A",
+    "torque": "N*m, lbf*ft",
+    "dimensionless": "no unit or %",
+}
+
+
+def kind_of_unit(text: str, _quiet: bool = False) -> str | None:
+    """The quantity kind a unit string belongs to (temperature wins over difference)."""
+    raw = str(text).strip()
+    base = _ATM.match(raw).group("unit").strip() if _ATM.match(raw) else raw
+    if base in _GAUGE:
+        return "pressure"
+    ureg = _ureg()
+    try:
+        pint_text = _to_pint(base, "temperature")
+        dim = ureg.Quantity(1.0, pint_text).dimensionality
+    except Exception:
+        if _quiet:
+            return None
+        raise BadInput(f"unknown unit {raw!r}") from None
+    for kind, (_si, dim_text) in KINDS.items():
+        if kind in ("temperature_difference",):
+            continue
+        if dim_text and ureg.Quantity(1.0, dim_text).dimensionality == dim:
+            return kind
+    if _quiet:
+        return None
+    raise BadInput(f"unit {raw!r} is not a quantity joulebook converts")
+
+
+# ---------------------------------------------------------------------------------------
+# unit systems
+
+
+@dataclass(frozen=True, eq=False)
+class UnitSystem:
+    """Default unit of every quantity kind, named by its key units.
+
+    Instances come from the cached :func:`unit_system`, so identity is equality (and hashing
+    is cheap, which matters: systems key several caches on the hot path).
+    """
+
+    name: str
+    units: tuple[tuple[str, str], ...]  # (kind, unit text)
+
+    def unit(self, kind: str) -> str:
+        return dict(self.units)[kind]
+
+    def conv(self, kind: str) -> Conv:
+        return _system_convs(self)[kind]
+
+
+@lru_cache(maxsize=256)
+def _system_convs(system: UnitSystem) -> dict[str, Conv]:
+    return {kind: parse_unit(unit, kind) for kind, unit in system.units}
+
+
+_SI_DEFAULTS = {
+    "temperature": "K",
+    "temperature_difference": "K",
+    "pressure": "Pa",
+    "specific_volume": "m3/kg",
+    "density": "kg/m3",
+    "specific_energy": "J/kg",
+    "specific_entropy": "J/(kg*K)",
+    "volume": "m3",
+    "mass": "kg",
+    "energy": "J",
+    "power": "W",
+    "molar_mass": "kg/kmol",
+    "time": "s",
+    "length": "m",
+    "speed": "m/s",
+    "acceleration": "m/s2",
+    "voltage": "V",
+    "current": "A",
+    "torque": "N*m",
+    "dimensionless": "",
+}
+
+_DELTA_OF = {"K": "K", "kelvin": "K", "degC": "K", "degF": "R", "degR": "R"}
+
+
+def _energy_family(energy_unit: str) -> dict[str, str]:
+    """Mass-based units that go with an energy unit."""
+    if energy_unit.lower() in ("btu", "btu_it"):
+        return {"mass": "lbm", "volume": "ft3", "length": "ft", "time": "s"}
+    return {"mass": "kg", "volume": "m3", "length": "m", "time": "s"}
+
+
+@lru_cache(maxsize=256)
+def unit_system(text: str | None = None) -> UnitSystem:
+    """Parse a unit-system text: a name such as ``degC-bar-kJ`` and/or overrides ``"P=psig"``.
+
+    Raises
+    ------
+    BadInput
+        Unknown name part, unknown symbol in an override, or a unit of the wrong quantity.
+    """
+    raw = DEFAULT_SYSTEM if text is None or str(text).strip() == "" else str(text).strip()
+    parts = [p.strip() for p in re.split(r"[;,]", raw) if p.strip()]
+    name_parts = [p for p in parts if "=" not in p]
+    overrides = [p for p in parts if "=" in p]
+    if len(name_parts) > 1:
+        raise BadInput(f"units {raw!r}: give one system name (e.g. K-kPa-kJ) plus overrides P=…")
+    name = name_parts[0] if name_parts else DEFAULT_SYSTEM
+    toks = [t for t in name.split("-") if t]
+    t_unit, p_unit, e_unit = "K", "kPa", "kJ"
+    seen: set[str] = set()
+    for tok in toks:
+        k = kind_of_unit(tok, _quiet=True)
+        if k is None and tok in _GAUGE:
+            k = "pressure"
+        if k not in ("temperature", "pressure", "energy") or k in seen:
+            raise BadInput(
+                f"units {raw!r}: part {tok!r} is not a temperature, pressure or energy unit; "
+                "write e.g. K-kPa-kJ, degC-bar-kJ, degF-psia-Btu"
+            )
+        seen.add(k)
+        if k == "temperature":
+            parse_unit(tok, "temperature")
+            t_unit = tok
+        elif k == "pressure":
+            p_unit = tok
+        else:
+            e_unit = tok
+    fam = _energy_family(e_unit)
+    m_unit, vol_unit = fam["mass"], fam["volume"]
+    d_unit = _DELTA_OF[_to_pint(t_unit, "temperature")]
+    units = dict(_SI_DEFAULTS)
+    units.update(
+        {
+            "temperature": t_unit,
+            "temperature_difference": d_unit,
+            "pressure": p_unit,
+            "energy": e_unit,
+            "mass": m_unit,
+            "volume": vol_unit,
+            "specific_volume": f"{vol_unit}/{m_unit}",
+            "density": f"{m_unit}/{vol_unit}",
+            "specific_energy": f"{e_unit}/{m_unit}",
+            "specific_entropy": f"{e_unit}/({m_unit}*{d_unit})",
+            "length": fam["length"],
+        }
+    )
+    if e_unit.lower() in ("btu", "btu_it"):
+        units["power"] = "Btu/hour"
+    elif e_unit in ("kJ", "MJ"):
+        units["power"] = "kW"
+    for ov in overrides:
+        sym, _, unit = (s.strip() for s in ov.partition("="))
+        if sym not in SYMBOLS:
+            raise BadInput(
+                f"units {raw!r}: unknown symbol {sym!r} in override; use one of "
+                + " ".join(sorted(set(SYMBOLS) - {"Tsat", "Psat"}))[:120]
+            )
+        kind = SYMBOLS[sym]
+        parse_unit(unit, kind)
+        units[kind] = unit
+    system = UnitSystem(raw, tuple(sorted(units.items())))
+    _system_convs(system)  # validate every unit now
+    return system
+
+
+# ---------------------------------------------------------------------------------------
+# unit phrases
+
+
+@dataclass(frozen=True)
+class Phrase:
+    """A parsed unit phrase such as ``"T in degC"``."""
+
+    symbol: str
+    kind: str
+    unit: str
+    conv: Conv
+
+
+_PHRASE = re.compile(
+    r"^\s*(?P<sym>[A-Za-z][A-Za-z0-9_]*)\s*(?:(?:in|\[)\s*(?P<unit>.*?)\s*\]?)?\s*$"
+)
+
+
+@lru_cache(maxsize=4096)
+def parse_phrase(text: str, system: UnitSystem | None = None, allowed: tuple = ()) -> Phrase:
+    """Parse ``"<symbol> in <unit>"`` (or a bare symbol) into symbol, kind and SI map.
+
+    Raises
+    ------
+    BadInput
+        Unknown symbol, symbol not in *allowed*, or a unit of another quantity.
+    """
+    system = system or unit_system(None)
+    m = _PHRASE.match(str(text))
+    if not m:
+        raise BadInput(f"{text!r} is not a property phrase like 'T in degC' or 'h'")
+    sym = m.group("sym")
+    sym = _SYMBOL_ALIASES.get(sym, sym)
+    if sym not in SYMBOLS or (allowed and sym not in allowed):
+        valid = " ".join(allowed) if allowed else " ".join(SYMBOLS)
+        raise BadInput(f"unknown property {m.group('sym')!r} in {text!r}; use one of {valid}")
+    kind = SYMBOLS[sym]
+    unit = m.group("unit")
+    if unit is None or unit == "":
+        unit = system.unit(kind)
+        conv = system.conv(kind)
+    else:
+        try:
+            conv = parse_unit(unit, kind)
+        except BadInput as e:
+            raise BadInput(f"in {text!r}: {e.message}") from None
+    return Phrase(sym, kind, unit, conv)
+
+
+_SYMBOL_ALIASES = {
+    "D": "rho",
+    "density": "rho",
+    "Cp": "cp",
+    "Cv": "cv",
+    "K": "k",
+    "quality": "x",
+    "X": "x",
+    "gamma": "k",
+    "p": "P",
+    "t": "t",
+}
+
+
+def convert(value, from_unit: str, to_unit: str):
+    """Convert *value* between two units of the same quantity.
+
+    Temperatures convert as absolute temperatures (27 degC -> 300.15 K); write ``dT`` units
+    as ``delta_degC`` or use the same unit on both sides for a difference.
+    """
+    k1 = kind_of_unit(from_unit)
+    k2 = kind_of_unit(to_unit)
+    if k1 != k2:
+        raise BadInput(
+            f"cannot convert {from_unit!r} ({KIND_WORDS.get(k1, k1)}) to {to_unit!r} "
+            f"({KIND_WORDS.get(k2, k2)})"
+        )
+    c1 = parse_unit(from_unit, k1)
+    c2 = parse_unit(to_unit, k2)
+    return c2.from_si(c1.to_si(value))

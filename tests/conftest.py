@@ -1,0 +1,10 @@
+"""Shared test helpers."""
+
+import pytest
+
+import joulebook
+
+
+@pytest.fixture
+def call():
+    return joulebook.call

@@ -1,0 +1,168 @@
+"""Units: phrases, systems, gauge pressure, temperature differences, cached factors."""
+
+import math
+
+import pytest
+
+import joulebook
+from joulebook.errors import BadInput, OutOfRange
+from joulebook.units import convert, parse_phrase, parse_unit, unit_system
+
+
+# NIST Special Publication 811 (2008 ed.), Appendix B.8/B.9 exact factors
+@pytest.mark.parametrize(
+    "unit, kind, si",
+    [
+        ("psi", "pressure", 6894.757293168361),  # NIST SP 811 B.9: psi = 6.894 757 293 168 E+03 Pa
+        ("psia", "pressure", 6894.757293168361),
+        ("Btu", "energy", 1055.05585262),  # NIST SP 811 B.9: Btu_IT = 1.055 055 852 62 E+03 J
+        ("lbm", "mass", 0.45359237),  # NIST SP 811 B.9: pound (avoirdupois) = 0.453 592 37 kg exact
+        ("ft3", "volume", 0.028316846592),  # NIST SP 811 B.9: cubic foot = 2.831 684 659 2 E-02 m3
+        ("Btu/lbm", "specific_energy", 2326.0),  # NIST SP 811 B.9: Btu_IT/lb = 2326 J/kg exact
+        (
+            "Btu/lbm-R",
+            "specific_entropy",
+            4186.8,
+        ),  # NIST SP 811 B.9: Btu_IT/(lb·°R) = 4186.8 J/(kg·K)
+        ("bar", "pressure", 1e5),
+        ("L", "volume", 1e-3),
+        ("kWh", "energy", 3.6e6),
+    ],
+)
+def test_factors_nist_sp811(unit, kind, si):
+    c = parse_unit(unit, kind)
+    assert c.offset == 0.0
+    assert c.factor == pytest.approx(si, rel=1e-12)
+
+
+def test_temperature_scales_nist_sp811():
+    # NIST SP 811 B.9: T/K = (t/°F + 459.67)/1.8 ; T/K = (T/°R)/1.8 ; T/K = t/°C + 273.15
+    assert convert(212.0, "degF", "K") == pytest.approx((212 + 459.67) / 1.8, rel=1e-14)
+    assert convert(491.67, "R", "K") == pytest.approx(273.15, rel=1e-14)
+    # common practice: 27 °C = 300.15 K
+    assert convert(27.0, "degC", "K") == pytest.approx(300.15, abs=1e-12)
+    assert convert(27.0, "°C", "K") == pytest.approx(300.15, abs=1e-12)
+
+
+def test_specific_heat_per_kelvin_equals_per_degree_celsius():
+    # common practice: kJ/(kg·K) and kJ/(kg·°C) are the same number (only differences enter)
+    for a in ("kJ/kg.K", "kJ/(kg*K)", "kJ/kg-K", "kJ/(kg·K)"):
+        for b in ("kJ/kg.°C", "kJ/(kg*degC)", "kJ/kg.C", "kJ/(kg·°C)"):
+            assert parse_unit(a, "specific_entropy") == parse_unit(a, "specific_entropy")
+            assert (
+                parse_unit(a, "specific_entropy").factor
+                == parse_unit(b, "specific_entropy").factor
+                == 1000.0
+            )
+    assert (
+        parse_unit("Btu/lbm-F", "specific_entropy").factor
+        == parse_unit("Btu/lbm-R", "specific_entropy").factor
+    )
+
+
+def test_difference_versus_absolute():
+    assert parse_unit("degC", "temperature").offset == 273.15
+    d = parse_unit("degC", "temperature_difference")
+    assert (d.factor, d.offset) == (1.0, 0.0)
+    dF = parse_unit("degF", "temperature_difference")
+    assert dF.offset == 0.0 and dF.factor == pytest.approx(5 / 9, rel=1e-15)
+
+
+@pytest.mark.parametrize(
+    "unit, kind",
+    [
+        ("m3", "volume"),
+        ("kg/m3", "density"),
+        ("°C", "temperature"),
+        ("degC", "temperature"),
+        ("kJ/kg.K", "specific_entropy"),
+        ("kJ/(kg*K)", "specific_entropy"),
+        ("bara", "pressure"),
+        ("barg", "pressure"),
+        ("psia", "pressure"),
+        ("psig", "pressure"),
+        ("L", "volume"),
+        ("m³", "volume"),
+        ("ft3/lbm", "specific_volume"),
+        ("kPag", "pressure"),
+        ("MPa", "pressure"),
+    ],
+)
+def test_spellings_engineers_type(unit, kind):
+    c = parse_unit(unit, kind)
+    assert c.factor > 0
+
+
+def test_gauge_pressure_reference():
+    # standard atmosphere 101.325 kPa (common practice / ISO 2533) unless written
+    assert parse_unit("kPag", "pressure").to_si(0.0) == 101325.0
+    assert parse_unit("barg", "pressure").to_si(1.0) == pytest.approx(201325.0)
+    assert parse_unit("psig", "pressure").to_si(0.0) == 101325.0
+    assert parse_unit("kPag @ 95 kPa", "pressure").to_si(100.0) == pytest.approx(195000.0)
+    assert parse_unit("psig @ 14.2 psia", "pressure").to_si(0.0) == pytest.approx(
+        14.2 * 6894.757293168361
+    )
+    with pytest.raises(OutOfRange, match="50–110 kPa"):
+        parse_unit("kPag @ 5 kPa", "pressure")
+
+
+@pytest.mark.parametrize(
+    "unit, kind, words",
+    [
+        ("kPa", "temperature", "pressure unit"),
+        ("degC", "pressure", "temperature unit"),
+        ("blorps", "pressure", "unknown unit"),
+        ("psig", "temperature", "gauge"),
+        ("kg", "energy", "mass unit"),
+    ],
+)
+def test_mismatched_and_unknown_units_are_clear(unit, kind, words):
+    with pytest.raises(BadInput, match=words) as e:
+        parse_unit(unit, kind)
+    assert repr(unit) in e.value.message and len(e.value.message) < 200
+
+
+def test_unit_systems():
+    s = unit_system("degF-psia-Btu")
+    assert s.unit("temperature") == "degF"
+    assert s.unit("specific_energy") == "Btu/lbm"
+    assert s.conv("specific_entropy").factor == pytest.approx(4186.8, rel=1e-12)
+    assert s.conv("temperature_difference").factor == pytest.approx(5 / 9)
+    assert unit_system("K-Pa-J").conv("specific_energy").factor == 1.0
+    assert unit_system(None).unit("pressure") == "kPa"
+    o = unit_system("P=psig, V=L")
+    assert o.unit("pressure") == "psig" and o.unit("volume") == "L" and o.unit("temperature") == "K"
+    assert unit_system("degC-bar-kJ; V=L").unit("temperature") == "degC"
+    with pytest.raises(BadInput, match="not a temperature, pressure or energy"):
+        unit_system("degC-kg-kJ")
+    with pytest.raises(BadInput, match="unknown symbol"):
+        unit_system("Q7=kJ")
+
+
+def test_phrases():
+    p = parse_phrase("T in degC")
+    assert p.symbol == "T" and p.conv.to_si(25) == pytest.approx(298.15)
+    assert parse_phrase("h").unit == "kJ/kg"
+    assert parse_phrase("h", unit_system("K-Pa-J")).unit == "J/kg"
+    with pytest.raises(BadInput, match="unknown property"):
+        parse_phrase("q in kJ")
+    with pytest.raises(BadInput, match="pressure unit"):
+        parse_phrase("T in kPa")
+
+
+def test_factors_are_cached_not_rebuilt():
+    parse_unit.cache_clear()
+    parse_unit("kJ/kg", "specific_energy")
+    before = parse_unit.cache_info()
+    for _ in range(100):
+        parse_unit("kJ/kg", "specific_energy")
+    after = parse_unit.cache_info()
+    assert after.misses == before.misses and after.hits == before.hits + 100
+
+
+def test_convert_function(call):
+    assert call("JB_CONVERT", 100, "psig", "kPa") == pytest.approx(689.4757293168361 + 101.325)
+    assert call("JB_CONVERT", 1, "Btu/lbm", "kJ/kg") == pytest.approx(2.326)
+    with pytest.raises(BadInput, match="cannot convert"):
+        call("JB_CONVERT", 1, "kPa", "K")
+    assert math.isclose(joulebook.call("JB_CONVERT", 300.15, "K", "degC"), 27.0, abs_tol=1e-12)
