@@ -11,9 +11,9 @@ from __future__ import annotations
 import re
 from functools import lru_cache
 
-from . import __version__, states
 import numpy as np
 
+from . import __version__, states
 from .errors import BadInput, JoulebookError
 from .substances import fluids, gases, solids
 from .units import UnitSystem, convert, parse_phrase, parse_unit
@@ -110,8 +110,14 @@ def prop_column(substance, want, spec1, value1, spec2, value2, *, system: UnitSy
     """JB_PROP over columns of value1/value2 (float arrays, NaN = blank) with one plan."""
     info, a, ca, b, cb, sym, out, shows, _ = _prop_plan(substance, want, spec1, spec2, system)
     res = fluids.column_props(
-        info.name, sym, a, ca.to_si(np.asarray(value1, dtype=float)), b,
-        cb.to_si(np.asarray(value2, dtype=float)), shows, out,
+        info.name,
+        sym,
+        a,
+        ca.to_si(np.asarray(value1, dtype=float)),
+        b,
+        cb.to_si(np.asarray(value2, dtype=float)),
+        shows,
+        out,
     )
     flat = res.reshape(-1)
     for i, r in enumerate(flat):
