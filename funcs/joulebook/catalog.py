@@ -563,7 +563,15 @@ def _evaluate(f: Func, fargs, prepared, system):
             si_args.append(x)
         else:
             si_args.append(system.conv(arg.quantity).to_si(x))
-    result = _impl(f.impl)(*si_args, system=system)
+    try:
+        result = _impl(f.impl)(*si_args, system=system)
+    except JoulebookError:
+        raise
+    except (ValueError, ArithmeticError) as e:
+        # a property-library failure we did not foresee: report it as ours, never as a number
+        raise OutOfRange(
+            f"{f.name}: the model could not evaluate these inputs ({type(e).__name__})"
+        ) from e
     return _result(f, result, system)
 
 

@@ -319,7 +319,16 @@ _ORDER = {
     "HmassSmass_INPUTS": ("h", "s"),
 }
 _SOLVED = {
-    frozenset(p) for p in (("T", "u"), ("T", "h"), ("T", "s"), ("x", "h"), ("x", "u"), ("x", "s"))
+    frozenset(p)
+    for p in (
+        ("T", "u"),
+        ("T", "h"),
+        ("T", "s"),
+        ("x", "h"),
+        ("x", "u"),
+        ("x", "s"),
+        ("u", "s"),
+    )
 }
 _READ = {"u": "umass", "h": "hmass", "s": "smass"}
 
@@ -381,7 +390,7 @@ def _plan(a: str, b: str):
         name = _DIRECT[pair]
         return ("direct", getattr(_coolprop(), name), _ORDER[name][0] == a)
     if pair in _SOLVED:
-        fixed = "T" if "T" in pair else "x"
+        fixed = "T" if "T" in pair else "x" if "x" in pair else "s"
         return ("solved", fixed, next(iter(pair - {fixed})))
     return ("bad", None, None)
 
@@ -416,8 +425,15 @@ def _flash(info: FluidInfo, a: str, va: float, b: str, vb: float, shows=None):
         vals = {a: va, b: vb}
         if key == "T":
             _solve_T_y(info, st, vals["T"], first, vals[first], shows)
-        else:
+        elif key == "x":
             _solve_x_y(info, st, vals["x"], first, vals[first], shows)
+        else:
+            _solve_rho_y(info, st, key, vals[key], first, vals[first], shows)
+    elif {a, b} == {"h", "u"}:
+        raise BadInput(
+            f"{info.name}: h and u do not fix a state (for a gas both depend on T alone); "
+            "give T, P or v with one of them"
+        )
     else:
         raise BadInput(
             f"{info.name}: the pair {a}, {b} does not fix a state here; use one of {_pair_text()}"
@@ -509,6 +525,39 @@ def _solve_T_y(info: FluidInfo, st, T: float, y_sym: str, y: float, shows) -> No
         st.update(CP.QT_INPUTS, two_phase_x, T)
         return
     st.update(CP.DmassT_INPUTS, math.exp(distinct[0]), T)
+
+
+def _solve_rho_y(info: FluidInfo, st, fixed: str, fval: float, y_sym: str, y: float, shows) -> None:
+    """State with s or h fixed and u given: search on density along the fixed-s (or h) line."""
+    CP = _coolprop()
+    key = CP.DmassSmass_INPUTS if fixed == "s" else CP.DmassHmass_INPUTS
+    read = getattr(st, _READ[y_sym])
+
+    def f(lnr: float) -> float:
+        st.update(key, math.exp(lnr), fval)
+        T, P = st.T(), st.p()
+        if not (info.T_min <= T <= info.T_max and 0.0 < P <= info.P_max):
+            return float("nan")
+        return read() - y
+
+    try:
+        st.update(CP.PT_INPUTS, info.P_max, max(info.T_min, info.T_triple) * 1.001)
+        rho_hi = st.rhomass()
+    except ValueError:
+        rho_hi = info.rho_crit * 3.5
+    grid = np.linspace(math.log(1e-6), math.log(rho_hi), 160)
+    roots = scan_roots(f, grid, what=f"{info.name} state at {fixed} and {y_sym}", xtol=1e-14)
+    if not roots:
+        raise OutOfRange(
+            f"{info.name}: no state within the model has {_show(fixed, fval, shows)} and "
+            f"{_show(y_sym, y, shows)}"
+        )
+    if len(roots) > 1 and max(roots) - min(roots) > 1e-9:
+        raise BadInput(
+            f"{info.name}: {_show(fixed, fval, shows)} and {_show(y_sym, y, shows)} fit more "
+            "than one state; give T, P or v instead"
+        )
+    st.update(key, math.exp(roots[0]), fval)
 
 
 def _solve_x_y(info: FluidInfo, st, x: float, y_sym: str, y: float, shows) -> None:
