@@ -284,25 +284,7 @@ def _show(sym: str, si: float, shows=None) -> str:
 # ---------------------------------------------------------------------------------------
 # flashing a state
 
-_DIRECT = {
-    frozenset(pair): key
-    for key, pair in {
-        "PT_INPUTS": ("P", "T"),
-        "DmassT_INPUTS": ("rho", "T"),
-        "DmassP_INPUTS": ("rho", "P"),
-        "DmassUmass_INPUTS": ("rho", "u"),
-        "DmassHmass_INPUTS": ("rho", "h"),
-        "DmassSmass_INPUTS": ("rho", "s"),
-        "DmassQ_INPUTS": ("rho", "x"),
-        "HmassP_INPUTS": ("h", "P"),
-        "PSmass_INPUTS": ("P", "s"),
-        "PUmass_INPUTS": ("P", "u"),
-        "PQ_INPUTS": ("P", "x"),
-        "QT_INPUTS": ("x", "T"),
-        "HmassSmass_INPUTS": ("h", "s"),
-    }.items()
-}
-# the argument order CoolProp expects for each key (first, second)
+# the library's input keys and the order of their two arguments (first, second)
 _ORDER = {
     "PT_INPUTS": ("P", "T"),
     "DmassT_INPUTS": ("rho", "T"),
@@ -318,6 +300,7 @@ _ORDER = {
     "QT_INPUTS": ("x", "T"),
     "HmassSmass_INPUTS": ("h", "s"),
 }
+_DIRECT = {frozenset(pair): key for key, pair in _ORDER.items()}
 _SOLVED = {
     frozenset(p)
     for p in (
