@@ -150,10 +150,20 @@ def test_example_runs_and_matches(f):
     want = f.example.value
     if f.example.match == "prefix":
         assert isinstance(got, str) and got.startswith(want)
+    else:
+        _same(got, want, f.example.rtol)
+
+
+def _same(got, want, rtol):
+    if isinstance(want, list):
+        got = got.tolist() if isinstance(got, np.ndarray) else got
+        assert isinstance(got, list) and len(got) == len(want)
+        for g, w in zip(got, want):
+            _same(g, w, rtol)
     elif isinstance(want, str):
         assert got == want
     else:
-        assert got == pytest.approx(want, rel=f.example.rtol)
+        assert got == pytest.approx(want, rel=rtol, abs=1e-12)
 
 
 @pytest.mark.parametrize(
@@ -173,7 +183,12 @@ def test_wrong_types_are_clear_errors(f):
     for i, a in enumerate(f.args[: len(f.example.args)]):
         args = list(f.example.args)
         args[i] = True if a.type == "number" else 3.5
-        if a.type == "number":
+        if a.type == "range":
+            for bad in ("abc", [[1.0], ["abc"]], [[True]], "#DIV/0!"):
+                args[i] = bad
+                with pytest.raises(BadInput, match=f"{a.name}"):
+                    joulebook.call(f.name, *args)
+        elif a.type == "number":
             with pytest.raises(BadInput, match="TRUE/FALSE"):
                 joulebook.call(f.name, *args)
             args[i] = "abc"

@@ -89,6 +89,12 @@ FAMILIES = {
     "state": "States and real-fluid properties",
     "gas": "Ideal gases",
     "solid": "Incompressible solids and liquids",
+    "work": "Boundary and other work",
+    "poly": "Polytropic analysis",
+    "balance": "First law of a closed system",
+    "process": "End states of processes",
+    "cycle": "Cycles",
+    "stored": "Stored expansion energy",
     "util": "Units and information",
 }
 
@@ -111,6 +117,56 @@ _MAT = Arg("material", "material name (carbon steel, copper, concrete, water …
 _T = Arg("T", "absolute temperature", quantity="temperature")
 _T1 = Arg("T_1", "initial absolute temperature", quantity="temperature")
 _T2 = Arg("T_2", "final absolute temperature", quantity="temperature")
+
+_V1 = Arg("V_1", "initial volume", quantity="volume")
+_V2 = Arg("V_2", "final volume", quantity="volume")
+_P1 = Arg("P_1", "initial absolute pressure", quantity="pressure")
+_P2 = Arg("P_2", "final absolute pressure", quantity="pressure")
+_N = Arg("n", "polytropic exponent n of P·V^n = C")
+_K = Arg("k", "specific-heat ratio cp/cv of the gas (1 < k ≤ 1.7)")
+_PAMB = Arg(
+    "P_amb", "absolute ambient pressure (default 101.325 kPa)", quantity="pressure", optional=True
+)
+_WB = Arg("W_b", "boundary work by the system (+ on expansion)", quantity="energy")
+_WOTHER = Arg(
+    "W_other",
+    "other work BY the system: shaft, electrical (negative when done on it)",
+    quantity="energy",
+    optional=True,
+)
+_DKE = Arg("dKE", "kinetic-energy change (optional)", quantity="energy", optional=True)
+_DPE = Arg("dPE", "potential-energy change (optional)", quantity="energy", optional=True)
+_STATE1 = Arg(
+    "state1",
+    "initial state text from JB_STATE (real fluid, or ideal gas such as 'air (ideal gas) | …')",
+    type="text",
+)
+_PATH = Arg(
+    "path",
+    "rigid, isobaric, isothermal, isentropic, 'polytropic n = 1.3', 'linear slope = 500 kPa/m3', 'stops P = 4 bar' or 'stops V = 0.02 m3'",
+    type="text",
+)
+_END_SPEC = Arg(
+    "end_spec",
+    "end condition with unit: V2, v2, P2, T2, x2, Q or W, e.g. 'T2 in degC'",
+    type="text",
+)
+_END_VALUE = Arg("end_value", "value of the end condition, in its unit")
+_MASS = Arg(
+    "mass", "mass of the system (default 1 of the mass unit)", quantity="mass", optional=True
+)
+_QVALS = Arg(
+    "Q_values", "heats into the system of each process (+ in)", type="range", quantity="energy"
+)
+_WVALS = Arg(
+    "W_values", "works by the system of each process (+ out)", type="range", quantity="energy"
+)
+
+_REF_WORK = "boundary work W = ∫P dV of a closed system for each path (common practice)"
+_REF_FIRSTLAW = "first law of thermodynamics for a closed system, Q − W = ΔE (common practice)"
+_REF_STORED = (
+    "isentropic expansion energy of a compressed gas (common practice; see docs for the caution)"
+)
 
 _REF_COOLPROP = "Bell, Wronski, Quoilin, Lemort, Ind. Eng. Chem. Res. 53 (2014) 2498 (CoolProp)"
 _REF_IAPWS = (
@@ -355,6 +411,520 @@ CATALOG: tuple[Func, ...] = (
         "Q = m·∫ c(T) dT from T1 to T2",
         (_REF_SOLIDS,),
         Example(("carbon steel", 1000, 300, 400), 46050.0, 1e-9),
+    ),
+    # ------------------------------------------------------------------ boundary work
+    Func(
+        "JB_WORK_ISOBARIC",
+        "work",
+        "Boundary work at constant pressure, W = P·(V2 − V1); positive when the system expands "
+        "(work by the system), exactly 0 for a rigid (constant-volume) system.",
+        (Arg("P", "absolute pressure of the process", quantity="pressure"), _V1, _V2),
+        "energy",
+        "work_isobaric",
+        "W = P·(V2 − V1)",
+        (_REF_WORK,),
+        Example((200, 0.05, 0.08), 6.0),
+    ),
+    Func(
+        "JB_WORK_ISOTHERMAL",
+        "work",
+        "Boundary work of an ideal gas at constant temperature, W = P1·V1·ln(V2/V1); positive "
+        "when the system expands (work by the system).",
+        (_P1, _V1, _V2),
+        "energy",
+        "work_isothermal",
+        "W = P1·V1·ln(V2/V1)",
+        (_REF_WORK,),
+        Example((500, 0.02, 0.1), 16.094379124341003),
+    ),
+    Func(
+        "JB_WORK_ISOTHERMAL_MASS",
+        "work",
+        "Boundary work of a mass of ideal gas at constant temperature, W = m·R·T·ln(V2/V1); "
+        "positive when the system expands (work by the system).",
+        (_GAS, Arg("m", "mass of gas", quantity="mass"), _T, _V1, _V2),
+        "energy",
+        "work_isothermal_mass",
+        "W = m·R·T·ln(V2/V1)",
+        (_REF_WORK,),
+        Example(("air", 0.5, 300, 0.1, 0.3), 47.30335472103956),
+    ),
+    Func(
+        "JB_WORK_POLYTROPIC",
+        "work",
+        "Boundary work along P·V^n = C through two states, W = (P2·V2 − P1·V1)/(1 − n), n from the "
+        "states; continuous at n = 1; positive when the system expands (work by the system).",
+        (_P1, _V1, _P2, _V2),
+        "energy",
+        "work_polytropic",
+        "W = (P2·V2 − P1·V1)/(1 − n) = P1·V1·ln(V2/V1)·φ(ln(P2·V2/(P1·V1))), φ(z) = (e^z − 1)/z",
+        (_REF_WORK,),
+        Example((100, 0.8, 900, 0.15), -175.95610217371583),
+    ),
+    Func(
+        "JB_WORK_POLYTROPIC_N",
+        "work",
+        "Boundary work along P·V^n = C from (P1, V1) to V2 for a given n; equals the isothermal "
+        "result at n = 1; positive when the system expands (work by the system).",
+        (_P1, _V1, _V2, _N),
+        "energy",
+        "work_polytropic_n",
+        "W = P1·V1·ln(r)·φ((1 − n)·ln r), r = V2/V1, φ(z) = (e^z − 1)/z",
+        (_REF_WORK,),
+        Example((100, 0.8, 0.15, 1.3), -173.95753822834706),
+    ),
+    Func(
+        "JB_WORK_LINEAR",
+        "work",
+        "Boundary work when pressure is linear in volume (spring-loaded piston), "
+        "W = (P1 + P2)/2·(V2 − V1); positive when the system expands (work by the system).",
+        (_P1, _V1, _P2, _V2),
+        "energy",
+        "work_linear",
+        "W = (P1 + P2)/2·(V2 − V1)",
+        (_REF_WORK,),
+        Example((150, 0.05, 350, 0.09), 10.0),
+    ),
+    Func(
+        "JB_WORK_PV",
+        "work",
+        "Boundary work from measured pressure–volume points (two ranges, in path order); a closed "
+        "loop (last point = first) gives the net cycle work; positive = work by the system.",
+        (
+            Arg(
+                "P_values",
+                "absolute pressures in path order (blank rows ignored)",
+                type="range",
+                quantity="pressure",
+            ),
+            Arg("V_values", "volumes in the same order", type="range", quantity="volume"),
+            Arg(
+                "method",
+                "trapezoid (default) or polytropic (each segment P·V^n = C)",
+                type="text",
+                optional=True,
+            ),
+        ),
+        "energy",
+        "work_pv",
+        "W = Σ ∫P dV over segments: trapezoid (P1 + P2)/2·ΔV, or polytropic per segment",
+        (_REF_WORK,),
+        Example(([[100], [200], [200], [100], [100]], [[0.1], [0.1], [0.3], [0.3], [0.1]]), 20.0),
+        elementwise=False,
+    ),
+    Func(
+        "JB_WORK_PATH",
+        "work",
+        "Boundary work of a mass of real fluid or ideal gas along a path (isothermal, isentropic, "
+        "polytropic …) on its equation of state, to an end condition; positive = work by the system.",
+        (_STATE1, _PATH, _END_SPEC, _END_VALUE, _MASS),
+        "energy",
+        "work_path",
+        "W = m·∫P dv along the path; isothermal W = m·[T·(s2 − s1) − (u2 − u1)], isentropic W = −m·(u2 − u1)",
+        (_REF_COOLPROP, _REF_WORK),
+        Example(("water | T = 200 degC | x = 0", "isothermal", "x2", 1, 2), 392.00926814312766),
+        caution=True,
+    ),
+    Func(
+        "JB_WORK_ELECTRIC_IN",
+        "work",
+        "Electrical energy delivered to the system, V·I·Δt; it is work done ON the system, so enter "
+        "it in a balance as a negative W_other.",
+        (
+            Arg("voltage", "voltage across the element", quantity="voltage"),
+            Arg("current", "current through it", quantity="current"),
+            Arg("duration", "time it runs", quantity="time"),
+        ),
+        "energy",
+        "work_electric_in",
+        "W_in = V·I·Δt",
+        (_REF_WORK,),
+        Example((230, 4, 600), 552.0),
+    ),
+    Func(
+        "JB_WORK_SHAFT_IN",
+        "work",
+        "Shaft (paddle-wheel, stirrer) work delivered to the system, 2π·N·τ; it is work done ON the "
+        "system, so enter it in a balance as a negative W_other.",
+        (Arg("torque", "shaft torque", quantity="torque"), Arg("revolutions", "number of turns")),
+        "energy",
+        "work_shaft_in",
+        "W_in = 2π·N·τ",
+        (_REF_WORK,),
+        Example((12, 400), 30.159289474462014),
+    ),
+    # ------------------------------------------------------------------ polytropic
+    Func(
+        "JB_POLY_EXPONENT",
+        "poly",
+        "Polytropic exponent n of the path P·V^n = C through two states.",
+        (_P1, _V1, _P2, _V2),
+        "dimensionless",
+        "poly_exponent",
+        "n = ln(P2/P1) / ln(V1/V2)",
+        (_REF_WORK,),
+        Example((100, 0.8, 900, 0.15), 1.3125779630290983),
+    ),
+    Func(
+        "JB_POLY_FIT",
+        "poly",
+        "Least-squares polytropic fit of measured data in ln P – ln V: n, or with show = all a row "
+        "(n, C in the sheet's P·V^n units, R²).",
+        (
+            Arg(
+                "P_values",
+                "absolute pressures (blank rows ignored)",
+                type="range",
+                quantity="pressure",
+            ),
+            Arg("V_values", "volumes in the same order", type="range", quantity="volume"),
+            Arg("show", "n (default) or all", type="text", optional=True),
+        ),
+        "dimensionless",
+        "poly_fit",
+        "ln P = ln C − n·ln V, least squares in ln P",
+        (_REF_WORK,),
+        Example(([[100], [189.8], [378.7]], [[0.8], [0.5], [0.3]]), 1.3575233586851823, 1e-6),
+        elementwise=False,
+    ),
+    Func(
+        "JB_POLY_P2",
+        "poly",
+        "End pressure on P·V^n = C: P2 = P1·(V1/V2)^n.",
+        (_P1, _V1, _V2, _N),
+        "pressure",
+        "poly_p2",
+        "P2 = P1·(V1/V2)^n",
+        (_REF_WORK,),
+        Example((100, 0.8, 0.2, 1.3), 606.2866266041592),
+    ),
+    Func(
+        "JB_POLY_V2",
+        "poly",
+        "End volume on P·V^n = C: V2 = V1·(P1/P2)^(1/n).",
+        (_P1, _V1, _P2, _N),
+        "volume",
+        "poly_v2",
+        "V2 = V1·(P1/P2)^(1/n)",
+        (_REF_WORK,),
+        Example((100, 0.8, 600, 1.3), 0.20161001506742393),
+    ),
+    Func(
+        "JB_POLY_T2_FROM_V",
+        "poly",
+        "End temperature of an ideal gas on P·V^n = C from the volume ratio: T2 = T1·(V1/V2)^(n − 1).",
+        (_T1, _V1, _V2, _N),
+        "temperature",
+        "poly_t2_from_v",
+        "T2 = T1·(V1/V2)^(n − 1)",
+        (_REF_WORK,),
+        Example((300, 0.8, 0.2, 1.3), 454.71496995311946),
+    ),
+    Func(
+        "JB_POLY_T2_FROM_P",
+        "poly",
+        "End temperature of an ideal gas on P·V^n = C from the pressure ratio: T2 = T1·(P2/P1)^((n − 1)/n).",
+        (_T1, _P1, _P2, _N),
+        "temperature",
+        "poly_t2_from_p",
+        "T2 = T1·(P2/P1)^((n − 1)/n)",
+        (_REF_WORK,),
+        Example((300, 100, 600, 1.3), 453.6225339017037),
+    ),
+    # ------------------------------------------------------------------ first law
+    Func(
+        "JB_BALANCE_HEAT",
+        "balance",
+        "Heat of a closed system from the first law, Q = ΔU + ΔKE + ΔPE + W_b + W_other; heat into "
+        "the system +, work by the system + (work done on it is negative).",
+        (Arg("dU", "internal-energy change ΔU", quantity="energy"), _WB, _WOTHER, _DKE, _DPE),
+        "energy",
+        "balance_heat",
+        "Q = ΔU + ΔKE + ΔPE + W_b + W_other",
+        (_REF_FIRSTLAW,),
+        Example((120, 30, -25), 125.0),
+    ),
+    Func(
+        "JB_BALANCE_GAP",
+        "balance",
+        "Checker's first-law gap Q − W − ΔE for numbers already in a workbook; 0 when they close. "
+        "Heat into the system +, work by the system +.",
+        (
+            Arg("Q", "heat into the system", quantity="energy"),
+            _WB,
+            Arg("dU", "internal-energy change ΔU", quantity="energy"),
+            _WOTHER,
+            _DKE,
+            _DPE,
+        ),
+        "energy",
+        "balance_gap",
+        "gap = Q − W_b − W_other − (ΔU + ΔKE + ΔPE)",
+        (_REF_FIRSTLAW,),
+        Example((125, 30, 120, -25), 0.0),
+    ),
+    Func(
+        "JB_BALANCE_DELTA_KE",
+        "balance",
+        "Kinetic-energy change of a moving closed system, ΔKE = m·(V2² − V1²)/2.",
+        (
+            Arg("m", "mass of the system", quantity="mass"),
+            Arg("vel_1", "initial speed", quantity="speed"),
+            Arg("vel_2", "final speed", quantity="speed"),
+        ),
+        "energy",
+        "balance_delta_ke",
+        "ΔKE = m·(V2² − V1²)/2",
+        (_REF_FIRSTLAW,),
+        Example((1200, 0, 25), 375.0),
+    ),
+    Func(
+        "JB_BALANCE_DELTA_PE",
+        "balance",
+        "Potential-energy change of a closed system raised or lowered, ΔPE = m·g·(z2 − z1), "
+        "g = 9.80665 m/s² unless given.",
+        (
+            Arg("m", "mass of the system", quantity="mass"),
+            Arg("z_1", "initial elevation", quantity="length"),
+            Arg("z_2", "final elevation", quantity="length"),
+            Arg("g", "gravity (default 9.80665 m/s2)", quantity="acceleration", optional=True),
+        ),
+        "energy",
+        "balance_delta_pe",
+        "ΔPE = m·g·(z2 − z1)",
+        (_REF_FIRSTLAW, "standard gravity 9.80665 m/s² (3rd CGPM, 1901)"),
+        Example((500, 0, 40), 196.133),
+    ),
+    Func(
+        "JB_HEAT_ISOBARIC_GAS",
+        "balance",
+        "Heat to a mass of ideal gas at constant pressure, Q = m·Δh + W_other (Q − W_other = ΔH); "
+        "heat into the system +, W_other by the system +.",
+        (_GAS, Arg("m", "mass of gas", quantity="mass"), _T1, _T2, _WOTHER),
+        "energy",
+        "heat_isobaric_gas",
+        "Q = m·∫cp dT + W_other",
+        (_REF_FIRSTLAW, _REF_COOLPROP),
+        Example(("air", 2, 300, 500), 405.8402854863983),
+    ),
+    Func(
+        "JB_HEAT_RIGID_GAS",
+        "balance",
+        "Heat to a mass of ideal gas in a rigid vessel, Q = m·Δu + W_other; heat into the system +, "
+        "W_other by the system + (a stirrer or heater inside is negative).",
+        (_GAS, Arg("m", "mass of gas", quantity="mass"), _T1, _T2, _WOTHER),
+        "energy",
+        "heat_rigid_gas",
+        "Q = m·∫cv dT + W_other",
+        (_REF_FIRSTLAW, _REF_COOLPROP),
+        Example(("air", 2, 300, 500), 291.0206347713742),
+        caution=True,
+    ),
+    # ------------------------------------------------------------------ processes
+    Func(
+        "JB_PROCESS",
+        "process",
+        "End state, work or heat of a fixed mass taken from state1 along a path (rigid, isobaric, "
+        "isothermal, isentropic, polytropic n=…, linear slope=…, stops P=…/V=…) to an end condition. Q in +, W out +.",
+        (
+            _STATE1,
+            _PATH,
+            _END_SPEC,
+            _END_VALUE,
+            Arg(
+                "want",
+                "P2 T2 v2 V2 x2 u2 h2 s2 phase2 W Q dU dH, with unit, e.g. 'P2 in MPa'",
+                type="text",
+            ),
+            _MASS,
+        ),
+        "asked",
+        "process",
+        "Q − W = m·(u2 − u1); W = m·∫P dv along the path; end state on the equation of state",
+        (_REF_COOLPROP, _REF_IAPWS, _REF_FIRSTLAW),
+        Example(
+            ("water | T = 20 degC | P = 1 bar", "rigid", "T2 in degC", 40, "P2 in bar", 1),
+            139.52702410665785,
+            1e-6,
+        ),
+        caution=True,
+        notes="A blocked-in liquid heated at constant volume (the example) gains tens of bar per "
+        "kelvin: the pressure comes from the equation of state, never from a gas law.",
+    ),
+    Func(
+        "JB_PROCESS_TABLE",
+        "process",
+        "All end-state and energy results of JB_PROCESS as a spilled table (quantity, value, unit): "
+        "P2 T2 v2 V2 x2 u2 h2 s2 phase2 W Q dU dH. Q in +, W out +.",
+        (_STATE1, _PATH, _END_SPEC, _END_VALUE, _MASS),
+        "asked",
+        "process_table",
+        "as JB_PROCESS",
+        (_REF_COOLPROP, _REF_FIRSTLAW),
+        Example(
+            ("water | P = 2 bar | x = 0.5", "rigid", "Q in kJ", 500, 1.5),
+            [
+                ["P2", 266.5797762541553, "kPa"],
+                ["T2", 402.689741172735, "K"],
+                ["v2", 0.44337109655774287, "m3/kg"],
+                ["V2", 0.6650566448366143, "m3"],
+                ["x2", 0.654658901545228, ""],
+                ["u2", 1850.12657721082, "kJ/kg"],
+                ["h2", 1968.3203449287216, "kJ/kg"],
+                ["s2", 5.165755723041846, "kJ/(kg*K)"],
+                ["W", 0.0, "kJ"],
+                ["Q", 499.999999999995, "kJ"],
+                ["dU", 499.999999999995, "kJ"],
+                ["dH", 544.2793226095625, "kJ"],
+                ["phase2", "saturated mixture", ""],
+            ],
+            1e-6,
+        ),
+        elementwise=False,
+        caution=True,
+    ),
+    Func(
+        "JB_PROCESS_PATH",
+        "process",
+        "Points along a JB_PROCESS path as a spilled table with a header row: V, P, T, v, s, for a "
+        "native P–v or T–s chart of the process.",
+        (
+            _STATE1,
+            _PATH,
+            _END_SPEC,
+            _END_VALUE,
+            Arg("points", "number of points (default 21, 2 to 10000)", optional=True),
+            _MASS,
+        ),
+        "asked",
+        "process_path",
+        "states at equal steps of the path variable (u, h or ln v)",
+        (_REF_COOLPROP,),
+        Example(
+            (
+                "air (ideal gas) | T = 300 K | P = 100 kPa",
+                "polytropic n = 1.3",
+                "V2 in m3",
+                0.1,
+                3,
+                1,
+            ),
+            [
+                ["V in m3", "P in kPa", "T in K", "v in m3/kg", "s in kJ/(kg*K)"],
+                [0.8611473803626802, 100.0, 300.0, 0.8611473803626802, 3.8911667274091744],
+                [
+                    0.29345312749444,
+                    405.32217561423545,
+                    414.364821129993,
+                    0.29345312749444,
+                    3.815268806041198,
+                ],
+                [0.1, 1642.8606604465717, 572.3273499669704, 0.1, 3.7455196403709703],
+            ],
+            1e-6,
+        ),
+        elementwise=False,
+    ),
+    # ------------------------------------------------------------------ cycles
+    Func(
+        "JB_CYCLE_NET",
+        "cycle",
+        "Net value over a cycle's processes: Σ of a range of heats (Q_net) or works (W_net); blanks ignored.",
+        (
+            Arg(
+                "values", "heats or works of the cycle's processes", type="range", quantity="energy"
+            ),
+        ),
+        "energy",
+        "cycle_net",
+        "Q_net = Σ Q_i, W_net = Σ W_i",
+        (_REF_FIRSTLAW,),
+        Example(([[120], [-45], [0]],), 75.0),
+        elementwise=False,
+    ),
+    Func(
+        "JB_CYCLE_GAP",
+        "cycle",
+        "Closure gap of a cycle, Q_net − W_net; 0 when the process results close (ΔE over a cycle "
+        "is 0). Heat in +, work by the system +.",
+        (_QVALS, _WVALS),
+        "energy",
+        "cycle_gap",
+        "gap = Σ Q_i − Σ W_i  (= ΔE_cycle = 0)",
+        (_REF_FIRSTLAW,),
+        Example(([[100], [-60], [0]], [[0], [0], [40]]), 0.0),
+        elementwise=False,
+    ),
+    Func(
+        "JB_CYCLE_EFFICIENCY",
+        "cycle",
+        "Thermal efficiency W_net / Q_in of a cycle (Q_in = sum of positive heats); refuses a cycle "
+        "whose Q_net and W_net differ. Heat in +, work by the system +.",
+        (_QVALS, _WVALS),
+        "dimensionless",
+        "cycle_efficiency",
+        "η = W_net / Q_in",
+        (_REF_FIRSTLAW,),
+        Example(([[100], [-60], [0]], [[0], [0], [40]]), 0.4),
+        elementwise=False,
+    ),
+    # ------------------------------------------------------------------ stored energy
+    Func(
+        "JB_STORED_ISENTROPIC",
+        "stored",
+        "Stored expansion energy of a gas volume: isentropic expansion to ambient on the real-fluid "
+        "equation of state, m·(u1 − u2s). An estimate: pressure tests are governed by the codes.",
+        (
+            Arg(
+                "state",
+                "state text of the contents from JB_STATE (real fluid or ideal gas)",
+                type="text",
+            ),
+            Arg("V", "gas volume", quantity="volume"),
+            _PAMB,
+        ),
+        "energy",
+        "stored_isentropic",
+        "E = m·(u1 − u2), s2 = s1, P2 = P_amb, m = V/v1",
+        (_REF_COOLPROP, _REF_STORED),
+        Example(("nitrogen | P = 30 bar | T = 20 degC", 2.5), 11310.71420636391, 1e-6),
+        caution=True,
+    ),
+    Func(
+        "JB_STORED_IDEAL_ISENTROPIC",
+        "stored",
+        "Stored expansion energy, ideal gas with constant k: P·V/(k − 1)·[1 − (P_amb/P)^((k−1)/k)]. "
+        "An estimate: pressure tests are governed by the codes and a competent engineer.",
+        (
+            Arg("P", "absolute gas pressure", quantity="pressure"),
+            Arg("V", "gas volume", quantity="volume"),
+            _K,
+            _PAMB,
+        ),
+        "energy",
+        "stored_ideal_isentropic",
+        "E = P·V/(k − 1)·[1 − (P_amb/P)^((k − 1)/k)]",
+        (_REF_STORED,),
+        Example((3000, 2.5, 1.4), 11628.033185742339),
+        caution=True,
+    ),
+    Func(
+        "JB_STORED_ISOCHORIC",
+        "stored",
+        "Stored energy as a constant-volume release, (P − P_amb)·V/(k − 1): the largest of the usual "
+        "estimates. An estimate: pressure tests are governed by the codes and a competent engineer.",
+        (
+            Arg("P", "absolute gas pressure", quantity="pressure"),
+            Arg("V", "gas volume", quantity="volume"),
+            _K,
+            _PAMB,
+        ),
+        "energy",
+        "stored_isochoric",
+        "E = (P − P_amb)·V/(k − 1)",
+        (_REF_STORED,),
+        Example((3000, 2.5, 1.4), 18116.718750000004),
+        caution=True,
     ),
     # ------------------------------------------------------------------ utilities
     Func(

@@ -8,13 +8,16 @@ result unit is asked for in the formula (``JB_PROP``'s ``want``).
 
 from __future__ import annotations
 
+import math
 import re
 from functools import lru_cache
 
 import numpy as np
 
-from . import __version__, states
-from .errors import BadInput, JoulebookError
+from . import __version__, firstlaw, states
+from .errors import BadInput, JoulebookError, OutOfRange
+from .media import medium
+from .processes import cycles, polytropic, solve, stored, work
 from .substances import fluids, gases, solids
 from .units import UnitSystem, convert, parse_phrase, parse_unit
 
@@ -50,7 +53,7 @@ def _state_from_args(substance, spec1, value1, spec2, value2, system: UnitSystem
 def state_text(substance, spec1, value1, spec2, value2, *, system: UnitSystem) -> str:
     st = _state_from_args(substance, spec1, value1, spec2, value2, system)
     a, va, b, vb = st.si()
-    fluids.state_props(st.fluid, [], a, va, b, vb, shows=st.shows())  # validates the state
+    st.medium.point(a, va, b, vb, shows=st.shows())  # validates the state
     return states.format_state(st)
 
 
@@ -62,7 +65,7 @@ def _prop_plan(substance: str, want: str, spec1: str, spec2: str, system: UnitSy
     """Everything about a JB_PROP call except its two numbers, worked out once."""
     if not isinstance(want, str) or not want.strip():
         raise BadInput(f"want must name a property such as 'h in kJ/kg' (got {want!r})")
-    info = fluids.fluid_info(substance)
+    med = medium(substance, system)
     p1 = states.spec_phrase(spec1, "spec1", system)
     p2 = states.spec_phrase(spec2, "spec2", system)
     shows = {p1.symbol: p1.conv, p2.symbol: p2.conv}
@@ -75,24 +78,31 @@ def _prop_plan(substance: str, want: str, spec1: str, spec2: str, system: UnitSy
         except BadInput as e:
             raise BadInput(f"want: {e.message}") from None
         out, sym = wp.conv, wp.symbol
-    return info, p1.symbol, p1.conv, p2.symbol, p2.conv, sym, out, shows, fluids.reader(sym)
+    read = None if med.ideal else fluids.reader(sym)
+    return med, p1.symbol, p1.conv, p2.symbol, p2.conv, sym, out, shows, read
+
+
+def _prop_value(plan, va: float, vb: float):
+    med, a, _, b, _, sym, out, shows, read = plan
+    if read is not None:
+        info = med.info
+        val = read(info, fluids._flash(info, a, va, b, vb, shows), shows)
+    else:
+        val = med.read(sym, a, va, b, vb, shows)
+    return val if out is None or type(val) is str else out.from_si(val)
 
 
 def prop(substance, want, spec1, value1, spec2, value2, *, system: UnitSystem):
     if (
         type(substance) is str
-        and "|" not in substance
         and type(spec1) is str
         and type(spec2) is str
         and value1 is not None
         and value2 is not None
+        and not states.is_state_text(substance)
     ):
-        info, a, ca, b, cb, sym, out, shows, read = _prop_plan(
-            substance, want, spec1, spec2, system
-        )
-        st = fluids._flash(info, a, ca.to_si(value1), b, cb.to_si(value2), shows)
-        val = read(info, st, shows)
-        return val if out is None else out.from_si(val)
+        plan = _prop_plan(substance, want, spec1, spec2, system)
+        return _prop_value(plan, plan[2].to_si(value1), plan[4].to_si(value2))
     st_ = _state_from_args(substance, spec1, value1, spec2, value2, system)
     (p1, v1), (p2, v2) = st_.specs
     return prop(
@@ -108,17 +118,24 @@ def prop(substance, want, spec1, value1, spec2, value2, *, system: UnitSystem):
 
 def prop_column(substance, want, spec1, value1, spec2, value2, *, system: UnitSystem):
     """JB_PROP over columns of value1/value2 (float arrays, NaN = blank) with one plan."""
-    info, a, ca, b, cb, sym, out, shows, _ = _prop_plan(substance, want, spec1, spec2, system)
-    res = fluids.column_props(
-        info.name,
-        sym,
-        a,
-        ca.to_si(np.asarray(value1, dtype=float)),
-        b,
-        cb.to_si(np.asarray(value2, dtype=float)),
-        shows,
-        out,
-    )
+    plan = _prop_plan(substance, want, spec1, spec2, system)
+    med, a, ca, b, cb, sym, out, shows, read = plan
+    va = ca.to_si(np.asarray(value1, dtype=float))
+    vb = cb.to_si(np.asarray(value2, dtype=float))
+    if read is not None:
+        res = fluids.column_props(med.name, sym, a, va, b, vb, shows, out)
+    else:
+        va, vb = np.broadcast_arrays(va, vb)
+        res = np.empty(va.shape, dtype=object)
+        for idx in np.ndindex(va.shape):
+            x, y = float(va[idx]), float(vb[idx])
+            if x != x or y != y:
+                res[idx] = None
+                continue
+            try:
+                res[idx] = _prop_value(plan, x, y)
+            except JoulebookError as e:
+                res[idx] = e
     flat = res.reshape(-1)
     for i, r in enumerate(flat):
         if isinstance(r, JoulebookError):
@@ -265,3 +282,272 @@ def about(topic, *, system):
     if topic == "units":
         return [["K-kPa-kJ"], ["K-Pa-J"], ["degC-bar-kJ"], ["degF-psia-Btu"], ["R-psia-Btu"]]
     raise BadInput(f"topic {topic!r}: use one of {', '.join(_TOPICS)}")
+
+
+# ---------------------------------------------------------------------------------------
+# boundary work, polytropic analysis, first law
+
+
+def work_isobaric(P, V_1, V_2, *, system):
+    return work.isobaric(P, V_1, V_2)
+
+
+def work_isothermal(P_1, V_1, V_2, *, system):
+    return work.isothermal(P_1, V_1, V_2)
+
+
+def work_isothermal_mass(gas, m, T, V_1, V_2, *, system):
+    if not m > 0:
+        raise BadInput(f"m = {m} kg: mass must be > 0")
+    if not T > 0:
+        raise OutOfRange(f"T = {T} K must be > 0 (absolute)")
+    if not (V_1 > 0 and V_2 > 0):
+        raise OutOfRange("V_1 and V_2 must be > 0")
+    return m * _gas(gas, system).R * T * math.log(V_2 / V_1)
+
+
+def work_polytropic(P_1, V_1, P_2, V_2, *, system):
+    return work.polytropic_states(P_1, V_1, P_2, V_2)
+
+
+def work_polytropic_n(P_1, V_1, V_2, n, *, system):
+    return work.polytropic_n(P_1, V_1, V_2, n)
+
+
+def work_linear(P_1, V_1, P_2, V_2, *, system):
+    return work.linear(P_1, V_1, P_2, V_2)
+
+
+def work_pv(P_values, V_values, method, *, system):
+    return work.from_pv(P_values, V_values, method or "trapezoid")
+
+
+def work_electric_in(voltage, current, duration, *, system):
+    return firstlaw.electrical_work_in(voltage, current, duration)
+
+
+def work_shaft_in(torque, revolutions, *, system):
+    return firstlaw.shaft_work_in(torque, revolutions)
+
+
+def poly_exponent(P_1, V_1, P_2, V_2, *, system):
+    return polytropic.exponent(P_1, V_1, P_2, V_2)
+
+
+def poly_fit(P_values, V_values, show, *, system):
+    n, C, r2 = polytropic.fit(P_values, V_values)
+    what = "n" if show is None else str(show).strip().lower()
+    if what == "n":
+        return n
+    if what == "all":
+        # C in the unit system's own units: P_unit · V_unit^n
+        c_user = C / system.conv("pressure").factor / system.conv("volume").factor ** n
+        return [[n, c_user, r2]]
+    raise BadInput(f"show = {show!r}: use n (default) or all (n, C, R² as a row)")
+
+
+def poly_p2(P_1, V_1, V_2, n, *, system):
+    return polytropic.p2(P_1, V_1, V_2, n)
+
+
+def poly_v2(P_1, V_1, P_2, n, *, system):
+    return polytropic.v2(P_1, V_1, P_2, n)
+
+
+def poly_t2_from_v(T_1, V_1, V_2, n, *, system):
+    return polytropic.t2_from_v(T_1, V_1, V_2, n)
+
+
+def poly_t2_from_p(T_1, P_1, P_2, n, *, system):
+    return polytropic.t2_from_p(T_1, P_1, P_2, n)
+
+
+def balance_heat(dU, W_b, W_other, dKE, dPE, *, system):
+    return firstlaw.heat(dU, W_b, W_other, dKE, dPE)
+
+
+def balance_gap(Q, W_b, dU, W_other, dKE, dPE, *, system):
+    return firstlaw.gap(Q, W_b, dU, W_other, dKE, dPE)
+
+
+def balance_delta_ke(m, vel_1, vel_2, *, system):
+    return firstlaw.delta_ke(m, vel_1, vel_2)
+
+
+def balance_delta_pe(m, z_1, z_2, g, *, system):
+    return firstlaw.delta_pe(m, z_1, z_2, g)
+
+
+def heat_isobaric_gas(gas, m, T_1, T_2, W_other, *, system):
+    if not m > 0:
+        raise BadInput(f"m = {m} kg: mass must be > 0")
+    return m * gases.delta_h(_gas(gas, system), T_1, T_2) + (W_other or 0.0)
+
+
+def heat_rigid_gas(gas, m, T_1, T_2, W_other, *, system):
+    if not m > 0:
+        raise BadInput(f"m = {m} kg: mass must be > 0")
+    return m * gases.delta_u(_gas(gas, system), T_1, T_2) + (W_other or 0.0)
+
+
+# ---------------------------------------------------------------------------------------
+# end-state solver
+
+
+_PROC_KIND = {
+    "P2": "pressure",
+    "T2": "temperature",
+    "v2": "specific_volume",
+    "V2": "volume",
+    "x2": "dimensionless",
+    "u2": "specific_energy",
+    "h2": "specific_energy",
+    "s2": "specific_entropy",
+    "W": "energy",
+    "Q": "energy",
+    "dU": "energy",
+    "dH": "energy",
+    "phase2": "text",
+}
+_PROC_ALIAS = {"ΔU": "dU", "ΔH": "dH", "DU": "dU", "DH": "dH", "phase": "phase2"}
+_PROC_PHRASE = re.compile(r"^\s*(?P<sym>[A-Za-zΔ][A-Za-z0-9]*)\s*(?:in\s+(?P<unit>.+?))?\s*$")
+
+
+@lru_cache(maxsize=1024)
+def _proc_phrase(text: str, arg: str, allowed: tuple, system: UnitSystem):
+    if not isinstance(text, str):
+        raise BadInput(f"{arg} must be text such as 'T2 in degC' (got {text!r})")
+    m = _PROC_PHRASE.match(text)
+    sym = _PROC_ALIAS.get(m.group("sym"), m.group("sym")) if m else None
+    if sym not in allowed:
+        raise BadInput(f"{arg} {text!r}: use one of {' '.join(allowed)}, optionally 'in unit'")
+    kind = _PROC_KIND[sym]
+    if kind == "text":
+        return sym, None
+    unit = m.group("unit")
+    conv = parse_unit(unit, kind) if unit else system.conv(kind)
+    return sym, conv
+
+
+_WANT_SYMS = tuple(_PROC_KIND)
+
+
+def _solved(state1, path, end_spec, end_value, mass, system):
+    if not states.is_state_text(state1):
+        raise BadInput(f"state1 must be a state text from JB_STATE (got {str(state1)[:50]!r})")
+    st = states.parse_state(state1)
+    med = st.medium
+    a, va, b, vb = st.si()
+    p1 = med.point(a, va, b, vb, st.shows())
+    pth = solve.parse_path(path, system)
+    end, conv = _proc_phrase(end_spec, "end_spec", solve.END_SPECS, system)
+    m = 1.0 * system.conv("mass").factor if mass is None else mass
+    res = solve.solve(med, p1, m, pth, end, conv.to_si(float(end_value)), st.shows())
+    return med, res
+
+
+def _proc_value(res, sym: str):
+    p2 = res.p2
+    if sym == "x2":
+        if p2.x is None:
+            raise OutOfRange(
+                f"x2 is defined only for saturated states; the end state is {p2.phase}"
+            )
+        return p2.x
+    return {
+        "P2": p2.P,
+        "T2": p2.T,
+        "v2": p2.v,
+        "V2": res.m * p2.v,
+        "u2": p2.u,
+        "h2": p2.h,
+        "s2": p2.s,
+        "W": res.W,
+        "Q": res.Q,
+        "dU": res.dU,
+        "dH": res.dH,
+        "phase2": p2.phase,
+    }[sym]
+
+
+def process(state1, path, end_spec, end_value, want, mass, *, system):
+    med, res = _solved(state1, path, end_spec, end_value, mass, system)
+    sym, conv = _proc_phrase(want, "want", _WANT_SYMS, system)
+    val = _proc_value(res, sym)
+    return val if conv is None else conv.from_si(val)
+
+
+def work_path(state1, path, end_spec, end_value, mass, *, system):
+    _, res = _solved(state1, path, end_spec, end_value, mass, system)
+    return res.W
+
+
+def process_table(state1, path, end_spec, end_value, mass, *, system):
+    _, res = _solved(state1, path, end_spec, end_value, mass, system)
+    rows = []
+    for sym in _WANT_SYMS:
+        kind = _PROC_KIND[sym]
+        try:
+            val = _proc_value(res, sym)
+        except OutOfRange:
+            rows.append([sym, "—", ""])
+            continue
+        if kind == "text":
+            rows.append([sym, val, ""])
+        else:
+            rows.append([sym, system.conv(kind).from_si(val), system.unit(kind)])
+    return rows
+
+
+def process_path(state1, path, end_spec, end_value, points, mass, *, system):
+    med, res = _solved(state1, path, end_spec, end_value, mass, system)
+    N = 21 if points is None else int(points)
+    if points is not None and N != points:
+        raise BadInput(f"points = {points} must be a whole number")
+    pts = solve.path_points(med, res, N)
+    cols = (
+        ("V", "volume", lambda p: res.m * p.v),
+        ("P", "pressure", lambda p: p.P),
+        ("T", "temperature", lambda p: p.T),
+        ("v", "specific_volume", lambda p: p.v),
+        ("s", "specific_entropy", lambda p: p.s),
+    )
+    header = [f"{sym} in {system.unit(kind)}" for sym, kind, _ in cols]
+    body = [[system.conv(kind).from_si(fn(p)) for _, kind, fn in cols] for p in pts]
+    return [header, *body]
+
+
+# ---------------------------------------------------------------------------------------
+# cycles and stored energy
+
+
+def cycle_net(values, *, system):
+    return cycles.net(values)
+
+
+def cycle_gap(Q_values, W_values, *, system):
+    return cycles.gap(Q_values, W_values)
+
+
+def cycle_efficiency(Q_values, W_values, *, system):
+    return cycles.efficiency(Q_values, W_values)
+
+
+def stored_isentropic(state, V, P_amb, *, system):
+    if not states.is_state_text(state):
+        raise BadInput(f"state must be a state text from JB_STATE (got {str(state)[:50]!r})")
+    st = states.parse_state(state)
+    med = st.medium
+    a, va, b, vb = st.si()
+    p1 = med.point(a, va, b, vb, st.shows())
+    return stored.isentropic(
+        med, p1, V, stored.STANDARD_ATMOSPHERE if P_amb is None else P_amb, st.shows()
+    )
+
+
+def stored_ideal_isentropic(P, V, k, P_amb, *, system):
+    return stored.ideal_isentropic(P, V, k, stored.STANDARD_ATMOSPHERE if P_amb is None else P_amb)
+
+
+def stored_isochoric(P, V, k, P_amb, *, system):
+    return stored.isochoric(P, V, k, stored.STANDARD_ATMOSPHERE if P_amb is None else P_amb)

@@ -14,6 +14,7 @@ from dataclasses import dataclass
 from functools import lru_cache
 
 from .errors import BadInput
+from .media import medium, split_substance
 from .substances import fluids
 from .units import Phrase, UnitSystem, parse_phrase, unit_system
 
@@ -27,8 +28,12 @@ STATE_INPUTS = fluids.INPUTS
 class State:
     """A fluid and two specifications, each with the value as written and its unit phrase."""
 
-    fluid: str  # display name
+    fluid: str  # substance text of the medium: "water", "air (ideal gas)", "air | k = 1.4"
     specs: tuple[tuple[Phrase, float], tuple[Phrase, float]]
+
+    @property
+    def medium(self):
+        return medium(self.fluid)
 
     def si(self) -> tuple[str, float, str, float]:
         (p1, v1), (p2, v2) = self.specs
@@ -47,7 +52,13 @@ def format_number(x: float) -> str:
 
 
 def is_state_text(text: object) -> bool:
-    return isinstance(text, str) and "|" in text
+    """True for text that fixes a state (a substance plus two ``SYMBOL = value`` parts)."""
+    if not isinstance(text, str) or "|" not in text:
+        return False
+    try:
+        return len(split_substance(text)[2]) >= 1
+    except BadInput:
+        return True  # malformed state text: let the parser explain
 
 
 def spec_phrase(text: object, arg: str, system: UnitSystem) -> Phrase:
@@ -74,22 +85,22 @@ _SPEC = re.compile(
 
 @lru_cache(maxsize=4096)
 def parse_state(text: str) -> State:
-    """Parse state text ``fluid | SYM = value unit | SYM = value unit``.
+    """Parse state text ``substance | SYM = value unit | SYM = value unit``.
 
     Raises
     ------
     BadInput
         Malformed text, unknown fluid, symbol or unit.
     """
-    parts = [p.strip() for p in str(text).split("|")]
-    if len(parts) != 3:
+    name, consts, parts = split_substance(text)
+    if len(parts) != 2:
         raise BadInput(
-            f"state text {text[:60]!r} needs a fluid and two specs: 'water | T = 25 degC | P = 200 kPa'"
+            f"state text {text[:60]!r} needs a substance and two specs: 'water | T = 25 degC | P = 200 kPa'"
         )
-    info = fluids.fluid_info(parts[0])
+    med = medium(" | ".join([p for p in (name, *consts) if p]))
     specs = []
     system = unit_system(None)
-    for part in parts[1:]:
+    for part in parts:
         m = _SPEC.match(part)
         if not m:
             raise BadInput(f"state text: {part!r} is not 'SYMBOL = number unit'")
@@ -102,12 +113,12 @@ def parse_state(text: str) -> State:
                 f"state text: {part!r} needs its unit (e.g. {phrase.symbol} = 1 {phrase.unit})"
             )
         specs.append((phrase, float(m.group("num"))))
-    return State(info.name, (specs[0], specs[1]))
+    return State(med.text(), (specs[0], specs[1]))
 
 
 def make_state(fluid: str, spec1, value1: float, spec2, value2: float, system: UnitSystem) -> State:
     """Build a :class:`State` from worksheet arguments (values in the phrases' units)."""
-    info = fluids.fluid_info(fluid)
+    med = medium(fluid, system)
     p1 = spec_phrase(spec1, "spec1", system)
     p2 = spec_phrase(spec2, "spec2", system)
-    return State(info.name, ((p1, float(value1)), (p2, float(value2))))
+    return State(med.text(), ((p1, float(value1)), (p2, float(value2))))

@@ -1,0 +1,267 @@
+"""Media: one interface over real fluids and ideal gases, for states and processes.
+
+A *medium* turns two independent properties into a :class:`Point` (T, P, v, u, h, s, x and
+the phase word), SI throughout.
+
+* :class:`RealMedium`: a fluid on its reference equation of state (see
+  :mod:`joulebook.substances.fluids`).
+* :class:`IdealMedium`: an ideal gas, P·v = R·T, with h = h⁰(T), u = h − R·T and
+  s = s⁰(T) − R·ln(P/P₀), P₀ = 101.325 kPa, from either the ideal-gas part of the gas's
+  equation of state or constant specific heats (see :mod:`joulebook.substances.gases`).
+
+Substance text selects the medium: ``"water"`` is a real fluid; ``"air (ideal gas)"`` is the
+ideal-gas model of air with c_p(T); ``"air | k = 1.4"`` (any model constant) is the
+constant-c_p ideal gas.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from dataclasses import dataclass
+from functools import lru_cache
+
+from .errors import BadInput, OutOfRange, fmt_value
+from .roots import brent
+from .substances import fluids, gases
+from .units import UnitSystem, unit_system
+
+__all__ = ["Point", "RealMedium", "IdealMedium", "medium", "split_substance", "IDEAL_TAG"]
+
+IDEAL_TAG = "(ideal gas)"
+_P0 = 101_325.0
+_T_REF = 298.15  # K, zero of h for the constant-cp model
+_GAS_KEYS = ("cp", "cv", "k", "R", "M")
+_STATE_KEYS = fluids.INPUTS
+
+
+@dataclass(frozen=True)
+class Point:
+    """A state, SI: K, Pa, m³/kg, J/kg, J/(kg·K); x is None outside the two-phase region."""
+
+    T: float
+    P: float
+    v: float
+    u: float
+    h: float
+    s: float
+    x: float | None
+    phase: str
+
+
+def split_substance(text: str) -> tuple[str, list[str], list[str]]:
+    """Split substance/state text into (name, model-constant parts, state-spec parts)."""
+    parts = [p.strip() for p in str(text).split("|")]
+    name = parts[0]
+    consts, specs = [], []
+    for p in parts[1:]:
+        key = p.split("=", 1)[0].strip() if "=" in p else ""
+        if key in _GAS_KEYS:
+            consts.append(p)
+        elif key:
+            specs.append(p)
+        else:
+            raise BadInput(f"{p!r} in {text[:60]!r} is not 'SYMBOL = value unit'")
+    if "=" in name and name.split("=", 1)[0].strip() in _GAS_KEYS:
+        consts.insert(0, name)
+        name = ""
+    return name, consts, specs
+
+
+class RealMedium:
+    """A real fluid on its reference equation of state."""
+
+    ideal = False
+
+    def __init__(self, info: fluids.FluidInfo):
+        self.info = info
+        self.name = info.name
+        self.model = info.eos
+        self.R = info.R
+
+    def text(self) -> str:
+        return self.name
+
+    def point(self, a: str, va: float, b: str, vb: float, shows=None) -> Point:
+        info = self.info
+        st = fluids._flash(info, a, va, b, vb, shows)
+        two = fluids._is_two_phase(st)
+        return Point(
+            st.T(),
+            st.p(),
+            1.0 / st.rhomass(),
+            st.umass(),
+            st.hmass(),
+            st.smass(),
+            st.Q() if two else None,
+            fluids.phase_word(info, st),
+        )
+
+    def read(self, want: str, a: str, va: float, b: str, vb: float, shows=None):
+        return fluids.state_props(self.name, [want], a, va, b, vb, shows)[0]
+
+
+class IdealMedium:
+    """An ideal gas (P·v = R·T) with c_p(T) or constant c_p."""
+
+    ideal = True
+
+    def __init__(self, g: gases.GasModel, text: str):
+        self.g = g
+        self.name = g.name
+        self.model = f"ideal gas: {g.source}"
+        self.R = g.R
+        self._text = text
+
+    def text(self) -> str:
+        return self._text
+
+    # --- the model's temperature functions --------------------------------------------
+    def h_T(self, T: float) -> float:
+        g = self.g
+        gases._check_T(g, T)
+        return g.cp_const * (T - _T_REF) if g.constant else gases._ig(g.internal, T)[1]
+
+    def u_T(self, T: float) -> float:
+        return self.h_T(T) - self.R * T
+
+    def s0_T(self, T: float) -> float:
+        g = self.g
+        gases._check_T(g, T)
+        return g.cp_const * math.log(T / _T_REF) if g.constant else gases._ig(g.internal, T)[2]
+
+    def _T_from(self, fn, target: float, what: str) -> float:
+        g = self.g
+        lo, hi = g.T_min, g.T_max
+        if g.constant:
+            lo, hi = 1.0, 50_000.0
+        flo, fhi = fn(lo) - target, fn(hi) - target
+        if (flo > 0) == (fhi > 0):
+            raise OutOfRange(
+                f"{self.name}: {what} = {fmt_value(target)} lies outside the model's range "
+                f"({fmt_value(lo)}–{fmt_value(hi)} K)"
+            )
+        return brent(
+            lambda T: fn(T) - target,
+            lo,
+            hi,
+            flo,
+            fhi,
+            xtol=1e-12,
+            what=f"{self.name} T from {what}",
+        )
+
+    # --- flashing ------------------------------------------------------------------------
+    def TP(self, a: str, va: float, b: str, vb: float) -> tuple[float, float]:
+        if a == b:
+            raise BadInput(f"{self.name}: the two state properties must differ (both are {a})")
+        vals = {a: va, b: vb}
+        if "x" in vals:
+            raise BadInput(f"{self.name} is modelled as an ideal gas: it has no quality x")
+        if "rho" in vals:
+            r = vals.pop("rho")
+            if not r > 0:
+                raise OutOfRange(f"{self.name}: density must be > 0 (got {fmt_value(r)})")
+            vals["v"] = 1.0 / r
+        for k in ("P", "v", "T"):
+            if k in vals and not vals[k] > 0:
+                raise OutOfRange(f"{self.name}: {k} = {fmt_value(vals[k])} must be > 0 (absolute)")
+        R = self.R
+        if {"u", "h"} <= vals.keys() or ("T" in vals and ({"u", "h"} & vals.keys())):
+            raise BadInput(
+                f"{self.name}: for an ideal gas u and h depend on T alone; give P or v too"
+            )
+        if "T" in vals:
+            T = vals["T"]
+        elif "u" in vals:
+            T = self._T_from(self.u_T, vals["u"], "u")
+        elif "h" in vals:
+            T = self._T_from(self.h_T, vals["h"], "h")
+        elif {"P", "v"} <= vals.keys():
+            T = vals["P"] * vals["v"] / R
+        elif {"P", "s"} <= vals.keys():
+            s_target = vals["s"] + R * math.log(vals["P"] / _P0)
+            T = self._T_from(self.s0_T, s_target, "s")
+        elif {"v", "s"} <= vals.keys():
+            v, s = vals["v"], vals["s"]
+            T = self._T_from(lambda T: self.s0_T(T) - R * math.log(R * T / (v * _P0)), s, "s")
+        else:  # pragma: no cover - all pairs are handled above
+            raise BadInput(f"{self.name}: the pair {a}, {b} does not fix an ideal-gas state")
+        if "P" in vals:
+            P = vals["P"]
+        elif "v" in vals:
+            P = R * T / vals["v"]
+        elif "s" in vals:
+            P = _P0 * math.exp((self.s0_T(T) - vals["s"]) / R)
+        else:
+            raise BadInput(f"{self.name}: give P, v or s with T, u or h")
+        gases._check_T(self.g, T)
+        return T, P
+
+    def point(self, a: str, va: float, b: str, vb: float, shows=None) -> Point:
+        T, P = self.TP(a, va, b, vb)
+        h = self.h_T(T)
+        return Point(
+            T,
+            P,
+            self.R * T / P,
+            h - self.R * T,
+            h,
+            self.s0_T(T) - self.R * math.log(P / _P0),
+            None,
+            "ideal gas",
+        )
+
+    def read(self, want: str, a: str, va: float, b: str, vb: float, shows=None):
+        p = self.point(a, va, b, vb, shows)
+        simple = {
+            "T": p.T,
+            "P": p.P,
+            "v": p.v,
+            "rho": 1.0 / p.v,
+            "u": p.u,
+            "h": p.h,
+            "s": p.s,
+            "Z": 1.0,
+            "phase": p.phase,
+        }
+        if want in simple:
+            return simple[want]
+        if want in ("cp", "cv", "k"):
+            return {"cp": gases.cp, "cv": gases.cv, "k": gases.k}[want](self.g, p.T)
+        raise OutOfRange(f"{self.name} is modelled as an ideal gas: {want} is not defined")
+
+
+_IDEAL_RE = re.compile(r"^(?P<name>.*?)\s*\(\s*ideal\s+gas\s*\)\s*$", re.IGNORECASE)
+
+
+_CONST_KIND = {
+    "cp": "specific_entropy",
+    "cv": "specific_entropy",
+    "R": "specific_entropy",
+    "M": "molar_mass",
+}
+
+
+def _explicit_unit(part: str, system: UnitSystem) -> str:
+    """``cp = 1.005`` -> ``cp = 1.005 kJ/(kg*K)``: the text must not depend on the unit system."""
+    key, _, val = (x.strip() for x in part.partition("="))
+    if key in _CONST_KIND and re.fullmatch(r"[-+]?[0-9.]+(?:[eE][-+]?\d+)?", val):
+        return f"{key} = {val} {system.unit(_CONST_KIND[key])}"
+    return f"{key} = {val}"
+
+
+@lru_cache(maxsize=1024)
+def medium(text: str, system: UnitSystem | None = None):
+    """The medium named by substance text (state-spec parts, if any, are ignored here)."""
+    system = system or unit_system(None)
+    name, consts, _specs = split_substance(text)
+    m = _IDEAL_RE.match(name)
+    if m or consts:
+        gname = m.group("name") if m else name
+        consts = [_explicit_unit(c, system) for c in consts]
+        gas_text = " | ".join([gname, *consts]) if gname else " | ".join(consts)
+        g = gases.gas_model(gas_text, system)
+        shown = f"{gname} {IDEAL_TAG}" if m and not consts else gas_text
+        return IdealMedium(g, shown)
+    return RealMedium(fluids.fluid_info(name))

@@ -1,0 +1,2 @@
+"""Processes of a closed system: boundary work, polytropic analysis, end states, cycles and
+stored expansion energy."""

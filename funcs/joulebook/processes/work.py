@@ -1,0 +1,139 @@
+"""Boundary work W = ∫P dV of a closed system, positive when the system expands.
+
+Sign convention: work done *by* the system is positive (expansion, dV > 0); work done *on*
+the system is negative (compression).  All values SI: Pa, m³, J.
+
+References
+----------
+The path integrals are the standard closed-form results of ∫P dV for each path (common
+practice); the polytropic form is written with φ(z) = (eᶻ − 1)/z so that it is continuous
+through n = 1 (the isothermal ideal-gas case) with no division blow-up.
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from ..errors import BadInput, OutOfRange, fmt_value
+
+__all__ = [
+    "phi",
+    "isobaric",
+    "isothermal",
+    "polytropic_states",
+    "polytropic_n",
+    "linear",
+    "from_pv",
+]
+
+
+def phi(z: float) -> float:
+    """φ(z) = (eᶻ − 1)/z with φ(0) = 1, accurate for every z (uses expm1)."""
+    if z == 0.0:
+        return 1.0
+    if abs(z) < 1e-300:
+        return 1.0
+    return math.expm1(z) / z
+
+
+def _positive(name: str, value: float) -> None:
+    if not value > 0.0:
+        raise OutOfRange(f"{name} = {fmt_value(value)} must be > 0 (absolute pressure, volume)")
+
+
+def isobaric(P: float, V1: float, V2: float) -> float:
+    """W = P·(V2 − V1); exactly 0 for a rigid (constant-volume) system."""
+    return P * (V2 - V1)
+
+
+def isothermal(P1: float, V1: float, V2: float) -> float:
+    """Ideal gas at constant T: W = P1·V1·ln(V2/V1)."""
+    _positive("P_1", P1)
+    _positive("V_1", V1)
+    _positive("V_2", V2)
+    return P1 * V1 * math.log(V2 / V1)
+
+
+def polytropic_n(P1: float, V1: float, V2: float, n: float) -> float:
+    """Path P·Vⁿ = C through (P1, V1) to V2.
+
+    W = (P2·V2 − P1·V1)/(1 − n) = P1·V1·ln(r)·φ((1 − n)·ln r), r = V2/V1; at n = 1 this is
+    P1·V1·ln r, the isothermal result.
+    """
+    _positive("P_1", P1)
+    _positive("V_1", V1)
+    _positive("V_2", V2)
+    if not math.isfinite(n):
+        raise BadInput(f"n = {n} is not a finite number")
+    lnr = math.log(V2 / V1)
+    return P1 * V1 * lnr * phi((1.0 - n) * lnr)
+
+
+def polytropic_states(P1: float, V1: float, P2: float, V2: float) -> float:
+    """Path P·Vⁿ = C through two states; n = ln(P2/P1)/ln(V1/V2).
+
+    W = (P2·V2 − P1·V1)/(1 − n), written P1·V1·ln(r)·φ(z) with z = ln(P2·V2/(P1·V1)) so it
+    stays finite and continuous as n → 1.  V1 = V2 gives 0 (rigid).
+    """
+    for name, v in (("P_1", P1), ("V_1", V1), ("P_2", P2), ("V_2", V2)):
+        _positive(name, v)
+    lnr = math.log(V2 / V1)
+    if lnr == 0.0:
+        return 0.0
+    z = math.log((P2 * V2) / (P1 * V1))
+    return P1 * V1 * lnr * phi(z)
+
+
+def linear(P1: float, V1: float, P2: float, V2: float) -> float:
+    """Pressure linear in volume (spring-loaded piston): W = (P1 + P2)/2·(V2 − V1)."""
+    return 0.5 * (P1 + P2) * (V2 - V1)
+
+
+def _clean_pairs(P: np.ndarray, V: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    P = np.asarray(P, dtype=float)
+    V = np.asarray(V, dtype=float)
+    if P.size != V.size:
+        raise BadInput(f"P_values has {P.size} cells but V_values has {V.size}; give equal lengths")
+    P, V = P.reshape(-1), V.reshape(-1)
+    blankP, blankV = np.isnan(P), np.isnan(V)
+    half = np.flatnonzero(blankP ^ blankV)
+    if half.size:
+        i = int(half[0])
+        which = "P_values" if blankP[i] else "V_values"
+        raise BadInput(f"point {i + 1}: {which} is blank but its partner is not")
+    keep = ~(blankP | blankV)
+    P, V = P[keep], V[keep]
+    if P.size < 2:
+        raise BadInput(f"need at least 2 points of P and V (got {P.size} after blanks)")
+    return P, V
+
+
+def from_pv(P, V, method: str = "trapezoid") -> float:
+    """Work from measured P–V points: Σ over segments of ∫P dV.
+
+    Parameters
+    ----------
+    P, V : array_like
+        Absolute pressures (Pa) and volumes (m³) in path order; NaN = blank (both blank:
+        skipped).  A closed loop (last point equal to the first) gives the net cycle work,
+        positive when the loop runs clockwise in the P–V plane (an engine).
+    method : {"trapezoid", "polytropic"}
+        ``trapezoid``: each segment straight in P–V (exact for piecewise-linear data; for a
+        closed loop this is the enclosed polygon area with its sign).  ``polytropic``: each
+        segment P·Vⁿ = C through its end points (exact for polytropic data; needs P > 0 and
+        V > 0).
+    """
+    P, V = _clean_pairs(P, V)
+    m = (method or "trapezoid").strip().lower()
+    if m in ("trapezoid", "trapezoidal", "linear"):
+        return float(np.sum(0.5 * (P[1:] + P[:-1]) * np.diff(V)))
+    if m in ("polytropic", "polytropic segments", "power"):
+        if (P <= 0).any() or (V <= 0).any():
+            i = int(np.flatnonzero((P <= 0) | (V <= 0))[0])
+            raise OutOfRange(f"point {i + 1}: polytropic segments need P > 0 and V > 0")
+        return float(
+            sum(polytropic_states(P[i], V[i], P[i + 1], V[i + 1]) for i in range(P.size - 1))
+        )
+    raise BadInput(f"method {method!r}: use trapezoid or polytropic")
