@@ -291,3 +291,36 @@ def test_every_fluid_has_a_valid_state(call):
         P = 0.3 * info.P_crit
         h = call("JB_PROP", n, "h in J/kg", "T in K", T, "P in Pa", P)
         assert h == h  # finite (call never returns NaN)
+
+
+def test_a_failed_flash_never_leaves_a_stale_state(call):
+    # Found by fuzzing: after some failed updates the library's state object returns stale
+    # values on later updates without raising.  joulebook discards a state on any failure.
+    import CoolProp.CoolProp as CP
+
+    fresh = CP.AbstractState("HEOS", "Water")
+    for T, P in ((1500.0, 5e7), (293.15, 1e5), (600.0, 1e6)):
+        with pytest.raises(OutOfRange):
+            call("JB_PROP", "water", "h", "v in m3/kg", 627.9693800927928, "x", 0.2180908190439687)
+        fresh.update(CP.PT_INPUTS, P, T)
+        assert call("JB_PROP", "water", "h in J/kg", "T in K", T, "P in Pa", P) == pytest.approx(
+            fresh.hmass(), rel=1e-12
+        )
+
+
+def test_a_two_phase_flash_does_not_leak_its_phase_into_the_next(call):
+    # Found by fuzzing: the library's density–quality flash leaves the two-phase region
+    # imposed on its state object, and a following T–P flash silently reused it.
+    import CoolProp.CoolProp as CP
+
+    call("JB_PROP", "water", "h", "v in m3/kg", 1.4991855656200204, "x", 0.8614964697652618)
+    fresh = CP.AbstractState("HEOS", "Water")
+    fresh.update(CP.PT_INPUTS, 11451175.197570255, 909.2185671796564)
+    h = call(
+        "JB_PROP", "water", "h in J/kg", "T in K", 909.2185671796564, "P in Pa", 11451175.197570255
+    )
+    assert h == pytest.approx(fresh.hmass(), rel=1e-12)
+    assert (
+        call("JB_PHASE", "water", "T in K", 909.2185671796564, "P in Pa", 11451175.197570255)
+        == "gas above the critical temperature"
+    )

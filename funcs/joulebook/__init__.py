@@ -15,8 +15,11 @@ def call(name: str, *args):
     """Evaluate worksheet function *name* with cell values *args*, as a cell would.
 
     Raises one of :mod:`joulebook.errors`' types on bad input; see
-    :func:`joulebook.catalog.call`.
+    :func:`joulebook.catalog.call`.  (The catalog is imported on first use, after which this
+    name is rebound to the catalog's own function.)
     """
+    global call
     from .catalog import call as _call
 
+    call = _call
     return _call(name, *args)

@@ -1057,6 +1057,13 @@ def _range(arg: Arg, v) -> np.ndarray:
 # the call path
 
 
+# per entry, worked out once: (func, ((type, quantity, optional, default), …), n_all)
+_FAST = {
+    f.name: (f, tuple((a.type, a.quantity, a.optional, a.default) for a in f.args), len(f.all_args))
+    for f in CATALOG
+}
+
+
 def call(name: str, *values):
     """Evaluate worksheet function *name* with cell values, as a cell would.
 
@@ -1069,7 +1076,32 @@ def call(name: str, *values):
     BadInput, OutOfRange, NoConvergence
         For a scalar call, any failure; for an array call, failures of the call as a whole.
     """
-    f = _INDEX.get(name) or lookup(name)
+    entry = _FAST.get(name)
+    if entry is None:
+        entry = _FAST[lookup(name).name]
+    f, specs, nall = entry
+    nv = len(values)
+    if nv > nall or (f.units and nv == nall):
+        return _call(f, values)
+    # the common case: plain numbers and text, no unit-system argument
+    system = _DEFAULT
+    si = []
+    for i, (typ, qty, opt, default) in enumerate(specs):
+        v = values[i] if i < nv else None
+        t = type(v)
+        if (t is float or t is int or t is _F64) and typ == "number" and v - v == 0:
+            si.append(float(v) if qty is None else system.conv(qty).to_si(float(v)))
+        elif t is str and typ == "text" and v and v[0] != "#":
+            si.append(v)
+        elif v is None and opt:
+            si.append(default)
+        else:
+            return _call(f, values)
+    return _run(f, si, system)
+
+
+def _call(f: Func, values):
+    """The general cell-call path: unit systems, ranges, conversions and their errors."""
     nall = len(f.all_args)
     if len(values) > nall:
         raise BadInput(
@@ -1120,6 +1152,8 @@ def call(name: str, *values):
 
 
 _ARRAY_TYPES = (list, tuple, np.ndarray)
+_DEFAULT = unit_system(None)
+_F64 = np.float64
 
 
 def _evaluate(f: Func, fargs, prepared, system):
@@ -1133,6 +1167,10 @@ def _evaluate(f: Func, fargs, prepared, system):
             si_args.append(x)
         else:
             si_args.append(system.conv(arg.quantity).to_si(x))
+    return _run(f, si_args, system)
+
+
+def _run(f: Func, si_args, system):
     try:
         result = _impl(f.impl)(*si_args, system=system)
     except JoulebookError:

@@ -11,6 +11,9 @@ from . import __version__
 def _functions(ns: argparse.Namespace) -> int:
     from .catalog import CATALOG, FAMILIES
 
+    if ns.family and ns.family not in FAMILIES:
+        print(f"unknown family {ns.family!r}; use one of: {', '.join(FAMILIES)}")
+        return 2
     fam = None
     for f in CATALOG:
         if ns.family and f.family != ns.family:
@@ -69,7 +72,10 @@ def build_parser() -> argparse.ArgumentParser:
     f = sub.add_parser(
         "functions", help="list the worksheet functions", description="List the catalog."
     )
-    f.add_argument("--family", choices=["state", "gas", "solid", "util"], help="only this family")
+    f.add_argument(
+        "--family",
+        help="only this family (state, gas, solid, work, poly, balance, process, cycle, stored, util)",
+    )
     f.add_argument("-v", "--verbose", action="store_true", help="show each function's help line")
     f.set_defaults(run=_functions)
 

@@ -46,8 +46,8 @@ def functions_markdown() -> str:
         "",
         f"Numbers without a written unit use the unit system in force: the optional last argument "
         f"`units` (default `{DEFAULT_SYSTEM}`). Every scalar argument also accepts a range; the "
-        "result then spills, one value per cell. Sign conventions are in docs/sign-convention.md "
-        "once the process functions land.",
+        "result then spills, one value per cell. Signs follow docs/sign-convention.md: heat into "
+        "the system is positive, work done by the system is positive.",
         "",
         CAUTION,
         "",
@@ -77,6 +77,11 @@ def functions_markdown() -> str:
             ]
             if f.notes:
                 out.append(f"- **Note:** {f.notes}")
+            if f.caution:
+                out.append(
+                    "- **Caution:** an engineering estimate; pressure equipment, trapped liquid and "
+                    "stored energy are governed by the applicable codes and a competent, licensed engineer."
+                )
             out.append("")
     out += _materials_section()
     return "\n".join(out).rstrip() + "\n"

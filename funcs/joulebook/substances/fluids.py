@@ -247,14 +247,60 @@ _local = threading.local()
 
 
 def _state(internal: str, slot: int = 0):
-    cache = getattr(_local, "states", None)
-    if cache is None:
-        cache = _local.states = {}
-    key = (internal, slot)
-    st = cache.get(key)
-    if st is None:
-        st = cache[key] = _coolprop().AbstractState("HEOS", internal)
+    try:
+        return _local.states[(internal, slot)]
+    except (AttributeError, KeyError):
+        cache = getattr(_local, "states", None)
+        if cache is None:
+            cache = _local.states = {}
+        st = cache[(internal, slot)] = _coolprop().AbstractState("HEOS", internal)
+        return st
+
+
+def _fresh_state(internal: str, slot: int = 0):
+    """Replace the cached state of (fluid, slot) in this thread by a new one."""
+    st = _local.states[(internal, slot)] = _coolprop().AbstractState("HEOS", internal)
     return st
+
+
+def _up(internal: str, slot: int, key: int, x: float, y: float):
+    """Update the cached state (fluid, slot) and return it.
+
+    A failed update can leave the library's state object unusable: later updates on it
+    may return stale values without raising.  So on any failure the object is discarded
+    and replaced before the error goes on.
+    """
+    st = _state(internal, slot)
+    try:
+        # some of the library's flashes (density–quality) leave a phase imposed on the
+        # object, and a later update then silently reuses it: lift it before every update
+        st.unspecify_phase()
+        st.update(key, x, y)
+    except ValueError:
+        _fresh_state(internal, slot)
+        raise
+    return st
+
+
+class _Scratch:
+    """A private state object for a search; replaced whenever an update fails (see _up)."""
+
+    def __init__(self, internal: str):
+        self.internal = internal
+        self.s = _coolprop().AbstractState("HEOS", internal)
+
+    def upd(self, key: int, x: float, y: float):
+        try:
+            self.s.unspecify_phase()
+            self.s.update(key, x, y)
+        except ValueError:
+            self.s = _coolprop().AbstractState("HEOS", self.internal)
+            raise
+        return self.s
+
+
+def _scratch(internal: str) -> _Scratch:
+    return _Scratch(internal)
 
 
 # ---------------------------------------------------------------------------------------
@@ -365,17 +411,49 @@ def _check_result(info: FluidInfo, st, shows) -> None:
 
 @cache
 def _plan(a: str, b: str):
-    """How to flash the pair (a, b): ("direct", key, a_first) or ("solved", fixed, other)."""
+    """How to flash the pair (a, b).
+
+    ("direct", key, a_first, getter_a, abs_a, getter_b, abs_b, needs_range_check) or
+    ("solved", fixed, other, …) or ("same"/"bad", …).
+    """
     if a == b:
-        return ("same", None, None)
+        return ("same", None, None, None, 0, None, 0, True)
     pair = frozenset((a, b))
     if pair in _DIRECT:
         name = _DIRECT[pair]
-        return ("direct", getattr(_coolprop(), name), _ORDER[name][0] == a)
+        return (
+            "direct",
+            getattr(_coolprop(), name),
+            _ORDER[name][0] == a,
+            _GET[a],
+            _ABS[a],
+            _GET[b],
+            _ABS[b],
+            pair != {"T", "P"},
+        )
     if pair in _SOLVED:
         fixed = "T" if "T" in pair else "x" if "x" in pair else "s"
-        return ("solved", fixed, next(iter(pair - {fixed})))
-    return ("bad", None, None)
+        return ("solved", fixed, next(iter(pair - {fixed})), None, 0, None, 0, True)
+    return ("bad", None, None, None, 0, None, 0, True)
+
+
+_LIMITS: dict[str, dict[str, tuple[float, float]]] = {}
+
+
+def _limits(info: FluidInfo) -> dict[str, tuple[float, float]]:
+    lim = _LIMITS.get(info.internal)
+    if lim is None:
+        inf = float("inf")
+        lim = _LIMITS[info.internal] = {
+            "T": (info.T_min, info.T_max),
+            "P": (5e-324, info.P_max),
+            "x": (0.0, 1.0),
+            "rho": (5e-324, inf),
+            "u": (-inf, inf),
+            "h": (-inf, inf),
+            "s": (-inf, inf),
+        }
+    return lim
 
 
 def _flash(info: FluidInfo, a: str, va: float, b: str, vb: float, shows=None):
@@ -384,18 +462,35 @@ def _flash(info: FluidInfo, a: str, va: float, b: str, vb: float, shows=None):
         a, va = "rho", (1.0 / va if va > 0 else -1.0)
     if b == "v":
         b, vb = "rho", (1.0 / vb if vb > 0 else -1.0)
-    mode, key, first = _plan(a, b)
+    mode, key, first, ga, ta, gb, tb, check_result = _plan(a, b)
     if mode == "same":
         raise BadInput(f"{info.name}: the two state properties must differ (both are {a})")
-    _check_basic(info, a, va, shows)
-    _check_basic(info, b, vb, shows)
-    st = _state(info.internal)
+    lim = _limits(info)
+    lo, hi = lim[a]
+    lo2, hi2 = lim[b]
+    if not (lo <= va <= hi and lo2 <= vb <= hi2 and va - va == 0.0 and vb - vb == 0.0):
+        _check_basic(info, a, va, shows)  # raises the readable message
+        _check_basic(info, b, vb, shows)
     if mode == "direct":
+        x, y = (va, vb) if first else (vb, va)
+        internal = info.internal
         try:
-            if first:
-                st.update(key, va, vb)
-            else:
-                st.update(key, vb, va)
+            try:
+                st = _up(internal, 0, key, x, y)
+                # the flash must reproduce its inputs (guards against a stale library state)
+                if not (
+                    abs(getattr(st, ga)() - va) <= 1e-5 * abs(va) + ta
+                    and abs(getattr(st, gb)() - vb) <= 1e-5 * abs(vb) + tb
+                ):
+                    raise ValueError("stale state")
+            except ValueError:
+                # retried once on a fresh state: the library's flash can depend on what the
+                # cached object held before, and may even leave stale values without raising
+                _fresh_state(internal, 0)
+                st = _up(internal, 0, key, x, y)
+                if not (_matches(st, a, va) and _matches(st, b, vb)):
+                    _fresh_state(internal, 0)
+                    raise ValueError("inconsistent state") from None
         except ValueError:
             if {a, b} == {"T", "P"}:
                 T, P = (va, vb) if a == "T" else (vb, va)
@@ -404,14 +499,17 @@ def _flash(info: FluidInfo, a: str, va: float, b: str, vb: float, shows=None):
                 f"{info.name}: no state for {_show(a, va, shows)}, {_show(b, vb, shows)} "
                 "within the equation of state"
             ) from None
+        if check_result:
+            _check_result(info, st, shows)
+        return st
     elif mode == "solved":
         vals = {a: va, b: vb}
         if key == "T":
-            _solve_T_y(info, st, vals["T"], first, vals[first], shows)
+            st = _solve_T_y(info, vals["T"], first, vals[first], shows)
         elif key == "x":
-            _solve_x_y(info, st, vals["x"], first, vals[first], shows)
+            st = _solve_x_y(info, vals["x"], first, vals[first], shows)
         else:
-            _solve_rho_y(info, st, key, vals[key], first, vals[first], shows)
+            st = _solve_rho_y(info, key, vals[key], first, vals[first], shows)
     elif {a, b} == {"h", "u"}:
         raise BadInput(
             f"{info.name}: h and u do not fix a state (for a gas both depend on T alone); "
@@ -423,6 +521,16 @@ def _flash(info: FluidInfo, a: str, va: float, b: str, vb: float, shows=None):
         )
     _check_result(info, st, shows)
     return st
+
+
+_GET = {"T": "T", "P": "p", "rho": "rhomass", "u": "umass", "h": "hmass", "s": "smass", "x": "Q"}
+_ABS = {"T": 1e-9, "P": 1e-6, "rho": 1e-12, "u": 1e-3, "h": 1e-3, "s": 1e-6, "x": 1e-9}
+
+
+def _matches(st, sym: str, value: float) -> bool:
+    """Does the flashed state reproduce the input *sym* = *value*?"""
+    got = getattr(st, _GET[sym])()
+    return abs(got - value) <= 1e-5 * abs(value) + _ABS[sym]
 
 
 def _check_not_saturated(info: FluidInfo, T: float, P: float, shows) -> None:
@@ -438,28 +546,25 @@ def _check_not_saturated(info: FluidInfo, T: float, P: float, shows) -> None:
 
 @lru_cache(maxsize=65536)
 def _psat(info: FluidInfo, T: float) -> float:
-    s = _state(info.internal, 1)
-    s.update(_coolprop().QT_INPUTS, 0.0, T)
-    return s.p()
+    return _up(info.internal, 1, _coolprop().QT_INPUTS, 0.0, T).p()
 
 
 @lru_cache(maxsize=65536)
 def _tsat(info: FluidInfo, P: float) -> float:
-    s = _state(info.internal, 1)
-    s.update(_coolprop().PQ_INPUTS, P, 0.0)
-    return s.T()
+    return _up(info.internal, 1, _coolprop().PQ_INPUTS, P, 0.0).T()
 
 
-def _solve_T_y(info: FluidInfo, st, T: float, y_sym: str, y: float, shows) -> None:
+def _solve_T_y(info: FluidInfo, T: float, y_sym: str, y: float, shows):
     """State at temperature T with u, h or s given: search on density."""
     CP = _coolprop()
-    read = getattr(st, _READ[y_sym])
+    sc = _scratch(info.internal)
+    name = _READ[y_sym]
     two_phase_x = None
     if info.pure and info.T_triple <= T < info.T_crit:
-        st.update(CP.QT_INPUTS, 0.0, T)
-        yf, rf = read(), st.rhomass()
-        st.update(CP.QT_INPUTS, 1.0, T)
-        yg, rg = read(), st.rhomass()
+        st = sc.upd(CP.QT_INPUTS, 0.0, T)
+        yf, rf = getattr(st, name)(), st.rhomass()
+        st = sc.upd(CP.QT_INPUTS, 1.0, T)
+        yg, rg = getattr(st, name)(), st.rhomass()
         if min(yf, yg) <= y <= max(yf, yg):
             two_phase_x = (y - yf) / (yg - yf)
         branches = [(rf, None), (None, rg)]
@@ -468,16 +573,16 @@ def _solve_T_y(info: FluidInfo, st, T: float, y_sym: str, y: float, shows) -> No
     rho_lo = max(1e-3 * info.P_triple / (info.R * T), 1e-12) if info.P_triple > 0 else 1e-10
     rho_lo = max(rho_lo, 1e-10)
     try:
-        st.update(CP.PT_INPUTS, info.P_max, T)
+        st = sc.upd(CP.PT_INPUTS, info.P_max, T)
         rho_hi = st.rhomass()
     except ValueError:
         rho_hi = info.rho_crit * 3.5
 
     def f(lnr: float) -> float:
-        st.update(CP.DmassT_INPUTS, math.exp(lnr), T)
+        st = sc.upd(CP.DmassT_INPUTS, math.exp(lnr), T)
         if st.p() > info.P_max * 1.0000001 or st.p() <= 0:
             return float("nan")
-        return read() - y
+        return getattr(st, name)() - y
 
     roots: list[float] = []
     for lo, hi in branches:
@@ -505,26 +610,26 @@ def _solve_T_y(info: FluidInfo, st, T: float, y_sym: str, y: float, shows) -> No
             "one state; give P or v instead"
         )
     if two_phase_x is not None:
-        st.update(CP.QT_INPUTS, two_phase_x, T)
-        return
-    st.update(CP.DmassT_INPUTS, math.exp(distinct[0]), T)
+        return _up(info.internal, 0, CP.QT_INPUTS, two_phase_x, T)
+    return _up(info.internal, 0, CP.DmassT_INPUTS, math.exp(distinct[0]), T)
 
 
-def _solve_rho_y(info: FluidInfo, st, fixed: str, fval: float, y_sym: str, y: float, shows) -> None:
+def _solve_rho_y(info: FluidInfo, fixed: str, fval: float, y_sym: str, y: float, shows):
     """State with s or h fixed and u given: search on density along the fixed-s (or h) line."""
     CP = _coolprop()
+    sc = _scratch(info.internal)
     key = CP.DmassSmass_INPUTS if fixed == "s" else CP.DmassHmass_INPUTS
-    read = getattr(st, _READ[y_sym])
+    name = _READ[y_sym]
 
     def f(lnr: float) -> float:
-        st.update(key, math.exp(lnr), fval)
+        st = sc.upd(key, math.exp(lnr), fval)
         T, P = st.T(), st.p()
         if not (info.T_min <= T <= info.T_max and 0.0 < P <= info.P_max):
             return float("nan")
-        return read() - y
+        return getattr(st, name)() - y
 
     try:
-        st.update(CP.PT_INPUTS, info.P_max, max(info.T_min, info.T_triple) * 1.001)
+        st = sc.upd(CP.PT_INPUTS, info.P_max, max(info.T_min, info.T_triple) * 1.001)
         rho_hi = st.rhomass()
     except ValueError:
         rho_hi = info.rho_crit * 3.5
@@ -540,19 +645,20 @@ def _solve_rho_y(info: FluidInfo, st, fixed: str, fval: float, y_sym: str, y: fl
             f"{info.name}: {_show(fixed, fval, shows)} and {_show(y_sym, y, shows)} fit more "
             "than one state; give T, P or v instead"
         )
-    st.update(key, math.exp(roots[0]), fval)
+    return _up(info.internal, 0, key, math.exp(roots[0]), fval)
 
 
-def _solve_x_y(info: FluidInfo, st, x: float, y_sym: str, y: float, shows) -> None:
+def _solve_x_y(info: FluidInfo, x: float, y_sym: str, y: float, shows):
     """Saturated state with quality x and u, h or s given: search on temperature."""
     CP = _coolprop()
+    sc = _scratch(info.internal)
     if not info.pure:
         raise BadInput(f"{info.name} is a pseudo-pure mixture: give x with T or P")
-    read = getattr(st, _READ[y_sym])
+    name = _READ[y_sym]
 
     def f(T: float) -> float:
-        st.update(CP.QT_INPUTS, x, T)
-        return read() - y
+        st = sc.upd(CP.QT_INPUTS, x, T)
+        return getattr(st, name)() - y
 
     top = info.T_crit * (1 - 1e-6)
     grid = np.linspace(info.T_triple, top, 120)
@@ -566,7 +672,7 @@ def _solve_x_y(info: FluidInfo, st, x: float, y_sym: str, y: float, shows) -> No
             f"{info.name}: x = {fmt_value(x)} and {_show(y_sym, y, shows)} fit "
             f"{len(roots)} saturated states; give T or P instead"
         )
-    st.update(CP.QT_INPUTS, x, roots[0])
+    return _up(info.internal, 0, CP.QT_INPUTS, x, roots[0])
 
 
 # ---------------------------------------------------------------------------------------
@@ -750,14 +856,13 @@ def saturation(fluid: str, by: str, value: float, want: str, shows=None) -> floa
             f"unknown saturation output {want!r}; use Tsat Psat vf vg uf ug hf hg sf sg hfg"
         )
     prop, side = m.groups()
-    st = _state(info.internal, 2)
     CP = _coolprop()
 
     def at(q: float) -> float:
         if by == "T":
-            st.update(CP.QT_INPUTS, q, value)
+            st = _up(info.internal, 2, CP.QT_INPUTS, q, value)
         else:
-            st.update(CP.PQ_INPUTS, value, q)
+            st = _up(info.internal, 2, CP.PQ_INPUTS, value, q)
         return 1.0 / st.rhomass() if prop == "v" else getattr(st, _READ[prop])()
 
     if side == "f":

@@ -155,10 +155,9 @@ def _check_T(g: GasModel, T: float, arg: str = "T") -> None:
 @lru_cache(maxsize=65536)
 def _ig(internal: str, T: float) -> tuple[float, float, float]:
     """(c_p⁰, h⁰, s⁰ at 101.325 kPa) of the equation of state's ideal-gas part, SI."""
-    st = fluids._state(internal, 3)
-    M = st.molar_mass()
+    M = fluids._state(internal, 3).molar_mass()
     rho = _P_REF * M / (R_UNIVERSAL * T)
-    st.update(fluids._coolprop().DmassT_INPUTS, rho, T)
+    st = fluids._up(internal, 3, fluids._coolprop().DmassT_INPUTS, rho, T)
     return st.cp0mass(), st.hmass_idealgas(), st.smass_idealgas()
 
 
