@@ -18,8 +18,7 @@ def call(name: str, *args):
     :func:`joulebook.catalog.call`.  (The catalog is imported on first use, after which this
     name is rebound to the catalog's own function.)
     """
-    global call
     from .catalog import call as _call
 
-    call = _call
+    globals()["call"] = _call
     return _call(name, *args)
