@@ -60,6 +60,16 @@ def _docs(ns: argparse.Namespace) -> int:
     return 0
 
 
+def _sheet(ns: argparse.Namespace) -> int:
+    from pathlib import Path
+
+    from .sheet.generate import write
+
+    for p in write(Path(ns.root)):
+        print(f"wrote {p}")
+    return 0
+
+
 def build_parser() -> argparse.ArgumentParser:
     p = argparse.ArgumentParser(
         prog="joulebook",
@@ -96,6 +106,14 @@ def build_parser() -> argparse.ArgumentParser:
     )
     d.add_argument("--root", default=".", help="project root (default: current folder)")
     d.set_defaults(run=_docs)
+
+    sh = sub.add_parser(
+        "sheet",
+        help="regenerate the xlwings UDF module and the VBA .bas from the catalog",
+        description="Write funcs/joulebook/sheet/udfs.py and workbooks/joulebook_udfs.bas under ROOT.",
+    )
+    sh.add_argument("--root", default=".", help="project root (default: current folder)")
+    sh.set_defaults(run=_sheet)
     return p
 
 
