@@ -99,21 +99,17 @@ def build_parser() -> argparse.ArgumentParser:
     e.add_argument("args", nargs="*", help="cell values in order")
     e.set_defaults(run=_eval)
 
-    d = sub.add_parser(
-        "docs",
-        help="regenerate docs/functions.md from the catalog",
-        description="Write the generated documents under ROOT (default: .).",
-    )
-    d.add_argument("--root", default=".", help="project root (default: current folder)")
-    d.set_defaults(run=_docs)
-
-    sh = sub.add_parser(
-        "sheet",
-        help="regenerate the xlwings UDF module and the VBA .bas from the catalog",
-        description="Write funcs/joulebook/sheet/udfs.py and workbooks/joulebook_udfs.bas under ROOT.",
-    )
-    sh.add_argument("--root", default=".", help="project root (default: current folder)")
-    sh.set_defaults(run=_sheet)
+    for verb, what, run in (
+        ("docs", "docs/functions.md", _docs),
+        ("sheet", "the xlwings UDF module and workbooks/joulebook_udfs.bas", _sheet),
+    ):
+        g = sub.add_parser(
+            verb,
+            help=f"regenerate {what} from the catalog",
+            description=f"Write {what} under ROOT (default: current folder).",
+        )
+        g.add_argument("--root", default=".", help="project root (default: current folder)")
+        g.set_defaults(run=run)
     return p
 
 

@@ -288,6 +288,11 @@ def about(topic, *, system):
 # boundary work, polytropic analysis, first law
 
 
+def _positive_mass(m: float) -> None:
+    if not m > 0:
+        raise BadInput(f"m = {m} kg: mass must be > 0")
+
+
 def work_isobaric(P, V_1, V_2, *, system):
     return work.isobaric(P, V_1, V_2)
 
@@ -297,8 +302,7 @@ def work_isothermal(P_1, V_1, V_2, *, system):
 
 
 def work_isothermal_mass(gas, m, T, V_1, V_2, *, system):
-    if not m > 0:
-        raise BadInput(f"m = {m} kg: mass must be > 0")
+    _positive_mass(m)
     if not T > 0:
         raise OutOfRange(f"T = {T} K must be > 0 (absolute)")
     if not (V_1 > 0 and V_2 > 0):
@@ -379,14 +383,12 @@ def balance_delta_pe(m, z_1, z_2, g, *, system):
 
 
 def heat_isobaric_gas(gas, m, T_1, T_2, W_other, *, system):
-    if not m > 0:
-        raise BadInput(f"m = {m} kg: mass must be > 0")
+    _positive_mass(m)
     return m * gases.delta_h(_gas(gas, system), T_1, T_2) + (W_other or 0.0)
 
 
 def heat_rigid_gas(gas, m, T_1, T_2, W_other, *, system):
-    if not m > 0:
-        raise BadInput(f"m = {m} kg: mass must be > 0")
+    _positive_mass(m)
     return m * gases.delta_u(_gas(gas, system), T_1, T_2) + (W_other or 0.0)
 
 
