@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import argparse
 import sys
+from pathlib import Path
 
 from . import __version__
 
@@ -70,6 +71,85 @@ def _sheet(ns: argparse.Namespace) -> int:
     return 0
 
 
+def _progress(done: int, total: int) -> None:
+    if total >= 2000 and sys.stderr.isatty():
+        width = 30
+        filled = int(width * done / total)
+        sys.stderr.write(f"\r[{'#' * filled}{'.' * (width - filled)}] {done}/{total} cells")
+        if done == total:
+            sys.stderr.write("\n")
+        sys.stderr.flush()
+
+
+def _load(path: str):
+    from .errors import JoulebookError
+    from .workbook.engine import Engine
+    from .workbook.reader import read_book
+
+    try:
+        book = read_book(path)
+    except (JoulebookError, OSError) as e:
+        msg = (
+            e.cell_text() if isinstance(e, JoulebookError) else f"cannot read {path}: {e.strerror}"
+        )
+        print(msg, file=sys.stderr)
+        return None, None
+    return book, Engine(book, progress=_progress).run()
+
+
+def _recalc(ns: argparse.Namespace) -> int:
+    from .errors import JoulebookError
+    from .workbook.check import compare, summary
+    from .workbook.writer import write_copy
+
+    book, outcomes = _load(ns.book)
+    if book is None:
+        return 2
+    try:
+        write_copy(book, outcomes, ns.output, force=ns.force)
+    except JoulebookError as e:
+        print(e.cell_text(), file=sys.stderr)
+        return 2
+    s = summary(compare(book, outcomes))
+    kept = sum(s.get(k, 0) for k in ("unsupported", "circular", "error"))
+    print(
+        f"wrote {ns.output}: {s['cells'] - kept} formula cells recalculated"
+        + (
+            f", {kept} left as saved (unsupported or circular; see `joulebook check`)"
+            if kept
+            else ""
+        )
+        + (f", {s['errors_in_values']} hold error values" if s["errors_in_values"] else "")
+    )
+    return 0
+
+
+def _check(ns: argparse.Namespace) -> int:
+    from .workbook.check import compare, fmt, summary, to_json, to_junit
+
+    book, outcomes = _load(ns.book)
+    if book is None:
+        return 2
+    rows = compare(book, outcomes, rtol=ns.rtol, atol=ns.atol)
+    bad = [r for r in rows if r.status != "pass"]
+    if bad:
+        print(f"{'cell':<24} {'status':<16} {'saved':>18} {'recomputed':>18}  formula")
+        for r in bad[: ns.max_rows]:
+            print(
+                f"{r.sheet + '!' + r.cell:<24} {r.status:<16} {fmt(r.cached)[:18]:>18} "
+                f"{fmt(r.recomputed)[:18]:>18}  {r.formula[:60]}"
+            )
+        if len(bad) > ns.max_rows:
+            print(f"… {len(bad) - ns.max_rows} more (see --json)")
+    s = summary(rows)
+    print(", ".join(f"{v} {k}" for k, v in s.items()))
+    if ns.json:
+        Path(ns.json).write_text(to_json(book, rows, ns.rtol, ns.atol), encoding="utf-8")
+    if ns.junit:
+        Path(ns.junit).write_text(to_junit(book, rows), encoding="utf-8")
+    return 1 if bad else 0
+
+
 def build_parser() -> argparse.ArgumentParser:
     p = argparse.ArgumentParser(
         prog="joulebook",
@@ -98,6 +178,33 @@ def build_parser() -> argparse.ArgumentParser:
     e.add_argument("name", help="function name, e.g. JB_PROP")
     e.add_argument("args", nargs="*", help="cell values in order")
     e.set_defaults(run=_eval)
+
+    r = sub.add_parser(
+        "recalc",
+        help="write a copy of a workbook with every formula's saved value recalculated",
+        description="Recalculate BOOK headless and write OUT: the same package with fresh "
+        "cached values (formulas, styles, VBA untouched). BOOK is never written.",
+    )
+    r.add_argument("book", help="the .xlsx/.xlsm to recalculate")
+    r.add_argument("-o", "--output", required=True, help="where to write the recalculated copy")
+    r.add_argument("--force", action="store_true", help="replace OUTPUT if it exists")
+    r.set_defaults(run=_recalc)
+
+    c = sub.add_parser(
+        "check",
+        help="recompute a workbook and compare with the values Excel saved",
+        description="Exit 0 when every formula cell holds, 1 on differences or cells that "
+        "could not be checked, 2 when the workbook cannot be used.",
+    )
+    c.add_argument("book", help="the .xlsx/.xlsm to check")
+    c.add_argument("--rtol", type=float, default=1e-9, help="relative tolerance (default 1e-9)")
+    c.add_argument("--atol", type=float, default=1e-12, help="absolute tolerance (default 1e-12)")
+    c.add_argument("--json", help="write a JSON report here")
+    c.add_argument("--junit", help="write a JUnit XML report here (for CI)")
+    c.add_argument(
+        "--max-rows", type=int, default=50, help="rows of the table printed (default 50)"
+    )
+    c.set_defaults(run=_check)
 
     for verb, what, run in (
         ("docs", "docs/functions.md", _docs),

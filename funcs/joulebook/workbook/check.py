@@ -1,0 +1,137 @@
+"""Compare recomputed values with the values Excel saved, and report for people and CI."""
+
+from __future__ import annotations
+
+import json
+import math
+from dataclasses import asdict, dataclass
+from xml.sax.saxutils import escape, quoteattr
+
+from .engine import Outcome
+from .reader import Book, col_letters
+
+__all__ = ["Row", "compare", "summary", "to_json", "to_junit", "fmt"]
+
+
+@dataclass
+class Row:
+    sheet: str
+    cell: str
+    formula: str
+    cached: object
+    recomputed: object
+    status: str  # "pass", "differs", "no cached value", "error", "unsupported", "circular"
+    note: str = ""
+
+
+def fmt(v) -> str:
+    if isinstance(v, tuple) and len(v) == 2 and v[0] == "error":
+        return v[1]
+    if isinstance(v, float):
+        return f"{v:.10g}"
+    return "" if v is None else str(v)
+
+
+def _same(a, b, rtol: float, atol: float) -> bool:
+    if isinstance(a, bool) or isinstance(b, bool):
+        return a == b
+    if isinstance(a, float) and isinstance(b, float):
+        return abs(a - b) <= atol + rtol * abs(b) or (math.isnan(a) and math.isnan(b))
+    return a == b
+
+
+def _is_our_error_text(v) -> bool:
+    return isinstance(v, str) and v.split(":", 1)[0] in (
+        "BadInput",
+        "OutOfRange",
+        "NoConvergence",
+        "InternalError",
+    )
+
+
+def compare(book: Book, outcomes: dict, rtol: float = 1e-9, atol: float = 1e-12) -> list[Row]:
+    """One row per recomputed cell, in sheet and row order."""
+    order = {s: i for i, s in enumerate(book.sheets)}
+    rows = []
+    for key in sorted(outcomes, key=lambda k: (order.get(k[0], 0), k[1], k[2])):
+        o: Outcome = outcomes[key]
+        cell = book.cells.get(key)
+        formula = cell.raw_formula if cell and cell.raw_formula else ""
+        cached = cell.cached if cell and cell.has_cached else None
+        has = bool(cell and cell.has_cached)
+        if o.problem.startswith("unsupported"):
+            status, note = "unsupported", o.problem
+        elif o.problem.startswith("circular"):
+            status, note = "circular", o.problem
+        elif o.problem:
+            status, note = "error", o.problem
+        elif not has:
+            status, note = "no cached value", "the file holds no saved value for this cell"
+        elif _same(o.value, cached, rtol, atol):
+            status, note = "pass", ""
+        else:
+            status, note = "differs", ""
+        if status == "pass" and (_is_our_error_text(o.value) or (isinstance(o.value, tuple))):
+            note = "the cell holds an error (Excel saved the same)"
+        rows.append(
+            Row(key[0], f"{col_letters(key[2])}{key[1]}", formula, cached, o.value, status, note)
+        )
+    return rows
+
+
+def summary(rows: list[Row]) -> dict:
+    out = {"cells": len(rows)}
+    for r in rows:
+        out[r.status] = out.get(r.status, 0) + 1
+    out["errors_in_values"] = sum(
+        1
+        for r in rows
+        if r.status not in ("unsupported", "circular", "error")
+        and (_is_our_error_text(r.recomputed) or isinstance(r.recomputed, tuple))
+    )
+    return out
+
+
+def to_json(book: Book, rows: list[Row], rtol: float, atol: float) -> str:
+    def enc(v):
+        if isinstance(v, tuple):
+            return {"error": v[1]}
+        return v
+
+    return json.dumps(
+        {
+            "workbook": str(book.path),
+            "sha256": book.sha256,
+            "tolerance": {"rtol": rtol, "atol": atol},
+            "summary": summary(rows),
+            "cells": [
+                {**asdict(r), "cached": enc(r.cached), "recomputed": enc(r.recomputed)}
+                for r in rows
+            ],
+        },
+        indent=2,
+    )
+
+
+def to_junit(book: Book, rows: list[Row]) -> str:
+    """JUnit XML: one test case per cell; differences are failures, problems are errors."""
+    fails = sum(r.status in ("differs", "no cached value") for r in rows)
+    errs = sum(r.status in ("error", "unsupported", "circular") for r in rows)
+    out = [
+        '<?xml version="1.0" encoding="utf-8"?>',
+        f'<testsuite name={quoteattr("joulebook check " + book.path.name)} tests="{len(rows)}" '
+        f'failures="{fails}" errors="{errs}">',
+    ]
+    for r in rows:
+        name = quoteattr(f"{r.sheet}!{r.cell}")
+        body = ""
+        msg = f"cached {fmt(r.cached)}, recomputed {fmt(r.recomputed)}"
+        if r.status in ("differs", "no cached value"):
+            body = (
+                f"<failure message={quoteattr(r.status + ': ' + msg)}>{escape(r.formula)}</failure>"
+            )
+        elif r.status in ("error", "unsupported", "circular"):
+            body = f"<error message={quoteattr(r.note)}>{escape(r.formula)}</error>"
+        out.append(f"  <testcase classname={quoteattr(r.sheet)} name={name}>{body}</testcase>")
+    out.append("</testsuite>")
+    return "\n".join(out) + "\n"

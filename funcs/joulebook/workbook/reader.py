@@ -1,0 +1,325 @@
+"""Safe, streaming reader of .xlsx/.xlsm packages.
+
+Limits are checked on the zip directory before any XML is parsed (member count and sizes,
+compression ratio); XML is parsed with defusedxml (no entities, no DTDs, no network) in one
+streaming pass per part; the ``<dimension>`` tag is never trusted; cell and formula counts are
+bounded while reading.  Nothing in the workbook is executed or fetched.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import posixpath
+import re
+import zipfile
+from dataclasses import dataclass, field
+from pathlib import Path
+
+from defusedxml import ElementTree as SafeET
+
+from ..errors import BadInput
+
+__all__ = [
+    "Limits",
+    "Cell",
+    "Book",
+    "read_book",
+    "split_ref",
+    "col_number",
+    "col_letters",
+    "OUR_CALL",
+]
+
+NS = "{http://schemas.openxmlformats.org/spreadsheetml/2006/main}"
+RNS = "{http://schemas.openxmlformats.org/officeDocument/2006/relationships}"
+PKG_RNS = "{http://schemas.openxmlformats.org/package/2006/relationships}"
+
+#: our functions as saved: plain, add-in linked ``[n]!JB_X(``, or Excel's ``_xludf.`` prefix
+OUR_CALL = re.compile(r"(?:\[\d+\]!|_xludf\.)?(JB_[A-Z][A-Z0-9_]*)\s*\(", re.IGNORECASE)
+
+
+@dataclass(frozen=True)
+class Limits:
+    """Bounds checked before and while reading (all configurable)."""
+
+    max_members: int = 5_000
+    max_member_bytes: int = 300 * 2**20  # uncompressed size of one part
+    max_total_bytes: int = 1 * 2**30
+    max_ratio: float = 200.0  # uncompressed / compressed, for parts over 1 MiB
+    max_cells: int = 3_000_000
+    max_formulas: int = 1_000_000
+    max_text: int = 32_767  # Excel's own cell-text limit
+
+
+@dataclass
+class Cell:
+    sheet: str
+    row: int
+    col: int
+    formula: str | None = None  # without the leading "="; our names normalised
+    array_ref: str | None = None  # anchor of an array / spilled formula: its range
+    cached: object = None  # float, str, bool, ("error", "#N/A") or None
+    has_cached: bool = False
+    raw_formula: str | None = None  # as saved
+
+    @property
+    def ref(self) -> str:
+        return f"{col_letters(self.col)}{self.row}"
+
+
+@dataclass
+class Book:
+    path: Path
+    sha256: str
+    sheets: list[str]
+    sheet_parts: dict[str, str]
+    cells: dict[tuple[str, int, int], Cell] = field(default_factory=dict)
+    names: dict[str, str] = field(default_factory=dict)  # defined names (global) -> reference text
+    full_calc_on_load: bool = False
+    external_links: int = 0
+
+    def formula_cells(self) -> list[Cell]:
+        return [c for c in self.cells.values() if c.formula is not None]
+
+
+def col_number(letters: str) -> int:
+    n = 0
+    for ch in letters.upper():
+        n = n * 26 + (ord(ch) - 64)
+    return n
+
+
+def col_letters(n: int) -> str:
+    if n < 1:
+        raise ValueError(f"column number {n} is off the sheet")
+    s = ""
+    while n:
+        n, r = divmod(n - 1, 26)
+        s = chr(65 + r) + s
+    return s
+
+
+_REF = re.compile(r"^\$?([A-Za-z]{1,3})\$?(\d+)$")
+
+
+def split_ref(ref: str) -> tuple[int, int]:
+    """'B12' -> (12, 2)."""
+    m = _REF.match(ref)
+    if not m:
+        raise BadInput(f"cell reference {ref!r} is not like A1")
+    return int(m.group(2)), col_number(m.group(1))
+
+
+def _check_package(zf: zipfile.ZipFile, limits: Limits) -> None:
+    infos = zf.infolist()
+    if len(infos) > limits.max_members:
+        raise BadInput(f"workbook has {len(infos)} parts; the limit is {limits.max_members}")
+    total = 0
+    for i in infos:
+        if i.file_size > limits.max_member_bytes:
+            raise BadInput(
+                f"part {i.filename[:60]!r} unpacks to {i.file_size // 2**20} MiB; "
+                f"the limit is {limits.max_member_bytes // 2**20} MiB"
+            )
+        if i.file_size > 2**20 and i.file_size / max(i.compress_size, 1) > limits.max_ratio:
+            raise BadInput(
+                f"part {i.filename[:60]!r} is compressed {i.file_size / max(i.compress_size, 1):.0f}:1; "
+                f"the limit is {limits.max_ratio:.0f}:1 (zip bomb?)"
+            )
+        total += i.file_size
+    if total > limits.max_total_bytes:
+        raise BadInput(
+            f"workbook unpacks to {total // 2**20} MiB; the limit is {limits.max_total_bytes // 2**20} MiB"
+        )
+
+
+def _parse(zf: zipfile.ZipFile, name: str):
+    try:
+        with zf.open(name) as fh:
+            return SafeET.parse(fh).getroot()
+    except KeyError:
+        return None
+    except Exception as e:  # defusedxml refusals and malformed XML
+        raise BadInput(f"part {name!r} is not safe, well-formed XML ({type(e).__name__})") from None
+
+
+def _text_of(elem) -> str:
+    """Concatenated text of <t> runs (phonetic runs excluded)."""
+    parts = []
+    for node in elem.iter():
+        if node.tag == NS + "rPh":
+            continue
+        if node.tag == NS + "t" and node.text:
+            parts.append(node.text)
+    return "".join(parts)
+
+
+def normalise(formula: str) -> str:
+    """Our functions as plain names (drop add-in link and ``_xludf.`` prefixes)."""
+    return OUR_CALL.sub(lambda m: m.group(1).upper() + "(", formula)
+
+
+def read_book(path: str | Path, limits: Limits | None = None) -> Book:
+    """Read a saved workbook: formulas, shared and array formulas, names, cached values.
+
+    Raises
+    ------
+    BadInput
+        Not an .xlsx/.xlsm package (an .xls, a CSV, an encrypted file), over a limit, or
+        malformed / unsafe XML.
+    """
+    limits = limits or Limits()
+    path = Path(path)
+    data = path.read_bytes()
+    sha = hashlib.sha256(data).hexdigest()
+    try:
+        zf = zipfile.ZipFile(path)
+    except zipfile.BadZipFile:
+        head = data[:8]
+        what = (
+            "an encrypted (password-protected) or legacy .xls file"
+            if head.startswith(b"\xd0\xcf\x11\xe0")
+            else "not a zip package"
+        )
+        raise BadInput(f"{path.name}: {what}; joulebook reads .xlsx/.xlsm workbooks") from None
+    with zf:
+        _check_package(zf, limits)
+        wb = _parse(zf, "xl/workbook.xml")
+        if wb is None:
+            raise BadInput(f"{path.name}: no xl/workbook.xml: not an Excel workbook package")
+        rels = _parse(zf, "xl/_rels/workbook.xml.rels")
+        targets = {}
+        ext_links = 0
+        if rels is not None:
+            for r in rels.iter(PKG_RNS + "Relationship"):
+                t = r.get("Target", "")
+                part = (
+                    t.lstrip("/")
+                    if t.startswith("/")
+                    else posixpath.normpath(posixpath.join("xl", t))
+                )
+                targets[r.get("Id")] = part
+                if r.get("Type", "").endswith("/externalLink"):
+                    ext_links += 1
+        sheets, parts = [], {}
+        for s in wb.iter(NS + "sheet"):
+            name = s.get("name")
+            rid = s.get(RNS + "id")
+            if rid in targets and targets[rid].startswith("xl/worksheets/"):
+                sheets.append(name)
+                parts[name] = targets[rid]
+        names = {}
+        for dn in wb.iter(NS + "definedName"):
+            if dn.get("localSheetId") is None and dn.text:
+                names[dn.get("name").upper()] = dn.text
+        calc = next(wb.iter(NS + "calcPr"), None)
+        book = Book(
+            path,
+            sha,
+            sheets,
+            parts,
+            names=names,
+            full_calc_on_load=calc is not None and calc.get("fullCalcOnLoad") in ("1", "true"),
+            external_links=ext_links,
+        )
+        shared = _shared_strings(zf, limits)
+        counts = [0, 0]
+        for sheet in sheets:
+            _read_sheet(zf, parts[sheet], sheet, book, shared, limits, counts)
+    return book
+
+
+def _shared_strings(zf: zipfile.ZipFile, limits: Limits) -> list[str]:
+    out: list[str] = []
+    try:
+        fh = zf.open("xl/sharedStrings.xml")
+    except KeyError:
+        return out
+    with fh:
+        try:
+            for _ev, el in SafeET.iterparse(fh, events=("end",)):
+                if el.tag == NS + "si":
+                    out.append(_text_of(el)[: limits.max_text])
+                    el.clear()
+        except Exception as e:
+            raise BadInput(
+                f"shared strings are not safe, well-formed XML ({type(e).__name__})"
+            ) from None
+    return out
+
+
+def _read_sheet(zf, part, sheet, book: Book, shared, limits: Limits, counts) -> None:
+    from openpyxl.formula.translate import Translator
+
+    masters: dict[str, tuple[str, str]] = {}  # shared-formula id -> (text, master ref)
+    try:
+        fh = zf.open(part)
+    except KeyError:
+        raise BadInput(f"sheet {sheet!r}: part {part!r} is missing") from None
+    with fh:
+        try:
+            for _ev, el in SafeET.iterparse(fh, events=("end",)):
+                if el.tag != NS + "c":
+                    continue
+                ref = el.get("r")
+                if ref is None:
+                    el.clear()
+                    continue
+                row, col = split_ref(ref)
+                counts[0] += 1
+                if counts[0] > limits.max_cells:
+                    raise BadInput(
+                        f"more than {limits.max_cells} cells; raise the limit to read this workbook"
+                    )
+                cell = Cell(sheet, row, col)
+                t = el.get("t", "n")
+                f = el.find(NS + "f")
+                v = el.find(NS + "v")
+                if f is not None:
+                    counts[1] += 1
+                    if counts[1] > limits.max_formulas:
+                        raise BadInput(
+                            f"more than {limits.max_formulas} formula cells; raise the limit"
+                        )
+                    ftype = f.get("t", "normal")
+                    text = f.text
+                    if ftype == "shared":
+                        si = f.get("si")
+                        if text:
+                            masters[si] = (text, ref)
+                        elif si in masters:
+                            mt, mref = masters[si]
+                            text = Translator("=" + mt, origin=mref).translate_formula(ref)[1:]
+                    if ftype == "array":
+                        cell.array_ref = f.get("ref") or ref
+                    if text:
+                        cell.raw_formula = text
+                        cell.formula = normalise(text)
+                if v is not None or t == "inlineStr":
+                    cell.has_cached = True
+                    raw = v.text if v is not None else None
+                    if t == "s" and raw is not None:
+                        i = int(raw)
+                        cell.cached = shared[i] if 0 <= i < len(shared) else ""
+                    elif t in ("str",):
+                        cell.cached = (raw or "")[: limits.max_text]
+                    elif t == "inlineStr":
+                        is_ = el.find(NS + "is")
+                        cell.cached = _text_of(is_) if is_ is not None else ""
+                    elif t == "b":
+                        cell.cached = raw == "1"
+                    elif t == "e":
+                        cell.cached = ("error", raw or "#N/A")
+                    elif raw in (None, ""):
+                        cell.has_cached = False  # an empty <v/>: nothing was saved
+                    else:
+                        cell.cached = float(raw)
+                if cell.formula is not None or cell.has_cached:
+                    book.cells[(sheet, row, col)] = cell
+                el.clear()
+        except BadInput:
+            raise
+        except Exception as e:
+            raise BadInput(
+                f"sheet {sheet!r} is not safe, well-formed XML ({type(e).__name__})"
+            ) from None

@@ -1,0 +1,126 @@
+"""Write a recalculated copy: every member copied as it was, only cached values patched.
+
+The worksheet XML of a formula cell is rewritten in place: its ``<v>`` (and the ``t`` type
+attribute that goes with it) get the recomputed value; the formula, style and every other
+byte stay.  ``fullCalcOnLoad`` is dropped from ``xl/workbook.xml`` because the values are now
+fresh.  The output is written to a temporary file beside the target and renamed into place,
+so an interrupted run leaves the old output or none, never a truncated file.  The input is
+never written.
+"""
+
+from __future__ import annotations
+
+import os
+import re
+import tempfile
+import zipfile
+from pathlib import Path
+from xml.sax.saxutils import escape
+
+from ..errors import BadInput
+from .reader import Book, split_ref
+
+__all__ = ["write_copy", "patch_sheet_xml", "atomic_write"]
+
+_CELL = re.compile(
+    rb"<(?P<p>(?:\w+:)?)c\b(?P<attrs>[^>]*?)(?:/>|>(?P<body>.*?)</(?P=p)c>)", re.DOTALL
+)
+_ATTR_T = re.compile(rb'\s+t="[^"]*"')
+_ATTR_R = re.compile(rb'\br="([A-Za-z]+\d+)"')
+_V = re.compile(rb"<(?:\w+:)?v>.*?</(?:\w+:)?v>|<(?:\w+:)?v\s*/>", re.DOTALL)
+_IS = re.compile(rb"<(?:\w+:)?is>.*?</(?:\w+:)?is>", re.DOTALL)
+_FULLCALC = re.compile(rb'\s+fullCalcOnLoad="(?:1|true)"')
+
+
+def _encode(value) -> tuple[bytes | None, bytes]:
+    """(t attribute or None, <v> text) for a plain cell value."""
+    if isinstance(value, tuple) and value and value[0] == "error":
+        return b"e", escape(value[1]).encode()
+    if isinstance(value, bool):
+        return b"b", b"1" if value else b"0"
+    if isinstance(value, float):
+        if value != value or value in (float("inf"), float("-inf")):
+            return b"e", b"#NUM!"
+        text = repr(value)
+        return None, text[:-2].encode() if text.endswith(".0") else text.encode()
+    if value is None:
+        return b"str", b""
+    return b"str", escape(str(value)).encode("utf-8")
+
+
+def patch_sheet_xml(
+    xml: bytes, values: dict[tuple[int, int], object], prefix: bytes = b""
+) -> bytes:
+    """Patch the cached values of the cells in *values* ({(row, col): value})."""
+
+    def sub(m: re.Match) -> bytes:
+        attrs = m.group("attrs")
+        rm = _ATTR_R.search(attrs)
+        if not rm:
+            return m.group(0)
+        key = split_ref(rm.group(1).decode())
+        if key not in values:
+            return m.group(0)
+        t, v = _encode(values[key])
+        attrs = _ATTR_T.sub(b"", attrs)
+        if t is not None:
+            attrs += b' t="' + t + b'"'
+        body = m.group("body") or b""
+        body = _IS.sub(b"", body)
+        p = m.group("p")
+        new_v = b"<" + p + b"v>" + v + b"</" + p + b"v>"
+        if _V.search(body):
+            body = _V.sub(lambda _m: new_v, body, count=1)
+        else:
+            body = body + new_v
+        return b"<" + p + b"c" + attrs + b">" + body + b"</" + p + b"c>"
+
+    return _CELL.sub(sub, xml)
+
+
+def atomic_write(target: Path, write) -> None:
+    """Call ``write(fileobj)`` on a temporary file beside *target*, then rename it into place."""
+    fd, tmp = tempfile.mkstemp(prefix=".joulebook-", suffix=target.suffix, dir=target.parent)
+    try:
+        with os.fdopen(fd, "wb") as fh:
+            write(fh)
+            fh.flush()
+            os.fsync(fh.fileno())
+        os.replace(tmp, target)
+    except BaseException:
+        try:
+            os.unlink(tmp)
+        except OSError:
+            pass
+        raise
+
+
+def write_copy(book: Book, outcomes: dict, out: str | Path, force: bool = False) -> Path:
+    """Write *book* with the recomputed values of *outcomes* to *out*."""
+    out = Path(out)
+    if out.resolve() == Path(book.path).resolve():
+        raise BadInput(
+            "the output must not be the input file; joulebook never writes over its input"
+        )
+    if out.exists() and not force:
+        raise BadInput(f"{out} exists; use --force to replace it")
+    if not out.parent.exists():
+        raise BadInput(f"folder {out.parent} does not exist")
+    per_part: dict[str, dict[tuple[int, int], object]] = {}
+    for (sheet, r, c), o in outcomes.items():
+        if o.problem:  # not computed here (unsupported, circular): keep what Excel saved
+            continue
+        per_part.setdefault(book.sheet_parts[sheet], {})[(r, c)] = o.value
+
+    def write(fh):
+        with zipfile.ZipFile(book.path) as zin, zipfile.ZipFile(fh, "w") as zout:
+            for info in zin.infolist():
+                data = zin.read(info)
+                if info.filename in per_part:
+                    data = patch_sheet_xml(data, per_part[info.filename])
+                elif info.filename == "xl/workbook.xml":
+                    data = _FULLCALC.sub(b"", data)
+                zout.writestr(info, data, compress_type=info.compress_type)
+
+    atomic_write(out, write)
+    return out

@@ -1,0 +1,183 @@
+"""The workbook face on fixture workbooks built with openpyxl in the tests.
+
+Expected numbers come from the same catalog functions called directly (the engine must agree
+with the Python face exactly) and from Excel's built-in semantics (common practice).
+"""
+
+import hashlib
+import re
+import zipfile
+from pathlib import Path
+
+import openpyxl
+import pytest
+from openpyxl.workbook.defined_name import DefinedName
+from openpyxl.worksheet.formula import ArrayFormula
+
+import joulebook
+from joulebook.cli import main
+from joulebook.errors import BadInput
+from joulebook.workbook.engine import Engine
+from joulebook.workbook.reader import Limits, read_book
+from joulebook.workbook.writer import patch_sheet_xml
+
+
+def _sha(p: Path) -> str:
+    return hashlib.sha256(p.read_bytes()).hexdigest()
+
+
+def _make(path: Path) -> Path:
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws.title = "Inputs"
+    ws["A1"], ws["B1"] = "mass", 2.5
+    ws["A2"], ws["B2"] = "P", 101.325
+    ws["A3"], ws["B3"] = "label <script>x</script>", None
+    for r in range(5, 15):
+        ws[f"A{r}"] = 10.0 * (r - 4)
+        ws[f"B{r}"] = f'=JB_PROP("water","h in kJ/kg","T in degC",A{r},"P in kPa",$B$2)'
+        ws[f"C{r}"] = f"=ROUND(B{r},3)"
+    ws["D1"] = '=JB_PROP("water","h","T in degC",5000,"P in kPa",B2)'
+    ws["D2"] = '=IFERROR(D1*1,"flagged")'
+    ws["D3"] = "=INDEX(B5:B14,MATCH(50,A5:A14,0))"
+    ws["D4"] = "=1/0"
+    ws["E1"] = ArrayFormula(
+        "E1:E3", '=JB_PROP("water","h in kJ/kg","T in degC",A5:A7,"P in kPa",101.325)'
+    )
+    calc = wb.create_sheet("Calc Sheet")
+    calc["A1"] = "=SUM(Inputs!B5:B14)"
+    calc["A2"] = '=Inputs!B1*JB_GAS_DELTA_U("air",300,400)'
+    calc["A3"] = "=pressure*2"
+    calc["A4"] = "=JB_WORK_PV(Inputs!A5:A8,Inputs!A5:A8)"
+    calc["A5"] = "=A6+1"
+    calc["A6"] = "=A5+1"
+    wb.defined_names["pressure"] = DefinedName("pressure", attr_text="Inputs!$B$2")
+    wb.save(path)
+    return path
+
+
+@pytest.fixture(scope="module")
+def fixture_book(tmp_path_factory) -> Path:
+    return _make(tmp_path_factory.mktemp("wb") / "fixture.xlsx")
+
+
+@pytest.fixture(scope="module")
+def recalculated(fixture_book, tmp_path_factory) -> Path:
+    out = tmp_path_factory.mktemp("out") / "fresh.xlsx"
+    before = _sha(fixture_book)
+    assert main(["recalc", str(fixture_book), "-o", str(out)]) == 0
+    assert _sha(fixture_book) == before  # the input is never touched
+    return out
+
+
+def test_engine_agrees_with_the_python_face(fixture_book):
+    book = read_book(fixture_book)
+    out = Engine(book).run()
+    call = joulebook.call
+    for r in range(5, 15):
+        want = call(
+            "JB_PROP", "water", "h in kJ/kg", "T in degC", 10.0 * (r - 4), "P in kPa", 101.325
+        )
+        assert out[("Inputs", r, 2)].value == want
+        assert out[("Inputs", r, 3)].value == round(want, 3)
+    assert out[("Inputs", 1, 4)].value.startswith("OutOfRange: water: T = 5000 degC")
+    assert out[("Inputs", 2, 4)].value == "flagged"  # text in arithmetic is #VALUE!, as in Excel
+    assert out[("Inputs", 3, 4)].value == out[("Inputs", 9, 2)].value  # INDEX/MATCH
+    assert out[("Inputs", 4, 4)].value == ("error", "#DIV/0!")
+    for i in range(3):  # array formula spilled over E1:E3
+        assert out[("Inputs", 1 + i, 5)].value == out[("Inputs", 5 + i, 2)].value
+    assert out[("Calc Sheet", 1, 1)].value == pytest.approx(
+        sum(out[("Inputs", r, 2)].value for r in range(5, 15))
+    )
+    assert out[("Calc Sheet", 2, 1)].value == pytest.approx(
+        2.5 * call("JB_GAS_DELTA_U", "air", 300, 400)
+    )
+    assert out[("Calc Sheet", 3, 1)].value == pytest.approx(202.65)  # defined name
+    assert out[("Calc Sheet", 5, 1)].problem == "circular reference"
+
+
+def test_check_reports_missing_values_then_passes_after_recalc(
+    fixture_book, recalculated, tmp_path
+):
+    assert main(["check", str(fixture_book)]) == 1  # openpyxl saves no values
+    rep = tmp_path / "r.json"
+    junit = tmp_path / "r.xml"
+    code = main(["check", str(recalculated), "--json", str(rep), "--junit", str(junit)])
+    import json
+
+    data = json.loads(rep.read_text())
+    open_ = {(c["sheet"], c["cell"]): c["status"] for c in data["cells"] if c["status"] != "pass"}
+    # left: the deliberate cycle, and the two spill cells openpyxl wrote no <c> element for
+    # (Excel writes them; the writer patches cells that exist and never invents XML)
+    assert open_ == {
+        ("Calc Sheet", "A5"): "circular",
+        ("Calc Sheet", "A6"): "circular",
+        ("Inputs", "E2"): "no cached value",
+        ("Inputs", "E3"): "no cached value",
+    }
+    assert code == 1
+    assert data["summary"]["circular"] == 2
+    xml = junit.read_text()
+    assert 'errors="2"' in xml and 'failures="2"' in xml
+
+
+def test_check_catches_a_wrong_saved_value(recalculated, tmp_path):
+    bad = tmp_path / "tampered.xlsx"
+    with zipfile.ZipFile(recalculated) as zin, zipfile.ZipFile(bad, "w") as zout:
+        for info in zin.infolist():
+            data = zin.read(info)
+            if info.filename == "xl/worksheets/sheet1.xml":
+                data = patch_sheet_xml(data, {(6, 2): 999.0})  # Inputs!B6
+            zout.writestr(info, data)
+    rows_json = tmp_path / "t.json"
+    assert main(["check", str(bad), "--json", str(rows_json)]) == 1
+    import json
+
+    differs = [c for c in json.loads(rows_json.read_text())["cells"] if c["status"] == "differs"]
+    assert [(c["sheet"], c["cell"]) for c in differs] == [("Inputs", "B6")]
+
+
+def test_recalc_patches_only_cached_values(fixture_book, recalculated):
+    with zipfile.ZipFile(fixture_book) as a, zipfile.ZipFile(recalculated) as b:
+        assert a.namelist() == b.namelist()
+        for name in a.namelist():
+            if name.startswith("xl/worksheets/"):
+                old, new = a.read(name), b.read(name)
+                strip = lambda x: re.sub(rb"<v>.*?</v>|<v\s*/>|\s+t=\"[^\"]*\"", b"", x)  # noqa: E731
+                assert strip(old) == strip(new)  # formulas, styles, everything else kept
+            elif name != "xl/workbook.xml":
+                assert a.read(name) == b.read(name)
+    # the recalculated copy opens in openpyxl with values and formulas
+    wb = openpyxl.load_workbook(recalculated, data_only=True)
+    assert wb["Inputs"]["B5"].value == pytest.approx(
+        joulebook.call("JB_PROP", "water", "h in kJ/kg", "T in degC", 10, "P in kPa", 101.325)
+    )
+    assert openpyxl.load_workbook(recalculated)["Inputs"]["B5"].value.startswith("=JB_PROP(")
+
+
+def test_recalc_refuses_to_overwrite(fixture_book, recalculated, capsys):
+    assert main(["recalc", str(fixture_book), "-o", str(recalculated)]) == 2
+    assert "--force" in capsys.readouterr().err
+    assert main(["recalc", str(fixture_book), "-o", str(fixture_book), "--force"]) == 2
+
+
+def test_addin_linked_formulas_are_ours(tmp_path):
+    p = _make(tmp_path / "a.xlsx")
+    q = tmp_path / "linked.xlsx"
+    with zipfile.ZipFile(p) as zin, zipfile.ZipFile(q, "w") as zout:
+        for info in zin.infolist():
+            data = zin.read(info)
+            if info.filename == "xl/worksheets/sheet1.xml":
+                data = data.replace(b"JB_PROP(", b"[1]!JB_PROP(")
+            zout.writestr(info, data)
+    out = Engine(read_book(q)).run()
+    assert isinstance(out[("Inputs", 5, 2)].value, float)
+
+
+def test_unusable_input(tmp_path, capsys):
+    csv = tmp_path / "data.xlsx"
+    csv.write_text("a,b\n1,2\n")
+    assert main(["check", str(csv)]) == 2
+    assert "not a zip package" in capsys.readouterr().err
+    with pytest.raises(BadInput, match="limit"):
+        read_book(_make(tmp_path / "b.xlsx"), Limits(max_cells=5))
