@@ -50,6 +50,7 @@ class _Compiled:
     fn: object
     inputs: list[str]  # references as seen from the anchor cell (or the cell itself)
     anchored: bool
+    text: str = ""  # the formula text it was compiled from
 
 
 _REGISTERED = False
@@ -106,6 +107,25 @@ def _our_function(name: str):
 # ---------------------------------------------------------------------------------------
 # references
 
+_STRINGS = re.compile(r'("(?:[^"]|"")*")')
+_CELLREF = re.compile(r"(?<![A-Za-z0-9_.])(\$?)([A-Za-z]{1,3})(\$?)(\d+)(?![A-Za-z0-9_(])")
+
+
+def _relative_key(formula: str, row: int, col: int) -> str:
+    """The formula with each A1 reference written relative to (row, col): equal keys mean the
+    same shape.  String literals are left alone; anything unusual simply gets its own key."""
+    parts = _STRINGS.split(formula)
+
+    def sub(m: re.Match) -> str:
+        c = col_number(m.group(2))
+        r = int(m.group(4))
+        cs = f"C{c}" if m.group(1) else f"C[{c - col}]"
+        rs = f"R{r}" if m.group(3) else f"R[{r - row}]"
+        return rs + cs
+
+    return "".join(p if i % 2 else _CELLREF.sub(sub, p) for i, p in enumerate(parts))
+
+
 _A1 = re.compile(r"(\$?)([A-Z]{1,3})(\$?)(\d+)")
 _COLS = re.compile(r"^(\$?)([A-Z]{1,3}):(\$?)([A-Z]{1,3})$")
 
@@ -138,6 +158,9 @@ def shift_ref(ref: str, dr: int, dc: int) -> str:
     return f"{sheet}{bang}{addr}"
 
 
+_SIMPLE = re.compile(r"^\$?([A-Z]{1,3})\$?(\d+)(?::\$?([A-Z]{1,3})\$?(\d+))?$")
+
+
 @dataclass
 class _Range:
     sheet: str
@@ -154,6 +177,7 @@ class Engine:
 
     book: Book
     progress: object = None  # callable(done, total) or None
+    batch: bool = True  # evaluate same-shape columns in one vectorised call
     _compiled: dict = field(default_factory=dict)
     _sheet_upper: dict = field(default_factory=dict)
     _max: dict = field(default_factory=dict)
@@ -171,6 +195,10 @@ class Engine:
         from openpyxl.formula.translate import Translator
 
         text = "=" + cell.formula
+        fast = (cell.sheet, _relative_key(cell.formula, cell.row, cell.col))
+        hit = self._compiled.get(fast)
+        if hit is not None:
+            return hit, cell.row - ANCHOR_ROW, cell.col - ANCHOR_COL
         if _POSITIONAL.search(cell.formula):
             key, anchored, shape = (cell.sheet, cell.row, cell.col, text), False, text
         else:
@@ -193,13 +221,22 @@ class Engine:
             for tok in Tokenizer(shape).items:
                 if tok.type == "OPERAND" and tok.subtype == "RANGE":
                     marked.setdefault(tok.value.replace("$", "").upper(), tok.value)
-            comp = _Compiled(fn, [marked.get(k, k) for k in fn.inputs], anchored)
+            comp = _Compiled(fn, [marked.get(k, k) for k in fn.inputs], anchored, shape)
             self._compiled[key] = comp
+        if comp.anchored:
+            self._compiled[fast] = comp  # later cells of this shape skip the translation
         if comp.anchored:
             return comp, cell.row - ANCHOR_ROW, cell.col - ANCHOR_COL
         return comp, 0, 0
 
     def _resolve(self, ref: str, here: str) -> _Range | None:
+        m = _SIMPLE.match(ref)
+        if m:
+            r1, c1 = int(m.group(2)), col_number(m.group(1))
+            if m.group(3):
+                r2, c2 = int(m.group(4)), col_number(m.group(3))
+                return _Range(here, min(r1, r2), min(c1, c2), max(r1, r2), max(c1, c2))
+            return _Range(here, r1, c1, r1, c1)
         if ref.upper() in self.book.names:
             target = self.book.names[ref.upper()]
             return self._resolve(target.replace("$", ""), here)
@@ -297,24 +334,92 @@ class Engine:
                         if dep != key:
                             deps.add(dep)
             graph[key] = deps
-        order = self._order(graph, out)
-
         values: dict[tuple[str, int, int], object] = {
             k: c.cached for k, c in self.book.cells.items() if c.formula is None and c.has_cached
         }
-        total = len(order)
-        for i, key in enumerate(order):
-            c, comp, ranges = plan[key]
+        batches = self._batches(plan, graph) if self.batch else {}
+        member_of = {m: b for b, members in batches.items() for m in members}
+        if batches:
+            bgraph: dict = {}
+            for key, deps in graph.items():
+                node = member_of.get(key, key)
+                bgraph.setdefault(node, set()).update(member_of.get(d, d) for d in deps)
+            for node, deps in bgraph.items():
+                deps.discard(node)
             try:
-                args = [self._value_of(rng, values) for rng in ranges]
-                res = comp.fn(*args)
-                self._store(c, res, values, out)
-            except Exception as e:
-                out[key] = Outcome(ERROR("#VALUE!"), f"engine: {type(e).__name__}")
-                values[key] = ERROR("#VALUE!")
-            if self.progress and (i % 500 == 0 or i == total - 1):
+                order = list(graphlib.TopologicalSorter(bgraph).static_order())
+            except graphlib.CycleError:  # batching can join what a cycle test must see apart
+                batches, member_of = {}, {}
+                order = self._order(graph, out)
+        else:
+            order = self._order(graph, out)
+
+        total = len(order)
+        for i, node in enumerate(order):
+            if node in batches:
+                self._run_batch(batches[node], plan, values, out)
+            elif node in plan:
+                self._run_cell(node, plan, values, out)
+            if self.progress and (i % 200 == 0 or i == total - 1):
                 self.progress(i + 1, total)
         return out
+
+    def _run_cell(self, key, plan, values, out) -> None:
+        c, comp, ranges = plan[key]
+        try:
+            args = [self._value_of(rng, values) for rng in ranges]
+            self._store(c, comp.fn(*args), values, out)
+        except Exception as e:
+            out[key] = Outcome(ERROR("#VALUE!"), f"engine: {type(e).__name__}")
+            values[key] = ERROR("#VALUE!")
+
+    def _batches(self, plan: dict, graph: dict) -> dict:
+        """Same-shape cells of one column whose inputs are single cells and whose functions
+        are all elementwise: evaluated together in one vectorised call."""
+        groups: dict = {}
+        for key, (c, comp, ranges) in plan.items():
+            if not comp.anchored or c.array_ref or not _elementwise(comp):
+                continue
+            if any(r is None or r.r1 != r.r2 or r.c1 != r.c2 for r in ranges):
+                continue
+            groups.setdefault((c.sheet, c.col, id(comp)), []).append(key)
+        batches = {}
+        for gkey, members in groups.items():
+            if len(members) < 2:
+                continue
+            mset = set(members)
+            if any(graph[m] & mset for m in members):  # a running total: keep cell by cell
+                continue
+            batches[("batch",) + gkey] = sorted(members)
+        return batches
+
+    def _run_batch(self, members: list, plan: dict, values: dict, out: dict) -> None:
+        c0, comp, _ = plan[members[0]]
+        k = len(members)
+        args = []
+        for i in range(len(comp.inputs)):
+            col = [self._value_of(plan[m][2][i], values) for m in members]
+            first = col[0]
+            if all(v is first or (type(v) is type(first) and v == first) for v in col):
+                args.append(first)
+            else:
+                arr = np.empty((k, 1), dtype=object)
+                for j, v in enumerate(col):
+                    arr[j, 0] = v
+                args.append(arr)
+        try:
+            res = np.asarray(comp.fn(*args), dtype=object)
+        except Exception:
+            res = None
+        if res is None or not (res.size == 1 or res.shape in ((k, 1), (k,))):
+            for m in members:  # not elementwise after all: one by one
+                self._run_cell(m, plan, values, out)
+            return
+        flat = res.reshape(-1)
+        for j, m in enumerate(members):
+            v = _plain(flat[0] if flat.size == 1 else flat[j])
+            values[m] = v
+            out[m] = Outcome(v)
 
     def _order(self, graph: dict, out: dict) -> list:
         while True:
@@ -374,6 +479,49 @@ class Engine:
         v = _plain(arr.reshape(-1)[0]) if arr.size >= 1 else ERROR("#VALUE!")
         values[key] = v
         out[key] = Outcome(v)
+
+
+# built-ins that act cell by cell on arrays (aggregates such as SUM or MIN are not)
+_ELEMENTWISE = {
+    "IF",
+    "IFERROR",
+    "IFNA",
+    "ROUND",
+    "ROUNDUP",
+    "ROUNDDOWN",
+    "ABS",
+    "SQRT",
+    "EXP",
+    "LN",
+    "LOG10",
+    "POWER",
+    "SIN",
+    "COS",
+    "TAN",
+    "PI",
+    "INT",
+    "MOD",
+    "SIGN",
+    "NOT",
+    "ISNUMBER",
+    "ISERROR",
+    "ISERR",
+    "ISTEXT",
+    "ISBLANK",
+    "TRUNC",
+    "DEGREES",
+    "RADIANS",
+}
+_CALLS = re.compile(r"([A-Z][A-Z0-9_.]*)\s*\(", re.IGNORECASE)
+_OURS_ELEMENTWISE = {
+    f.name for f in CATALOG if f.elementwise and not any(a.type == "range" for a in f.args)
+}
+
+
+def _elementwise(comp: _Compiled) -> bool:
+    text = getattr(comp, "text", "")
+    names = {n.upper() for n in _CALLS.findall(text)}
+    return all(n in _ELEMENTWISE or n in _OURS_ELEMENTWISE for n in names)
 
 
 def _plain(x):
