@@ -119,6 +119,7 @@ def test_check_reports_missing_values_then_passes_after_recalc(
     assert data["summary"]["circular"] == 2
     xml = junit.read_text()
     assert 'errors="2"' in xml and 'failures="2"' in xml
+    assert (_sha(fixture_book), _sha(recalculated)) == before  # check never writes its input
 
 
 def test_check_catches_a_wrong_saved_value(recalculated, tmp_path):

@@ -51,6 +51,7 @@ class _Compiled:
     inputs: list[str]  # references as seen from the anchor cell (or the cell itself)
     anchored: bool
     text: str = ""  # the formula text it was compiled from
+    fast_inputs: list | None = None  # parsed plain references (see _parse_plain)
 
 
 _REGISTERED = False
@@ -156,6 +157,24 @@ def shift_ref(ref: str, dr: int, dc: int) -> str:
     else:
         addr = ":".join(_shift_part(p, dr, dc) for p in addr.split(":"))
     return f"{sheet}{bang}{addr}"
+
+
+_PLAIN = re.compile(r"^(\$?)([A-Z]{1,3})(\$?)(\d+)(?::(\$?)([A-Z]{1,3})(\$?)(\d+))?$")
+
+
+def _parse_plain(ref: str):
+    """``$A1:B$3`` → ((r1, c1, r2, c2), (row1 abs, col1 abs, row2 abs, col2 abs)); None otherwise."""
+    m = _PLAIN.match(ref)
+    if not m:
+        return None
+    c1, r1 = col_number(m.group(2)), int(m.group(4))
+    if m.group(6):
+        c2, r2 = col_number(m.group(6)), int(m.group(8))
+        flags = (bool(m.group(3)), bool(m.group(1)), bool(m.group(7)), bool(m.group(5)))
+    else:
+        c2, r2 = c1, r1
+        flags = (bool(m.group(3)), bool(m.group(1))) * 2
+    return (r1, c1, r2, c2), flags
 
 
 _SIMPLE = re.compile(r"^\$?([A-Z]{1,3})\$?(\d+)(?::\$?([A-Z]{1,3})\$?(\d+))?$")
@@ -294,14 +313,26 @@ class Engine:
                     ERROR("#NAME?"), f"unsupported: {type(e).__name__} while parsing"
                 )
                 continue
-            ranges = []
-            for ref in comp.inputs:
-                try:
-                    real = shift_ref(ref, dr, dc) if comp.anchored else ref
-                except ValueError:
-                    ranges.append(None)  # #REF!
-                    continue
-                ranges.append(self._resolve(real, c.sheet))
+            if comp.anchored:
+                if comp.fast_inputs is None:
+                    comp.fast_inputs = [_parse_plain(ref) for ref in comp.inputs]
+                ranges = []
+                for ref, fast in zip(comp.inputs, comp.fast_inputs):
+                    if fast is not None:  # a plain reference on this sheet: shift by arithmetic
+                        (r1, c1, r2, c2), (a1, b1, a2, b2) = fast
+                        rr1, cc1 = r1 if a1 else r1 + dr, c1 if b1 else c1 + dc
+                        rr2, cc2 = r2 if a2 else r2 + dr, c2 if b2 else c2 + dc
+                        if min(rr1, cc1, rr2, cc2) < 1:
+                            ranges.append(None)  # #REF!
+                        else:
+                            ranges.append(_Range(c.sheet, min(rr1, rr2), min(cc1, cc2), max(rr1, rr2), max(cc1, cc2)))
+                        continue
+                    try:
+                        ranges.append(self._resolve(shift_ref(ref, dr, dc), c.sheet))
+                    except ValueError:
+                        ranges.append(None)  # #REF!
+            else:
+                ranges = [self._resolve(ref, c.sheet) for ref in comp.inputs]
             plan[key] = (c, comp, ranges)
 
         # dependencies between formula cells (spilled ranges depend on their anchor)
