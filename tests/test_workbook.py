@@ -99,6 +99,7 @@ def test_engine_agrees_with_the_python_face(fixture_book):
 def test_check_reports_missing_values_then_passes_after_recalc(
     fixture_book, recalculated, tmp_path
 ):
+    before = _sha(fixture_book), _sha(recalculated)
     assert main(["check", str(fixture_book)]) == 1  # openpyxl saves no values
     rep = tmp_path / "r.json"
     junit = tmp_path / "r.xml"

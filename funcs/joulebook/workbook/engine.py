@@ -325,7 +325,15 @@ class Engine:
                         if min(rr1, cc1, rr2, cc2) < 1:
                             ranges.append(None)  # #REF!
                         else:
-                            ranges.append(_Range(c.sheet, min(rr1, rr2), min(cc1, cc2), max(rr1, rr2), max(cc1, cc2)))
+                            ranges.append(
+                                _Range(
+                                    c.sheet,
+                                    min(rr1, rr2),
+                                    min(cc1, cc2),
+                                    max(rr1, rr2),
+                                    max(cc1, cc2),
+                                )
+                            )
                         continue
                     try:
                         ranges.append(self._resolve(shift_ref(ref, dr, dc), c.sheet))
