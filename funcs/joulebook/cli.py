@@ -150,6 +150,40 @@ def _check(ns: argparse.Namespace) -> int:
     return 1 if bad else 0
 
 
+def _audit(ns: argparse.Namespace) -> int:
+    import time
+
+    from .errors import BadInput
+    from .workbook.audit import build_audit, render_html
+    from .workbook.reader import read_book
+    from .workbook.writer import atomic_write
+
+    out = Path(ns.output)
+    t0 = time.perf_counter()
+    try:
+        book = read_book(ns.book)
+        if out.resolve() == Path(ns.book).resolve():
+            raise BadInput("the report must not overwrite the workbook")
+        if out.exists() and not ns.force:
+            raise BadInput(f"{out} exists; use --force to replace it")
+    except (BadInput, OSError) as e:
+        print(
+            e.cell_text() if isinstance(e, BadInput) else f"cannot read {ns.book}: {e}",
+            file=sys.stderr,
+        )
+        return 2
+    report = build_audit(book, progress=_progress)
+    text = render_html(report).encode("utf-8")
+    atomic_write(out, lambda fh: fh.write(text))
+    s = report.summary
+    print(
+        f"wrote {out} ({len(text) // 1024} KiB, {time.perf_counter() - t0:.1f} s): "
+        f"{len(report.entries)} joulebook entries, {s.get('pass', 0)} passes, "
+        f"{s.get('differs', 0)} differences, {sum(len(e.flags) for e in report.entries)} flags"
+    )
+    return 0
+
+
 def build_parser() -> argparse.ArgumentParser:
     p = argparse.ArgumentParser(
         prog="joulebook",
@@ -205,6 +239,18 @@ def build_parser() -> argparse.ArgumentParser:
         "--max-rows", type=int, default=50, help="rows of the table printed (default 50)"
     )
     c.set_defaults(run=_check)
+
+    a = sub.add_parser(
+        "audit",
+        help="write a checker's HTML report of every joulebook cell of a workbook",
+        description="Explain and re-derive every cell of BOOK that calls a joulebook function: "
+        "inputs with units and sources, model, equation with numbers, recomputed vs saved value, "
+        "flags, P–V / T–s diagrams. One self-contained HTML file.",
+    )
+    a.add_argument("book", help="the .xlsx/.xlsm to audit")
+    a.add_argument("-o", "--output", required=True, help="the HTML report to write")
+    a.add_argument("--force", action="store_true", help="replace OUTPUT if it exists")
+    a.set_defaults(run=_audit)
 
     for verb, what, run in (
         ("docs", "docs/functions.md", _docs),

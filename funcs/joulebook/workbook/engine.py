@@ -403,6 +403,22 @@ class Engine:
                 self.progress(i + 1, total)
         return out
 
+    def evaluate(self, sheet: str, row: int, col: int, formula: str, values: dict):
+        """Value of *formula* (without "=") as if it stood in (sheet, row, col), reading
+        *values*; used by the audit to show the value of an argument expression."""
+        cell = Cell(sheet, row, col, formula=formula)
+        comp, dr, dc = self._compile(cell)
+        ranges = []
+        for ref in comp.inputs:
+            try:
+                ranges.append(
+                    self._resolve(shift_ref(ref, dr, dc) if comp.anchored else ref, sheet)
+                )
+            except ValueError:
+                ranges.append(None)
+        res = np.asarray(comp.fn(*[self._value_of(r, values) for r in ranges]), dtype=object)
+        return _plain(res.reshape(-1)[0]) if res.size == 1 else res
+
     def _run_cell(self, key, plan, values, out) -> None:
         c, comp, ranges = plan[key]
         try:

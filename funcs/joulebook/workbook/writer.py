@@ -81,6 +81,9 @@ def patch_sheet_xml(
 def atomic_write(target: Path, write) -> None:
     """Call ``write(fileobj)`` on a temporary file beside *target*, then rename it into place."""
     fd, tmp = tempfile.mkstemp(prefix=".joulebook-", suffix=target.suffix, dir=target.parent)
+    umask = os.umask(0)
+    os.umask(umask)
+    os.chmod(tmp, 0o666 & ~umask)  # an ordinary file, not mkstemp's private 0600
     try:
         with os.fdopen(fd, "wb") as fh:
             write(fh)

@@ -1,0 +1,153 @@
+"""The checker's audit on fixture workbooks with planted mistakes (built with openpyxl here).
+
+A clean workbook must raise no flag; each planted mistake must be flagged where it is.
+"""
+
+import zipfile
+from pathlib import Path
+
+import openpyxl
+import pytest
+
+from joulebook.cli import main
+from joulebook.workbook.audit import build_audit, render_html
+from joulebook.workbook.reader import read_book
+from joulebook.workbook.writer import patch_sheet_xml
+
+
+def _clean(ws):
+    ws["A1"] = "Receiver <b>R-7</b> — invented scenario"
+    ws["A3"], ws["B3"] = "Charge pressure (absolute)", 11.0
+    ws["A4"], ws["B4"] = "Gas temperature", 20.0
+    ws["A5"], ws["B5"] = "Volume", 2.5
+    ws["A6"], ws["B6"] = (
+        "Stored energy",
+        '=JB_STORED_ISENTROPIC(JB_STATE("nitrogen","P in bar",B3,"T in degC",B4),B5)',
+    )
+    ws["A7"], ws["B7"] = "Compression work", "=JB_WORK_POLYTROPIC(100,0.8,900,0.15)"
+    ws["A8"], ws["B8"] = (
+        "Water enthalpy",
+        '=JB_PROP("water","h in kJ/kg","T in degC",B4,"P in kPa",500)',
+    )
+    ws["A10"], ws["B10"] = "dU", 120.0
+    ws["A11"], ws["B11"] = "W", 30.0
+    ws["A12"], ws["B12"] = "Q", "=B10+B11"
+    ws["A13"], ws["B13"] = "balance gap", "=JB_BALANCE_GAP(B12,B11,B10)"
+
+
+def _build(path: Path, mistakes: bool) -> Path:
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws.title = "Vessel"
+    _clean(ws)
+    if mistakes:
+        ws["A3"] = "Charge pressure (gauge)"  # gauge value read as absolute
+        ws["A15"], ws["B15"] = "Air temperature <script>alert(1)</script>", 20.0
+        ws["A16"], ws["B16"] = "cp of air", '=JB_GAS_CP("air",B15)'  # °C value fed as K
+        ws["B12"] = "=B10-B11"  # sign slip in the hand-typed first law
+    wb.save(path)
+    return path
+
+
+def _recalc(src: Path, tmp: Path) -> Path:
+    out = tmp / (src.stem + "-r.xlsx")
+    assert main(["recalc", str(src), "-o", str(out)]) == 0
+    return out
+
+
+def test_clean_workbook_raises_no_flag(tmp_path):
+    book = read_book(_recalc(_build(tmp_path / "clean.xlsx", False), tmp_path))
+    a = build_audit(book, figures=False)
+    assert len(a.entries) == 4  # B6, B7, B8, B13 (B12 is plain arithmetic)
+    assert [f for e in a.entries for f in e.flags] == []
+    assert all(e.row.status == "pass" for e in a.entries)
+
+
+def test_planted_mistakes_are_flagged(tmp_path):
+    src = _recalc(_build(tmp_path / "bad.xlsx", True), tmp_path)
+    # and a stale saved value: the stored energy as if computed before an input changed
+    stale = tmp_path / "bad-stale.xlsx"
+    with zipfile.ZipFile(src) as zin, zipfile.ZipFile(stale, "w") as zout:
+        for info in zin.infolist():
+            data = zin.read(info)
+            if info.filename == "xl/worksheets/sheet1.xml":
+                data = patch_sheet_xml(data, {(8, 2): 12.5})  # Vessel!B8
+            zout.writestr(info, data)
+    a = build_audit(read_book(stale), figures=False)
+    flags = {(e.sheet, e.cell): " | ".join(e.flags) for e in a.entries}
+    assert "labelled as a gauge pressure" in flags[("Vessel", "B6")]
+    assert "looks like a °C or °F value fed as absolute" in flags[("Vessel", "B16")]
+    assert "sign slip" in flags[("Vessel", "B12")]
+    assert "does not close" in flags[("Vessel", "B13")]
+    assert "differs from the recomputed" in flags[("Vessel", "B8")]
+    assert flags[("Vessel", "B7")] == ""  # nothing wrong there
+
+
+def test_html_is_self_contained_escaped_and_has_the_parts(tmp_path):
+    src = _recalc(_build(tmp_path / "bad.xlsx", True), tmp_path)
+    out = tmp_path / "audit.html"
+    assert main(["audit", str(src), "-o", str(out)]) == 0
+    text = out.read_text(encoding="utf-8")
+    assert "<script>alert" not in text and "&lt;script&gt;alert(1)&lt;/script&gt;" in text
+    assert "http://" not in text.replace("http://www.w3.org", "") and "https://" not in text
+    for part in (
+        "Summary",
+        "Caution.",
+        "Vessel!B6",
+        "=JB_STORED_ISENTROPIC(",
+        "Span et al.",
+        "<svg",
+        "W = (P2·V2 − P1·V1)/(1 − n)",
+    ):
+        assert part in text, part
+    assert main(["audit", str(src), "-o", str(out)]) == 2  # refuses to overwrite without --force
+
+
+def test_report_lists_inputs_with_units_and_sources(tmp_path):
+    a = build_audit(read_book(_recalc(_build(tmp_path / "c.xlsx", False), tmp_path)), figures=False)
+    prop = next(e for e in a.entries if e.function == "JB_PROP")
+    byname = {i.name: i for i in prop.inputs}
+    assert byname["value1"].unit == "degC" and byname["value1"].value == 20.0
+    assert "Vessel!B4 (Gas temperature)" in byname["value1"].source
+    assert prop.result_unit == "kJ/kg" and "IAPWS-95" in prop.model
+    assert render_html(a).count('class="entry"') == len(a.entries)
+
+
+@pytest.mark.client
+def test_report_renders_in_chromium(tmp_path):
+    import shutil
+    import subprocess
+
+    browser = shutil.which("chromium") or shutil.which("chromium-browser")
+    assert browser, "Chromium is needed: apt-get install chromium (as .ci/run does)"
+    src = _recalc(_build(tmp_path / "bad.xlsx", True), tmp_path)
+    out = tmp_path / "audit.html"
+    assert main(["audit", str(src), "-o", str(out)]) == 0
+    flags = [
+        "--headless",
+        "--no-sandbox",
+        "--disable-gpu",
+        "--disable-quic",
+        "--no-first-run",
+        "--disable-background-networking",
+        "--disable-component-update",
+        "--disable-sync",
+        f"--user-data-dir={tmp_path / 'chrome'}",
+    ]
+    shot = tmp_path / "audit.png"
+    subprocess.run(
+        [browser, *flags, f"--screenshot={shot}", "--window-size=900,1400", out.as_uri()],
+        check=True,
+        capture_output=True,
+        timeout=120,
+    )
+    assert shot.stat().st_size > 10_000
+    dom = subprocess.run(
+        [browser, *flags, "--dump-dom", out.as_uri()],
+        check=True,
+        capture_output=True,
+        text=True,
+        timeout=120,
+    ).stdout
+    for part in ("Audit of bad-r.xlsx", "Vessel!B6", "sign slip", "fed as absolute", "Caution."):
+        assert part in dom, part
