@@ -151,3 +151,23 @@ def test_report_renders_in_chromium(tmp_path):
     ).stdout
     for part in ("Audit of bad-r.xlsx", "Vessel!B6", "sign slip", "fed as absolute", "Caution."):
         assert part in dom, part
+
+
+def test_audit_sheet_copy(tmp_path):
+    import hashlib
+
+    src = _recalc(_build(tmp_path / "bad.xlsx", True), tmp_path)
+    before = hashlib.sha256(src.read_bytes()).hexdigest()
+    out_html, out_xlsx = tmp_path / "a.html", tmp_path / "audited.xlsx"
+    assert main(["audit", str(src), "-o", str(out_html), "--xlsx", str(out_xlsx)]) == 0
+    assert hashlib.sha256(src.read_bytes()).hexdigest() == before
+    wb = openpyxl.load_workbook(out_xlsx)
+    assert wb.sheetnames == ["Vessel", "joulebook audit"]
+    ws = wb["joulebook audit"]
+    rows = list(ws.iter_rows(values_only=True))
+    assert rows[3][:2] == ("sheet", "cell")
+    cells = {r[1]: r for r in rows[4:]}
+    assert "sign slip" in cells["B12"][9] and cells["B7"][8] == "pass"
+    # the original sheet is untouched: same formulas, same saved values
+    with zipfile.ZipFile(src) as a, zipfile.ZipFile(out_xlsx) as b:
+        assert a.read("xl/worksheets/sheet1.xml") == b.read("xl/worksheets/sheet1.xml")

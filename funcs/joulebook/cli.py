@@ -175,6 +175,16 @@ def _audit(ns: argparse.Namespace) -> int:
     report = build_audit(book, progress=_progress)
     text = render_html(report).encode("utf-8")
     atomic_write(out, lambda fh: fh.write(text))
+    if ns.xlsx:
+        from .workbook.audit import audit_rows
+        from .workbook.writer import add_sheet_copy
+
+        try:
+            add_sheet_copy(ns.book, ns.xlsx, "joulebook audit", audit_rows(report), force=ns.force)
+        except BadInput as e:
+            print(e.cell_text(), file=sys.stderr)
+            return 2
+        print(f"wrote {ns.xlsx}: a copy of the workbook with a 'joulebook audit' sheet")
     s = report.summary
     print(
         f"wrote {out} ({len(text) // 1024} KiB, {time.perf_counter() - t0:.1f} s): "
@@ -249,7 +259,8 @@ def build_parser() -> argparse.ArgumentParser:
     )
     a.add_argument("book", help="the .xlsx/.xlsm to audit")
     a.add_argument("-o", "--output", required=True, help="the HTML report to write")
-    a.add_argument("--force", action="store_true", help="replace OUTPUT if it exists")
+    a.add_argument("--xlsx", help="also write a copy of the workbook with an added audit sheet")
+    a.add_argument("--force", action="store_true", help="replace existing outputs")
     a.set_defaults(run=_audit)
 
     for verb, what, run in (

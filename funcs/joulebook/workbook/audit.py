@@ -741,6 +741,44 @@ def _hand_balances(book: Book, values: dict, entries: list[Entry]) -> None:
             )
 
 
+def audit_rows(a: Audit) -> list[list[object]]:
+    """The audit as rows of a worksheet (header first)."""
+    rows: list[list[object]] = [
+        ["joulebook audit", a.book.path.name, a.library, a.generated, "SHA-256 " + a.book.sha256],
+        [CAUTION],
+        [],
+        [
+            "sheet",
+            "cell",
+            "label",
+            "formula",
+            "result",
+            "unit",
+            "model",
+            "equation",
+            "status",
+            "flags",
+        ],
+    ]
+    for e in a.entries:
+        result = e.result if isinstance(e.result, float) else fmt(e.result)
+        rows.append(
+            [
+                e.sheet,
+                e.cell,
+                e.label,
+                "=" + e.formula if e.formula else "",
+                result,
+                e.result_unit,
+                e.model,
+                e.equation,
+                e.row.status if e.row else "not checked",
+                " | ".join(e.flags),
+            ]
+        )
+    return rows
+
+
 # ---------------------------------------------------------------------------------------
 # HTML
 

@@ -127,3 +127,95 @@ def write_copy(book: Book, outcomes: dict, out: str | Path, force: bool = False)
 
     atomic_write(out, write)
     return out
+
+
+def _inline(text: str) -> bytes:
+    t = escape(str(text))[:32_767]
+    return b'<c t="inlineStr"><is><t xml:space="preserve">' + t.encode("utf-8") + b"</t></is></c>"
+
+
+def add_sheet_copy(
+    src: str | Path, out: str | Path, sheet_name: str, rows: list[list[object]], force: bool = False
+) -> Path:
+    """Write a copy of *src* with one more worksheet holding *rows* (text and numbers).
+
+    Every existing member is copied byte for byte except the three that must list the new
+    part: ``[Content_Types].xml``, ``xl/workbook.xml`` and its relationships.
+    """
+    src, out = Path(src), Path(out)
+    if out.resolve() == src.resolve():
+        raise BadInput(
+            "the output must not be the input file; joulebook never writes over its input"
+        )
+    if out.exists() and not force:
+        raise BadInput(f"{out} exists; use --force to replace it")
+    with zipfile.ZipFile(src) as zin:
+        names = zin.namelist()
+        n = 1
+        while f"xl/worksheets/sheet{n}.xml" in names:
+            n += 1
+        part = f"xl/worksheets/sheet{n}.xml"
+        body = []
+        for i, row in enumerate(rows, start=1):
+            cells = []
+            for v in row:
+                if isinstance(v, float) and v == v and abs(v) != float("inf"):
+                    cells.append(b"<c><v>" + repr(v).encode() + b"</v></c>")
+                else:
+                    cells.append(_inline("" if v is None else v))
+            body.append(b'<row r="%d">' % i + b"".join(cells) + b"</row>")
+        sheet_xml = (
+            b'<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n'
+            b'<worksheet xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main">'
+            b"<sheetData>" + b"".join(body) + b"</sheetData></worksheet>"
+        )
+        rid = b"rIdJoulebookAudit"
+
+        def write(fh):
+            with zipfile.ZipFile(fh, "w", zipfile.ZIP_DEFLATED) as zout:
+                for info in zin.infolist():
+                    data = zin.read(info)
+                    if info.filename == "[Content_Types].xml":
+                        data = data.replace(
+                            b"</Types>",
+                            b'<Override PartName="/'
+                            + part.encode()
+                            + b'" ContentType="application/'
+                            b'vnd.openxmlformats-officedocument.spreadsheetml.worksheet+xml"/></Types>',
+                        )
+                    elif info.filename == "xl/_rels/workbook.xml.rels":
+                        data = data.replace(
+                            b"</Relationships>",
+                            b'<Relationship Id="'
+                            + rid
+                            + b'" Type="http://schemas.openxmlformats.org/'
+                            b'officeDocument/2006/relationships/worksheet" Target="worksheets/sheet'
+                            + str(n).encode()
+                            + b'.xml"/></Relationships>',
+                        )
+                    elif info.filename == "xl/workbook.xml":
+                        next_id = str(
+                            max([int(x) for x in re.findall(rb'sheetId="(\d+)"', data)] or [0]) + 1
+                        )
+                        data = re.sub(
+                            rb"</(\w+:)?sheets>",
+                            lambda m: (
+                                b'<sheet name="'
+                                + escape(sheet_name).encode()
+                                + b'" sheetId="'
+                                + next_id.encode()  # noqa: B023 - used at once
+                                + b'" r:id="'
+                                + rid
+                                + b'" xmlns:r="http://schemas.'
+                                b'openxmlformats.org/officeDocument/2006/relationships"/></'
+                                + (m.group(1) or b"")
+                                + b"sheets>"
+                            ),
+                            data,
+                            count=1,
+                        )
+                    zout.writestr(info, data, compress_type=info.compress_type)
+                zout.writestr(part, sheet_xml)
+
+        atomic_write(out, write)
+    return out
