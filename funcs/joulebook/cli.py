@@ -194,6 +194,21 @@ def _audit(ns: argparse.Namespace) -> int:
     return 0
 
 
+def _workbooks(ns: argparse.Namespace) -> int:
+    from .demo import build_workbooks
+
+    for p in build_workbooks(Path(ns.root) / "workbooks"):
+        print(f"wrote {p}")
+    return 0
+
+
+def _demo(ns: argparse.Namespace) -> int:
+    from .demo import run_demo
+
+    results = run_demo(ns.folder)
+    return 0 if results else 1
+
+
 def build_parser() -> argparse.ArgumentParser:
     p = argparse.ArgumentParser(
         prog="joulebook",
@@ -250,6 +265,20 @@ def build_parser() -> argparse.ArgumentParser:
     )
     c.set_defaults(run=_check)
 
+    dm = sub.add_parser(
+        "demo",
+        help="build, recalculate, check and audit the bundled demo workbooks",
+        description="Write the demo calculation workbooks into FOLDER/workbooks, recalculated "
+        "copies into FOLDER/recalculated and an audit report for each into FOLDER/reports.",
+    )
+    dm.add_argument(
+        "folder",
+        nargs="?",
+        default="joulebook-demo",
+        help="where to write (default ./joulebook-demo)",
+    )
+    dm.set_defaults(run=_demo)
+
     a = sub.add_parser(
         "audit",
         help="write a checker's HTML report of every joulebook cell of a workbook",
@@ -266,6 +295,7 @@ def build_parser() -> argparse.ArgumentParser:
     for verb, what, run in (
         ("docs", "docs/functions.md", _docs),
         ("sheet", "the xlwings UDF module and workbooks/joulebook_udfs.bas", _sheet),
+        ("workbooks", "the demo calculation workbooks in workbooks/", _workbooks),
     ):
         g = sub.add_parser(
             verb,

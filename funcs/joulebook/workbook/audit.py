@@ -21,7 +21,7 @@ import numpy as np
 from .. import __version__
 from ..catalog import Func, lookup
 from ..errors import JoulebookError
-from ..units import parse_phrase, unit_system
+from ..units import parse_phrase, parse_unit, unit_system
 from .check import Row, compare, fmt, summary
 from .engine import Engine
 from .reader import OUR_CALL, Book, Cell, col_letters
@@ -358,7 +358,11 @@ def _flags(
             out.append(
                 f"the first-law balance does not close: Q − W − ΔE = {fmt(result)} (check signs: heat in +, work by the system +)"
             )
-    out += _state_flags(f, argvals)
+    if not any(
+        inp.name in ("substance", "state1", "state") and inp.source.startswith("formula ")
+        for inp in inputs
+    ):
+        out += _state_flags(f, argvals)  # a state that comes from another cell was flagged there
     return out
 
 
@@ -677,19 +681,47 @@ def build_audit(
 
 
 def _unit_consistency(entries: list[Entry], unit_of_cell: dict) -> None:
-    """Flag joulebook cells fed by joulebook cells that use another unit system."""
+    """Flag a joulebook cell that reads another joulebook cell's result in another unit."""
+    by_key = {e._key: e for e in entries if hasattr(e, "_key")}  # type: ignore[attr-defined]
     for e in entries:
-        mine = unit_of_cell.get(e._key)  # type: ignore[attr-defined]
-        for src in e._refs:  # type: ignore[attr-defined]
-            m = re.match(r"formula (.+?)!([A-Z]+)(\d+)", src)
+        if not hasattr(e, "_key"):
+            continue
+        for inp in e.inputs:
+            m = re.match(r"formula (.+?)!([A-Z]+)(\d+)", inp.source)
             if not m:
                 continue
-            key = (m.group(1), int(m.group(3)), _col(m.group(2)))
-            theirs = unit_of_cell.get(key)
-            if theirs is not None and theirs != mine:
+            src = by_key.get((m.group(1), int(m.group(3)), _col(m.group(2))))
+            if (
+                src is None
+                or not src.result_unit
+                or not inp.unit
+                or not isinstance(src.result, float)
+            ):
+                continue
+            if _norm_unit(src.result_unit) != _norm_unit(inp.unit):
                 e.flags.append(
-                    f"fed by {m.group(1)}!{m.group(2)}{m.group(3)}, which uses unit system '{theirs}' while this cell uses '{mine}'"
+                    f"{inp.name} reads {m.group(1)}!{m.group(2)}{m.group(3)}, a result in {src.result_unit}, "
+                    f"as {inp.unit}: the unit systems of the two cells disagree"
                 )
+
+
+def _norm_unit(u: str) -> tuple:
+    for kind in (
+        "temperature",
+        "pressure",
+        "energy",
+        "specific_energy",
+        "volume",
+        "mass",
+        "specific_entropy",
+        "specific_volume",
+    ):
+        try:
+            c = parse_unit(u, kind)
+            return kind, round(c.factor, 12), round(c.offset, 9)
+        except JoulebookError:
+            continue
+    return ("?", u.strip())
 
 
 _Q = re.compile(r"^\s*(q\b|heat\b)", re.IGNORECASE)

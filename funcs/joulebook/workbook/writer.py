@@ -48,10 +48,31 @@ def _encode(value) -> tuple[bytes | None, bytes]:
     return b"str", escape(str(value)).encode("utf-8")
 
 
+def _cell_xml(ref: bytes, value, p: bytes = b"") -> bytes:
+    t, v = _encode(value)
+    attrs = b' r="' + ref + b'"' + (b' t="' + t + b'"' if t is not None else b"")
+    return b"<" + p + b"c" + attrs + b"><" + p + b"v>" + v + b"</" + p + b"v></" + p + b"c>"
+
+
+_ROW = re.compile(
+    rb'<(?P<p>(?:\w+:)?)row\b(?P<attrs>[^>]*?\br="(?P<r>\d+)"[^>]*?)(?:/>|>(?P<body>.*?)</(?P=p)row>)',
+    re.DOTALL,
+)
+_SHEETDATA = re.compile(
+    rb"<(?P<p>(?:\w+:)?)sheetData\s*/>|<(?P<q>(?:\w+:)?)sheetData>(?P<body>.*?)</(?P=q)sheetData>",
+    re.DOTALL,
+)
+
+
 def patch_sheet_xml(
     xml: bytes, values: dict[tuple[int, int], object], prefix: bytes = b""
 ) -> bytes:
-    """Patch the cached values of the cells in *values* ({(row, col): value})."""
+    """Patch the cached values of the cells in *values* ({(row, col): value}).
+
+    Cells that have no ``<c>`` element yet (the spill range of an array formula written by a
+    program that saved only its anchor) are inserted in row and column order.
+    """
+    seen: set[tuple[int, int]] = set()
 
     def sub(m: re.Match) -> bytes:
         attrs = m.group("attrs")
@@ -61,6 +82,7 @@ def patch_sheet_xml(
         key = split_ref(rm.group(1).decode())
         if key not in values:
             return m.group(0)
+        seen.add(key)
         t, v = _encode(values[key])
         attrs = _ATTR_T.sub(b"", attrs)
         if t is not None:
@@ -75,7 +97,67 @@ def patch_sheet_xml(
             body = body + new_v
         return b"<" + p + b"c" + attrs + b">" + body + b"</" + p + b"c>"
 
-    return _CELL.sub(sub, xml)
+    xml = _CELL.sub(sub, xml)
+    missing = [k for k in values if k not in seen]
+    if not missing:
+        return xml
+    from .reader import col_letters
+
+    by_row: dict[int, list[tuple[int, bytes]]] = {}
+    for r, c in missing:
+        ref = f"{col_letters(c)}{r}".encode()
+        by_row.setdefault(r, []).append((c, _cell_xml(ref, values[(r, c)])))
+
+    def fix_row(m: re.Match) -> bytes:
+        r = int(m.group("r"))
+        if r not in by_row:
+            return m.group(0)
+        p = m.group("p")
+        cells = [
+            (split_ref(_ATTR_R.search(cm.group("attrs")).group(1).decode())[1], cm.group(0))
+            for cm in _CELL.finditer(m.group("body") or b"")
+        ]
+        cells += by_row.pop(r)
+        cells.sort(key=lambda x: x[0])
+        return (
+            b"<"
+            + p
+            + b"row"
+            + m.group("attrs")
+            + b">"
+            + b"".join(x[1] for x in cells)
+            + b"</"
+            + p
+            + b"row>"
+        )
+
+    xml = _ROW.sub(fix_row, xml)
+    if by_row:  # rows that do not exist yet
+
+        def fix_data(m: re.Match) -> bytes:
+            p = m.group("p") or m.group("q") or b""
+            body = m.group("body") or b""
+            rows = [(int(rm.group("r")), rm.group(0)) for rm in _ROW.finditer(body)]
+            rows += [
+                (
+                    r,
+                    b"<"
+                    + p
+                    + b'row r="%d">' % r
+                    + b"".join(x[1] for x in sorted(cs))
+                    + b"</"
+                    + p
+                    + b"row>",
+                )
+                for r, cs in by_row.items()
+            ]
+            rows.sort(key=lambda x: x[0])
+            return (
+                b"<" + p + b"sheetData>" + b"".join(x[1] for x in rows) + b"</" + p + b"sheetData>"
+            )
+
+        xml = _SHEETDATA.sub(fix_data, xml, count=1)
+    return xml
 
 
 def atomic_write(target: Path, write) -> None:

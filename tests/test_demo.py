@@ -1,0 +1,83 @@
+"""The bundled demo: workbooks are fresh, hold their saved values, and `joulebook demo` runs."""
+
+from pathlib import Path
+
+import openpyxl
+import pytest
+
+from joulebook.cli import main
+from joulebook.demo import WORKBOOKS, build_workbooks
+
+ROOT = Path(__file__).resolve().parents[1]
+
+
+def _cells(path: Path) -> dict:
+    wb = openpyxl.load_workbook(path)
+    out = {}
+    for ws in wb.worksheets:
+        for row in ws.iter_rows():
+            for c in row:
+                v = c.value
+                if v is not None:
+                    out[(ws.title, c.coordinate)] = getattr(v, "text", v)
+    return out
+
+
+@pytest.fixture(scope="module")
+def rebuilt(tmp_path_factory):
+    return build_workbooks(tmp_path_factory.mktemp("demo"), recalculate=True)
+
+
+def test_at_least_five_workbooks_are_committed():
+    assert len(WORKBOOKS) >= 5
+    for name in WORKBOOKS:
+        assert (ROOT / "workbooks" / name).exists(), f"run `joulebook workbooks` ({name} missing)"
+
+
+@pytest.mark.parametrize("name", list(WORKBOOKS))
+def test_committed_workbook_is_fresh(rebuilt, name):
+    fresh = next(p for p in rebuilt if p.name == name)
+    committed, new = _cells(ROOT / "workbooks" / name), _cells(fresh)
+    assert committed.keys() == new.keys(), "stale: run `joulebook workbooks`"
+    for k, v in new.items():  # formulas and inputs exactly; saved results to round-off
+        if isinstance(v, float):
+            assert committed[k] == pytest.approx(v, rel=1e-9, abs=1e-12), k
+        else:
+            assert committed[k] == v, k
+
+
+@pytest.mark.parametrize("name", list(WORKBOOKS))
+def test_committed_workbook_saved_values_hold(name):
+    assert main(["check", str(ROOT / "workbooks" / name)]) == 0
+
+
+def test_every_function_family_is_exercised():
+    import re
+
+    from joulebook.catalog import CATALOG
+
+    used = set()
+    for name in WORKBOOKS:
+        for v in _cells(ROOT / "workbooks" / name).values():
+            if isinstance(v, str):
+                used |= set(re.findall(r"JB_[A-Z0-9_]+", v))
+    families = {f.family for f in CATALOG if f.name in used}
+    assert families >= {
+        "state",
+        "gas",
+        "solid",
+        "work",
+        "poly",
+        "balance",
+        "process",
+        "cycle",
+        "stored",
+        "util",
+    }
+
+
+def test_demo_command_writes_a_report_per_workbook(tmp_path, capsys):
+    assert main(["demo", str(tmp_path / "d")]) == 0
+    reports = sorted((tmp_path / "d" / "reports").glob("*.html"))
+    assert len(reports) == len(WORKBOOKS)
+    assert "Open the reports" in capsys.readouterr().out
