@@ -1,5 +1,7 @@
 """Shared test helpers."""
 
+from pathlib import Path
+
 import pytest
 
 import joulebook
@@ -8,3 +10,17 @@ import joulebook
 @pytest.fixture
 def call():
     return joulebook.call
+
+
+def pytest_addoption(parser):
+    parser.addoption(
+        "--validation-report", default=None, help="write the validation report (markdown) here"
+    )
+
+
+def pytest_sessionfinish(session, exitstatus):
+    path = session.config.getoption("--validation-report")
+    if path:
+        from refcheck import RECORDS, report
+
+        Path(path).write_text(report(RECORDS), encoding="utf-8")

@@ -14,6 +14,12 @@ import pytest
 from iapws import IAPWS95, IAPWS97
 
 from joulebook.errors import BadInput, OutOfRange
+from refcheck import check
+
+T7 = "IAPWS-95 (2018) Table 7 (recalled from memory; agrees with iapws 1.5.5 to 4e-9)"
+T8 = "IAPWS-95 (2018) Table 8 (recalled from memory; agrees with iapws 1.5.5 to 4e-9)"
+IAPWS = "iapws 1.5.5 (PyPI), independent IAPWS-95 implementation"
+IF97 = "IAPWS-IF97 via iapws 1.5.5 (industrial formulation; ~2e-3 from IAPWS-95 here)"
 
 TABLE7 = [
     # T/K, rho/(kg/m3), p/MPa, cv/(kJ/kg/K), s/(kJ/kg/K)   -- IAPWS-95 (2018) Table 7
@@ -69,9 +75,31 @@ TABLE8 = [
 @pytest.mark.parametrize("T, rho, p, cv, s", TABLE7)
 def test_iapws95_table7_single_phase(call, T, rho, p, cv, s):
     spec = ("T in K", T, "rho in kg/m3", rho)
-    assert call("JB_PROP", "water", "P in MPa", *spec) == pytest.approx(p, rel=1e-8)
-    assert call("JB_PROP", "water", "cv in kJ/(kg*K)", *spec) == pytest.approx(cv, rel=1e-8)
-    assert call("JB_PROP", "water", "s in kJ/(kg*K)", *spec) == pytest.approx(s, rel=1e-8)
+    cond = f"water, T = {T} K, rho = {rho} kg/m3"
+    check(
+        call("JB_PROP", "water", "P in MPa", *spec),
+        p,
+        rtol=1e-8,
+        quantity="P [MPa]",
+        conditions=cond,
+        source=T7,
+    )
+    check(
+        call("JB_PROP", "water", "cv in kJ/(kg*K)", *spec),
+        cv,
+        rtol=1e-8,
+        quantity="cv [kJ/(kg K)]",
+        conditions=cond,
+        source=T7,
+    )
+    check(
+        call("JB_PROP", "water", "s in kJ/(kg*K)", *spec),
+        s,
+        rtol=1e-8,
+        quantity="s [kJ/(kg K)]",
+        conditions=cond,
+        source=T7,
+    )
     # the transcription itself, against the independent iapws 1.5.5 implementation
     ref = IAPWS95(T=T, rho=rho)
     assert ref.P == pytest.approx(p, rel=1e-8) and ref.s == pytest.approx(s, rel=1e-8)
@@ -79,22 +107,20 @@ def test_iapws95_table7_single_phase(call, T, rho, p, cv, s):
 
 @pytest.mark.parametrize("T, p, rl, rv, hl, hv, sl, sv", TABLE8)
 def test_iapws95_table8_saturation(call, T, p, rl, rv, hl, hv, sl, sv):
-    assert call("JB_PROP_SAT", "water", "Psat in MPa", "T in K", T) == pytest.approx(p, rel=1e-8)
-    assert call("JB_PROP", "water", "rho", "T in K", T, "x", 0) == pytest.approx(rl, rel=1e-8)
-    assert call("JB_PROP", "water", "rho", "T in K", T, "x", 1) == pytest.approx(rv, rel=1e-8)
-    assert call("JB_PROP_SAT", "water", "hf in kJ/kg", "T in K", T) == pytest.approx(hl, rel=1e-8)
-    assert call("JB_PROP_SAT", "water", "hg in kJ/kg", "T in K", T) == pytest.approx(hv, rel=1e-8)
-    assert call("JB_PROP_SAT", "water", "sf in kJ/(kg*K)", "T in K", T) == pytest.approx(
-        sl, rel=1e-8
-    )
-    assert call("JB_PROP_SAT", "water", "sg in kJ/(kg*K)", "T in K", T) == pytest.approx(
-        sv, rel=1e-8
-    )
-    assert call("JB_PROP_SAT", "water", "hfg in kJ/kg", "T in K", T) == pytest.approx(
-        hv - hl, rel=1e-8
-    )
-    # saturation temperature from pressure closes the loop
-    assert call("JB_PROP_SAT", "water", "Tsat in K", "P in MPa", p) == pytest.approx(T, rel=1e-8)
+    cond = f"water, saturation at T = {T} K"
+    pairs = [
+        ("Psat [MPa]", call("JB_PROP_SAT", "water", "Psat in MPa", "T in K", T), p),
+        ("rho' [kg/m3]", call("JB_PROP", "water", "rho", "T in K", T, "x", 0), rl),
+        ("rho'' [kg/m3]", call("JB_PROP", "water", "rho", "T in K", T, "x", 1), rv),
+        ("h' [kJ/kg]", call("JB_PROP_SAT", "water", "hf in kJ/kg", "T in K", T), hl),
+        ("h'' [kJ/kg]", call("JB_PROP_SAT", "water", "hg in kJ/kg", "T in K", T), hv),
+        ("s' [kJ/(kg K)]", call("JB_PROP_SAT", "water", "sf in kJ/(kg*K)", "T in K", T), sl),
+        ("s'' [kJ/(kg K)]", call("JB_PROP_SAT", "water", "sg in kJ/(kg*K)", "T in K", T), sv),
+        ("h'' − h' [kJ/kg]", call("JB_PROP_SAT", "water", "hfg in kJ/kg", "T in K", T), hv - hl),
+        ("Tsat(Psat) [K]", call("JB_PROP_SAT", "water", "Tsat in K", "P in MPa", p), T),
+    ]
+    for q, ours, ref in pairs:
+        check(ours, ref, rtol=1e-8, quantity=q, conditions=cond, source=T8)
 
 
 def test_done_when_example_matches_iapws95(call):
@@ -131,7 +157,14 @@ def test_against_iapws_package_single_phase(call, T, P):
         ("cp in kJ/kg.K", ref.cp),
         ("cv in kJ/kg.K", ref.cv),
     ):
-        assert call("JB_PROP", "water", want, *spec) == pytest.approx(val, rel=2e-7), want
+        check(
+            call("JB_PROP", "water", want, *spec),
+            val,
+            rtol=2e-7,
+            quantity=want.replace(" in ", " [") + "]",
+            conditions=f"water, T = {T} K, P = {P} MPa",
+            source=IAPWS,
+        )
 
 
 @pytest.mark.parametrize("T, x", [(300.0, 0.25), (373.15, 0.5), (450.0, 0.9), (600.0, 0.1)])
@@ -139,10 +172,20 @@ def test_against_iapws_package_two_phase(call, T, x):
     # independent implementation: iapws 1.5.5 (IAPWS-95), two-phase via quality
     ref = IAPWS95(T=T, x=x)
     spec = ("T in K", T, "x", x)
-    assert call("JB_PROP", "water", "P in MPa", *spec) == pytest.approx(ref.P, rel=1e-7)
-    assert call("JB_PROP", "water", "h in kJ/kg", *spec) == pytest.approx(ref.h, rel=1e-7)
-    assert call("JB_PROP", "water", "s in kJ/kg.K", *spec) == pytest.approx(ref.s, rel=1e-7)
-    assert call("JB_PROP", "water", "v in m3/kg", *spec) == pytest.approx(ref.v, rel=1e-7)
+    for want, val in (
+        ("P in MPa", ref.P),
+        ("h in kJ/kg", ref.h),
+        ("s in kJ/kg.K", ref.s),
+        ("v in m3/kg", ref.v),
+    ):
+        check(
+            call("JB_PROP", "water", want, *spec),
+            val,
+            rtol=1e-7,
+            quantity=want.replace(" in ", " [") + "]",
+            conditions=f"water, T = {T} K, x = {x}",
+            source=IAPWS,
+        )
     assert call("JB_PHASE", "water", *spec) == "saturated mixture"
 
 
@@ -151,12 +194,11 @@ def test_if97_within_its_stated_agreement(call, T, P):
     # IAPWS-IF97 (via iapws 1.5.5) is an industrial fit to IAPWS-95; the two agree to a few
     # parts per thousand in these regions, so the tolerance is 2e-3, not a precision check.
     ref = IAPWS97(T=T, P=P)
-    assert call("JB_PROP", "water", "h in kJ/kg", "T in K", T, "P in MPa", P) == pytest.approx(
-        ref.h, rel=2e-3
-    )
-    assert call("JB_PROP", "water", "v in m3/kg", "T in K", T, "P in MPa", P) == pytest.approx(
-        ref.v, rel=2e-3
-    )
+    cond = f"water, T = {T} K, P = {P} MPa"
+    h = call("JB_PROP", "water", "h in kJ/kg", "T in K", T, "P in MPa", P)
+    v = call("JB_PROP", "water", "v in m3/kg", "T in K", T, "P in MPa", P)
+    check(h, ref.h, rtol=2e-3, quantity="h [kJ/kg]", conditions=cond, source=IF97)
+    check(v, ref.v, rtol=2e-3, quantity="v [m3/kg]", conditions=cond, source=IF97)
 
 
 @pytest.mark.parametrize(

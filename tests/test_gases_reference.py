@@ -14,6 +14,9 @@ import numpy as np
 import pytest
 
 from joulebook.errors import BadInput, OutOfRange
+from refcheck import check
+
+NASA_SRC = "NASA TM-4513 polynomials via Cantera 3.2.0 (nasa_gas.yaml)"
 
 NASA = {s.name: s for s in ct.Species.list_from_file("nasa_gas.yaml")}
 
@@ -42,12 +45,26 @@ def _nasa_air_cp(T: float) -> float:
     ],
 )
 def test_cp0_against_nasa_tm4513(call, gas, species, rtol, T):
-    assert call("JB_GAS_CP", gas, T, "K-Pa-J") == pytest.approx(_nasa_cp(species, T), rel=rtol)
+    check(
+        call("JB_GAS_CP", gas, T, "K-Pa-J"),
+        _nasa_cp(species, T),
+        rtol=rtol,
+        quantity="cp0 [J/(kg K)]",
+        conditions=f"{gas}, T = {T} K",
+        source=NASA_SRC,
+    )
 
 
 @pytest.mark.parametrize("T", [300.0, 500.0, 1000.0])
 def test_air_cp0_against_nasa_tm4513(call, T):
-    assert call("JB_GAS_CP", "air", T, "K-Pa-J") == pytest.approx(_nasa_air_cp(T), rel=1e-3)
+    check(
+        call("JB_GAS_CP", "air", T, "K-Pa-J"),
+        _nasa_air_cp(T),
+        rtol=1e-3,
+        quantity="cp0 [J/(kg K)]",
+        conditions=f"air (N2 0.7812, O2 0.2096, Ar 0.0092), T = {T} K",
+        source=NASA_SRC,
+    )
 
 
 def test_R_of_air(call):

@@ -30,9 +30,13 @@ def test_readme_has_exactly_two_commands_up_front():
 def test_first_command_on_a_fresh_copy(tmp_path):
     first, _ = _commands()
     work = tmp_path / "joulebook"
-    ignore = shutil.ignore_patterns(".venv", ".git", "*.egg-info", "__pycache__", "joulebook-demo", ".pytest_cache")
+    ignore = shutil.ignore_patterns(
+        ".venv", ".git", "*.egg-info", "__pycache__", "joulebook-demo", ".pytest_cache"
+    )
     shutil.copytree(ROOT, work, ignore=ignore)
-    r = subprocess.run(["bash", "-c", first], cwd=work, capture_output=True, text=True, timeout=1800)
+    r = subprocess.run(
+        ["bash", "-c", first], cwd=work, capture_output=True, text=True, timeout=1800
+    )
     assert r.returncode == 0, r.stderr[-2000:]
     reports = sorted((work / "joulebook-demo" / "reports").glob("*.html"))
     assert len(reports) >= 5

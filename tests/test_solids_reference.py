@@ -16,6 +16,7 @@ from iapws import IAPWS95
 
 from joulebook.errors import BadInput, OutOfRange
 from joulebook.substances import solids
+from refcheck import check
 
 COND = {s.name: s for s in ct.Species.list_from_file("nasa_condensed.yaml")}
 
@@ -27,7 +28,14 @@ COND = {s.name: s for s in ct.Species.list_from_file("nasa_condensed.yaml")}
 def test_metals_against_nasa_condensed(call, material, species, T):
     s = COND[species]
     ref = s.thermo.cp(T) / s.molecular_weight  # J/(kg K)
-    assert call("JB_SOLID_C", material, T, "K-Pa-J") == pytest.approx(ref, rel=1e-6)
+    check(
+        call("JB_SOLID_C", material, T, "K-Pa-J"),
+        ref,
+        rtol=1e-6,
+        quantity="c [J/(kg K)]",
+        conditions=f"{material}, T = {T} K",
+        source="NASA TM-4513 condensed species via Cantera 3.2.0 (nasa_condensed.yaml)",
+    )
 
 
 @pytest.mark.parametrize(
@@ -36,8 +44,13 @@ def test_metals_against_nasa_condensed(call, material, species, T):
 )
 def test_metals_against_janaf_298(call, material, M, cp_molar):
     # NIST-JANAF Cp° at 298.15 K (from memory; 1 % tolerance)
-    assert call("JB_SOLID_C", material, 298.15, "K-Pa-J") == pytest.approx(
-        cp_molar / M * 1000, rel=1e-2
+    check(
+        call("JB_SOLID_C", material, 298.15, "K-Pa-J"),
+        cp_molar / M * 1000,
+        rtol=1e-2,
+        quantity="c [J/(kg K)]",
+        conditions=f"{material}, T = 298.15 K",
+        source="NIST-JANAF Cp at 298.15 K (recalled from memory)",
     )
 
 
@@ -45,7 +58,14 @@ def test_metals_against_janaf_298(call, material, M, cp_molar):
 def test_liquid_water_table_against_iapws95(call, T):
     # IAPWS-95 via iapws 1.5.5 at 101.325 kPa; the table is linear between 5 K points
     ref = IAPWS95(T=T, P=0.101325).cp
-    assert call("JB_SOLID_C", "water", T) == pytest.approx(ref, rel=5e-4)
+    check(
+        call("JB_SOLID_C", "water", T, "K-Pa-J"),
+        ref * 1e3,
+        rtol=5e-4,
+        quantity="c [J/(kg K)]",
+        conditions=f"liquid water, T = {T} K, 101.325 kPa",
+        source="iapws 1.5.5 (PyPI), independent IAPWS-95 implementation",
+    )
 
 
 def test_at_least_twelve_materials_each_with_source_and_range():
