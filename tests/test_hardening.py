@@ -351,3 +351,66 @@ def test_fuzz_sample_every_catalog_function(c):
 @given(calls())
 def test_fuzz_long_run(c):
     _fuzz_one(*c)
+
+
+# ---------------------------------------------------------------------------------------
+# thermodynamic invariants as properties (common practice: cp > cv; Q − W = ΔU)
+
+STATES = st.sampled_from(
+    [
+        "water | T = 25 degC | P = 5 bar",
+        "water | P = 2 bar | x = 0.3",
+        "water | T = 300 degC | P = 10 bar",
+        "CO2 | T = 40 degC | P = 60 bar",
+        "R134a | T = 20 degC | P = 3 bar",
+        "nitrogen | T = 300 K | P = 100 kPa",
+        "air (ideal gas) | T = 300 K | P = 100 kPa",
+        "air | k = 1.4 | T = 350 K | P = 200 kPa",
+    ]
+)
+
+
+@settings(max_examples=60, deadline=None, suppress_health_check=list(HealthCheck))
+@given(
+    state=STATES,
+    path=st.sampled_from(
+        [
+            "rigid",
+            "isobaric",
+            "isothermal",
+            "isentropic",
+            "polytropic n = 1.25",
+            "linear slope = 300 kPa/m3",
+        ]
+    ),
+    factor=st.floats(min_value=0.4, max_value=2.5),
+)
+def test_every_solved_process_closes_the_first_law_property(state, path, factor):
+    v1 = joulebook.call("JB_PROP", state, "v in m3/kg")
+    T1 = joulebook.call("JB_PROP", state, "T in K")
+    end, value = (
+        ("T2 in K", T1 * factor) if path in ("rigid", "isobaric") else ("v2 in m3/kg", v1 * factor)
+    )
+    try:
+        Q, W, dU = (
+            joulebook.call("JB_PROCESS", state, path, end, value, f"{w} in J", 1.0)
+            for w in ("Q", "W", "dU")
+        )
+    except JoulebookError:
+        return  # outside the model or not reachable on that path: refused, never guessed
+    assert abs(Q - W - dU) <= 1e-9 * max(abs(Q), abs(W), abs(dU), 1.0)
+
+
+@settings(max_examples=150, deadline=None, suppress_health_check=list(HealthCheck))
+@given(
+    fluid=st.sampled_from(["water", "CO2", "R134a", "nitrogen", "ammonia", "propane"]),
+    T=st.floats(min_value=200, max_value=900),
+    P=st.floats(min_value=10, max_value=50_000),
+)
+def test_cp_exceeds_cv_property(fluid, T, P):
+    try:
+        cp = joulebook.call("JB_PROP", fluid, "cp", "T in K", T, "P in kPa", P)
+        cv = joulebook.call("JB_PROP", fluid, "cv", "T in K", T, "P in kPa", P)
+    except JoulebookError:
+        return
+    assert cp > cv > 0
