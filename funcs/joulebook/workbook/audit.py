@@ -391,26 +391,20 @@ def _gauge_refs(book: Book, c: Cell, formula: str) -> list[str]:
     return out
 
 
+def _is_quantity(f: Func, name: str, argvals: dict, kind: str, symbol: str) -> bool:
+    """Is argument *name* a *kind* quantity (directly, or through its spec phrase)?"""
+    for a in f.all_args:
+        if a.name == name and a.quantity == kind:
+            return True
+    spec = {"value1": "spec1", "value2": "spec2", "value": "given", "end_value": "end_spec"}.get(
+        name
+    )
+    s = argvals.get(spec) if spec else None
+    return isinstance(s, str) and s.strip().startswith(symbol)
+
+
 def _is_temperature(f: Func, name: str, argvals: dict) -> bool:
-    for a in f.all_args:
-        if a.name == name and a.quantity == "temperature":
-            return True
-    spec = {"value1": "spec1", "value2": "spec2", "value": "given", "end_value": "end_spec"}.get(
-        name
-    )
-    s = argvals.get(spec) if spec else None
-    return isinstance(s, str) and s.strip().startswith("T")
-
-
-def _is_pressure(f: Func, name: str, argvals: dict) -> bool:
-    for a in f.all_args:
-        if a.name == name and a.quantity == "pressure":
-            return True
-    spec = {"value1": "spec1", "value2": "spec2", "value": "given", "end_value": "end_spec"}.get(
-        name
-    )
-    s = argvals.get(spec) if spec else None
-    return isinstance(s, str) and s.strip().startswith("P")
+    return _is_quantity(f, name, argvals, "temperature", "T")
 
 
 def _state_flags(f: Func, argvals: dict) -> list[str]:
