@@ -28,13 +28,36 @@ def rebuilt(tmp_path_factory):
     return build_workbooks(tmp_path_factory.mktemp("demo"), recalculate=True)
 
 
+def test_macro_enabled_copy_carries_the_vba_wrappers():
+    # independent reader of VBA projects: oletools' olevba (PyPI)
+    from oletools.olevba import VBA_Parser
+
+    from joulebook.demo import XLSM
+    from joulebook.sheet.generate import vba_source
+
+    path = ROOT / "workbooks" / XLSM
+    modules = {name: code for _f, _s, name, code in VBA_Parser(str(path)).extract_macros()}
+    assert set(modules) == {
+        "ThisWorkbook.cls",
+        "Sheet1.cls",
+        "Sheet2.cls",
+        "xlwings.bas",
+        "xlwings_udfs.bas",
+    }
+    assert modules["xlwings_udfs.bas"].replace("\r\n", "\n") == vba_source()
+    assert modules["xlwings.bas"].startswith('Attribute VB_Name = "xlwings"')
+    wb = openpyxl.load_workbook(path, keep_vba=True)
+    assert wb["xlwings.conf"]["B1"].value == "joulebook.sheet.udfs"
+    assert main(["check", str(path)]) == 0
+
+
 def test_at_least_five_workbooks_are_committed():
     assert len(WORKBOOKS) >= 5
     for name in WORKBOOKS:
         assert (ROOT / "workbooks" / name).exists(), f"run `joulebook workbooks` ({name} missing)"
 
 
-@pytest.mark.parametrize("name", list(WORKBOOKS))
+@pytest.mark.parametrize("name", [*WORKBOOKS, "receiver_pneumatic_test_with_macros.xlsm"])
 def test_committed_workbook_is_fresh(rebuilt, name):
     fresh = next(p for p in rebuilt if p.name == name)
     committed, new = _cells(ROOT / "workbooks" / name), _cells(fresh)

@@ -404,6 +404,48 @@ WORKBOOKS = {
 }
 
 
+XLSM = "receiver_pneumatic_test_with_macros.xlsm"
+
+
+def build_xlsm(folder: str | Path) -> Path:
+    """The receiver workbook as a macro-enabled .xlsm carrying joulebook's VBA wrappers and
+    xlwings' own VBA module, configured (sheet ``xlwings.conf``) to call joulebook.sheet.udfs."""
+    from pathlib import Path as _P
+
+    import openpyxl
+    import xlwings
+
+    from .sheet.generate import vba_source
+    from .sheet.vbaproject import to_xlsm, vba_project
+    from .workbook.engine import Engine
+    from .workbook.reader import read_book
+    from .workbook.writer import write_copy
+
+    folder = _P(folder)
+    wb = openpyxl.Workbook()
+    wb.properties.creator = "joulebook demo"
+    receiver_test(wb)
+    wb.code_name = "ThisWorkbook"
+    wb["Receiver"].sheet_properties.codeName = "Sheet1"
+    conf = wb.create_sheet("xlwings.conf")
+    conf.sheet_properties.codeName = "Sheet2"
+    conf["A1"], conf["B1"] = "UDF Modules", "joulebook.sheet.udfs"
+    conf["A2"], conf["B2"] = "Interpreter_Win", ""
+    raw = folder / ".xlsm.raw.xlsx"
+    wb.save(raw)
+    _freeze_times(raw)
+    fresh = folder / ".xlsm.fresh.xlsx"
+    book = read_book(raw)
+    write_copy(book, Engine(book).run(), fresh, force=True)
+    raw.unlink()
+    xl_bas = (_P(xlwings.__file__).parent / "xlwings.bas").read_text(encoding="cp1252")
+    vba = vba_project([("xlwings", xl_bas), ("xlwings_udfs", vba_source())], ["Sheet1", "Sheet2"])
+    out = folder / XLSM
+    to_xlsm(str(fresh), str(out), vba)
+    fresh.unlink()
+    return out
+
+
 def build_workbooks(folder: str | Path, recalculate: bool = True) -> list[Path]:
     """Write every demo workbook into *folder* (with saved values when *recalculate*)."""
     import openpyxl
@@ -430,6 +472,8 @@ def build_workbooks(folder: str | Path, recalculate: bool = True) -> list[Path]:
         else:
             raw.replace(path)
         out.append(path)
+    if recalculate:
+        out.append(build_xlsm(folder))
     return out
 
 
