@@ -100,7 +100,7 @@ def test_iapws95_table7_single_phase(call, T, rho, p, cv, s):
         conditions=cond,
         source=T7,
     )
-    # the transcription itself, against the independent iapws 1.5.5 implementation
+    # the table values as copied here, against the independent iapws 1.5.5 implementation
     ref = IAPWS95(T=T, rho=rho)
     assert ref.P == pytest.approx(p, rel=1e-8) and ref.s == pytest.approx(s, rel=1e-8)
 

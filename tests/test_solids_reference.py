@@ -3,7 +3,7 @@
 Sources
 -------
 * NASA TM-4513 condensed-species polynomials (Al(cr), Cu(cr), Fe(a)) as carried by Cantera
-  3.2.0's ``nasa_condensed.yaml``: the independent evaluation checks our transcription.
+  3.2.0's ``nasa_condensed.yaml``: the independent evaluation checks our copy of the coefficients.
 * NIST-JANAF Thermochemical Tables (Chase 1998, 4th ed.) Cp° at 298.15 K: Al 24.209,
   Cu 24.440, Fe 25.10 J/(mol K) — recalled from memory, checked with a 1 % tolerance.
 * Liquid water: IAPWS-95 via the independent `iapws` 1.5.5 package at 101.325 kPa.
