@@ -239,8 +239,16 @@ def indicator_record(wb) -> None:
         r,
         "Results",
         [
-            ("Compression exponent (fit of points 1-9)", "=JB_POLY_FIT(B11:B19,C11:C19)", "-"),
-            ("Exponent from end points of compression", "=JB_POLY_EXPONENT(B11,C11,B19,C19)", "-"),
+            (
+                "Compression exponent (fit of points 1-9)",
+                '=JB_POLY_FIT(B11:B19,C11:C19,"n","P=kPa, V=L")',
+                "-",
+            ),
+            (
+                "Exponent from end points of compression",
+                '=JB_POLY_EXPONENT(B11,C11,B19,C19,"P=kPa, V=L")',
+                "-",
+            ),
             (
                 "Net indicated work per cycle (trapezoid)",
                 f'=JB_WORK_PV(B11:B{last},C11:C{last},"trapezoid","P=kPa, V=L, E=J")',

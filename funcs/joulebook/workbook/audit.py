@@ -167,7 +167,17 @@ def _resolve_arg(text: str, here: Cell, book: Book, values: dict, engine: Engine
         where = f"{target[0]}!{col_letters(target[2])}{target[1]}"
         return v, f"{kind} {where}" + (f" ({lab})" if lab else "")
     if _RANGE.match(text):
-        return None, f"range {text}"
+        try:
+            v = engine.evaluate(here.sheet, here.row, here.col, text, values)
+        except Exception:
+            return None, f"range {text}"
+        arr = np.asarray(v, dtype=object)
+        nums = [
+            float(x)
+            for x in arr.reshape(-1)
+            if isinstance(x, (int, float)) and not isinstance(x, bool)
+        ]
+        return (nums or None), f"range {text}"
     try:
         v = engine.evaluate(here.sheet, here.row, here.col, text, values)
     except Exception:  # an argument the engine cannot evaluate on its own: show its text
@@ -253,6 +263,13 @@ def _model(f: Func, argvals: dict) -> str:
 
 def _n(x) -> str:
     return fmt(x) if isinstance(x, (int, float)) else str(x)
+
+
+def _shown(v) -> str:
+    """A value for the inputs table (a range as its count and extremes)."""
+    if isinstance(v, list):
+        return f"{len(v)} values, {fmt(min(v))} … {fmt(max(v))}" if v else "no numbers"
+    return fmt(v)
 
 
 def _equation(f: Func, argvals: dict, units: dict, result, res_unit: str) -> str:
@@ -508,6 +525,22 @@ def _figure(f: Func, argvals: dict, units: dict | None = None) -> str:
                 _ts(axes[1], med, T, s)
             fig.tight_layout()
             return _svg(fig)
+        if (
+            f.name == "JB_WORK_PV"
+            and isinstance(a.get("P_values"), list)
+            and isinstance(a.get("V_values"), list)
+        ):
+            P, V = np.array(a["P_values"]), np.array(a["V_values"])
+            if len(P) == len(V) >= 2:
+                fig, ax = plt.subplots(figsize=(3.8, 2.8))
+                u = units or {}
+                ax.plot(V, P, "o-", color="#1d5c7a", ms=3, lw=1.4)
+                ax.fill(V, P, color="#8fc1d4", alpha=0.45, lw=0)
+                ax.set_xlabel(f"V [{u.get('V_values', '?')}]")
+                ax.set_ylabel(f"P [{u.get('P_values', '?')}]")
+                ax.set_title("measured P–V points; enclosed area = net work", fontsize=8)
+                ax.grid(alpha=0.3)
+                return _svg(fig)
         if f.name in (
             "JB_WORK_ISOBARIC",
             "JB_WORK_LINEAR",
@@ -880,7 +913,7 @@ def render_html(a: Audit) -> str:
                 out.append("<table><tr><th>input</th><th>value</th><th>unit</th><th>from</th></tr>")
                 for i in e.inputs:
                     out.append(
-                        f"<tr><td>{_e(i.name)}</td><td>{_e(fmt(i.value))}</td><td>{_e(i.unit)}</td><td>{_e(i.source)}</td></tr>"
+                        f"<tr><td>{_e(i.name)}</td><td>{_e(_shown(i.value))}</td><td>{_e(i.unit)}</td><td>{_e(i.source)}</td></tr>"
                     )
                 out.append("</table>")
             res = (
