@@ -13,6 +13,7 @@ from joulebook.cli import main
 from joulebook.workbook.audit import build_audit, render_html
 from joulebook.workbook.reader import read_book
 from joulebook.workbook.writer import patch_sheet_xml
+from wbtools import rewrite_part
 
 
 def _clean(ws):
@@ -66,13 +67,12 @@ def test_clean_workbook_raises_no_flag(tmp_path):
 def test_planted_mistakes_are_flagged(tmp_path):
     src = _recalc(_build(tmp_path / "bad.xlsx", True), tmp_path)
     # and a stale saved value: the stored energy as if computed before an input changed
-    stale = tmp_path / "bad-stale.xlsx"
-    with zipfile.ZipFile(src) as zin, zipfile.ZipFile(stale, "w") as zout:
-        for info in zin.infolist():
-            data = zin.read(info)
-            if info.filename == "xl/worksheets/sheet1.xml":
-                data = patch_sheet_xml(data, {(8, 2): 12.5})  # Vessel!B8
-            zout.writestr(info, data)
+    stale = rewrite_part(
+        src,
+        tmp_path / "bad-stale.xlsx",
+        "xl/worksheets/sheet1.xml",
+        lambda x: patch_sheet_xml(x, {(8, 2): 12.5}),  # Vessel!B8
+    )
     a = build_audit(read_book(stale), figures=False)
     flags = {(e.sheet, e.cell): " | ".join(e.flags) for e in a.entries}
     assert "labelled as a gauge pressure" in flags[("Vessel", "B6")]

@@ -27,6 +27,7 @@ from joulebook.errors import BadInput, JoulebookError
 from joulebook.sheet.cells import cell
 from joulebook.workbook.engine import Engine
 from joulebook.workbook.reader import Limits, read_book
+from wbtools import rewrite_part
 
 SHEET_HEAD = b'<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n'
 NS = b'xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main"'
@@ -40,14 +41,8 @@ def _base(path: Path) -> Path:
     return path
 
 
-def _replace(src: Path, dst: Path, name: str, data: bytes, compress=zipfile.ZIP_DEFLATED) -> Path:
-    with zipfile.ZipFile(src) as zin, zipfile.ZipFile(dst, "w") as zout:
-        for info in zin.infolist():
-            if info.filename == name:
-                zout.writestr(name, data, compress_type=compress)
-            else:
-                zout.writestr(info, zin.read(info))
-    return dst
+def _replace(src: Path, dst: Path, name: str, data: bytes) -> Path:
+    return rewrite_part(src, dst, name, lambda _old: data)
 
 
 def _sha(p: Path) -> str:

@@ -20,6 +20,7 @@ from joulebook.errors import BadInput
 from joulebook.workbook.engine import Engine
 from joulebook.workbook.reader import Limits, read_book
 from joulebook.workbook.writer import patch_sheet_xml
+from wbtools import rewrite_part
 
 
 def _sha(p: Path) -> str:
@@ -119,13 +120,12 @@ def test_check_reports_missing_values_then_passes_after_recalc(
 
 
 def test_check_catches_a_wrong_saved_value(recalculated, tmp_path):
-    bad = tmp_path / "tampered.xlsx"
-    with zipfile.ZipFile(recalculated) as zin, zipfile.ZipFile(bad, "w") as zout:
-        for info in zin.infolist():
-            data = zin.read(info)
-            if info.filename == "xl/worksheets/sheet1.xml":
-                data = patch_sheet_xml(data, {(6, 2): 999.0})  # Inputs!B6
-            zout.writestr(info, data)
+    bad = rewrite_part(
+        recalculated,
+        tmp_path / "tampered.xlsx",
+        "xl/worksheets/sheet1.xml",
+        lambda x: patch_sheet_xml(x, {(6, 2): 999.0}),  # Inputs!B6
+    )
     rows_json = tmp_path / "t.json"
     assert main(["check", str(bad), "--json", str(rows_json)]) == 1
     import json
@@ -164,13 +164,12 @@ def test_recalc_refuses_to_overwrite(fixture_book, recalculated, capsys):
 
 def test_addin_linked_formulas_are_ours(tmp_path):
     p = _make(tmp_path / "a.xlsx")
-    q = tmp_path / "linked.xlsx"
-    with zipfile.ZipFile(p) as zin, zipfile.ZipFile(q, "w") as zout:
-        for info in zin.infolist():
-            data = zin.read(info)
-            if info.filename == "xl/worksheets/sheet1.xml":
-                data = data.replace(b"JB_PROP(", b"[1]!JB_PROP(")
-            zout.writestr(info, data)
+    q = rewrite_part(
+        p,
+        tmp_path / "linked.xlsx",
+        "xl/worksheets/sheet1.xml",
+        lambda x: x.replace(b"JB_PROP(", b"[1]!JB_PROP("),
+    )
     out = Engine(read_book(q)).run()
     assert isinstance(out[("Inputs", 5, 2)].value, float)
 
@@ -204,23 +203,19 @@ def test_shared_formulas_are_expanded(tmp_path):
     # Excel writes a column of copied formulas once, as a shared formula; openpyxl does not,
     # so the fixture is rewritten into that form here.
     p = _make(tmp_path / "s.xlsx")
-    q = tmp_path / "shared.xlsx"
-    with zipfile.ZipFile(p) as zin, zipfile.ZipFile(q, "w") as zout:
-        for info in zin.infolist():
-            data = zin.read(info)
-            if info.filename == "xl/worksheets/sheet1.xml":
 
-                def share(m):
-                    r = int(m.group(1))
-                    if r == 5:
-                        return b'<c r="C5"><f t="shared" ref="C5:C14" si="0">ROUND(B5,3)</f><v></v></c>'
-                    return b'<c r="C%d"><f t="shared" si="0"/><v></v></c>' % r
+    def share(m):
+        r = int(m.group(1))
+        if r == 5:
+            return b'<c r="C5"><f t="shared" ref="C5:C14" si="0">ROUND(B5,3)</f><v></v></c>'
+        return b'<c r="C%d"><f t="shared" si="0"/><v></v></c>' % r
 
-                data = re.sub(
-                    rb'<c r="C(\d+)"><f>ROUND\(B\d+,3\)</f><v\s*/?>(?:</v>)?</c>', share, data
-                )
-                assert data.count(b't="shared"') == 10
-            zout.writestr(info, data)
+    def to_shared(data):
+        data = re.sub(rb'<c r="C(\d+)"><f>ROUND\(B\d+,3\)</f><v\s*/?>(?:</v>)?</c>', share, data)
+        assert data.count(b't="shared"') == 10
+        return data
+
+    q = rewrite_part(p, tmp_path / "shared.xlsx", "xl/worksheets/sheet1.xml", to_shared)
     book = read_book(q)
     assert book.cells[("Inputs", 9, 3)].formula == "ROUND(B9,3)"
     out = Engine(book).run()

@@ -115,18 +115,19 @@ def parse_path(text: str, system: UnitSystem) -> Path:
             k = system.conv("pressure").factor / system.conv("volume").factor
         kw["slope"] = val * k
     elif word == "stops":
-        if "P" in params:
-            val, unit = params.pop("P")
-            conv = parse_unit(unit, "pressure") if unit else system.conv("pressure")
-            kw["P_lift"] = conv.to_si(val)
-            if not kw["P_lift"] > 0:
-                raise OutOfRange("stops P (lift-off pressure) must be > 0 absolute")
-        elif "V" in params:
-            val, unit = params.pop("V")
-            conv = parse_unit(unit, "volume") if unit else system.conv("volume")
-            kw["V_stop"] = conv.to_si(val)
-            if not kw["V_stop"] > 0:
-                raise OutOfRange("stops V (volume at the stops) must be > 0")
+        for key, kind, field_name, words in (
+            ("P", "pressure", "P_lift", "lift-off pressure"),
+            ("V", "volume", "V_stop", "volume at the stops"),
+        ):
+            if key in params:
+                val, unit = params.pop(key)
+                conv = parse_unit(unit, kind) if unit else system.conv(kind)
+                kw[field_name] = conv.to_si(val)
+                if not kw[field_name] > 0:
+                    raise OutOfRange(
+                        f"stops {key} ({words}) must be > 0" + (" absolute" if key == "P" else "")
+                    )
+                break
         else:
             raise BadInput(
                 "path stops needs P (lift-off pressure) or V (stop volume), e.g. 'stops P = 500 kPa'"
