@@ -111,11 +111,11 @@ def _recalc(ns: argparse.Namespace) -> int:
         print(e.cell_text(), file=sys.stderr)
         return 2
     s = summary(compare(book, outcomes))
-    kept = sum(s.get(k, 0) for k in ("unsupported", "circular", "error"))
+    kept = sum(s.get(k, 0) for k in ("unsupported", "circular", "error", "not checked"))
     print(
         f"wrote {ns.output}: {s['cells'] - kept} formula cells recalculated"
         + (
-            f", {kept} left as saved (unsupported or circular; see `joulebook check`)"
+            f", {kept} left as saved (unsupported, circular or not checked; see `joulebook check`)"
             if kept
             else ""
         )

@@ -20,7 +20,7 @@ class Row:
     formula: str
     cached: object
     recomputed: object
-    status: str  # "pass", "differs", "no cached value", "error", "unsupported", "circular"
+    status: str  # pass, differs, no cached value, error, volatile, unsupported, not checked, circular
     note: str = ""
 
 
@@ -63,6 +63,10 @@ def compare(book: Book, outcomes: dict, rtol: float = 1e-9, atol: float = 1e-12)
             status, note = "unsupported", o.problem
         elif o.problem.startswith("circular"):
             status, note = "circular", o.problem
+        elif o.problem.startswith("not checked"):
+            status, note = "not checked", o.problem
+        elif o.problem.startswith("volatile"):
+            status, note = "volatile", o.problem
         elif o.problem:
             status, note = "error", o.problem
         elif not has:
@@ -73,6 +77,8 @@ def compare(book: Book, outcomes: dict, rtol: float = 1e-9, atol: float = 1e-12)
             status, note = "differs", ""
         if status == "pass" and (_is_our_error_text(o.value) or (isinstance(o.value, tuple))):
             note = "the cell holds an error (Excel saved the same)"
+        if o.note:
+            note = (note + "; " if note else "") + o.note
         rows.append(
             Row(key[0], f"{col_letters(key[2])}{key[1]}", formula, cached, o.value, status, note)
         )
@@ -86,7 +92,7 @@ def summary(rows: list[Row]) -> dict:
     out["errors_in_values"] = sum(
         1
         for r in rows
-        if r.status not in ("unsupported", "circular", "error")
+        if r.status not in ("unsupported", "circular", "error", "not checked", "volatile")
         and (_is_our_error_text(r.recomputed) or isinstance(r.recomputed, tuple))
     )
     return out
@@ -116,7 +122,7 @@ def to_json(book: Book, rows: list[Row], rtol: float, atol: float) -> str:
 def to_junit(book: Book, rows: list[Row]) -> str:
     """JUnit XML: one test case per cell; differences are failures, problems are errors."""
     fails = sum(r.status in ("differs", "no cached value") for r in rows)
-    errs = sum(r.status in ("error", "unsupported", "circular") for r in rows)
+    errs = sum(r.status in ("error", "unsupported", "circular", "not checked") for r in rows)
     out = [
         '<?xml version="1.0" encoding="utf-8"?>',
         f'<testsuite name={quoteattr("joulebook check " + book.path.name)} tests="{len(rows)}" '
@@ -130,7 +136,7 @@ def to_junit(book: Book, rows: list[Row]) -> str:
             body = (
                 f"<failure message={quoteattr(r.status + ': ' + msg)}>{escape(r.formula)}</failure>"
             )
-        elif r.status in ("error", "unsupported", "circular"):
+        elif r.status in ("error", "unsupported", "circular", "not checked"):
             body = f"<error message={quoteattr(r.note)}>{escape(r.formula)}</error>"
         out.append(f"  <testcase classname={quoteattr(r.sheet)} name={name}>{body}</testcase>")
     out.append("</testsuite>")

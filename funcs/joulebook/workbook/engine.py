@@ -1,20 +1,33 @@
 """Headless recalculation of a saved workbook.
 
 The Excel formula language and built-ins come from the ``formulas`` library (EUPL-1.1+); we
-do not write our own Excel.  To avoid its per-cell cost, each distinct formula *shape* (the
-formula translated to a fixed anchor cell, i.e. its relative form) is compiled once and
-reused for every cell of that shape with the references shifted; cells are evaluated in
-dependency order (:mod:`graphlib`); circular references are found and reported, never looped.
-Cells using position-dependent functions (ROW, COLUMN, OFFSET, INDIRECT) are compiled per
-cell.  joulebook's own functions are registered from the catalog and run through
-:func:`joulebook.catalog.call` exactly as in Excel: a failure gives the same cell text
-(``OutOfRange: …``) that the sheet face returns.
+do not write our own Excel.  References are read by :mod:`.refs` from openpyxl's tokenizer,
+never by regular expressions over formula text.  Each formula is rewritten as a *template*:
+every reference operand becomes a placeholder (``_JBR0``, ``_JBR1``, …) and defined names
+holding a constant or an expression are spliced in.  A template is compiled by the library
+once and reused by every cell that has it; each cell resolves its own placeholders (``$``,
+whole rows and columns, other sheets, 3-D spans, tables, external-link caches) and hands the
+compiled function the values as the library itself would: a reference is a 2-D array (or the
+library's ``Ranges`` object where a function needs the reference itself, such as ROW, ISREF,
+INDEX or the range operators), so text, booleans and blanks behave as in Excel.
+
+Cells are evaluated in dependency order (:mod:`graphlib`); circular references are reported,
+never looped.  Same-shape cells of a column whose functions are all elementwise are evaluated
+in one vectorised call.  OFFSET and INDIRECT are evaluated cell by cell after the rest, with
+their targets found (and computed) at run time.
+
+Nothing is written silently: a cell that cannot be evaluated keeps its saved value and its
+:class:`Outcome` says why (``unsupported: …``, ``circular reference``); a cell that depends on
+such a cell is ``not checked: depends on Sheet!A1 (…)``; a cell whose value depends on the
+clock or on chance is ``volatile``.  joulebook's own functions are registered from the catalog
+and run through :func:`joulebook.catalog.call` exactly as in Excel.
 """
 
 from __future__ import annotations
 
 import graphlib
-import re
+import logging
+import threading
 from bisect import bisect_left, bisect_right
 from dataclasses import dataclass, field
 
@@ -22,15 +35,34 @@ import numpy as np
 
 from ..catalog import CATALOG
 from ..sheet.cells import cell as sheet_cell
-from .reader import Book, Cell, col_letters, col_number
+from .reader import Book, Cell
+from .refs import MAX_COL, MAX_ROW, Ref, col_letters, parse_ref, quote_sheet, tokens
 
-__all__ = ["Engine", "Outcome", "ERROR"]
+__all__ = ["Engine", "Outcome", "ERROR", "VOLATILE"]
 
-ANCHOR_ROW, ANCHOR_COL = 100_000, 703  # AAA100000: far enough that relative refs stay valid
-_POSITIONAL = re.compile(r"\b(ROW|COLUMN|ROWS|COLUMNS|OFFSET|INDIRECT|CELL)\s*\(", re.IGNORECASE)
-_UNSUPPORTED = re.compile(
-    r"\[[^\]]*\.(xlsx|xlsm|xls|csv)\]|\bTABLE\s*\(|'\w:\\|https?://", re.IGNORECASE
+#: functions whose value changes with the clock or by chance: reported, never compared
+VOLATILE = frozenset({"NOW", "TODAY", "RAND", "RANDBETWEEN", "RANDARRAY", "_XLFN.RANDARRAY"})
+#: functions (and operators) that need the reference itself, not only its values
+_NEEDS_RANGES = frozenset(
+    {
+        "ROW",
+        "COLUMN",
+        "ROWS",
+        "COLUMNS",
+        "AREAS",
+        "ISREF",
+        "INDEX",
+        "OFFSET",
+        "INDIRECT",
+        "SINGLE",
+        "_XLFN.SINGLE",
+        "ISFORMULA",
+        "_XLFN.ISFORMULA",
+    }
 )
+_DYNAMIC = frozenset({"OFFSET", "INDIRECT"})
+_POSITIONAL = frozenset({"ROW", "COLUMN", "SINGLE", "_XLFN.SINGLE"})  # ROW() needs the cell
+_MAX_NAME_DEPTH = 16
 
 
 def ERROR(code: str) -> tuple[str, str]:  # noqa: N802 - reads like Excel's error values
@@ -39,35 +71,52 @@ def ERROR(code: str) -> tuple[str, str]:  # noqa: N802 - reads like Excel's erro
 
 @dataclass
 class Outcome:
-    """The recomputed value of one cell, and why it could not be computed when it was not."""
+    """The recomputed value of one cell, and why it could not be checked when it was not.
+
+    ``problem`` is empty for a computed cell, else one of ``unsupported: …``, ``circular
+    reference``, ``not checked: depends on Sheet!A1 (…)``, ``volatile: …`` or ``engine: …``.
+    ``note`` carries what a checker should know about a computed value (link caches)."""
 
     value: object
-    problem: str = ""  # "circular", "unsupported: …", "engine: …"
+    problem: str = ""
+    note: str = ""
+
+    @property
+    def kept(self) -> bool:
+        """True when the value was not computed here: the saved value must stay."""
+        return bool(self.problem) and not self.problem.startswith("volatile")
 
 
-@dataclass
-class _Compiled:
-    fn: object
-    inputs: list[str]  # references as seen from the anchor cell (or the cell itself)
-    anchored: bool
-    text: str = ""  # the formula text it was compiled from
-    fast_inputs: list | None = None  # parsed plain references (see _parse_plain)
+class _Unsupported(Exception):
+    pass
+
+
+# ---------------------------------------------------------------------------------------
+# the formula library, ours registered in it
 
 
 _REGISTERED = False
+_LOCK = threading.Lock()
+_CURRENT = threading.local()  # the engine and cell being evaluated (OFFSET, INDIRECT)
 
 
 def _register_ours() -> None:
-    """Add every catalog function to the formula library's function table."""
+    """Add every catalog function, OFFSET and INDIRECT to the library's function table."""
     global _REGISTERED
-    if _REGISTERED:
-        return
-    import formulas
+    with _LOCK:
+        if _REGISTERED:
+            return
+        import formulas
+        from formulas.functions import wrap_func
 
-    table = formulas.get_functions()
-    for f in CATALOG:
-        table[f.name] = _our_function(f.name)
-    _REGISTERED = True
+        logging.getLogger("schedula").setLevel(logging.CRITICAL)
+        logging.getLogger("formulas").setLevel(logging.CRITICAL)
+        table = formulas.get_functions()
+        for f in CATALOG:
+            table[f.name] = _our_function(f.name)
+        table["OFFSET"] = wrap_func(_offset, ranges=True)
+        table["INDIRECT"] = wrap_func(_indirect, ranges=True)
+        _REGISTERED = True
 
 
 def _to_cell_value(x):
@@ -76,6 +125,8 @@ def _to_cell_value(x):
     from formulas.tokens.operand import XlError
 
     if isinstance(x, np.ndarray):
+        if x.size == 1 and x.ndim == 2 and x.shape == (1, 1):
+            return _to_cell_value(x[0, 0])
         return [
             [_to_cell_value(v) for v in row] for row in (x if x.ndim == 2 else x.reshape(1, -1))
         ]
@@ -105,88 +156,118 @@ def _our_function(name: str):
     return fn
 
 
+def _unknown_function(name: str):
+    def fn(*args):
+        from formulas.tokens.operand import Error
+
+        return Error.errors["#NAME?"]
+
+    fn.__name__ = name
+    return fn
+
+
+def _scalar(x):
+    from formulas.functions import flatten
+
+    if hasattr(x, "value"):
+        x = x.value
+    v = list(flatten([x], None))
+    return v[0] if v else None
+
+
+def _offset(ref, rows, cols, height=None, width=None):
+    """OFFSET(reference, rows, cols, [height], [width]) on the running engine."""
+    from formulas.ranges import Ranges
+    from formulas.tokens.operand import Error
+
+    eng: Engine = _CURRENT.engine
+    if not isinstance(ref, Ranges) or len(ref.ranges) != 1:
+        return Error.errors["#VALUE!"]
+    rng = ref.ranges[0]
+    sheet = eng._sheet_of_id(rng.get("sheet_id") or "", _CURRENT.sheet)
+    r1, c1 = int(rng["r1"]), int(rng["n1"])
+    h0, w0 = int(rng["r2"]) - r1 + 1, int(rng["n2"]) - c1 + 1
+    vals = []
+    for v in (rows, cols, height, width):
+        v = _scalar(v) if v is not None else None
+        if v is not None and not isinstance(v, (int, float, bool, np.number)):
+            if hasattr(v, "code") or type(v).__name__ == "XlError":
+                return v
+            return Error.errors["#VALUE!"]
+        vals.append(None if v is None else int(np.floor(float(v))))
+    dr, dc, h, w = vals
+    h = h0 if h is None else h
+    w = w0 if w is None else w
+    if h < 1 or w < 1:
+        return Error.errors["#REF!"]
+    r1, c1 = r1 + dr, c1 + dc
+    r2, c2 = r1 + h - 1, c1 + w - 1
+    if r1 < 1 or c1 < 1 or r2 > MAX_ROW or c2 > MAX_COL:
+        return Error.errors["#REF!"]
+    return eng._ranges(sheet, r1, c1, r2, c2, demand=True)
+
+
+def _indirect(ref_text, a1=True):
+    """INDIRECT(ref_text, [a1]) on the running engine (A1-style text)."""
+    from formulas.tokens.operand import Error
+
+    eng: Engine = _CURRENT.engine
+    text = _scalar(ref_text)
+    a1 = _scalar(a1)
+    if not isinstance(text, str):
+        return Error.errors["#REF!"]
+    if a1 is False or a1 == 0:
+        _CURRENT.problems.append("unsupported: INDIRECT with R1C1-style text")
+        return Error.errors["#REF!"]
+    ref = parse_ref(text.strip())
+    if ref is None:
+        return Error.errors["#REF!"]
+    target = eng._place(ref, _CURRENT.sheet, _CURRENT.row, _CURRENT.col, 0, 0, None)
+    if not isinstance(target, _Target) or len(target.sheets) != 1:
+        return Error.errors["#REF!"]
+    return eng._ranges(target.sheets[0], *target.box, demand=True)
+
+
 # ---------------------------------------------------------------------------------------
-# references
-
-_STRINGS = re.compile(r'("(?:[^"]|"")*")')
-_CELLREF = re.compile(r"(?<![A-Za-z0-9_.])(\$?)([A-Za-z]{1,3})(\$?)(\d+)(?![A-Za-z0-9_(])")
+# templates
 
 
-def _relative_key(formula: str, row: int, col: int) -> str:
-    """The formula with each A1 reference written relative to (row, col): equal keys mean the
-    same shape.  String literals are left alone; anything unusual simply gets its own key."""
-    parts = _STRINGS.split(formula)
+@dataclass(frozen=True)
+class _Target:
+    """A resolved reference: one box on one or more sheets (3-D spans)."""
 
-    def sub(m: re.Match) -> str:
-        c = col_number(m.group(2))
-        r = int(m.group(4))
-        cs = f"C{c}" if m.group(1) else f"C[{c - col}]"
-        rs = f"R{r}" if m.group(3) else f"R[{r - row}]"
-        return rs + cs
-
-    return "".join(p if i % 2 else _CELLREF.sub(sub, p) for i, p in enumerate(parts))
-
-
-_A1 = re.compile(r"(\$?)([A-Z]{1,3})(\$?)(\d+)")
-_COLS = re.compile(r"^(\$?)([A-Z]{1,3}):(\$?)([A-Z]{1,3})$")
-
-
-def _shift_part(part: str, dr: int, dc: int) -> str:
-    def sub(m):
-        if (not m.group(1) and col_number(m.group(2)) + dc < 1) or (
-            not m.group(3) and int(m.group(4)) + dr < 1
-        ):
-            raise ValueError("reference moved off the sheet")
-        c = m.group(2) if m.group(1) else col_letters(col_number(m.group(2)) + dc)
-        r = m.group(4) if m.group(3) else str(int(m.group(4)) + dr)
-        return f"{m.group(1)}{c}{m.group(3)}{r}"
-
-    return _A1.sub(sub, part)
-
-
-def shift_ref(ref: str, dr: int, dc: int) -> str:
-    """Shift the relative parts of a reference such as ``SHEET!A1:$B$3`` by (dr, dc)."""
-    sheet, bang, addr = ref.rpartition("!")
-    m = _COLS.match(addr)
-    if m:
-        if min(col_number(m.group(2)), col_number(m.group(4))) + dc < 1:
-            raise ValueError("reference moved off the sheet")
-        a = m.group(2) if m.group(1) else col_letters(col_number(m.group(2)) + dc)
-        b = m.group(4) if m.group(3) else col_letters(col_number(m.group(4)) + dc)
-        addr = f"{m.group(1)}{a}:{m.group(3)}{b}"
-    else:
-        addr = ":".join(_shift_part(p, dr, dc) for p in addr.split(":"))
-    return f"{sheet}{bang}{addr}"
-
-
-_PLAIN = re.compile(r"^(\$?)([A-Z]{1,3})(\$?)(\d+)(?::(\$?)([A-Z]{1,3})(\$?)(\d+))?$")
-
-
-def _parse_plain(ref: str):
-    """``$A1:B$3`` → ((r1, c1, r2, c2), (row1 abs, col1 abs, row2 abs, col2 abs)); None otherwise."""
-    m = _PLAIN.match(ref)
-    if not m:
-        return None
-    c1, r1 = col_number(m.group(2)), int(m.group(4))
-    if m.group(6):
-        c2, r2 = col_number(m.group(6)), int(m.group(8))
-        flags = (bool(m.group(3)), bool(m.group(1)), bool(m.group(7)), bool(m.group(5)))
-    else:
-        c2, r2 = c1, r1
-        flags = (bool(m.group(3)), bool(m.group(1))) * 2
-    return (r1, c1, r2, c2), flags
-
-
-_SIMPLE = re.compile(r"^\$?([A-Z]{1,3})\$?(\d+)(?::\$?([A-Z]{1,3})\$?(\d+))?$")
+    sheets: tuple[str, ...]
+    box: tuple[int, int, int, int]  # r1, c1, r2, c2
+    note: str = ""
 
 
 @dataclass
-class _Range:
-    sheet: str
-    r1: int
-    c1: int
-    r2: int
-    c2: int
+class _Template:
+    text: str  # the formula with placeholders
+    refs: list  # per placeholder: (Ref, frame) — frame "cell" or ("name", sheet)
+    funcs: frozenset
+    unknown: frozenset
+    needs_ranges: bool
+    positional: bool
+    dynamic: bool
+    volatile: frozenset
+    problem: str = ""  # why it cannot be evaluated at all
+    implicit: tuple = ()  # placeholders that take Excel's implicit intersection
+
+
+@dataclass
+class _Compiled:
+    fn: object
+    order: list[int]  # placeholder index of each library input, in the library's order
+
+
+@dataclass
+class _Plan:
+    cell: Cell
+    tpl: _Template
+    comp: _Compiled | None
+    targets: list  # per placeholder: _Target, an error code, or None
+    shape: tuple
 
 
 @dataclass
@@ -197,9 +278,11 @@ class Engine:
     book: Book
     progress: object = None  # callable(done, total) or None
     batch: bool = True  # evaluate same-shape columns in one vectorised call
+    _templates: dict = field(default_factory=dict)
     _compiled: dict = field(default_factory=dict)
     _sheet_upper: dict = field(default_factory=dict)
     _max: dict = field(default_factory=dict)
+    _rows_by_col: dict = field(default_factory=dict)
 
     def __post_init__(self):
         _register_ours()
@@ -207,180 +290,420 @@ class Engine:
         for s, r, c in self.book.cells:
             mr, mc = self._max.get(s, (0, 0))
             self._max[s] = (max(mr, r), max(mc, c))
+        self._values: dict = {}
+        self._plans: dict = {}
+        self._out: dict = {}
+        self._in_progress: set = set()
 
-    # --- compiling ----------------------------------------------------------------------
-    def _compile(self, cell: Cell) -> tuple[_Compiled, int, int]:
-        import formulas
-        from openpyxl.formula.translate import Translator
+    # --- names, sheets, tables ------------------------------------------------------------
+    def _sheet(self, name: str | None, here: str) -> str | None:
+        if name is None:
+            return here
+        return self._sheet_upper.get(name.upper())
 
-        text = "=" + cell.formula
-        fast = (cell.sheet, _relative_key(cell.formula, cell.row, cell.col))
-        hit = self._compiled.get(fast)
-        if hit is not None:
-            return hit, cell.row - ANCHOR_ROW, cell.col - ANCHOR_COL
-        if _POSITIONAL.search(cell.formula):
-            key, anchored, shape = (cell.sheet, cell.row, cell.col, text), False, text
-        else:
-            try:
-                shape = Translator(text, origin=cell.ref).translate_formula(
-                    col_letters(ANCHOR_COL) + str(ANCHOR_ROW)
-                )
-            except Exception:
-                shape = text
-                key, anchored = (cell.sheet, cell.row, cell.col, text), False
-            else:
-                key, anchored = (cell.sheet, shape), True
-        comp = self._compiled.get(key)
-        if comp is None:
-            fn = formulas.Parser().ast(shape)[1].compile()
-            # the library drops the $ of absolute references: take them from the text
-            from openpyxl.formula.tokenizer import Tokenizer
+    def _sheet_of_id(self, sheet_id: str, here: str) -> str:
+        if not sheet_id:
+            return here
+        s = sheet_id.split("]", 1)[-1].strip("'").replace("''", "'")
+        return self._sheet_upper.get(s.upper(), here)
 
-            marked = {}
-            for tok in Tokenizer(shape).items:
-                if tok.type == "OPERAND" and tok.subtype == "RANGE":
-                    marked.setdefault(tok.value.replace("$", "").upper(), tok.value)
-            comp = _Compiled(fn, [marked.get(k, k) for k in fn.inputs], anchored, shape)
-            self._compiled[key] = comp
-        if comp.anchored:
-            self._compiled[fast] = comp  # later cells of this shape skip the translation
-        if comp.anchored:
-            return comp, cell.row - ANCHOR_ROW, cell.col - ANCHOR_COL
-        return comp, 0, 0
+    def _name(self, name: str, sheet: str | None, here: str) -> str | None:
+        """The definition of a defined name: the sheet's own first, then the workbook's."""
+        local = self.book.local_names
+        key = name.upper()
+        if sheet is not None:
+            s = self._sheet(sheet, here)
+            return local.get((s, key)) if s else None
+        return local.get((here, key), self.book.names.get(key))
 
-    def _resolve(self, ref: str, here: str) -> _Range | None:
-        m = _SIMPLE.match(ref)
-        if m:
-            r1, c1 = int(m.group(2)), col_number(m.group(1))
-            if m.group(3):
-                r2, c2 = int(m.group(4)), col_number(m.group(3))
-                return _Range(here, min(r1, r2), min(c1, c2), max(r1, r2), max(c1, c2))
-            return _Range(here, r1, c1, r1, c1)
-        if ref.upper() in self.book.names:
-            target = self.book.names[ref.upper()]
-            return self._resolve(target.replace("$", ""), here)
-        sheet, _, addr = ref.rpartition("!")
-        sheet = sheet.strip("'").replace("''", "'")
-        sname = self._sheet_upper.get(sheet.upper(), None) if sheet else here
-        if sname is None:
-            return None
-        addr = addr.replace("$", "")
-        mr, mc = self._max.get(sname, (1, 1))
-        m = re.match(r"^([A-Z]{1,3}):([A-Z]{1,3})$", addr, re.IGNORECASE)
-        if m:
-            return _Range(sname, 1, col_number(m.group(1)), max(mr, 1), col_number(m.group(2)))
-        m = re.match(r"^(\d+):(\d+)$", addr)
-        if m:
-            return _Range(sname, int(m.group(1)), 1, int(m.group(2)), max(mc, 1))
-        parts = addr.split(":")
+    # --- building a template ----------------------------------------------------------
+    def _template(self, sheet: str, formula: str) -> _Template:
+        key = (sheet, formula)
+        tpl = self._templates.get(key)
+        if tpl is None:
+            tpl = self._build(sheet, formula)
+            self._templates[key] = tpl
+        return tpl
+
+    def _build(self, sheet: str, formula: str) -> _Template:
+        refs: list = []
+        funcs: set = set()
+        implicit: list = []
+        problem = ""
         try:
-            ends = [
-                (
-                    int(re.search(r"\d+", p).group()),
-                    col_number(re.match(r"[A-Z]+", p, re.IGNORECASE).group()),
-                )
-                for p in parts
-            ]
-        except AttributeError:
-            return None
-        (r1, c1), (r2, c2) = ends[0], ends[-1]
-        return _Range(sname, min(r1, r2), min(c1, c2), max(r1, r2), max(c1, c2))
+            text = self._rewrite(formula, sheet, "cell", refs, funcs, implicit, 0)
+        except _Unsupported as e:
+            text, problem = "", f"unsupported: {e}"
+        except Exception as e:  # the tokenizer refused the text
+            text, problem = "", f"unsupported: formula text not understood ({type(e).__name__})"
+        import formulas
+
+        table = formulas.get_functions()
+        unknown = frozenset(f for f in funcs if f not in table)
+        return _Template(
+            text=text,
+            refs=refs,
+            funcs=frozenset(funcs),
+            unknown=unknown,
+            needs_ranges=bool(funcs & _NEEDS_RANGES) or "~ops" in funcs,
+            positional="~positional" in funcs,
+            dynamic=bool(funcs & _DYNAMIC),
+            volatile=frozenset(funcs & VOLATILE),
+            problem=problem,
+            implicit=tuple(implicit),
+        )
+
+    def _rewrite(self, formula, sheet, frame, refs, funcs, implicit, depth) -> str:
+        if depth > _MAX_NAME_DEPTH:
+            raise _Unsupported("defined names nested too deeply (or defined by themselves)")
+        toks = tokens(formula)
+        out = []
+        stack: list[str] = []  # enclosing FUNC names ("(" for plain parentheses)
+        prev_type = ""
+        for i, (value, ttype, sub) in enumerate(toks):
+            if ttype == "FUNC" and sub == "OPEN":
+                name = value[:-1].upper()
+                if ":" in name:  # A1:INDEX(…) — a range built from a reference function
+                    raise _Unsupported(f"range operator with a function ({value}…)")
+                if name.startswith("_XLUDF."):
+                    name = name[7:]
+                funcs.add(name)
+                nxt = toks[i + 1] if i + 1 < len(toks) else None
+                if name in _POSITIONAL and nxt is not None and nxt[1] == "FUNC":
+                    funcs.add("~positional")  # ROW() / COLUMN(): the cell's own position
+                stack.append(name)
+                out.append(name + "(")
+            elif ttype == "FUNC" and sub == "CLOSE":
+                stack.pop() if stack else None
+                out.append(")")
+            elif ttype == "PAREN" and sub == "OPEN":
+                stack.append("(")
+                out.append("(")
+            elif ttype == "PAREN" and sub == "CLOSE":
+                stack.pop() if stack else None
+                out.append(")")
+            elif ttype == "OPERAND" and sub == "RANGE":
+                ref = parse_ref(value)
+                if ref is None:
+                    out.append("#REF!")
+                elif ref.kind == "name" and ref.book is None:
+                    definition = self._name(ref.text, ref.sheet, sheet)
+                    if definition is None:
+                        out.append("#NAME?")
+                        funcs.add("~unknown-name:" + ref.text)
+                        continue
+                    d = definition.lstrip("=")
+                    inner = parse_ref(d) if len(tokens(d)) == 1 else None
+                    if inner is not None and inner.kind not in ("name", "table"):
+                        idx = len(refs)
+                        refs.append((inner, "name"))
+                        self._mark_implicit(stack, idx, implicit)
+                        out.append(f"_JBR{idx}")
+                    else:
+                        out.append(
+                            "("
+                            + self._rewrite(d, sheet, "name", refs, funcs, implicit, depth + 1)
+                            + ")"
+                        )
+                else:
+                    idx = len(refs)
+                    refs.append((ref, frame))
+                    self._mark_implicit(stack, idx, implicit)
+                    out.append(f"_JBR{idx}")
+            elif ttype == "OPERATOR-INFIX" and value in (":", ","):
+                funcs.add("~ops")
+                out.append(value)
+            elif ttype == "WHITE-SPACE":
+                # between two operands a space is the intersection operator
+                nxt = toks[i + 1][1] if i + 1 < len(toks) else ""
+                if prev_type in ("OPERAND", "CLOSE") and nxt in ("OPERAND", "FUNC", "PAREN"):
+                    if not (nxt in ("FUNC",) and toks[i + 1][2] == "CLOSE"):
+                        funcs.add("~ops")
+                out.append(" ")
+            elif ttype == "SEP" and sub == "ROW":
+                out.append(";")
+            else:
+                out.append(value)
+            if ttype != "WHITE-SPACE":
+                prev_type = "CLOSE" if sub == "CLOSE" else ttype
+        return "".join(out)
+
+    @staticmethod
+    def _mark_implicit(stack, idx, implicit) -> None:
+        # a reference outside every function call (only operators and parentheses around
+        # it) takes Excel's implicit intersection in a plain (non-array) formula
+        if all(s == "(" for s in stack):
+            implicit.append(idx)
+
+    def _compile(self, tpl: _Template, cell: Cell) -> _Compiled:
+        import formulas
+
+        key = (tpl.text, (cell.sheet, cell.row, cell.col) if tpl.positional else None)
+        comp = self._compiled.get(key)
+        if comp is not None:
+            return comp
+        for name in tpl.unknown:
+            if not name.startswith("~"):
+                formulas.get_functions().setdefault(name, _unknown_function(name))
+        builder = formulas.Parser().ast("=" + tpl.text)[1]
+        if tpl.positional:
+            from formulas.cell import CELL
+            from formulas.ranges import Ranges
+
+            here = Ranges().push(f"{quote_sheet(cell.sheet)}!{cell.ref}")
+            fn = builder.compile(**{CELL: here})
+        else:
+            fn = builder.compile()
+        order = []
+        for k in fn.inputs:
+            if not (k.startswith("_JBR") and k[4:].isdigit()):
+                raise _Unsupported(f"reference {k!r} not understood")
+            order.append(int(k[4:]))
+        comp = _Compiled(fn, order)
+        self._compiled[key] = comp
+        return comp
+
+    # --- resolving references ---------------------------------------------------------
+    def _place(self, ref: Ref, here: str, row: int, col: int, dr: int, dc: int, frame):
+        """A reference seen from (here, row, col): a _Target or an error code."""
+        if ref.kind == "table":
+            return self._table(ref.text, here, row, col)
+        if ref.kind == "name":
+            d = self._name(ref.text, ref.sheet, here)
+            inner = parse_ref(d.lstrip("=")) if d else None
+            if inner is None or inner.kind in ("name", "table"):
+                return "#REF!" if d else "#NAME?"
+            return self._place(inner, here, row, col, row - 1, col - 1, "name")
+        if ref.book is not None:
+            return self._linked(ref)
+        box = ref.placed(dr, dc)
+        if box is None:
+            return "#REF!"
+        s1 = self._sheet(ref.sheet, here)
+        if s1 is None:
+            return "#REF!"
+        if ref.sheet2 is not None:
+            s2 = self._sheet(ref.sheet2, here)
+            if s2 is None:
+                return "#REF!"
+            i, j = self.book.sheets.index(s1), self.book.sheets.index(s2)
+            return _Target(tuple(self.book.sheets[min(i, j) : max(i, j) + 1]), box)
+        return _Target((s1,), box)
+
+    def _linked(self, ref: Ref):
+        link = self.book.links.get(ref.book)
+        if link is None or ref.sheet is None:
+            return "#REF!"
+        sheet = link.sheet_key(ref.sheet)
+        if sheet is None:
+            return "#REF!"
+        box = ref.placed(0, 0)
+        if box is None:
+            return "#REF!"
+        return _Target((sheet,), box, f"linked values from the link cache of [{ref.book}]")
+
+    def _table(self, text: str, here: str, row: int, col: int):
+        from .tables import resolve
+
+        try:
+            return _Target(*resolve(self.book, text, here, row, col))
+        except LookupError as e:
+            raise _Unsupported(str(e)) from None
+
+    def _targets(self, tpl: _Template, cell: Cell) -> list:
+        out = []
+        for i, (ref, frame) in enumerate(tpl.refs):
+            if frame == "cell":
+                t = self._place(ref, cell.sheet, cell.row, cell.col, 0, 0, frame)
+            else:  # a name's reference: written from A1
+                t = self._place(ref, cell.sheet, cell.row, cell.col, cell.row - 1, cell.col - 1, frame)
+            if isinstance(t, _Target) and i in tpl.implicit and not cell.array_ref:
+                t = self._intersect(t, cell)
+            out.append(t)
+        return out
+
+    @staticmethod
+    def _intersect(t: _Target, cell: Cell):
+        """Excel's implicit intersection of a reference with the formula's row or column."""
+        r1, c1, r2, c2 = t.box
+        if (r1, c1) == (r2, c2) or len(t.sheets) != 1:
+            return t
+        if c1 == c2 and r1 <= cell.row <= r2:
+            return _Target(t.sheets, (cell.row, c1, cell.row, c1), t.note)
+        if r1 == r2 and c1 <= cell.col <= c2:
+            return _Target(t.sheets, (r1, cell.col, r1, cell.col), t.note)
+        return "#VALUE!"
+
+    # --- values -------------------------------------------------------------------------
+    def _bounded(self, sheet: str, box):
+        """A box cut to the used part of the sheet (whole columns and rows)."""
+        r1, c1, r2, c2 = box
+        mr, mc = self._max.get(sheet, (1, 1))
+        return r1, c1, max(r1, min(r2, max(mr, 1))), max(c1, min(c2, max(mc, 1)))
+
+    def _array(self, sheet: str, box, demand: bool = False):
+        import schedula as sh
+
+        r1, c1, r2, c2 = self._bounded(sheet, box)
+        h, w = r2 - r1 + 1, c2 - c1 + 1
+        if h * w > 5_000_000:
+            raise _Unsupported(f"range of {h * w} cells is too large")
+        if demand:
+            self._demand(sheet, r1, c1, r2, c2)
+        values = self._values
+        if h == 1 and w == 1:
+            arr = np.empty((1, 1), dtype=object)
+            arr[0, 0] = _as_formula_value(values.get((sheet, r1, c1), sh.EMPTY))
+            return arr
+        arr = np.empty((h, w), dtype=object)
+        arr[:] = sh.EMPTY
+        for c in range(c1, c2 + 1):
+            rows = self._rows_by_col.get((sheet, c))
+            if not rows:
+                continue
+            for r in rows[bisect_left(rows, r1) : bisect_right(rows, r2)]:
+                v = values.get((sheet, r, c))
+                if v is not None:
+                    arr[r - r1, c - c1] = _as_formula_value(v)
+        return arr
+
+    def _ranges(self, sheet: str, r1, c1, r2, c2, demand: bool = False):
+        """The library's reference object for a box, with its values."""
+        from formulas.ranges import Ranges
+
+        box = self._bounded(sheet, (r1, c1, r2, c2))
+        rng = _range_dict(sheet, box)
+        return Ranges((rng,), {rng["name"]: (rng, self._array(sheet, box, demand))})
+
+    def _arg(self, t, as_ranges: bool):
+        from formulas.ranges import Ranges
+        from formulas.tokens.operand import Error
+
+        if not isinstance(t, _Target):
+            return Error.errors.get(t, Error.errors["#REF!"])
+        if len(t.sheets) > 1:  # a 3-D span: one reference of several areas
+            parts = [self._ranges(s, *t.box) for s in t.sheets]
+            ranges, values = (), {}
+            for p in parts:
+                ranges += p.ranges
+                values.update(p.values)
+            return Ranges(ranges, values)
+        if as_ranges:
+            return self._ranges(t.sheets[0], *t.box)
+        return self._array(t.sheets[0], t.box)
+
+    def _demand(self, sheet, r1, c1, r2, c2) -> None:
+        """Compute, now, the formula cells in a box that a run-time reference reads."""
+        for c in range(c1, c2 + 1):
+            rows = self._rows_by_col.get((sheet, c))
+            if not rows:
+                continue
+            for r in rows[bisect_left(rows, r1) : bisect_right(rows, r2)]:
+                key = (sheet, r, c)
+                if key in self._plans and key not in self._out:
+                    if key in self._in_progress:
+                        raise _Unsupported("circular reference through OFFSET/INDIRECT")
+                    self._run_cell(key)
 
     # --- running ------------------------------------------------------------------------
     def run(self) -> dict[tuple[str, int, int], Outcome]:
         import formulas  # noqa: F401  (registers the parser grammar before compiling)
 
-        cells = self.book.formula_cells()
-        out: dict[tuple[str, int, int], Outcome] = {}
-        plan: dict[tuple[str, int, int], tuple] = {}
-        for c in cells:
+        book = self.book
+        out = self._out
+        values = self._values
+        plans = self._plans
+        for link in book.links.values():
+            for (s, r, c), v in link.values.items():
+                values[(s, r, c)] = v
+                self._rows_by_col.setdefault((s, c), []).append(r)
+        for k, c in book.cells.items():
+            if c.formula is None and c.has_cached:
+                values[k] = c.cached
+        for c in book.formula_cells():
             key = (c.sheet, c.row, c.col)
-            if _UNSUPPORTED.search(c.formula):
-                out[key] = Outcome(
-                    ERROR("#REF!"), "unsupported: external workbook, data table or link"
-                )
-                continue
-            if _POSITIONAL.search(c.formula):
-                out[key] = Outcome(
-                    ERROR("#VALUE!"),
-                    "unsupported: ROW/COLUMN/OFFSET/INDIRECT/CELL need the cell's position",
-                )
+            tpl = self._template(c.sheet, c.formula)
+            if tpl.problem:
+                out[key] = self._refused(c, tpl.problem)
                 continue
             try:
-                comp, dr, dc = self._compile(c)
-            except Exception as e:
-                out[key] = Outcome(
-                    ERROR("#NAME?"), f"unsupported: {type(e).__name__} while parsing"
-                )
+                targets = self._targets(tpl, c)
+                comp = self._compile(tpl, c)
+            except _Unsupported as e:
+                out[key] = self._refused(c, f"unsupported: {e}")
                 continue
-            if comp.anchored:
-                if comp.fast_inputs is None:
-                    comp.fast_inputs = [_parse_plain(ref) for ref in comp.inputs]
-                ranges = []
-                for ref, fast in zip(comp.inputs, comp.fast_inputs):
-                    if fast is not None:  # a plain reference on this sheet: shift by arithmetic
-                        (r1, c1, r2, c2), (a1, b1, a2, b2) = fast
-                        rr1, cc1 = r1 if a1 else r1 + dr, c1 if b1 else c1 + dc
-                        rr2, cc2 = r2 if a2 else r2 + dr, c2 if b2 else c2 + dc
-                        if min(rr1, cc1, rr2, cc2) < 1:
-                            ranges.append(None)  # #REF!
-                        else:
-                            ranges.append(
-                                _Range(
-                                    c.sheet,
-                                    min(rr1, rr2),
-                                    min(cc1, cc2),
-                                    max(rr1, rr2),
-                                    max(cc1, cc2),
-                                )
-                            )
-                        continue
-                    try:
-                        ranges.append(self._resolve(shift_ref(ref, dr, dc), c.sheet))
-                    except ValueError:
-                        ranges.append(None)  # #REF!
-            else:
-                ranges = [self._resolve(ref, c.sheet) for ref in comp.inputs]
-            plan[key] = (c, comp, ranges)
+            except Exception as e:
+                out[key] = self._refused(c, f"unsupported: {type(e).__name__} while parsing")
+                continue
+            shape = (
+                tpl.text,
+                tuple(
+                    (t.sheets, tuple(b - o for b, o in zip(t.box, (c.row, c.col) * 2)))
+                    if isinstance(t, _Target)
+                    else t
+                    for t in targets
+                ),
+            )
+            plans[key] = _Plan(c, tpl, comp, targets, shape)
 
-        # dependencies between formula cells (spilled ranges depend on their anchor)
-        by_sheet_col: dict[tuple[str, int], list[int]] = {}
-        owner: dict[tuple[str, int, int], tuple[str, int, int]] = {}
-        for key in plan:
-            by_sheet_col.setdefault((key[0], key[2]), []).append(key[1])
-            c = plan[key][0]
-            if c.array_ref:
-                rng = self._resolve(c.array_ref, c.sheet)
-                for r in range(rng.r1, rng.r2 + 1):
-                    for cc in range(rng.c1, rng.c2 + 1):
-                        if (c.sheet, r, cc) != key:
-                            owner[(c.sheet, r, cc)] = key
-                            by_sheet_col.setdefault((c.sheet, cc), []).append(r)
-        for rows in by_sheet_col.values():
+        # spilled ranges of array formulas belong to their anchor
+        owner: dict = {}
+        for key, p in plans.items():
+            if p.cell.array_ref:
+                box = _array_box(p.cell)
+                for r in range(box[0], box[2] + 1):
+                    for cc in range(box[1], box[3] + 1):
+                        if (p.cell.sheet, r, cc) != key:
+                            owner[(p.cell.sheet, r, cc)] = key
+        self._owner = owner
+        for s, r, c in list(plans) + list(owner) + [k for k in book.cells if k not in plans]:
+            self._rows_by_col.setdefault((s, c), []).append(r)
+        for rows in self._rows_by_col.values():
             rows.sort()
+            # duplicates do no harm to the bisect but cost time
+        for k, rows in self._rows_by_col.items():
+            self._rows_by_col[k] = sorted(set(rows))
+
         graph: dict = {}
-        for key, (_c, _comp, ranges) in plan.items():
+        for key, p in plans.items():
             deps = set()
-            for rng in ranges:
-                if rng is None:
+            for t in p.targets:
+                if not isinstance(t, _Target):
                     continue
-                for cc in range(rng.c1, rng.c2 + 1):
-                    rows = by_sheet_col.get((rng.sheet, cc))
-                    if not rows:
-                        continue
-                    for r in rows[bisect_left(rows, rng.r1) : bisect_right(rows, rng.r2)]:
-                        dep = owner.get((rng.sheet, r, cc), (rng.sheet, r, cc))
-                        if dep != key:
-                            deps.add(dep)
+                for s in t.sheets:
+                    r1, c1, r2, c2 = self._bounded(s, t.box)
+                    for cc in range(c1, c2 + 1):
+                        rows = self._rows_by_col.get((s, cc))
+                        if not rows:
+                            continue
+                        for r in rows[bisect_left(rows, r1) : bisect_right(rows, r2)]:
+                            dep = owner.get((s, r, cc), (s, r, cc))
+                            if dep != key and dep in plans:
+                                deps.add(dep)
             graph[key] = deps
-        values: dict[tuple[str, int, int], object] = {
-            k: c.cached for k, c in self.book.cells.items() if c.formula is None and c.has_cached
-        }
-        batches = self._batches(plan, graph) if self.batch else {}
+        self._graph = graph
+
+        # cells with run-time references, and everything that depends on them, go last
+        late = {k for k, p in plans.items() if p.tpl.dynamic}
+        if late:
+            rev: dict = {}
+            for k, deps in graph.items():
+                for d in deps:
+                    rev.setdefault(d, set()).add(k)
+            stack = list(late)
+            while stack:
+                k = stack.pop()
+                for d in rev.get(k, ()):
+                    if d not in late:
+                        late.add(d)
+                        stack.append(d)
+        early = {k: d for k, d in graph.items() if k not in late}
+        batches = self._batches(early) if self.batch else {}
         member_of = {m: b for b, members in batches.items() for m in members}
+        order = None
         if batches:
             bgraph: dict = {}
-            for key, deps in graph.items():
+            for key, deps in early.items():
                 node = member_of.get(key, key)
                 bgraph.setdefault(node, set()).update(member_of.get(d, d) for d in deps)
             for node, deps in bgraph.items():
@@ -389,151 +712,255 @@ class Engine:
                 order = list(graphlib.TopologicalSorter(bgraph).static_order())
             except graphlib.CycleError:  # batching can join what a cycle test must see apart
                 batches, member_of = {}, {}
-                order = self._order(graph, out)
-        else:
-            order = self._order(graph, out)
+        if order is None:
+            order = self._order(early)
+        late_order = self._order({k: graph[k] & late for k in late}) if late else []
 
-        total = len(order)
-        for i, node in enumerate(order):
-            if node in batches:
-                self._run_batch(batches[node], plan, values, out)
-            elif node in plan:
-                self._run_cell(node, plan, values, out)
-            if self.progress and (i % 200 == 0 or i == total - 1):
-                self.progress(i + 1, total)
+        total = len(order) + len(late_order)
+        _CURRENT.engine = self
+        try:
+            for i, node in enumerate(order + late_order):
+                if node in batches:
+                    self._run_batch(batches[node])
+                elif node in plans and node not in out:
+                    self._run_cell(node)
+                if self.progress and (i % 200 == 0 or i == total - 1):
+                    self.progress(i + 1, total)
+        finally:
+            _CURRENT.engine = None
+        self._taint()
         return out
+
+    def _refused(self, c: Cell, problem: str) -> Outcome:
+        """A cell not evaluated: its saved value stays, and the reason goes with it."""
+        key = (c.sheet, c.row, c.col)
+        v = c.cached if c.has_cached else None
+        if v is not None:
+            self._values[key] = v
+        return Outcome(v if v is not None else ERROR("#N/A"), problem)
+
+    def _taint(self) -> None:
+        """Cells reading a refused cell are not checked; cells reading a volatile one are
+        volatile.  Dependency order makes one pass enough."""
+        out = self._out
+        try:
+            order = list(graphlib.TopologicalSorter(self._graph).static_order())
+        except graphlib.CycleError:
+            order = [k for k in self._graph]
+        for key in order:
+            o = out.get(key)
+            if o is None or o.problem:
+                continue
+            for d in sorted(self._graph.get(key, ())):
+                od = out.get(d)
+                if od is None or not od.problem:
+                    continue
+                where = f"{d[0]}!{col_letters(d[2])}{d[1]}"
+                if od.problem.startswith("volatile"):
+                    o.problem = f"volatile: depends on {where}"
+                    continue
+                root = od.problem
+                if root.startswith("not checked"):
+                    o.problem = root
+                else:
+                    o.problem = f"not checked: depends on {where} ({root})"
+                break
 
     def evaluate(self, sheet: str, row: int, col: int, formula: str, values: dict):
         """Value of *formula* (without "=") as if it stood in (sheet, row, col), reading
         *values*; used by the audit to show the value of an argument expression."""
         cell = Cell(sheet, row, col, formula=formula)
-        comp, dr, dc = self._compile(cell)
-        ranges = []
-        for ref in comp.inputs:
-            try:
-                ranges.append(
-                    self._resolve(shift_ref(ref, dr, dc) if comp.anchored else ref, sheet)
-                )
-            except ValueError:
-                ranges.append(None)
-        res = np.asarray(comp.fn(*[self._value_of(r, values) for r in ranges]), dtype=object)
+        tpl = self._template(sheet, formula)
+        if tpl.problem:
+            raise ValueError(tpl.problem)
+        saved, self._values = self._values, values
+        if not self._rows_by_col:
+            for s, r, c in values:
+                self._rows_by_col.setdefault((s, c), []).append(r)
+            for k, rows in self._rows_by_col.items():
+                self._rows_by_col[k] = sorted(set(rows))
+        try:
+            comp = self._compile(tpl, cell)
+            targets = self._targets(tpl, cell)
+            args = [self._arg(targets[i], tpl.needs_ranges) for i in comp.order]
+            res = np.asarray(comp.fn(*args), dtype=object)
+        finally:
+            self._values = saved
         return _plain(res.reshape(-1)[0]) if res.size == 1 else res
 
-    def _run_cell(self, key, plan, values, out) -> None:
-        c, comp, ranges = plan[key]
+    def _run_cell(self, key) -> None:
+        p: _Plan = self._plans[key]
+        c, tpl = p.cell, p.tpl
+        self._in_progress.add(key)
+        _CURRENT.sheet, _CURRENT.row, _CURRENT.col = c.sheet, c.row, c.col
+        _CURRENT.problems = []
         try:
-            args = [self._value_of(rng, values) for rng in ranges]
-            self._store(c, comp.fn(*args), values, out)
+            args = [self._arg(p.targets[i], tpl.needs_ranges) for i in p.comp.order]
+            res = p.comp.fn(*args)
+        except _Unsupported as e:
+            self._out[key] = self._refused(c, f"unsupported: {e}")
+            return
         except Exception as e:
-            out[key] = Outcome(ERROR("#VALUE!"), f"engine: {type(e).__name__}")
-            values[key] = ERROR("#VALUE!")
+            self._out[key] = self._refused(c, f"engine: {type(e).__name__} evaluating the formula")
+            return
+        finally:
+            self._in_progress.discard(key)
+        if _CURRENT.problems:
+            self._out[key] = self._refused(c, _CURRENT.problems[0])
+            return
+        self._store(p, res)
 
-    def _batches(self, plan: dict, graph: dict) -> dict:
+    def _batches(self, graph: dict) -> dict:
         """Same-shape cells of one column whose inputs are single cells and whose functions
         are all elementwise: evaluated together in one vectorised call."""
         groups: dict = {}
-        for key, (c, comp, ranges) in plan.items():
-            if not comp.anchored or c.array_ref or not _elementwise(comp):
+        for key, deps in graph.items():
+            p = self._plans[key]
+            tpl = p.tpl
+            if (
+                p.cell.array_ref
+                or tpl.needs_ranges
+                or tpl.positional
+                or tpl.volatile
+                or tpl.unknown
+                or not _elementwise(tpl)
+            ):
                 continue
-            if any(r is None or r.r1 != r.r2 or r.c1 != r.c2 for r in ranges):
+            if any(
+                not isinstance(t, _Target)
+                or len(t.sheets) != 1
+                or t.box[0] != t.box[2]
+                or t.box[1] != t.box[3]
+                or t.note
+                for t in p.targets
+            ):
                 continue
-            groups.setdefault((c.sheet, c.col, id(comp)), []).append(key)
+            groups.setdefault((p.cell.sheet, p.cell.col, p.shape), []).append(key)
         batches = {}
-        for gkey, members in groups.items():
+        for n, (gkey, members) in enumerate(groups.items()):
             if len(members) < 2:
                 continue
             mset = set(members)
             if any(graph[m] & mset for m in members):  # a running total: keep cell by cell
                 continue
-            batches[("batch",) + gkey] = sorted(members)
+            batches[("batch", n)] = sorted(members)
         return batches
 
-    def _run_batch(self, members: list, plan: dict, values: dict, out: dict) -> None:
-        c0, comp, _ = plan[members[0]]
+    def _run_batch(self, members: list) -> None:
+        p0: _Plan = self._plans[members[0]]
+        comp = p0.comp
         k = len(members)
         args = []
-        for i in range(len(comp.inputs)):
-            col = [self._value_of(plan[m][2][i], values) for m in members]
-            first = col[0]
-            if all(v is first or (type(v) is type(first) and v == first) for v in col):
-                args.append(first)
-            else:
-                arr = np.empty((k, 1), dtype=object)
-                for j, v in enumerate(col):
-                    arr[j, 0] = v
-                args.append(arr)
+        values = self._values
+        import schedula as sh
+
+        for i in comp.order:
+            col = []
+            for m in members:
+                t = self._plans[m].targets[i]
+                col.append(
+                    _as_formula_value(values.get((t.sheets[0], t.box[0], t.box[1]), sh.EMPTY))
+                )
+            arr = np.empty((k, 1), dtype=object)
+            for j, v in enumerate(col):
+                arr[j, 0] = v
+            args.append(arr)
         try:
             res = np.asarray(comp.fn(*args), dtype=object)
         except Exception:
             res = None
         if res is None or not (res.size == 1 or res.shape in ((k, 1), (k,))):
             for m in members:  # not elementwise after all: one by one
-                self._run_cell(m, plan, values, out)
+                self._run_cell(m)
             return
         flat = res.reshape(-1)
         for j, m in enumerate(members):
             v = _plain(flat[0] if flat.size == 1 else flat[j])
             values[m] = v
-            out[m] = Outcome(v)
+            self._out[m] = Outcome(v)
 
-    def _order(self, graph: dict, out: dict) -> list:
+    def _order(self, graph: dict) -> list:
+        graph = {k: set(v) for k, v in graph.items()}
         while True:
             try:
                 return list(graphlib.TopologicalSorter(graph).static_order())
             except graphlib.CycleError as e:
                 cycle = set(e.args[1])
                 for key in cycle:
-                    out[key] = Outcome(ERROR("#REF!"), "circular reference")
+                    self._out[key] = self._refused(self._plans[key].cell, "circular reference")
                     graph.pop(key, None)
-                # cells that depend on the cycle keep the dependency; they will read the
-                # error value stored for the cycle's cells
                 for deps in graph.values():
                     deps -= cycle
 
-    def _value_of(self, rng: _Range | None, values: dict):
-        import schedula as sh
-        from formulas.tokens.operand import Error
-
-        if rng is None:
-            return Error.errors["#REF!"]
-        if rng.r1 == rng.r2 and rng.c1 == rng.c2:
-            return _as_formula_value(values.get((rng.sheet, rng.r1, rng.c1), sh.EMPTY))
-        h, w = rng.r2 - rng.r1 + 1, rng.c2 - rng.c1 + 1
-        if h * w > 5_000_000:
-            raise MemoryError("range too large")
-        arr = np.empty((h, w), dtype=object)
-        arr[:] = sh.EMPTY
-        for (s, r, c), v in values.items() if h * w > len(values) else ():
-            if s == rng.sheet and rng.r1 <= r <= rng.r2 and rng.c1 <= c <= rng.c2:
-                arr[r - rng.r1, c - rng.c1] = _as_formula_value(v)
-        if h * w <= len(values):
-            for r in range(rng.r1, rng.r2 + 1):
-                for c in range(rng.c1, rng.c2 + 1):
-                    v = values.get((rng.sheet, r, c), sh.EMPTY)
-                    if v is not sh.EMPTY:
-                        arr[r - rng.r1, c - rng.c1] = _as_formula_value(v)
-        return arr
-
-    def _store(self, c: Cell, res, values: dict, out: dict) -> None:
+    def _store(self, p: _Plan, res) -> None:
+        c = p.cell
         key = (c.sheet, c.row, c.col)
+        note = "; ".join(sorted({t.note for t in p.targets if isinstance(t, _Target) and t.note}))
+        problem = ""
+        if p.tpl.volatile:
+            problem = "volatile: " + ", ".join(sorted(p.tpl.volatile))
+        res = getattr(res, "value", res)  # a reference as the result: its values
         arr = np.asarray(res, dtype=object)
+        if arr.ndim == 1:
+            arr = arr.reshape(1, -1)
         if c.array_ref:
-            rng = self._resolve(c.array_ref, c.sheet)
-            for r in range(rng.r1, rng.r2 + 1):
-                for cc in range(rng.c1, rng.c2 + 1):
-                    i, j = r - rng.r1, cc - rng.c1
+            r1, c1, r2, c2 = _array_box(c)
+            for r in range(r1, r2 + 1):
+                for cc in range(c1, c2 + 1):
+                    i, j = r - r1, cc - c1
                     if arr.ndim == 2 and i < arr.shape[0] and j < arr.shape[1]:
                         v = _plain(arr[i, j])
-                    elif arr.ndim == 0 or arr.size == 1:
+                    elif arr.ndim == 2 and arr.shape[0] == 1 and j < arr.shape[1]:
+                        v = _plain(arr[0, j])  # a row repeats down the range
+                    elif arr.ndim == 2 and arr.shape[1] == 1 and i < arr.shape[0]:
+                        v = _plain(arr[i, 0])  # a column repeats across
+                    elif arr.size == 1:
                         v = _plain(arr.reshape(-1)[0])
                     else:
                         v = ERROR("#N/A")
-                    values[(c.sheet, r, cc)] = v
-                    out[(c.sheet, r, cc)] = Outcome(v)
+                    self._values[(c.sheet, r, cc)] = v
+                    self._out[(c.sheet, r, cc)] = Outcome(v, problem, note)
             return
+        # a plain formula shows the top-left value of an array result
         v = _plain(arr.reshape(-1)[0]) if arr.size >= 1 else ERROR("#VALUE!")
-        values[key] = v
-        out[key] = Outcome(v)
+        if isinstance(v, tuple) and v[1] == "#NAME?" and p.tpl.unknown:
+            names = sorted(n for n in p.tpl.unknown if not n.startswith("~"))
+            missing = sorted(n.split(":", 1)[1] for n in p.tpl.funcs if n.startswith("~unknown-name:"))
+            what = ", ".join(names) + (" (not a function joulebook knows)" if names else "")
+            if missing:
+                what += ("; " if what else "") + "undefined name " + ", ".join(missing)
+            self._out[key] = self._refused(c, f"unsupported: {what}")
+            return
+        self._values[key] = v
+        self._out[key] = Outcome(v, problem, note)
+
+
+def _array_box(c: Cell) -> tuple[int, int, int, int]:
+    ref = parse_ref(c.array_ref or c.ref)
+    box = ref.placed(0, 0) if ref is not None and ref.kind in ("cell", "area") else None
+    return box or (c.row, c.col, c.row, c.col)
+
+
+def _range_dict(sheet: str, box) -> dict:
+    """The library's description of a box on a sheet (cached: it parses text)."""
+    return dict(_range_dict_cached(sheet, tuple(box)))
+
+
+_RD_CACHE: dict = {}
+
+
+def _range_dict_cached(sheet: str, box):
+    hit = _RD_CACHE.get((sheet, box))
+    if hit is None:
+        from formulas.ranges import Ranges
+
+        r1, c1, r2, c2 = box
+        a = f"{col_letters(c1)}{r1}" + ("" if (r1, c1) == (r2, c2) else f":{col_letters(c2)}{r2}")
+        hit = Ranges.get_range(f"{quote_sheet(sheet)}!{a}")
+        if len(_RD_CACHE) > 200_000:
+            _RD_CACHE.clear()
+        _RD_CACHE[(sheet, box)] = hit
+    return hit
 
 
 # built-ins that act cell by cell on arrays (aggregates such as SUM or MIN are not)
@@ -567,16 +994,13 @@ _ELEMENTWISE = {
     "DEGREES",
     "RADIANS",
 }
-_CALLS = re.compile(r"([A-Z][A-Z0-9_.]*)\s*\(", re.IGNORECASE)
 _OURS_ELEMENTWISE = {
     f.name for f in CATALOG if f.elementwise and not any(a.type == "range" for a in f.args)
 }
 
 
-def _elementwise(comp: _Compiled) -> bool:
-    text = getattr(comp, "text", "")
-    names = {n.upper() for n in _CALLS.findall(text)}
-    return all(n in _ELEMENTWISE or n in _OURS_ELEMENTWISE for n in names)
+def _elementwise(tpl: _Template) -> bool:
+    return all(n in _ELEMENTWISE or n in _OURS_ELEMENTWISE for n in tpl.funcs)
 
 
 def _plain(x):
@@ -584,6 +1008,10 @@ def _plain(x):
     import schedula as sh
     from formulas.tokens.operand import XlError
 
+    if isinstance(x, np.ndarray):
+        return _plain(x.reshape(-1)[0]) if x.size else ERROR("#VALUE!")
+    if hasattr(x, "ranges") and hasattr(x, "value"):
+        return _plain(np.asarray(x.value, dtype=object))
     if isinstance(x, XlError):
         return ERROR(str(x))
     if x is sh.EMPTY:
@@ -591,10 +1019,13 @@ def _plain(x):
     if isinstance(x, (bool, np.bool_)):
         return bool(x)
     if isinstance(x, (int, float, np.integer, np.floating)):
-        return float(x)
+        x = float(x)
+        if x != x or x in (float("inf"), float("-inf")):
+            return ERROR("#NUM!")
+        return x
     if isinstance(x, str):
         return x
-    return str(x)
+    return ERROR("#VALUE!")
 
 
 def _as_formula_value(v):

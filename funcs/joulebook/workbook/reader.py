@@ -68,6 +68,38 @@ class Cell:
 
 
 @dataclass
+class Link:
+    """The values another workbook had when this one last read it (an externalLink part)."""
+
+    index: str
+    target: str  # the linked file as the part names it
+    sheets: list[str]
+    values: dict[tuple[str, int, int], object] = field(default_factory=dict)
+
+    def sheet_key(self, name: str) -> str | None:
+        """The key the engine stores this link's sheet under ("[1]Sheet1"), or None."""
+        for s in self.sheets:
+            if s.upper() == name.upper():
+                return f"[{self.index}]{s}"
+        return None
+
+
+@dataclass
+class Table:
+    """An Excel table (a table part): its name, sheet, range, header/totals rows, columns."""
+
+    name: str
+    sheet: str
+    r1: int
+    c1: int
+    r2: int
+    c2: int
+    header_rows: int
+    totals_rows: int
+    columns: list[str]
+
+
+@dataclass
 class Book:
     path: Path
     sha256: str
@@ -77,6 +109,9 @@ class Book:
     names: dict[str, str] = field(default_factory=dict)  # defined names (global) -> reference text
     full_calc_on_load: bool = False
     external_links: int = 0
+    local_names: dict[tuple[str, str], str] = field(default_factory=dict)  # (sheet, NAME) -> text
+    links: dict[str, Link] = field(default_factory=dict)  # "1" -> the cache of [1]
+    tables: list[Table] = field(default_factory=list)
 
     def formula_cells(self) -> list[Cell]:
         return [c for c in self.cells.values() if c.formula is not None]
@@ -143,15 +178,38 @@ def _parse(zf: zipfile.ZipFile, name: str):
         raise BadInput(f"part {name!r} is not safe, well-formed XML ({type(e).__name__})") from None
 
 
+def unescape_text(text: str) -> str:
+    """Decode the ``_xHHHH_`` escapes of a spreadsheet string (ECMA-376 Part 1,
+    §22.9.2.19 ST_Xstring): ``_x000D_`` is a carriage return, ``_x005F_`` a literal ``_``."""
+    if "_x" not in text:
+        return text
+    out, i, n = [], 0, len(text)
+    while i < n:
+        if (
+            text.startswith("_x", i)
+            and i + 6 < n
+            and text[i + 6] == "_"
+            and all(c in "0123456789abcdefABCDEF" for c in text[i + 2 : i + 6])
+        ):
+            out.append(chr(int(text[i + 2 : i + 6], 16)))
+            i += 7
+        else:
+            out.append(text[i])
+            i += 1
+    return "".join(out)
+
+
 def _text_of(elem) -> str:
-    """Concatenated text of <t> runs (phonetic runs excluded)."""
+    """Concatenated text of <t> runs (phonetic runs excluded), escapes decoded."""
     parts = []
+    skip = set()
     for node in elem.iter():
         if node.tag == NS + "rPh":
+            skip.update(id(x) for x in node.iter())
             continue
-        if node.tag == NS + "t" and node.text:
+        if node.tag == NS + "t" and node.text and id(node) not in skip:
             parts.append(node.text)
-    return "".join(parts)
+    return unescape_text("".join(parts))
 
 
 def normalise(formula: str) -> str:
@@ -208,10 +266,19 @@ def read_book(path: str | Path, limits: Limits | None = None) -> Book:
             if rid in targets and targets[rid].startswith("xl/worksheets/"):
                 sheets.append(name)
                 parts[name] = targets[rid]
-        names = {}
+        names, local_names = {}, {}
+        all_sheets = [s.get("name") for s in wb.iter(NS + "sheet")]
         for dn in wb.iter(NS + "definedName"):
-            if dn.get("localSheetId") is None and dn.text:
+            if not dn.text or not dn.get("name"):
+                continue
+            lid = dn.get("localSheetId")
+            if lid is None:
                 names[dn.get("name").upper()] = dn.text
+            elif lid.isdigit() and int(lid) < len(all_sheets):
+                local_names[(all_sheets[int(lid)], dn.get("name").upper())] = dn.text
+        ext_ids = [
+            e.get(RNS + "id") for e in wb.iter(NS + "externalReference") if e.get(RNS + "id")
+        ]
         calc = next(wb.iter(NS + "calcPr"), None)
         book = Book(
             path,
@@ -221,12 +288,112 @@ def read_book(path: str | Path, limits: Limits | None = None) -> Book:
             names=names,
             full_calc_on_load=calc is not None and calc.get("fullCalcOnLoad") in ("1", "true"),
             external_links=ext_links,
+            local_names=local_names,
         )
+        for i, rid in enumerate(ext_ids, start=1):
+            if rid in targets:
+                link = _read_link(zf, targets[rid], str(i))
+                if link is not None:
+                    book.links[str(i)] = link
         shared = _shared_strings(zf, limits)
         counts = [0, 0]
         for sheet in sheets:
             _read_sheet(zf, parts[sheet], sheet, book, shared, limits, counts)
+            book.tables.extend(_read_tables(zf, parts[sheet], sheet))
     return book
+
+
+def _rels(zf: zipfile.ZipFile, part: str) -> dict[str, tuple[str, str]]:
+    """Relationships of a part: id -> (type, target part or external target)."""
+    folder, name = posixpath.split(part)
+    root = _parse(zf, posixpath.join(folder, "_rels", name + ".rels"))
+    out = {}
+    if root is None:
+        return out
+    for r in root.iter(PKG_RNS + "Relationship"):
+        t = r.get("Target", "")
+        if r.get("TargetMode") != "External":
+            t = t.lstrip("/") if t.startswith("/") else posixpath.normpath(posixpath.join(folder, t))
+        out[r.get("Id")] = (r.get("Type", ""), t)
+    return out
+
+
+def _cache_value(el, t: str):
+    v = el.find(NS + "v")
+    raw = v.text if v is not None else None
+    if raw is None:
+        return None
+    if t == "b":
+        return raw == "1"
+    if t == "e":
+        return ("error", raw)
+    if t in ("s", "str", "inlineStr"):
+        return unescape_text(raw)
+    try:
+        return float(raw)
+    except ValueError:
+        return unescape_text(raw)
+
+
+def _read_link(zf: zipfile.ZipFile, part: str, index: str) -> Link | None:
+    root = _parse(zf, part)
+    if root is None:
+        return None
+    eb = root.find(NS + "externalBook")
+    if eb is None:
+        return None
+    rels = _rels(zf, part)
+    target = rels.get(eb.get(RNS + "id"), ("", ""))[1]
+    sheets = [s.get("val") for s in eb.iter(NS + "sheetName")]
+    link = Link(index, target, sheets)
+    for sd in eb.iter(NS + "sheetData"):
+        sid = sd.get("sheetId")
+        if sid is None or not sid.isdigit() or int(sid) >= len(sheets):
+            continue
+        key = f"[{index}]{sheets[int(sid)]}"
+        for c in sd.iter(NS + "cell"):
+            ref = c.get("r")
+            if not ref:
+                continue
+            try:
+                row, col = split_ref(ref)
+            except BadInput:
+                continue
+            v = _cache_value(c, c.get("t", "n"))
+            if v is not None:
+                link.values[(key, row, col)] = v
+    return link
+
+
+def _read_tables(zf: zipfile.ZipFile, part: str, sheet: str) -> list[Table]:
+    out = []
+    for typ, target in _rels(zf, part).values():
+        if not typ.endswith("/table"):
+            continue
+        root = _parse(zf, target)
+        if root is None or not root.get("ref"):
+            continue
+        a, _, b = root.get("ref").partition(":")
+        try:
+            r1, c1 = split_ref(a)
+            r2, c2 = split_ref(b or a)
+        except BadInput:
+            continue
+        cols = [tc.get("name", "") for tc in root.iter(NS + "tableColumn")]
+        out.append(
+            Table(
+                root.get("displayName") or root.get("name") or "",
+                sheet,
+                r1,
+                c1,
+                r2,
+                c2,
+                int(root.get("headerRowCount", "1") or 1),
+                int(root.get("totalsRowCount", "0") or 0),
+                [unescape_text(c) for c in cols],
+            )
+        )
+    return out
 
 
 def _shared_strings(zf: zipfile.ZipFile, limits: Limits) -> list[str]:
@@ -302,7 +469,7 @@ def _read_sheet(zf, part, sheet, book: Book, shared, limits: Limits, counts) -> 
                         i = int(raw)
                         cell.cached = shared[i] if 0 <= i < len(shared) else ""
                     elif t in ("str",):
-                        cell.cached = (raw or "")[: limits.max_text]
+                        cell.cached = unescape_text(raw or "")[: limits.max_text]
                     elif t == "inlineStr":
                         is_ = el.find(NS + "is")
                         cell.cached = _text_of(is_) if is_ is not None else ""

@@ -32,6 +32,29 @@ _IS = re.compile(rb"<(?:\w+:)?is>.*?</(?:\w+:)?is>", re.DOTALL)
 _FULLCALC = re.compile(rb'\s+fullCalcOnLoad="(?:1|true)"')
 
 
+def xml_text(text: str) -> str:
+    """Text as a spreadsheet part holds it: characters XML 1.0 cannot carry (control
+    characters, lone surrogates) as ``_xHHHH_`` escapes, and a literal ``_xHHHH_`` escaped in
+    turn (ECMA-376 Part 1, §22.9.2.19 ST_Xstring)."""
+    out = []
+    n = len(text)
+    for i, ch in enumerate(text):
+        o = ord(ch)
+        if (o < 0x20 and ch not in "\t\n\r") or 0xD800 <= o <= 0xDFFF or o in (0xFFFE, 0xFFFF):
+            out.append(f"_x{o:04X}_")
+        elif (
+            ch == "_"
+            and i + 6 < n
+            and text[i + 1] == "x"
+            and text[i + 6] == "_"
+            and all(c in "0123456789abcdefABCDEF" for c in text[i + 2 : i + 6])
+        ):
+            out.append("_x005F_")
+        else:
+            out.append(ch)
+    return escape("".join(out))
+
+
 def _encode(value) -> tuple[bytes | None, bytes]:
     """(t attribute or None, <v> text) for a plain cell value."""
     if isinstance(value, tuple) and value and value[0] == "error":
@@ -45,7 +68,7 @@ def _encode(value) -> tuple[bytes | None, bytes]:
         return None, text[:-2].encode() if text.endswith(".0") else text.encode()
     if value is None:
         return b"str", b""
-    return b"str", escape(str(value)).encode("utf-8")
+    return b"str", xml_text(str(value)).encode("utf-8")
 
 
 def _cell_xml(ref: bytes, value, p: bytes = b"") -> bytes:
@@ -193,7 +216,7 @@ def write_copy(book: Book, outcomes: dict, out: str | Path, force: bool = False)
         raise BadInput(f"folder {out.parent} does not exist")
     per_part: dict[str, dict[tuple[int, int], object]] = {}
     for (sheet, r, c), o in outcomes.items():
-        if o.problem:  # not computed here (unsupported, circular): keep what Excel saved
+        if o.kept:  # not computed here (unsupported, circular, …): keep what was saved
             continue
         per_part.setdefault(book.sheet_parts[sheet], {})[(r, c)] = o.value
 
@@ -212,7 +235,7 @@ def write_copy(book: Book, outcomes: dict, out: str | Path, force: bool = False)
 
 
 def _inline(text: str) -> bytes:
-    t = escape(str(text))[:32_767]
+    t = xml_text(str(text)[:32_767])
     return b'<c t="inlineStr"><is><t xml:space="preserve">' + t.encode("utf-8") + b"</t></is></c>"
 
 

@@ -1,0 +1,239 @@
+"""References in formula text: one place that knows ``$``, whole rows and columns, quoted sheet
+names, 3-D spans, external books, defined names and structured table references.
+
+A formula is split by openpyxl's tokenizer (never by regular expressions over the formula
+text); each reference operand is then read by :func:`parse_ref` into a :class:`Ref`, whose
+:meth:`Ref.key` is its relative (R1C1-like) form seen from the cell that holds it, so two
+cells whose formulas have equal keys have the same *shape*.  The engine and the audit share
+this module.
+
+References
+----------
+.. [1] ECMA-376 Part 1, Office Open XML File Formats, §18.17 (formulas: cell references,
+   sheet names, structured references).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from functools import lru_cache
+
+__all__ = [
+    "Ref",
+    "parse_ref",
+    "tokens",
+    "split_sheet",
+    "quote_sheet",
+    "MAX_ROW",
+    "MAX_COL",
+    "col_number",
+    "col_letters",
+]
+
+MAX_ROW, MAX_COL = 1_048_576, 16_384
+
+
+def col_number(letters: str) -> int:
+    n = 0
+    for ch in letters.upper():
+        n = n * 26 + (ord(ch) - 64)
+    return n
+
+
+def col_letters(n: int) -> str:
+    if n < 1:
+        raise ValueError(f"column number {n} is off the sheet")
+    s = ""
+    while n:
+        n, r = divmod(n - 1, 26)
+        s = chr(65 + r) + s
+    return s
+
+
+@lru_cache(maxsize=65_536)
+def tokens(formula: str) -> tuple:
+    """The tokens of *formula* (without its leading ``=``) as ``(value, type, subtype)``."""
+    from openpyxl.formula.tokenizer import Tokenizer
+
+    return tuple((t.value, t.type, t.subtype) for t in Tokenizer("=" + formula).items)
+
+
+@dataclass(frozen=True)
+class Ref:
+    """One reference operand as written.
+
+    ``kind`` is ``"cell"``, ``"area"``, ``"cols"`` (``A:C``), ``"rows"`` (``3:5``),
+    ``"name"`` (a defined name, ``text`` holds it) or ``"table"`` (a structured reference,
+    ``text`` holds it).  Rows and columns are 1-based as written; ``abs_*`` say which carry a
+    ``$``.  ``sheet`` is None for the sheet holding the formula; ``sheet2`` ends a 3-D span;
+    ``book`` is the external-book index of ``[1]Sheet1!A1``.
+    """
+
+    kind: str
+    sheet: str | None = None
+    sheet2: str | None = None
+    book: str | None = None
+    r1: int = 0
+    c1: int = 0
+    r2: int = 0
+    c2: int = 0
+    abs_r1: bool = False
+    abs_c1: bool = False
+    abs_r2: bool = False
+    abs_c2: bool = False
+    text: str = ""
+
+    def key(self, row: int, col: int) -> tuple:
+        """The reference seen from (row, col): equal keys mean the same relative reference."""
+        if self.kind in ("name", "table"):
+            return (self.kind, self.book, self.sheet, self.text.upper())
+        return (
+            self.kind,
+            self.book,
+            self.sheet and self.sheet.upper(),
+            self.sheet2 and self.sheet2.upper(),
+            self.r1 if self.abs_r1 else ("r", self.r1 - row),
+            self.c1 if self.abs_c1 else ("c", self.c1 - col),
+            self.r2 if self.abs_r2 else ("r", self.r2 - row),
+            self.c2 if self.abs_c2 else ("c", self.c2 - col),
+        )
+
+    def placed(self, dr: int, dc: int) -> tuple[int, int, int, int] | None:
+        """(r1, c1, r2, c2), ordered, after moving the relative parts by (dr, dc); None when a
+        part falls off the sheet (Excel's ``#REF!``).  Whole columns span every row and whole
+        rows every column."""
+        r1 = self.r1 if self.abs_r1 else self.r1 + dr
+        r2 = self.r2 if self.abs_r2 else self.r2 + dr
+        c1 = self.c1 if self.abs_c1 else self.c1 + dc
+        c2 = self.c2 if self.abs_c2 else self.c2 + dc
+        if self.kind == "cols":
+            r1, r2 = 1, MAX_ROW
+        elif self.kind == "rows":
+            c1, c2 = 1, MAX_COL
+        if min(r1, r2, c1, c2) < 1 or max(r1, r2) > MAX_ROW or max(c1, c2) > MAX_COL:
+            return None
+        return min(r1, r2), min(c1, c2), max(r1, r2), max(c1, c2)
+
+
+def quote_sheet(name: str) -> str:
+    """A sheet name as a formula writes it: quoted when it is not a plain word."""
+    plain = (
+        name
+        and (name[0].isalpha() or name[0] == "_")
+        and all(ch.isalnum() or ch in "_." for ch in name)
+        and _addr(name) is None
+        and not _looks_r1c1(name)
+    )
+    return name if plain else "'" + name.replace("'", "''") + "'"
+
+
+def _looks_r1c1(name: str) -> bool:
+    u = name.upper()
+    return u in ("R", "C") or (u[:1] in "RC" and u[1:].isdigit())
+
+
+def split_sheet(text: str) -> tuple[str | None, str | None, str]:
+    """``[1]'My sheet'!A1`` → (book, sheet, address); sheet is None when absent.  A 3-D span
+    keeps its colon (``Sheet1:Sheet3``)."""
+    book = None
+    if text.startswith("["):
+        end = text.find("]")
+        if end > 0:
+            book, text = text[1:end], text[end + 1 :]
+    if text.startswith("'"):
+        i, out = 1, []
+        while i < len(text):
+            ch = text[i]
+            if ch == "'":
+                if text[i + 1 : i + 2] == "'":
+                    out.append("'")
+                    i += 2
+                    continue
+                break
+            out.append(ch)
+            i += 1
+        rest = text[i + 1 :]
+        if rest.startswith("!"):
+            return book, "".join(out), rest[1:]
+        return book, None, text
+    bang = text.rfind("!")
+    if bang < 0:
+        return book, None, text
+    sheet = text[:bang]
+    if sheet.startswith("["):  # [1]Sheet1 written inside the quotes' place
+        b2, _, sheet = sheet[1:].partition("]")
+        book = book or b2
+    return book, sheet, text[bang + 1 :]
+
+
+def _part(s: str):
+    """``$AB$12`` → (col, abs col, row, abs row); ``$AB`` → (col, abs, None, None);
+    ``$12`` → (None, None, row, abs); None when *s* is not such a piece."""
+    i, n = 0, len(s)
+    abs_c = abs_r = False
+    if i < n and s[i] == "$":
+        abs_c, i = True, i + 1
+    j = i
+    while j < n and s[j].isascii() and s[j].isalpha():
+        j += 1
+    letters = s[i:j]
+    k = j
+    if k < n and s[k] == "$":
+        abs_r, k = True, k + 1
+    m = k
+    while m < n and s[m].isdigit():
+        m += 1
+    digits = s[k:m]
+    if m != n or (not letters and not digits):
+        return None
+    if letters and (len(letters) > 3 or col_number(letters) > MAX_COL):
+        return None
+    if digits and not (1 <= int(digits) <= MAX_ROW):
+        return None
+    if letters and not digits:
+        if abs_r:
+            return None
+        return col_number(letters), abs_c, None, None
+    if digits and not letters:
+        # "$12" has its dollar before the digits: read as the row's
+        return None, None, int(digits), abs_c or abs_r
+    return col_number(letters), abs_c, int(digits), abs_r
+
+
+def _addr(addr: str):
+    """An address (no sheet) → (kind, r1, c1, r2, c2, abs flags) or None."""
+    pieces = addr.split(":")
+    if len(pieces) > 2 or not all(pieces):
+        return None
+    parts = [_part(p) for p in pieces]
+    if any(p is None for p in parts):
+        return None
+    a = parts[0]
+    b = parts[-1]
+    if a[0] is not None and a[2] is not None and b[0] is not None and b[2] is not None:
+        kind = "cell" if len(parts) == 1 else "area"
+        return kind, a[2], a[0], b[2], b[0], (a[3], a[1], b[3], b[1])
+    if len(parts) == 2 and a[2] is None and b[2] is None:  # A:C
+        return "cols", 1, a[0], MAX_ROW, b[0], (True, a[1], True, b[1])
+    if len(parts) == 2 and a[0] is None and b[0] is None:  # 3:5
+        return "rows", a[2], 1, b[2], MAX_COL, (a[3], True, b[3], True)
+    return None
+
+
+@lru_cache(maxsize=65_536)
+def parse_ref(text: str) -> Ref | None:
+    """Read one reference operand as the tokenizer gives it; None when it is not one."""
+    if "[" in text and not text.startswith("[") or text.startswith("[") and "]!" not in text:
+        # Table1[Amount], [@Qty], Table1[[#Totals],[Amount]] (an external book is "[1]S!A1")
+        return Ref("table", text=text)
+    book, sheet, addr = split_sheet(text)
+    sheet2 = None
+    if sheet and ":" in sheet:  # Sheet1:Sheet3 (":" cannot stand in a sheet's name)
+        sheet, _, sheet2 = sheet.partition(":")
+    a = _addr(addr)
+    if a is None:
+        if addr and (addr[0].isalpha() or addr[0] in "_\\") and "!" not in addr:
+            return Ref("name", sheet=sheet, book=book, text=addr)
+        return None
+    kind, r1, c1, r2, c2, (ar1, ac1, ar2, ac2) = a
+    return Ref(kind, sheet, sheet2, book, r1, c1, r2, c2, ar1, ac1, ar2, ac2)

@@ -1,0 +1,174 @@
+"""Agreement of the headless engine (and of the formula library used as-is) with the values
+a spreadsheet program saved, over a folder of workbooks.
+
+    python tests/bench/corpus.py FOLDER [--library] [--json out.json]
+
+Each workbook runs in its own process with a time limit.  For every formula cell with a saved
+value the engine's status is counted (pass, differs, unsupported, …); with ``--library`` the
+``formulas`` library's ExcelModel is run on the same file and its values compared cell by cell
+with the saved ones, so the two agreement figures are measured on the same cells.
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import multiprocessing as mp
+import sys
+import traceback
+from pathlib import Path
+
+
+def _ours(path: str) -> dict:
+    from joulebook.workbook.check import compare
+    from joulebook.workbook.engine import Engine
+    from joulebook.workbook.reader import read_book
+
+    book = read_book(path)
+    outcomes = Engine(book).run()
+    rows = compare(book, outcomes)
+    return {
+        f"{r.sheet}!{r.cell}": [r.status, r.note, str(r.cached), str(r.recomputed), r.formula]
+        for r in rows
+        if r.status != "no cached value"
+    }
+
+
+def _library(path: str) -> dict:
+    import formulas
+    import numpy as np
+    import schedula as sh
+    from formulas.tokens.operand import XlError
+
+    from joulebook.workbook.check import _same
+    from joulebook.workbook.reader import col_letters, read_book
+
+    book = read_book(path)
+    upper = {s.upper(): s for s in book.sheets}
+    xl = formulas.ExcelModel().loads(path).finish()
+    sol = xl.calculate()
+    got = {}
+    for k, v in sol.items():
+        k = str(k)
+        if "!" not in k or not hasattr(v, "value"):
+            continue
+        sheet, _, addr = k.rpartition("!")
+        sheet = sheet.strip("'").split("]", 1)[-1].replace("''", "'")
+        s = upper.get(sheet.upper())
+        if s is None:
+            continue
+        from openpyxl.utils.cell import range_boundaries
+
+        try:
+            c1, r1, c2, r2 = range_boundaries(addr)
+        except Exception:
+            continue
+        arr = np.asarray(v.value, dtype=object)
+        for i in range(arr.shape[0] if arr.ndim == 2 else 1):
+            for j in range(arr.shape[1] if arr.ndim == 2 else 1):
+                x = arr[i, j] if arr.ndim == 2 else arr.reshape(-1)[0]
+                got[(s, r1 + i, c1 + j)] = x
+    out = {}
+    for key, cell in book.cells.items():
+        if cell.formula is None or not cell.has_cached:
+            continue
+        x = got.get(key, None)
+        if x is None:
+            out[f"{key[0]}!{col_letters(key[2])}{key[1]}"] = False
+            continue
+        if isinstance(x, XlError):
+            x = ("error", str(x))
+        elif x is sh.EMPTY:
+            x = 0.0
+        elif isinstance(x, (np.bool_, bool)):
+            x = bool(x)
+        elif isinstance(x, (int, float, np.number)):
+            x = float(x)
+        out[f"{key[0]}!{col_letters(key[2])}{key[1]}"] = _same(x, cell.cached, 1e-9, 1e-12)
+    return out
+
+
+def _run(kind: str, path: str, q) -> None:
+    import io
+    import os
+
+    sys.stderr = io.StringIO()  # count tracebacks instead of printing them
+    try:
+        res = (_ours if kind == "ours" else _library)(path)
+        q.put(("ok", res, sys.stderr.getvalue()))
+    except Exception:
+        q.put(("fail", traceback.format_exc(limit=3), sys.stderr.getvalue()))
+    q.close()
+    q.join_thread()
+    os._exit(0)
+
+
+def run_one(kind: str, path: str, timeout: float):
+    q = mp.Queue()
+    p = mp.Process(target=_run, args=(kind, path, q))
+    p.start()
+    try:
+        res = q.get(timeout=timeout)
+    except Exception:
+        res = ("timeout", None, "")
+    p.join(5)
+    if p.is_alive():
+        p.kill()
+    return res
+
+
+def main() -> int:
+    ap = argparse.ArgumentParser()
+    ap.add_argument("folder")
+    ap.add_argument("--library", action="store_true")
+    ap.add_argument("--json")
+    ap.add_argument("--timeout", type=float, default=120)
+    ns = ap.parse_args()
+    files = sorted(
+        p for p in Path(ns.folder).rglob("*") if p.suffix.lower() in (".xlsx", ".xlsm")
+    )
+    total = {"cells": 0, "pass": 0, "lib_cells": 0, "lib_pass": 0, "stderr": 0}
+    report = {}
+    for f in files:
+        st, res, err = run_one("ours", str(f), ns.timeout)
+        entry = {"ours": st, "stderr": bool(err.strip())}
+        total["stderr"] += bool(err.strip())
+        if st == "ok":
+            statuses = {}
+            for v in res.values():
+                statuses[v[0]] = statuses.get(v[0], 0) + 1
+            entry["statuses"] = statuses
+            entry["cells"] = {k: v for k, v in res.items() if v[0] != "pass"}
+            n, ok = len(res), statuses.get("pass", 0)
+            total["cells"] += n
+            total["pass"] += ok
+        else:
+            entry["error"] = res
+            n = ok = 0
+        line = f"{f.name:<40} ours {ok:>5}/{n:<5}"
+        if ns.library:
+            lst, lres, _ = run_one("library", str(f), ns.timeout)
+            lok = sum(bool(v) for v in lres.values()) if lst == "ok" else 0
+            total["lib_pass"] += lok
+            entry["library"] = lst
+            entry["library_pass"] = lok
+            if lst == "ok" and st == "ok":
+                entry["library_only"] = [
+                    k for k, v in lres.items() if v and res.get(k, ["?"])[0] != "pass"
+                ]
+            line += f"  library {lok:>5} ({lst})"
+        report[str(f)] = entry
+        print(line + ("  STDERR" if entry["stderr"] else ""), flush=True)
+    pct = 100 * total["pass"] / max(total["cells"], 1)
+    print(
+        f"TOTAL ours {total['pass']}/{total['cells']} ({pct:.1f} %)"
+        + (f"; library {total['lib_pass']}" if ns.library else "")
+        + f"; workbooks with stderr output: {total['stderr']}"
+    )
+    if ns.json:
+        Path(ns.json).write_text(json.dumps(report, indent=1, default=str))
+    return 0
+
+
+if __name__ == "__main__":
+    raise SystemExit(main())
