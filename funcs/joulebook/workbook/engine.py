@@ -61,6 +61,23 @@ _NEEDS_RANGES = frozenset(
     }
 )
 _DYNAMIC = frozenset({"OFFSET", "INDIRECT"})
+#: functions whose arguments are references or arrays in Excel: a single cell given as a whole
+#: argument stays a reference (a 1x1 array), so text, booleans and blanks are skipped as by
+#: the aggregates; elsewhere a single cell is dereferenced to its value, as Excel does for a
+#: parameter that takes a value
+_REF_ARGS = frozenset(
+    """SUM SUMSQ PRODUCT AVERAGE AVERAGEA COUNT COUNTA COUNTBLANK MAX MAXA MIN MINA MEDIAN MODE
+    MODE.SNGL STDEV STDEVA STDEVP STDEVPA STDEV.S STDEV.P VAR VARA VARP VARPA VAR.S VAR.P LARGE
+    SMALL RANK RANK.EQ RANK.AVG PERCENTILE PERCENTILE.INC PERCENTILE.EXC QUARTILE QUARTILE.INC
+    QUARTILE.EXC SUMPRODUCT SUMIF SUMIFS COUNTIF COUNTIFS AVERAGEIF AVERAGEIFS MAXIFS MINIFS AND
+    OR XOR CONCAT TEXTJOIN NPV IRR MIRR XNPV XIRR INDEX MATCH LOOKUP VLOOKUP HLOOKUP XLOOKUP
+    XMATCH ROWS COLUMNS ROW COLUMN AREAS ISREF ISFORMULA OFFSET MDETERM MINVERSE MMULT TRANSPOSE
+    FREQUENCY GEOMEAN HARMEAN AVEDEV DEVSQ KURT SKEW CORREL COVAR COVARIANCE.P COVARIANCE.S
+    PEARSON RSQ SLOPE INTERCEPT STEYX FORECAST FORECAST.LINEAR TREND GROWTH LINEST LOGEST
+    SUBTOTAL AGGREGATE SUMX2MY2 SUMX2PY2 SUMXMY2 CHOOSE UNIQUE SORT SORTBY FILTER SEQUENCE
+    HSTACK VSTACK TOCOL TOROW""".split()
+)
+_REF_ARGS = _REF_ARGS | {"_XLFN." + n for n in _REF_ARGS}
 _POSITIONAL = frozenset({"ROW", "COLUMN", "SINGLE", "_XLFN.SINGLE"})  # ROW() needs the cell
 _MAX_NAME_DEPTH = 16
 
@@ -253,6 +270,7 @@ class _Template:
     volatile: frozenset
     problem: str = ""  # why it cannot be evaluated at all
     implicit: tuple = ()  # placeholders that take Excel's implicit intersection
+    modes: tuple = ()  # per placeholder: "ranges", "array" or "value" (see _REF_ARGS)
 
 
 @dataclass
@@ -329,9 +347,10 @@ class Engine:
         refs: list = []
         funcs: set = set()
         implicit: list = []
+        modes: list = []
         problem = ""
         try:
-            text = self._rewrite(formula, sheet, "cell", refs, funcs, implicit, 0)
+            text = self._rewrite(formula, sheet, "cell", refs, funcs, implicit, 0, modes)
         except _Unsupported as e:
             text, problem = "", f"unsupported: {e}"
         except Exception as e:  # the tokenizer refused the text
@@ -351,9 +370,10 @@ class Engine:
             volatile=frozenset(funcs & VOLATILE),
             problem=problem,
             implicit=tuple(implicit),
+            modes=tuple(modes),
         )
 
-    def _rewrite(self, formula, sheet, frame, refs, funcs, implicit, depth) -> str:
+    def _rewrite(self, formula, sheet, frame, refs, funcs, implicit, depth, modes) -> str:
         if depth > _MAX_NAME_DEPTH:
             raise _Unsupported("defined names nested too deeply (or defined by themselves)")
         toks = tokens(formula)
@@ -397,17 +417,21 @@ class Engine:
                     if inner is not None and inner.kind not in ("name", "table"):
                         idx = len(refs)
                         refs.append((inner, "name"))
+                        modes.append(_mode(toks, i, stack))
                         self._mark_implicit(stack, idx, implicit)
                         out.append(f"_JBR{idx}")
                     else:
                         out.append(
                             "("
-                            + self._rewrite(d, sheet, "name", refs, funcs, implicit, depth + 1)
+                            + self._rewrite(
+                                d, sheet, "name", refs, funcs, implicit, depth + 1, modes
+                            )
                             + ")"
                         )
                 else:
                     idx = len(refs)
                     refs.append((ref, frame))
+                    modes.append(_mode(toks, i, stack))
                     self._mark_implicit(stack, idx, implicit)
                     out.append(f"_JBR{idx}")
             elif ttype == "OPERATOR-INFIX" and value in (":", ","):
@@ -536,9 +560,12 @@ class Engine:
 
     # --- values -------------------------------------------------------------------------
     def _bounded(self, sheet: str, box):
-        """A box cut to the used part of the sheet (whole columns and rows)."""
+        """A box cut to the used part of the sheet (whole columns and rows), but never below
+        the size of the array formula being evaluated (it reads blanks there)."""
         r1, c1, r2, c2 = box
         mr, mc = self._max.get(sheet, (1, 1))
+        h, w = getattr(_CURRENT, "min_shape", None) or (1, 1)
+        mr, mc = max(mr, r1 + h - 1), max(mc, c1 + w - 1)
         return r1, c1, max(r1, min(r2, max(mr, 1))), max(c1, min(c2, max(mc, 1)))
 
     def _array(self, sheet: str, box, demand: bool = False):
@@ -575,12 +602,17 @@ class Engine:
         rng = _range_dict(sheet, box)
         return Ranges((rng,), {rng["name"]: (rng, self._array(sheet, box, demand))})
 
-    def _arg(self, t, as_ranges: bool):
+    def _arg(self, t, mode: str):
         from formulas.ranges import Ranges
         from formulas.tokens.operand import Error
 
         if not isinstance(t, _Target):
             return Error.errors.get(t, Error.errors["#REF!"])
+        if mode == "value" and len(t.sheets) == 1 and t.box[0] == t.box[2] and t.box[1] == t.box[3]:
+            import schedula as sh
+
+            return _as_formula_value(self._values.get((t.sheets[0], t.box[0], t.box[1]), sh.EMPTY))
+        as_ranges = mode == "ranges"
         if len(t.sheets) > 1:  # a 3-D span: one reference of several areas
             parts = [self._ranges(s, *t.box) for s in t.sheets]
             ranges, values = (), {}
@@ -782,7 +814,7 @@ class Engine:
         try:
             comp = self._compile(tpl, cell)
             targets = self._targets(tpl, cell)
-            args = [self._arg(targets[i], tpl.needs_ranges) for i in comp.order]
+            args = [self._arg(targets[i], tpl.modes[i]) for i in comp.order]
             res = np.asarray(comp.fn(*args), dtype=object)
         finally:
             self._values = saved
@@ -794,8 +826,11 @@ class Engine:
         self._in_progress.add(key)
         _CURRENT.sheet, _CURRENT.row, _CURRENT.col = c.sheet, c.row, c.col
         _CURRENT.problems = []
+        if c.array_ref:
+            b = _array_box(c)
+            _CURRENT.min_shape = (b[2] - b[0] + 1, b[3] - b[1] + 1)
         try:
-            args = [self._arg(p.targets[i], tpl.needs_ranges) for i in p.comp.order]
+            args = [self._arg(p.targets[i], tpl.modes[i]) for i in p.comp.order]
             res = p.comp.fn(*args)
         except _Unsupported as e:
             self._out[key] = self._refused(c, f"unsupported: {e}")
@@ -805,6 +840,7 @@ class Engine:
             return
         finally:
             self._in_progress.discard(key)
+            _CURRENT.min_shape = None
         if _CURRENT.problems:
             self._out[key] = self._refused(c, _CURRENT.problems[0])
             return
@@ -935,6 +971,28 @@ class Engine:
         self._out[key] = Outcome(v, problem, note)
 
 
+def _mode(toks, i: int, stack: list) -> str:
+    """How the reference operand toks[i] is handed to the library (see _REF_ARGS)."""
+    prev = toks[i - 1] if i > 0 else ("", "", "")
+    nxt = toks[i + 1] if i + 1 < len(toks) else ("", "", "")
+    if (prev[1] == "OPERATOR-INFIX" and prev[0] in (":", ",")) or (
+        nxt[1] == "OPERATOR-INFIX" and nxt[0] in (":", ",")
+    ):
+        return "ranges"
+    if prev[1] == "WHITE-SPACE" or nxt[1] == "WHITE-SPACE":
+        return "ranges"  # perhaps the intersection operator
+    whole = (prev[1] == "FUNC" and prev[2] == "OPEN" or prev[1] == "SEP" and prev[2] == "ARG") and (
+        nxt[1] == "FUNC" and nxt[2] == "CLOSE" or nxt[1] == "SEP" and nxt[2] == "ARG"
+    )
+    if whole and stack and stack[-1] in _NEEDS_RANGES:
+        return "ranges"
+    if whole and stack and stack[-1] in _REF_ARGS:
+        return "array"
+    if whole and stack and stack[-1] in _OURS_RANGE_ARGS:
+        return "array"
+    return "value"
+
+
 def _array_box(c: Cell) -> tuple[int, int, int, int]:
     ref = parse_ref(c.array_ref or c.ref)
     box = ref.placed(0, 0) if ref is not None and ref.kind in ("cell", "area") else None
@@ -994,6 +1052,7 @@ _ELEMENTWISE = {
     "DEGREES",
     "RADIANS",
 }
+_OURS_RANGE_ARGS = frozenset(f.name for f in CATALOG if any(a.type == "range" for a in f.args))
 _OURS_ELEMENTWISE = {
     f.name for f in CATALOG if f.elementwise and not any(a.type == "range" for a in f.args)
 }
