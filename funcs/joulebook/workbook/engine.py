@@ -78,6 +78,11 @@ _REF_ARGS = frozenset(
     HSTACK VSTACK TOCOL TOROW""".split()
 )
 _REF_ARGS = _REF_ARGS | {"_XLFN." + n for n in _REF_ARGS}
+#: functions that evaluate their arguments as arrays even in a plain formula
+_ARRAY_CONTEXT = frozenset(
+    """SUMPRODUCT MMULT MDETERM MINVERSE TRANSPOSE FREQUENCY LOOKUP TREND GROWTH LINEST LOGEST
+    SUMX2MY2 SUMX2PY2 SUMXMY2 CORREL COVAR PEARSON RSQ SLOPE INTERCEPT STEYX""".split()
+)
 _POSITIONAL = frozenset({"ROW", "COLUMN", "SINGLE", "_XLFN.SINGLE"})  # ROW() needs the cell
 _MAX_NAME_DEPTH = 16
 
@@ -131,8 +136,19 @@ def _register_ours() -> None:
         table = formulas.get_functions()
         for f in CATALOG:
             table[f.name] = _our_function(f.name)
-        table["OFFSET"] = wrap_func(_offset, ranges=True)
-        table["INDIRECT"] = wrap_func(_indirect, ranges=True)
+        import collections
+
+        from formulas.functions import COMPILING, wrap_impure_func
+
+        for name, fn in (("OFFSET", _offset), ("INDIRECT", _indirect)):
+            # run-time only: never folded into a constant while the formula is compiled
+            table[name] = {
+                "extra_inputs": collections.OrderedDict([(COMPILING, False)]),
+                "function": wrap_impure_func(wrap_func(fn, ranges=True)),
+            }
+        from formulas.functions.operators import OPERATORS
+
+        OPERATORS[":"] = wrap_func(_range_op, ranges=True)
         _REGISTERED = True
 
 
@@ -224,6 +240,22 @@ def _offset(ref, rows, cols, height=None, width=None):
     return eng._ranges(sheet, r1, c1, r2, c2, demand=True)
 
 
+def _range_op(x, y):
+    """The range operator ``x:y`` (``A2:OFFSET(A3,4,0)``): the library's box, with every
+    cell's value read from the running engine (the library keeps only the two ends')."""
+    from formulas.ranges import Ranges
+
+    box = Ranges(x.ranges) + Ranges(y.ranges)
+    eng = getattr(_CURRENT, "engine", None)
+    if eng is None or not box.ranges:
+        return x + y
+    rng = box.ranges[0]
+    sheet = eng._sheet_of_id(rng.get("sheet_id") or "", _CURRENT.sheet)
+    return eng._ranges(
+        sheet, int(rng["r1"]), int(rng["n1"]), int(rng["r2"]), int(rng["n2"]), demand=True
+    )
+
+
 def _indirect(ref_text, a1=True):
     """INDIRECT(ref_text, [a1]) on the running engine (A1-style text)."""
     from formulas.tokens.operand import Error
@@ -312,6 +344,8 @@ class Engine:
         self._plans: dict = {}
         self._out: dict = {}
         self._in_progress: set = set()
+        self._late: set = set()
+        self._late_now = False
 
     # --- names, sheets, tables ------------------------------------------------------------
     def _sheet(self, name: str | None, here: str) -> str | None:
@@ -366,7 +400,7 @@ class Engine:
             unknown=unknown,
             needs_ranges=bool(funcs & _NEEDS_RANGES) or "~ops" in funcs,
             positional="~positional" in funcs,
-            dynamic=bool(funcs & _DYNAMIC),
+            dynamic=bool(funcs & _DYNAMIC) or "~rangeop" in funcs,
             volatile=frozenset(funcs & VOLATILE),
             problem=problem,
             implicit=tuple(implicit),
@@ -380,11 +414,49 @@ class Engine:
         out = []
         stack: list[str] = []  # enclosing FUNC names ("(" for plain parentheses)
         prev_type = ""
+        def operand(value: str, i: int) -> None:
+            ref = parse_ref(value)
+            if ref is None:
+                out.append("#REF!")
+            elif ref.kind == "name" and ref.book is None:
+                definition = self._name(ref.text, ref.sheet, sheet)
+                if definition is None:
+                    out.append("#NAME?")
+                    funcs.add("~unknown-name:" + ref.text)
+                    return
+                d = definition.lstrip("=")
+                inner = parse_ref(d) if len(tokens(d)) == 1 else None
+                if inner is not None and inner.kind not in ("name", "table"):
+                    idx = len(refs)
+                    refs.append((inner, "name"))
+                    modes.append(_mode(toks, i, stack))
+                    self._mark_implicit(stack, idx, implicit, modes)
+                    out.append(f"_JBR{idx}")
+                else:
+                    out.append(
+                        "("
+                        + self._rewrite(d, sheet, "name", refs, funcs, implicit, depth + 1, modes)
+                        + ")"
+                    )
+            else:
+                idx = len(refs)
+                refs.append((ref, frame))
+                modes.append(_mode(toks, i, stack))
+                self._mark_implicit(stack, idx, implicit, modes)
+                out.append(f"_JBR{idx}")
+
         for i, (value, ttype, sub) in enumerate(toks):
             if ttype == "FUNC" and sub == "OPEN":
                 name = value[:-1].upper()
-                if ":" in name:  # A1:INDEX(…) — a range built from a reference function
-                    raise _Unsupported(f"range operator with a function ({value}…)")
+                if ":" in name:  # A1:INDEX(…) — a range ending where a function points
+                    left, _, name = value[:-1].rpartition(":")
+                    if left:
+                        before = len(modes)
+                        operand(left, i)
+                        modes[before:] = ["ranges"] * (len(modes) - before)
+                    out.append(":")
+                    funcs.update(("~ops", "~rangeop"))
+                    name = name.upper()
                 if name.startswith("_XLUDF."):
                     name = name[7:]
                 funcs.add(name)
@@ -403,39 +475,11 @@ class Engine:
                 stack.pop() if stack else None
                 out.append(")")
             elif ttype == "OPERAND" and sub == "RANGE":
-                ref = parse_ref(value)
-                if ref is None:
-                    out.append("#REF!")
-                elif ref.kind == "name" and ref.book is None:
-                    definition = self._name(ref.text, ref.sheet, sheet)
-                    if definition is None:
-                        out.append("#NAME?")
-                        funcs.add("~unknown-name:" + ref.text)
-                        continue
-                    d = definition.lstrip("=")
-                    inner = parse_ref(d) if len(tokens(d)) == 1 else None
-                    if inner is not None and inner.kind not in ("name", "table"):
-                        idx = len(refs)
-                        refs.append((inner, "name"))
-                        modes.append(_mode(toks, i, stack))
-                        self._mark_implicit(stack, idx, implicit)
-                        out.append(f"_JBR{idx}")
-                    else:
-                        out.append(
-                            "("
-                            + self._rewrite(
-                                d, sheet, "name", refs, funcs, implicit, depth + 1, modes
-                            )
-                            + ")"
-                        )
-                else:
-                    idx = len(refs)
-                    refs.append((ref, frame))
-                    modes.append(_mode(toks, i, stack))
-                    self._mark_implicit(stack, idx, implicit)
-                    out.append(f"_JBR{idx}")
+                operand(value, i)
             elif ttype == "OPERATOR-INFIX" and value in (":", ","):
                 funcs.add("~ops")
+                if value == ":":
+                    funcs.add("~rangeop")  # its cells are known only at run time
                 out.append(value)
             elif ttype == "WHITE-SPACE":
                 # between two operands a space is the intersection operator
@@ -453,10 +497,13 @@ class Engine:
         return "".join(out)
 
     @staticmethod
-    def _mark_implicit(stack, idx, implicit) -> None:
-        # a reference outside every function call (only operators and parentheses around
-        # it) takes Excel's implicit intersection in a plain (non-array) formula
-        if all(s == "(" for s in stack):
+    def _mark_implicit(stack, idx, implicit, modes=None) -> None:
+        # in a plain (non-array) formula a reference given where a value is expected (not as
+        # a whole argument of a function taking references or arrays, and not inside one
+        # that evaluates its arguments as arrays) takes Excel's implicit intersection
+        if modes is not None and modes[idx] != "value":
+            return
+        if not (set(stack) & _ARRAY_CONTEXT):
             implicit.append(idx)
 
     def _compile(self, tpl: _Template, cell: Cell) -> _Compiled:
@@ -478,11 +525,16 @@ class Engine:
             fn = builder.compile(**{CELL: here})
         else:
             fn = builder.compile()
-        order = []
+        order: list = []
         for k in fn.inputs:
-            if not (k.startswith("_JBR") and k[4:].isdigit()):
+            if k.startswith("_JBR") and k[4:].isdigit():
+                order.append(int(k[4:]))
+                continue
+            # the library reads INDIRECT("B2") with constant text as the reference itself
+            ref = parse_ref(k)
+            if ref is None or ref.kind in ("name", "table"):
                 raise _Unsupported(f"reference {k!r} not understood")
-            order.append(int(k[4:]))
+            order.append(ref)
         comp = _Compiled(fn, order)
         self._compiled[key] = comp
         return comp
@@ -624,8 +676,15 @@ class Engine:
             return self._ranges(t.sheets[0], *t.box)
         return self._array(t.sheets[0], t.box)
 
+    def _input(self, i, targets, tpl: _Template, cell: Cell):
+        if isinstance(i, int):
+            return self._arg(targets[i], tpl.modes[i])
+        t = self._place(i, cell.sheet, cell.row, cell.col, 0, 0, "cell")
+        return self._arg(t, "ranges")
+
     def _demand(self, sheet, r1, c1, r2, c2) -> None:
-        """Compute, now, the formula cells in a box that a run-time reference reads."""
+        """Compute, now, the formula cells in a box that a run-time reference reads (cells
+        already running are read as they stand; the late passes settle them)."""
         for c in range(c1, c2 + 1):
             rows = self._rows_by_col.get((sheet, c))
             if not rows:
@@ -634,7 +693,7 @@ class Engine:
                 key = (sheet, r, c)
                 if key in self._plans and key not in self._out:
                     if key in self._in_progress:
-                        raise _Unsupported("circular reference through OFFSET/INDIRECT")
+                        continue  # read as it stands: the reference may not use it
                     self._run_cell(key)
 
     # --- running ------------------------------------------------------------------------
@@ -746,22 +805,66 @@ class Engine:
                 batches, member_of = {}, {}
         if order is None:
             order = self._order(early)
-        late_order = self._order({k: graph[k] & late for k in late}) if late else []
+        late_order = []
+        if late:
+            # static dependencies over-approximate run-time references (INDEX(row):INDEX(…)
+            # over the row holding the formula): where they close a loop, go in sheet order
+            # and let each run-time reference compute what it reads first
+            try:
+                late_order = list(
+                    graphlib.TopologicalSorter({k: graph[k] & late for k in late}).static_order()
+                )
+            except graphlib.CycleError:
+                sheet_pos = {s: i for i, s in enumerate(book.sheets)}
+                late_order = sorted(late, key=lambda k: (sheet_pos.get(k[0], 0), k[1], k[2]))
+        self._late = set(late)
 
         total = len(order) + len(late_order)
         _CURRENT.engine = self
         try:
-            for i, node in enumerate(order + late_order):
+            for i, node in enumerate(order):
                 if node in batches:
                     self._run_batch(batches[node])
                 elif node in plans and node not in out:
                     self._run_cell(node)
                 if self.progress and (i % 200 == 0 or i == total - 1):
                     self.progress(i + 1, total)
+            if late_order:
+                self._run_late(late_order)
+                if self.progress:
+                    self.progress(total, total)
         finally:
             _CURRENT.engine = None
         self._taint()
         return out
+
+    _LATE_PASSES = 12
+
+    def _run_late(self, late_order: list) -> None:
+        """Cells with run-time references (and their dependents): their targets are known
+        only while they run, so they are solved as a fixed point.  Each starts from its saved
+        value and all are evaluated pass after pass until no value changes; for references
+        that do not loop this ends with every cell computed from computed values.  Cells
+        still changing after the last pass are reported as circular."""
+        plans, values, out = self._plans, self._values, self._out
+        for key in late_order:
+            c = plans[key].cell
+            if c.has_cached:
+                values[key] = c.cached
+        before: dict = {}
+        for _ in range(self._LATE_PASSES):
+            for key in late_order:
+                out.pop(key, None)
+                self._run_cell(key)
+            now = {k: values.get(k) for k in late_order}
+            changed = {k for k in late_order if not _same_value(now[k], before.get(k, _NOTHING))}
+            if not changed:
+                return
+            before = now
+        for key in changed:
+            out[key] = self._refused(
+                plans[key].cell, "circular reference (through run-time references)"
+            )
 
     def _refused(self, c: Cell, problem: str) -> Outcome:
         """A cell not evaluated: its saved value stays, and the reason goes with it."""
@@ -814,7 +917,7 @@ class Engine:
         try:
             comp = self._compile(tpl, cell)
             targets = self._targets(tpl, cell)
-            args = [self._arg(targets[i], tpl.modes[i]) for i in comp.order]
+            args = [self._input(i, targets, tpl, cell) for i in comp.order]
             res = np.asarray(comp.fn(*args), dtype=object)
         finally:
             self._values = saved
@@ -824,13 +927,20 @@ class Engine:
         p: _Plan = self._plans[key]
         c, tpl = p.cell, p.tpl
         self._in_progress.add(key)
+        outer = tuple(getattr(_CURRENT, a, None) for a in ("sheet", "row", "col", "problems"))
         _CURRENT.sheet, _CURRENT.row, _CURRENT.col = c.sheet, c.row, c.col
         _CURRENT.problems = []
+        try:
+            self._run_cell_here(key, p, c, tpl)
+        finally:
+            _CURRENT.sheet, _CURRENT.row, _CURRENT.col, _CURRENT.problems = outer
+
+    def _run_cell_here(self, key, p, c, tpl) -> None:
         if c.array_ref:
             b = _array_box(c)
             _CURRENT.min_shape = (b[2] - b[0] + 1, b[3] - b[1] + 1)
         try:
-            args = [self._arg(p.targets[i], tpl.modes[i]) for i in p.comp.order]
+            args = [self._input(i, p.targets, tpl, c) for i in p.comp.order]
             res = p.comp.fn(*args)
         except _Unsupported as e:
             self._out[key] = self._refused(c, f"unsupported: {e}")
@@ -971,6 +1081,17 @@ class Engine:
         self._out[key] = Outcome(v, problem, note)
 
 
+_NOTHING = object()
+
+
+def _same_value(a, b) -> bool:
+    if a is b:
+        return True
+    if isinstance(a, float) and isinstance(b, float):
+        return a == b or (a != a and b != b)
+    return type(a) is type(b) and a == b
+
+
 def _mode(toks, i: int, stack: list) -> str:
     """How the reference operand toks[i] is handed to the library (see _REF_ARGS)."""
     prev = toks[i - 1] if i > 0 else ("", "", "")
@@ -979,8 +1100,13 @@ def _mode(toks, i: int, stack: list) -> str:
         nxt[1] == "OPERATOR-INFIX" and nxt[0] in (":", ",")
     ):
         return "ranges"
-    if prev[1] == "WHITE-SPACE" or nxt[1] == "WHITE-SPACE":
-        return "ranges"  # perhaps the intersection operator
+    before = toks[i - 2] if i > 1 else ("", "", "")
+    after = toks[i + 2] if i + 2 < len(toks) else ("", "", "")
+    if (prev[1] == "WHITE-SPACE" and (before[1] == "OPERAND" or before[2] == "CLOSE")) or (
+        nxt[1] == "WHITE-SPACE"
+        and (after[1] == "OPERAND" or (after[1] in ("FUNC", "PAREN") and after[2] == "OPEN"))
+    ):
+        return "ranges"  # the intersection operator
     whole = (prev[1] == "FUNC" and prev[2] == "OPEN" or prev[1] == "SEP" and prev[2] == "ARG") and (
         nxt[1] == "FUNC" and nxt[2] == "CLOSE" or nxt[1] == "SEP" and nxt[2] == "ARG"
     )
