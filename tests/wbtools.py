@@ -13,3 +13,86 @@ def rewrite_part(src: Path, dst: Path, name: str, change) -> Path:
                 data = change(data)
             zout.writestr(info, data, compress_type=info.compress_type)
     return dst
+
+
+MAIN_NS = "http://schemas.openxmlformats.org/spreadsheetml/2006/main"
+
+
+def build(path: Path, cells: dict, prepare=None) -> Path:
+    """Save a workbook of *cells* ({"Sheet!A1": value or formula}; the first sheet named
+    in it is the workbook's first) to *path*; ``prepare(wb)`` may add names or tables."""
+    import openpyxl
+
+    wb = openpyxl.Workbook()
+    first = True
+    for key, value in cells.items():
+        sheet, _, addr = key.rpartition("!")
+        if sheet not in wb.sheetnames:
+            if first:
+                wb.active.title = sheet
+            else:
+                wb.create_sheet(sheet)
+        first = False
+        wb[sheet][addr] = value
+    if prepare is not None:
+        prepare(wb)
+    wb.save(path)
+    return path
+
+
+def outcomes(path: Path) -> dict:
+    """The engine's outcome of every formula cell, keyed "Sheet!A1"."""
+    from openpyxl.utils import get_column_letter
+
+    from joulebook.workbook.engine import Engine
+    from joulebook.workbook.reader import read_book
+
+    out = Engine(read_book(path)).run()
+    return {f"{s}!{get_column_letter(c)}{r}": o for (s, r, c), o in out.items()}
+
+
+def with_saved(src: Path, dst: Path, saved: dict) -> Path:
+    """Copy *src* to *dst* with saved values ({"Sheet!A1": number, text, bool or "#N/A"})
+    written into the formula cells, as a spreadsheet program saves them."""
+    import xml.etree.ElementTree as ET
+
+    import openpyxl
+
+    wb = openpyxl.load_workbook(src)
+    parts = {ws.title: f"xl/worksheets/sheet{i + 1}.xml" for i, ws in enumerate(wb.worksheets)}
+    by_part: dict = {}
+    for key, value in saved.items():
+        sheet, _, addr = key.rpartition("!")
+        by_part.setdefault(parts[sheet], {})[addr] = value
+    ET.register_namespace("", MAIN_NS)
+    out = src
+    for part, values in by_part.items():
+
+        def change(data: bytes, values=values) -> bytes:
+            root = ET.fromstring(data)
+            for c in root.iter(f"{{{MAIN_NS}}}c"):
+                if c.get("r") not in values:
+                    continue
+                v = values[c.get("r")]
+                for old in c.findall(f"{{{MAIN_NS}}}v"):
+                    c.remove(old)
+                el = ET.SubElement(c, f"{{{MAIN_NS}}}v")
+                if isinstance(v, bool):
+                    c.set("t", "b")
+                    el.text = "1" if v else "0"
+                elif isinstance(v, str) and v.startswith("#"):
+                    c.set("t", "e")
+                    el.text = v
+                elif isinstance(v, str):
+                    c.set("t", "str")
+                    el.text = v
+                else:
+                    c.attrib.pop("t", None)
+                    el.text = repr(float(v))
+            return ET.tostring(root, xml_declaration=True, encoding="UTF-8")
+
+        tmp = dst.with_suffix(".tmp.xlsx")
+        rewrite_part(out, tmp, part, change)
+        tmp.replace(dst)
+        out = dst
+    return dst

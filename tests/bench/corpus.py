@@ -124,9 +124,7 @@ def main() -> int:
     ap.add_argument("--json")
     ap.add_argument("--timeout", type=float, default=120)
     ns = ap.parse_args()
-    files = sorted(
-        p for p in Path(ns.folder).rglob("*") if p.suffix.lower() in (".xlsx", ".xlsm")
-    )
+    files = sorted(p for p in Path(ns.folder).rglob("*") if p.suffix.lower() in (".xlsx", ".xlsm"))
     total = {"cells": 0, "pass": 0, "lib_cells": 0, "lib_pass": 0, "stderr": 0}
     report = {}
     for f in files:

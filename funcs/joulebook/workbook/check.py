@@ -20,7 +20,9 @@ class Row:
     formula: str
     cached: object
     recomputed: object
-    status: str  # pass, differs, no cached value, error, volatile, unsupported, not checked, circular
+    status: (
+        str  # pass, differs, no cached value, error, volatile, unsupported, not checked, circular
+    )
     note: str = ""
 
 

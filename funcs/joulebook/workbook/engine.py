@@ -51,6 +51,7 @@ _NEEDS_RANGES = frozenset(
         "COLUMNS",
         "AREAS",
         "ISREF",
+        "SUBTOTAL",
         "INDEX",
         "OFFSET",
         "INDIRECT",
@@ -140,6 +141,7 @@ def _register_ours() -> None:
 
         from formulas.functions import COMPILING, wrap_impure_func
 
+        table["SUBTOTAL"] = wrap_func(_subtotal, ranges=True)
         for name, fn in (("OFFSET", _offset), ("INDIRECT", _indirect)):
             # run-time only: never folded into a constant while the formula is compiled
             table[name] = {
@@ -190,12 +192,15 @@ def _our_function(name: str):
 
 
 def _unknown_function(name: str):
+    """A stand-in for a function the library does not have: #NAME?, as a spreadsheet shows."""
+
     def fn(*args):
         from formulas.tokens.operand import Error
 
         return Error.errors["#NAME?"]
 
     fn.__name__ = name
+    fn.joulebook_unknown = True
     return fn
 
 
@@ -238,6 +243,88 @@ def _offset(ref, rows, cols, height=None, width=None):
     if r1 < 1 or c1 < 1 or r2 > MAX_ROW or c2 > MAX_COL:
         return Error.errors["#REF!"]
     return eng._ranges(sheet, r1, c1, r2, c2, demand=True)
+
+
+_SUBTOTAL_KINDS = {
+    1: "AVERAGE", 2: "COUNT", 3: "COUNTA", 4: "MAX", 5: "MIN", 6: "PRODUCT",
+    7: "STDEV", 8: "STDEVP", 9: "SUM", 10: "VAR", 11: "VARP",
+}  # fmt: skip
+
+
+def _subtotal(kind, *refs):
+    """SUBTOTAL(function_num, ref1, …): the aggregate of the cells of the references that do
+    not hold a SUBTOTAL or AGGREGATE of their own; 101–111 also leave out hidden rows.  On a
+    sheet with an AutoFilter, 1–11 would count manually hidden rows but not filtered ones,
+    which the file does not tell apart: refused there."""
+    from formulas.ranges import Ranges
+    from formulas.tokens.operand import Error
+
+    eng: Engine = _CURRENT.engine
+    k = _scalar(kind)
+    if isinstance(k, bool) or not isinstance(k, (int, float, np.number)):
+        return k if type(k).__name__ == "XlError" else Error.errors["#VALUE!"]
+    n = int(k)
+    name = _SUBTOTAL_KINDS.get(n % 100) if n // 100 in (0, 1) else None
+    if name is None or not refs:
+        return Error.errors["#VALUE!"]
+    values = []
+    for ref in refs:
+        if not isinstance(ref, Ranges):
+            return Error.errors["#VALUE!"]
+        for rng in ref.ranges:
+            sheet = eng._sheet_of_id(rng.get("sheet_id") or "", _CURRENT.sheet)
+            r1, c1, r2, c2 = eng._bounded(
+                sheet, (int(rng["r1"]), int(rng["n1"]), int(rng["r2"]), int(rng["n2"]))
+            )
+            hidden = eng.book.hidden_rows.get(sheet, set())
+            if n < 100 and sheet in eng.book.filtered and any(r1 <= r <= r2 for r in hidden):
+                _CURRENT.problems.append(
+                    "unsupported: SUBTOTAL over hidden rows of a filtered sheet (filtered and "
+                    "hidden rows are not told apart in the file)"
+                )
+                return Error.errors["#VALUE!"]
+            for c in range(c1, c2 + 1):
+                rows = eng._rows_by_col.get((sheet, c)) or []
+                for r in rows[bisect_left(rows, r1) : bisect_right(rows, r2)]:
+                    if n > 100 and r in hidden:
+                        continue
+                    cell = eng.book.cells.get((sheet, r, c))
+                    if cell is not None and cell.formula and _is_subtotal(cell.formula):
+                        continue
+                    v = eng._values.get((sheet, r, c))
+                    if v is not None:
+                        values.append(v)
+    for v in values:
+        if isinstance(v, tuple):
+            return Error.errors.get(v[1], Error.errors["#VALUE!"])
+    if name == "COUNTA":
+        return float(len(values))
+    x = np.array(
+        [float(v) for v in values if isinstance(v, (int, float)) and not isinstance(v, bool)]
+    )
+    if name == "COUNT":
+        return float(x.size)
+    if name in ("SUM", "MAX", "MIN", "PRODUCT") and x.size == 0:
+        return 0.0
+    need = 2 if name in ("STDEV", "VAR") else 1
+    if x.size < need:
+        return Error.errors["#DIV/0!"]
+    return float(
+        {
+            "AVERAGE": np.mean, "MAX": np.max, "MIN": np.min, "PRODUCT": np.prod, "SUM": np.sum,
+            "STDEV": lambda a: np.std(a, ddof=1), "STDEVP": np.std,
+            "VAR": lambda a: np.var(a, ddof=1), "VARP": np.var,
+        }[name](x)
+    )  # fmt: skip
+
+
+def _is_subtotal(formula: str) -> bool:
+    return any(
+        t == "FUNC"
+        and s == "OPEN"
+        and v[:-1].upper().removeprefix("_XLFN.") in ("SUBTOTAL", "AGGREGATE")
+        for v, t, s in tokens(formula)
+    )
 
 
 def _range_op(x, y):
@@ -369,6 +456,9 @@ class Engine:
         return local.get((here, key), self.book.names.get(key))
 
     # --- building a template ----------------------------------------------------------
+    def _is_table(self, name: str) -> bool:
+        return any(t.name.upper() == name.upper() for t in self.book.tables)
+
     def _template(self, sheet: str, formula: str) -> _Template:
         key = (sheet, formula)
         tpl = self._templates.get(key)
@@ -392,7 +482,9 @@ class Engine:
         import formulas
 
         table = formulas.get_functions()
-        unknown = frozenset(f for f in funcs if f not in table)
+        unknown = frozenset(
+            f for f in funcs if f not in table or getattr(table[f], "joulebook_unknown", False)
+        )
         return _Template(
             text=text,
             refs=refs,
@@ -414,12 +506,16 @@ class Engine:
         out = []
         stack: list[str] = []  # enclosing FUNC names ("(" for plain parentheses)
         prev_type = ""
-        def operand(value: str, i: int) -> None:
+
+        def operand(value: str, i: int, mode: str = "") -> None:
             ref = parse_ref(value)
             if ref is None:
                 out.append("#REF!")
             elif ref.kind == "name" and ref.book is None:
                 definition = self._name(ref.text, ref.sheet, sheet)
+                if definition is None and ref.sheet is None and self._is_table(ref.text):
+                    operand(ref.text + "[#Data]", i, mode)  # a table's name: its data rows
+                    return
                 if definition is None:
                     out.append("#NAME?")
                     funcs.add("~unknown-name:" + ref.text)
@@ -429,7 +525,7 @@ class Engine:
                 if inner is not None and inner.kind not in ("name", "table"):
                     idx = len(refs)
                     refs.append((inner, "name"))
-                    modes.append(_mode(toks, i, stack))
+                    modes.append(mode or _mode(toks, i, stack))
                     self._mark_implicit(stack, idx, implicit, modes)
                     out.append(f"_JBR{idx}")
                 else:
@@ -441,19 +537,34 @@ class Engine:
             else:
                 idx = len(refs)
                 refs.append((ref, frame))
-                modes.append(_mode(toks, i, stack))
+                modes.append(mode or _mode(toks, i, stack))
                 self._mark_implicit(stack, idx, implicit, modes)
                 out.append(f"_JBR{idx}")
 
+        pending: list[int] = []  # depths where a "-(-(" opened for "--" waits for its operand
+        skip = 0
         for i, (value, ttype, sub) in enumerate(toks):
+            if skip:
+                skip -= 1
+                continue
+            if ttype == "OPERATOR-PREFIX":
+                # the library folds a run of signs by parity, so "--x" would not turn TRUE
+                # or "3" into a number; an even run of minus signs is written -(-(x)) instead
+                j, minus = i, 0
+                while j < len(toks) and toks[j][1] in ("OPERATOR-PREFIX", "WHITE-SPACE"):
+                    minus += toks[j][0] == "-"
+                    j += 1
+                if minus >= 2 and minus % 2 == 0:
+                    out.append("-(-(")
+                    pending.append(len(stack))
+                    skip = j - i - 1
+                    continue
             if ttype == "FUNC" and sub == "OPEN":
                 name = value[:-1].upper()
                 if ":" in name:  # A1:INDEX(…) — a range ending where a function points
                     left, _, name = value[:-1].rpartition(":")
                     if left:
-                        before = len(modes)
-                        operand(left, i)
-                        modes[before:] = ["ranges"] * (len(modes) - before)
+                        operand(left, i, "ranges")
                     out.append(":")
                     funcs.update(("~ops", "~rangeop"))
                     name = name.upper()
@@ -474,6 +585,10 @@ class Engine:
             elif ttype == "PAREN" and sub == "CLOSE":
                 stack.pop() if stack else None
                 out.append(")")
+            elif ttype == "OPERAND" and sub == "RANGE" and value.startswith(":"):
+                out.append(":")  # OFFSET(…):D22 — a range starting where a function points
+                funcs.update(("~ops", "~rangeop"))
+                operand(value[1:], i, "ranges")
             elif ttype == "OPERAND" and sub == "RANGE":
                 operand(value, i)
             elif ttype == "OPERATOR-INFIX" and value in (":", ","):
@@ -490,10 +605,20 @@ class Engine:
                 out.append(" ")
             elif ttype == "SEP" and sub == "ROW":
                 out.append(";")
+            elif ttype == "ARRAY":
+                if sub == "OPEN":
+                    stack.append("{")
+                elif stack:
+                    stack.pop()
+                out.append(value)
             else:
                 out.append(value)
             if ttype != "WHITE-SPACE":
                 prev_type = "CLOSE" if sub == "CLOSE" else ttype
+            ended = ttype == "OPERAND" or sub == "CLOSE"
+            while ended and pending and pending[-1] == len(stack):
+                pending.pop()
+                out.append("))")
         return "".join(out)
 
     @staticmethod
@@ -576,7 +701,12 @@ class Engine:
         box = ref.placed(0, 0)
         if box is None:
             return "#REF!"
-        return _Target((sheet,), box, f"linked values from the link cache of [{ref.book}]")
+        return _Target(
+            (sheet,),
+            box,
+            f"{ref.sheet}!… of [{ref.book}] {link.target} read from the link cache saved in this"
+            " file (the linked workbook itself was not opened)",
+        )
 
     def _table(self, text: str, here: str, row: int, col: int):
         from .tables import resolve
@@ -592,7 +722,9 @@ class Engine:
             if frame == "cell":
                 t = self._place(ref, cell.sheet, cell.row, cell.col, 0, 0, frame)
             else:  # a name's reference: written from A1
-                t = self._place(ref, cell.sheet, cell.row, cell.col, cell.row - 1, cell.col - 1, frame)
+                t = self._place(
+                    ref, cell.sheet, cell.row, cell.col, cell.row - 1, cell.col - 1, frame
+                )
             if isinstance(t, _Target) and i in tpl.implicit and not cell.array_ref:
                 t = self._intersect(t, cell)
             out.append(t)
@@ -866,13 +998,15 @@ class Engine:
                 plans[key].cell, "circular reference (through run-time references)"
             )
 
-    def _refused(self, c: Cell, problem: str) -> Outcome:
-        """A cell not evaluated: its saved value stays, and the reason goes with it."""
+    def _refused(self, c: Cell, problem: str, shown=None) -> Outcome:
+        """A cell not evaluated: its saved value stays, and the reason goes with it.  With
+        no saved value the cell reads as *shown* (what a spreadsheet program would show,
+        when that is known) or #N/A."""
         key = (c.sheet, c.row, c.col)
         v = c.cached if c.has_cached else None
         if v is not None:
             self._values[key] = v
-        return Outcome(v if v is not None else ERROR("#N/A"), problem)
+        return Outcome(v if v is not None else (shown or ERROR("#N/A")), problem)
 
     def _taint(self) -> None:
         """Cells reading a refused cell are not checked; cells reading a volatile one are
@@ -960,7 +1094,7 @@ class Engine:
         """Same-shape cells of one column whose inputs are single cells and whose functions
         are all elementwise: evaluated together in one vectorised call."""
         groups: dict = {}
-        for key, deps in graph.items():
+        for key in graph:
             p = self._plans[key]
             tpl = p.tpl
             if (
@@ -983,7 +1117,7 @@ class Engine:
                 continue
             groups.setdefault((p.cell.sheet, p.cell.col, p.shape), []).append(key)
         batches = {}
-        for n, (gkey, members) in enumerate(groups.items()):
+        for n, members in enumerate(groups.values()):
             if len(members) < 2:
                 continue
             mset = set(members)
@@ -1071,11 +1205,13 @@ class Engine:
         v = _plain(arr.reshape(-1)[0]) if arr.size >= 1 else ERROR("#VALUE!")
         if isinstance(v, tuple) and v[1] == "#NAME?" and p.tpl.unknown:
             names = sorted(n for n in p.tpl.unknown if not n.startswith("~"))
-            missing = sorted(n.split(":", 1)[1] for n in p.tpl.funcs if n.startswith("~unknown-name:"))
+            missing = sorted(
+                n.split(":", 1)[1] for n in p.tpl.funcs if n.startswith("~unknown-name:")
+            )
             what = ", ".join(names) + (" (not a function joulebook knows)" if names else "")
             if missing:
                 what += ("; " if what else "") + "undefined name " + ", ".join(missing)
-            self._out[key] = self._refused(c, f"unsupported: {what}")
+            self._out[key] = self._refused(c, f"unsupported: {what}", v)
             return
         self._values[key] = v
         self._out[key] = Outcome(v, problem, note)
@@ -1094,17 +1230,22 @@ def _same_value(a, b) -> bool:
 
 def _mode(toks, i: int, stack: list) -> str:
     """How the reference operand toks[i] is handed to the library (see _REF_ARGS)."""
-    prev = toks[i - 1] if i > 0 else ("", "", "")
-    nxt = toks[i + 1] if i + 1 < len(toks) else ("", "", "")
+    blank = ("", "", "")
+
+    def near(step: int):  # the nearest token that is not white space, and what lies between
+        j, space = i + step, False
+        while 0 <= j < len(toks) and toks[j][1] == "WHITE-SPACE":
+            j, space = j + step, True
+        return (toks[j] if 0 <= j < len(toks) else blank), space
+
+    prev, space_before = near(-1)
+    nxt, space_after = near(1)
     if (prev[1] == "OPERATOR-INFIX" and prev[0] in (":", ",")) or (
         nxt[1] == "OPERATOR-INFIX" and nxt[0] in (":", ",")
     ):
         return "ranges"
-    before = toks[i - 2] if i > 1 else ("", "", "")
-    after = toks[i + 2] if i + 2 < len(toks) else ("", "", "")
-    if (prev[1] == "WHITE-SPACE" and (before[1] == "OPERAND" or before[2] == "CLOSE")) or (
-        nxt[1] == "WHITE-SPACE"
-        and (after[1] == "OPERAND" or (after[1] in ("FUNC", "PAREN") and after[2] == "OPEN"))
+    if (space_before and (prev[1] == "OPERAND" or prev[2] == "CLOSE")) or (
+        space_after and (nxt[1] == "OPERAND" or (nxt[1] in ("FUNC", "PAREN") and nxt[2] == "OPEN"))
     ):
         return "ranges"  # the intersection operator
     whole = (prev[1] == "FUNC" and prev[2] == "OPEN" or prev[1] == "SEP" and prev[2] == "ARG") and (
@@ -1112,9 +1253,7 @@ def _mode(toks, i: int, stack: list) -> str:
     )
     if whole and stack and stack[-1] in _NEEDS_RANGES:
         return "ranges"
-    if whole and stack and stack[-1] in _REF_ARGS:
-        return "array"
-    if whole and stack and stack[-1] in _OURS_RANGE_ARGS:
+    if whole and stack and stack[-1] in (_REF_ARGS | _OURS_RANGE_ARGS):
         return "array"
     return "value"
 

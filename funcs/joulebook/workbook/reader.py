@@ -112,6 +112,8 @@ class Book:
     local_names: dict[tuple[str, str], str] = field(default_factory=dict)  # (sheet, NAME) -> text
     links: dict[str, Link] = field(default_factory=dict)  # "1" -> the cache of [1]
     tables: list[Table] = field(default_factory=list)
+    hidden_rows: dict[str, set[int]] = field(default_factory=dict)  # sheet -> hidden row numbers
+    filtered: set[str] = field(default_factory=set)  # sheets with an AutoFilter
 
     def formula_cells(self) -> list[Cell]:
         return [c for c in self.cells.values() if c.formula is not None]
@@ -313,7 +315,11 @@ def _rels(zf: zipfile.ZipFile, part: str) -> dict[str, tuple[str, str]]:
     for r in root.iter(PKG_RNS + "Relationship"):
         t = r.get("Target", "")
         if r.get("TargetMode") != "External":
-            t = t.lstrip("/") if t.startswith("/") else posixpath.normpath(posixpath.join(folder, t))
+            t = (
+                t.lstrip("/")
+                if t.startswith("/")
+                else posixpath.normpath(posixpath.join(folder, t))
+            )
         out[r.get("Id")] = (r.get("Type", ""), t)
     return out
 
@@ -427,6 +433,10 @@ def _read_sheet(zf, part, sheet, book: Book, shared, limits: Limits, counts) -> 
         try:
             for _ev, el in SafeET.iterparse(fh, events=("end",)):
                 if el.tag != NS + "c":
+                    if el.tag == NS + "row" and el.get("hidden") in ("1", "true"):
+                        book.hidden_rows.setdefault(sheet, set()).add(int(el.get("r", "0")))
+                    elif el.tag == NS + "autoFilter":
+                        book.filtered.add(sheet)
                     continue
                 ref = el.get("r")
                 if ref is None:

@@ -154,7 +154,12 @@ def split_sheet(text: str) -> tuple[str | None, str | None, str]:
             i += 1
         rest = text[i + 1 :]
         if rest.startswith("!"):
-            return book, "".join(out), rest[1:]
+            sheet = "".join(out)
+            if book is None and sheet.startswith("["):  # '[1]My sheet'!A1
+                index, close, name = sheet[1:].partition("]")
+                if close and index.isdigit():
+                    book, sheet = index, name
+            return book, sheet, rest[1:]
         return book, None, text
     bang = text.rfind("!")
     if bang < 0:
@@ -221,9 +226,18 @@ def _addr(addr: str):
 
 
 @lru_cache(maxsize=65_536)
+def _external(text: str) -> bool:
+    """True for a reference into another book: "[1]Sheet1!A1", "'[1]Sheet 1'!A1", "[1]!Name"."""
+    body = text[1:] if text.startswith("'") else text
+    if not body.startswith("["):
+        return False
+    index, close, rest = body[1:].partition("]")
+    return bool(close) and index.isdigit() and "!" in rest
+
+
 def parse_ref(text: str) -> Ref | None:
     """Read one reference operand as the tokenizer gives it; None when it is not one."""
-    if "[" in text and not text.startswith("[") or text.startswith("[") and "]!" not in text:
+    if "[" in text and not _external(text):
         # Table1[Amount], [@Qty], Table1[[#Totals],[Amount]] (an external book is "[1]S!A1")
         return Ref("table", text=text)
     book, sheet, addr = split_sheet(text)

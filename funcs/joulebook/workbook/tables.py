@@ -101,7 +101,9 @@ def resolve(book, text: str, here: str, row: int, col: int):
         tables = [t for t in book.tables if t.name.upper() == name.upper()]
     else:  # [@Qty] inside a table: the table holding the formula
         tables = [
-            t for t in book.tables if t.sheet == here and t.r1 <= row <= t.r2 and t.c1 <= col <= t.c2
+            t
+            for t in book.tables
+            if t.sheet == here and t.r1 <= row <= t.r2 and t.c1 <= col <= t.c2
         ]
     if not tables:
         raise LookupError(f"table {name or 'around the cell'!r} not found")
