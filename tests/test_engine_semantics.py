@@ -506,3 +506,20 @@ def test_double_minus_turns_booleans_and_text_into_numbers(tmp_path):
     v = _values(tmp_path, cells)
     assert [v[f"S!B{i}"] for i in range(1, 8)] == [1.0, 4.0, 2.0, 1.0, -1.0, 4.0, 4.0]
     assert v["S!B8"] is True
+
+
+def test_found_by_the_differential_tests(tmp_path):
+    cells = {"S!A1": 0.0, "S!A2": 5.0, "S!B2": 0.0}
+    cells |= {
+        "S!C1": "=B2&ISNUMBER(A1)",  # a boolean in text is TRUE/FALSE
+        "S!C2": "=INDEX(A1:E10,7,1)",  # a box larger than the used part keeps its size
+        "S!C3": "=ROWS(A2:A30)",
+        "S!C4": "=MATCH(5,A1:A30,0)",
+    }
+    v = _values(tmp_path, cells)
+    assert v["S!C1"] == "0TRUE"
+    assert v["S!C2"] == 0.0 and v["S!C3"] == 29 and v["S!C4"] == 2
+    cells = {"S!A1": 1.0, "S!A2": 2.0, "S!B1": "=SUM(A2:A1)", "S!B2": "=E8"}
+    cells["S!E8"] = '=""'
+    v = _values(tmp_path, cells, name="c.xlsx")
+    assert v["S!B1"] == 3.0 and v["S!B2"] == ""  # a reversed box is the same box

@@ -86,6 +86,8 @@ _ARRAY_CONTEXT = frozenset(
 )
 _POSITIONAL = frozenset({"ROW", "COLUMN", "SINGLE", "_XLFN.SINGLE"})  # ROW() needs the cell
 _MAX_NAME_DEPTH = 16
+_KEEP_CELLS = 200_000  # boxes up to this size are read whole; larger ones and whole rows or
+# columns are cut to the used part of the sheet
 
 
 def ERROR(code: str) -> tuple[str, str]:  # noqa: N802 - reads like Excel's error values
@@ -151,6 +153,16 @@ def _register_ours() -> None:
         from formulas.functions.operators import OPERATORS
 
         OPERATORS[":"] = wrap_func(_range_op, ranges=True)
+        # the library writes numpy booleans as "True" in text ("0"&ISNUMBER(A1)): TRUE, as
+        # spreadsheets write them; its text functions and "&" look the helper up at call time
+        from formulas.functions import operators, text
+
+        library_str = text._str
+
+        def as_text(x):
+            return library_str(bool(x) if isinstance(x, np.bool_) else x)
+
+        text._str = operators._str = as_text
         _REGISTERED = True
 
 
@@ -747,6 +759,8 @@ class Engine:
         """A box cut to the used part of the sheet (whole columns and rows), but never below
         the size of the array formula being evaluated (it reads blanks there)."""
         r1, c1, r2, c2 = box
+        if r2 < MAX_ROW and c2 < MAX_COL and (r2 - r1 + 1) * (c2 - c1 + 1) <= _KEEP_CELLS:
+            return box  # a box as written keeps its size (INDEX, ROWS, MATCH count on it)
         mr, mc = self._max.get(sheet, (1, 1))
         h, w = getattr(_CURRENT, "min_shape", None) or (1, 1)
         mr, mc = max(mr, r1 + h - 1), max(mc, c1 + w - 1)
