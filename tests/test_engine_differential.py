@@ -29,6 +29,7 @@ from joulebook.workbook.reader import read_book
 
 ROWS, COLS = 8, 5  # the data grid A1:E8 on both sheets
 OTHER = "Q 1"  # a sheet name that needs quotes
+FIRST = ROWS + 3  # the first row of the formulas (columns G to J)
 
 values = st.one_of(
     st.floats(-1e3, 1e3, allow_nan=False).map(lambda x: round(x, 3)),
@@ -166,11 +167,11 @@ def _build(path, grid, formulas, copies):
     cells = []
     for j, f in enumerate(formulas):
         col = "GHIJ"[j]
-        for k in range(copies):
-            ref = f"{col}{1 + k}"
-            text = Translator("=" + f, origin=f"{col}1").translate_formula(ref)
+        for k in range(copies):  # below the grid, so that whole rows do not read them
+            ref = f"{col}{FIRST + k}"
+            text = Translator("=" + f, origin=f"{col}{FIRST}").translate_formula(ref)
             ws[ref] = text
-            cells.append(("S", 1 + k, 7 + j))
+            cells.append(("S", FIRST + k, 7 + j))
     wb.save(path)
     return cells
 

@@ -511,15 +511,24 @@ def test_double_minus_turns_booleans_and_text_into_numbers(tmp_path):
 def test_found_by_the_differential_tests(tmp_path):
     cells = {"S!A1": 0.0, "S!A2": 5.0, "S!B2": 0.0}
     cells |= {
-        "S!C1": "=B2&ISNUMBER(A1)",  # a boolean in text is TRUE/FALSE
-        "S!C2": "=INDEX(A1:E10,7,1)",  # a box larger than the used part keeps its size
-        "S!C3": "=ROWS(A2:A30)",
-        "S!C4": "=MATCH(5,A1:A30,0)",
+        "S!G1": "=B2&ISNUMBER(A1)",  # a boolean in text is TRUE/FALSE
+        "S!G2": "=INDEX(A1:E10,7,1)",  # a box larger than the used part keeps its size
+        "S!G3": "=ROWS(A2:A30)",
+        "S!G4": "=MATCH(5,A1:A30,0)",
     }
     v = _values(tmp_path, cells)
-    assert v["S!C1"] == "0TRUE"
-    assert v["S!C2"] == 0.0 and v["S!C3"] == 29 and v["S!C4"] == 2
+    assert v["S!G1"] == "0TRUE"
+    assert v["S!G2"] == 0.0 and v["S!G3"] == 29 and v["S!G4"] == 2
     cells = {"S!A1": 1.0, "S!A2": 2.0, "S!B1": "=SUM(A2:A1)", "S!B2": "=E8"}
     cells["S!E8"] = '=""'
     v = _values(tmp_path, cells, name="c.xlsx")
     assert v["S!B1"] == 3.0 and v["S!B2"] == ""  # a reversed box is the same box
+
+
+def test_a_cell_that_reads_itself_is_circular(tmp_path):
+    cells = {"S!A3": 1.0, "S!B3": "=SUM(3:3)", "S!C1": "=C1+1", "S!D3": "=ROW(3:3)+COLUMNS(3:3)"}
+    cells |= {"S!E1": "=ROWS(E:E)", "S!F1": "=B3+1"}
+    out = outcomes(build(tmp_path / "self.xlsx", cells))
+    assert out["S!B3"].problem.startswith("circular") and out["S!C1"].problem.startswith("circular")
+    assert out["S!D3"].problem == "" and out["S!E1"].problem == ""  # only their places are read
+    assert out["S!F1"].problem.startswith("not checked: depends on S!B3 (circular")

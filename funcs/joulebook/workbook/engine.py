@@ -84,6 +84,10 @@ _ARRAY_CONTEXT = frozenset(
     """SUMPRODUCT MMULT MDETERM MINVERSE TRANSPOSE FREQUENCY LOOKUP TREND GROWTH LINEST LOGEST
     SUMX2MY2 SUMX2PY2 SUMXMY2 CORREL COVAR PEARSON RSQ SLOPE INTERCEPT STEYX""".split()
 )
+#: functions that read where a reference is, never its cells' values (no circular reference)
+_POSITION_ONLY = frozenset(
+    {"ROW", "COLUMN", "ROWS", "COLUMNS", "AREAS", "ISREF", "CELL", "OFFSET", "INDIRECT"}
+)
 _POSITIONAL = frozenset({"ROW", "COLUMN", "SINGLE", "_XLFN.SINGLE"})  # ROW() needs the cell
 _MAX_NAME_DEPTH = 16
 _KEEP_CELLS = 200_000  # boxes up to this size are read whole; larger ones and whole rows or
@@ -402,6 +406,7 @@ class _Template:
     problem: str = ""  # why it cannot be evaluated at all
     implicit: tuple = ()  # placeholders that take Excel's implicit intersection
     modes: tuple = ()  # per placeholder: "ranges", "array" or "value" (see _REF_ARGS)
+    position_only: frozenset = frozenset()  # placeholders read for their place, not values
 
 
 @dataclass
@@ -484,9 +489,12 @@ class Engine:
         funcs: set = set()
         implicit: list = []
         modes: list = []
+        position_only: set = set()
         problem = ""
         try:
-            text = self._rewrite(formula, sheet, "cell", refs, funcs, implicit, 0, modes)
+            text = self._rewrite(
+                formula, sheet, "cell", refs, funcs, implicit, 0, modes, position_only
+            )
         except _Unsupported as e:
             text, problem = "", f"unsupported: {e}"
         except Exception as e:  # the tokenizer refused the text
@@ -509,9 +517,12 @@ class Engine:
             problem=problem,
             implicit=tuple(implicit),
             modes=tuple(modes),
+            position_only=frozenset(position_only),
         )
 
-    def _rewrite(self, formula, sheet, frame, refs, funcs, implicit, depth, modes) -> str:
+    def _rewrite(
+        self, formula, sheet, frame, refs, funcs, implicit, depth, modes, position_only
+    ) -> str:
         if depth > _MAX_NAME_DEPTH:
             raise _Unsupported("defined names nested too deeply (or defined by themselves)")
         toks = tokens(formula)
@@ -538,18 +549,24 @@ class Engine:
                     idx = len(refs)
                     refs.append((inner, "name"))
                     modes.append(mode or _mode(toks, i, stack))
+                    if stack and stack[-1] in _POSITION_ONLY:
+                        position_only.add(idx)
                     self._mark_implicit(stack, idx, implicit, modes)
                     out.append(f"_JBR{idx}")
                 else:
                     out.append(
                         "("
-                        + self._rewrite(d, sheet, "name", refs, funcs, implicit, depth + 1, modes)
+                        + self._rewrite(
+                            d, sheet, "name", refs, funcs, implicit, depth + 1, modes, position_only
+                        )
                         + ")"
                     )
             else:
                 idx = len(refs)
                 refs.append((ref, frame))
                 modes.append(mode or _mode(toks, i, stack))
+                if stack and stack[-1] in _POSITION_ONLY:
+                    position_only.add(idx)
                 self._mark_implicit(stack, idx, implicit, modes)
                 out.append(f"_JBR{idx}")
 
@@ -904,9 +921,16 @@ class Engine:
         graph: dict = {}
         for key, p in plans.items():
             deps = set()
-            for t in p.targets:
-                if not isinstance(t, _Target):
-                    continue
+            for i, t in enumerate(p.targets):
+                if not isinstance(t, _Target) or i in p.tpl.position_only:
+                    continue  # ROW(3:3), ISREF(A1): where, not what — no dependency
+                if (
+                    key[0] in t.sheets
+                    and _inside(key, self._bounded(key[0], t.box))
+                    and key not in out
+                ):
+                    # the cell reads itself (SUM(3:3) in row 3): Excel's circular reference
+                    out[key] = self._refused(p.cell, "circular reference (the cell reads itself)")
                 for s in t.sheets:
                     r1, c1, r2, c2 = self._bounded(s, t.box)
                     for cc in range(c1, c2 + 1):
@@ -1112,7 +1136,8 @@ class Engine:
             p = self._plans[key]
             tpl = p.tpl
             if (
-                p.cell.array_ref
+                key in self._out
+                or p.cell.array_ref
                 or tpl.needs_ranges
                 or tpl.positional
                 or tpl.volatile
@@ -1232,6 +1257,10 @@ class Engine:
 
 
 _NOTHING = object()
+
+
+def _inside(key, box) -> bool:
+    return box[0] <= key[1] <= box[2] and box[1] <= key[2] <= box[3]
 
 
 def _same_value(a, b) -> bool:
