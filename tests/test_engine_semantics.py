@@ -532,3 +532,63 @@ def test_a_cell_that_reads_itself_is_circular(tmp_path):
     assert out["S!B3"].problem.startswith("circular") and out["S!C1"].problem.startswith("circular")
     assert out["S!D3"].problem == "" and out["S!E1"].problem == ""  # only their places are read
     assert out["S!F1"].problem.startswith("not checked: depends on S!B3 (circular")
+
+
+def test_recalc_lists_every_changed_cell_and_every_cell_left_as_saved(tmp_path, capsys):
+    import json
+
+    cells = {"S!A1": 2.0, "S!B1": "=A1*2", "S!B2": "=NOSUCHFUNC(A1)", "S!B3": "=B2+1"}
+    cells |= {f"S!C{r}": f"=A1+{r}" for r in range(1, 16)}  # all changed
+    saved = {"S!B1": 4.0, "S!B2": 9.0, "S!B3": 10.0} | {f"S!C{r}": 0.0 for r in range(1, 16)}
+    src = with_saved(build(tmp_path / "l.xlsx", cells), tmp_path / "ls.xlsx", saved)
+    out, rep = tmp_path / "out.xlsx", tmp_path / "reports" / "recalc.json"
+    assert main(["recalc", str(src), "-o", str(out), "--json", str(rep)]) == 0
+    text = capsys.readouterr().out
+    assert "15 changed from the saved values" in text and "2 left as saved" in text
+    assert "S!B2" in text and "NOSUCHFUNC" in text and "… and 5 more changed" in text
+    report = json.loads(rep.read_text())
+    assert sorted(c["cell"] for c in report["changed"]) == sorted(f"S!C{r}" for r in range(1, 16))
+    assert {c["cell"]: c["saved"] for c in report["left_as_saved"]} == {"S!B2": 9.0, "S!B3": 10.0}
+    assert all(c["note"] for c in report["left_as_saved"])
+    ws = openpyxl.load_workbook(out, data_only=True)["S"]
+    assert (ws["B2"].value, ws["B3"].value, ws["C3"].value) == (9, 10, 5)
+
+
+def test_whole_rows_and_columns_keep_their_full_size(tmp_path):
+    cells = {"S!A1": 1.0, "S!A2": 2.0, "S!B1": 10.0, "S!B2": 20.0, "S!D1": "x", "S!D2": "y"}
+    cells |= {f"T!A{r}": float(r) for r in range(1, 6)}
+    cells |= {
+        "S!F1": "=ROWS(A:A)",
+        "S!F2": "=COLUMNS(1:1)",
+        "S!F3": "=COUNTBLANK(A:A)",
+        "S!F4": "=INDEX(A:A,100)",  # past the used part: a blank cell
+        "S!F5": "=INDEX(A1:B2,2,2)",
+        "S!F6": "=SUM(INDEX(A1:B2,0,2))",
+        "S!F7": "=INDEX(A1:A2,3)",
+        "S!F8": '=INDEX(D1:D2,MATCH("y",D1:D2,0))',
+        "S!F9": "=SUM(A1:INDEX(A:A,2))",
+        "S!F10": "=INDEX({1,2;3,4},2,1)",
+        "S!F11": "=INDEX((A1:A2,B1:B2),1,1,2)",
+        "S!F12": "=SUMPRODUCT(A:A,T!A:A)",  # sheets used to different depths
+        "S!F13": "=COUNTBLANK(A1:B5)",
+        "S!G1": "=1+1",
+        "S!F14": "=OFFSET(A1,G1-1,1)",  # OFFSET reads its row count: a dependency
+    }
+    v = _values(tmp_path, cells)
+    assert v["S!F1"] == 1048576 and v["S!F2"] == 16384 and v["S!F3"] == 1048574
+    assert v["S!F4"] == 0.0 and v["S!F5"] == 20.0 and v["S!F6"] == 30.0
+    assert v["S!F7"] == ERROR("#REF!") and v["S!F8"] == "y" and v["S!F9"] == 3.0
+    assert v["S!F10"] == 3 and v["S!F11"] == 10.0 and v["S!F12"] == 5.0
+    assert v["S!F13"] == 6.0 and v["S!F14"] == 20.0
+
+
+def test_criteria_tell_true_from_one(tmp_path):
+    cells = {"S!A1": True, "S!A2": 1.0, "S!A3": 2.0, "S!B1": 5.0, "S!B2": 7.0, "S!B3": 11.0}
+    cells |= {
+        "S!C1": '=SUMIF(A1:A3,">0")',  # logical values never meet a numeric criterion
+        "S!C2": "=COUNTIF(A1:A3,1)",
+        "S!C3": "=COUNTIF(A1:A3,TRUE)",
+        "S!C4": "=SUMIFS(B1:B3,A1:A3,1)",
+    }
+    v = _values(tmp_path, cells)
+    assert [v["S!C1"], v["S!C2"], v["S!C3"], v["S!C4"]] == [3.0, 1.0, 1.0, 7.0]

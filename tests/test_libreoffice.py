@@ -130,7 +130,9 @@ def _semantics_book(path: Path) -> Path:
         "S!F31": "=SUBTOTAL(109,H3:J3)", "S!F32": "=A2&ISNUMBER(A2)", "S!F33": "=INDEX(E1:E20,9)",
         "S!F34": "=SUM(E3:E1)", "S!F35": "=1/0", "S!F36": "=SQRT(-1)", "S!F37": "=IFERROR(F35,7)",
         "S!F38": '=SUMIFS(E1:E3, D1:D3, "<>b")', "S!F39": "=NPV(0.1, E1:E3, -9000)",
-        "S!F40": "=ROUND(SUM(E1:E3 E2:E2),6)",
+        "S!F40": "=ROUND(SUM(E1:E3 E2:E2),6)", "S!F41": "=ROWS(A:A)", "S!F42": "=COUNTBLANK(E:E)",
+        "S!F43": "=INDEX(E:E,100)", "S!F44": "=INDEX(D1:E3,2,2)", "S!F45": "=SUM(E1:INDEX(E:E,2))",
+        "S!F46": "=INDEX(D1:E3,3)", "S!F47": "=SUBTOTAL(2,E1:E3)", "S!F48": "=COLUMNS(1:1)",
     }  # fmt: skip
     for r in range(1, 15):
         cells[f"S!L{r}"] = f"x{r}"

@@ -98,8 +98,10 @@ def _load(path: str):
 
 
 def _recalc(ns: argparse.Namespace) -> int:
+    import json
+
     from .errors import JoulebookError
-    from .workbook.check import compare, summary
+    from .workbook.check import _same, compare, fmt, summary
     from .workbook.writer import write_copy
 
     book, outcomes = _load(ns.book)
@@ -110,18 +112,77 @@ def _recalc(ns: argparse.Namespace) -> int:
     except JoulebookError as e:
         print(e.cell_text(), file=sys.stderr)
         return 2
-    s = summary(compare(book, outcomes))
-    kept = sum(s.get(k, 0) for k in ("unsupported", "circular", "error", "not checked"))
+    rows = compare(book, outcomes)
+    s = summary(rows)
+    kept = [r for r in rows if _kept(r)]
+    changed = [
+        r
+        for r in rows
+        if r.status == "differs"
+        or (r.status == "volatile" and not _same(r.recomputed, r.cached, 1e-9, 1e-12))
+    ]
+    new = [r for r in rows if r.status == "no cached value"]
     print(
-        f"wrote {ns.output}: {s['cells'] - kept} formula cells recalculated"
-        + (
-            f", {kept} left as saved (unsupported, circular or not checked; see `joulebook check`)"
-            if kept
-            else ""
-        )
+        f"wrote {ns.output}: {s['cells'] - len(kept)} formula cells recalculated, "
+        f"{len(changed)} changed from the saved values"
+        + (f", {len(new)} had no saved value" if new else "")
+        + (f", {len(kept)} left as saved" if kept else "")
         + (f", {s['errors_in_values']} hold error values" if s["errors_in_values"] else "")
     )
+    for title, group in (("changed", changed), ("left as saved", kept)):
+        for r in group[:_SHOWN]:
+            why = r.note if title == "left as saved" else f"{fmt(r.cached)} -> {fmt(r.recomputed)}"
+            print(f"  {title}: {r.sheet}!{r.cell}  {why}")
+        if len(group) > _SHOWN:
+            more = "see --json" if not ns.json else f"all in {ns.json}"
+            print(f"  … and {len(group) - _SHOWN} more {title} ({more})")
+    if ns.json:
+
+        def enc(v):
+            return {"error": v[1]} if isinstance(v, tuple) else v
+
+        def cell(r):
+            return {
+                "cell": f"{r.sheet}!{r.cell}",
+                "formula": r.formula,
+                "saved": enc(r.cached),
+                "recomputed": enc(r.recomputed),
+                "status": r.status,
+                "note": r.note,
+            }
+
+        report = {
+            "workbook": str(book.path),
+            "output": str(ns.output),
+            "summary": {**s, "changed": len(changed), "left_as_saved": len(kept)},
+            "changed": [cell(r) for r in changed],
+            "no_saved_value": [cell(r) for r in new],
+            "left_as_saved": [cell(r) for r in kept],
+        }
+        if not _write_text(ns.json, json.dumps(report, indent=2, default=str)):
+            return 2
     return 0
+
+
+_SHOWN = 10  # cells listed on the console per group
+
+
+def _kept(r) -> bool:
+    """A row of a cell that recalc left with its saved value."""
+    return r.status in ("unsupported", "circular", "error", "not checked")
+
+
+def _write_text(path: str, text: str) -> bool:
+    from pathlib import Path
+
+    p = Path(path)
+    try:
+        p.parent.mkdir(parents=True, exist_ok=True)
+        p.write_text(text, encoding="utf-8")
+    except OSError as e:
+        print(f"cannot write {path}: {e.strerror}", file=sys.stderr)
+        return False
+    return True
 
 
 def _check(ns: argparse.Namespace) -> int:
@@ -247,6 +308,9 @@ def build_parser() -> argparse.ArgumentParser:
     r.add_argument("book", help="the .xlsx/.xlsm to recalculate")
     r.add_argument("-o", "--output", required=True, help="where to write the recalculated copy")
     r.add_argument("--force", action="store_true", help="replace OUTPUT if it exists")
+    r.add_argument(
+        "--json", help="write every changed cell and every cell left as saved (with why) here"
+    )
     r.set_defaults(run=_recalc)
 
     c = sub.add_parser(

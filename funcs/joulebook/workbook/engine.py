@@ -52,6 +52,7 @@ _NEEDS_RANGES = frozenset(
         "AREAS",
         "ISREF",
         "SUBTOTAL",
+        "COUNTBLANK",
         "INDEX",
         "OFFSET",
         "INDIRECT",
@@ -84,10 +85,23 @@ _ARRAY_CONTEXT = frozenset(
     """SUMPRODUCT MMULT MDETERM MINVERSE TRANSPOSE FREQUENCY LOOKUP TREND GROWTH LINEST LOGEST
     SUMX2MY2 SUMX2PY2 SUMXMY2 CORREL COVAR PEARSON RSQ SLOPE INTERCEPT STEYX""".split()
 )
-#: functions that read where a reference is, never its cells' values (no circular reference)
-_POSITION_ONLY = frozenset(
-    {"ROW", "COLUMN", "ROWS", "COLUMNS", "AREAS", "ISREF", "CELL", "OFFSET", "INDIRECT"}
-)
+#: functions that read where a reference is, never its cells' values: no dependency, and
+#: no circular reference when the reference covers the cell itself
+_POSITION_ONLY = frozenset({"ROW", "COLUMN", "ROWS", "COLUMNS", "AREAS", "ISREF"})
+
+
+def _where_only(func: str, arg: int) -> bool:
+    """True when argument *arg* (from 0) of *func* is read only for where it is."""
+    return func in _POSITION_ONLY or (func == "OFFSET" and arg == 0)
+
+
+def _whole_extent(func: str, arg: int) -> bool:
+    """True when the argument is handed over at its full size (A:A as 1,048,576 rows), not
+    cut to the used part of the sheet: sizes and places (ROWS, INDEX, OFFSET) and blank
+    counts depend on it."""
+    return _where_only(func, arg) or func == "COUNTBLANK" or (func == "INDEX" and arg == 0)
+
+
 _POSITIONAL = frozenset({"ROW", "COLUMN", "SINGLE", "_XLFN.SINGLE"})  # ROW() needs the cell
 _MAX_NAME_DEPTH = 16
 _KEEP_CELLS = 200_000  # boxes up to this size are read whole; larger ones and whole rows or
@@ -125,6 +139,7 @@ class _Unsupported(Exception):
 
 
 _REGISTERED = False
+_LIBRARY: dict = {}  # the library's own functions that ours hand some cases back to
 _LOCK = threading.Lock()
 _CURRENT = threading.local()  # the engine and cell being evaluated (OFFSET, INDIRECT)
 
@@ -147,8 +162,10 @@ def _register_ours() -> None:
 
         from formulas.functions import COMPILING, wrap_impure_func
 
+        _LIBRARY["INDEX"] = table["INDEX"]["function"].__wrapped__  # arrays: the library
         table["SUBTOTAL"] = wrap_func(_subtotal, ranges=True)
-        for name, fn in (("OFFSET", _offset), ("INDIRECT", _indirect)):
+        table["COUNTBLANK"] = wrap_func(_countblank, ranges=True)
+        for name, fn in (("OFFSET", _offset), ("INDIRECT", _indirect), ("INDEX", _index)):
             # run-time only: never folded into a constant while the formula is compiled
             table[name] = {
                 "extra_inputs": collections.OrderedDict([(COMPILING, False)]),
@@ -167,6 +184,23 @@ def _register_ours() -> None:
             return library_str(bool(x) if isinstance(x, np.bool_) else x)
 
         text._str = operators._str = as_text
+        # the library's criteria test (SUMIF, COUNTIFS, …) caches its verdict per value, and
+        # TRUE and 1 are one key to a cache: a range holding both gets one verdict for both
+        import formulas.functions as library_functions
+
+        criteria = library_functions.__dict__["__xfilter"]
+
+        def criteria_apart(test_range, condition):
+            raw = np.asarray(test_range["raw"], dtype=object)
+            flags = np.vectorize(lambda v: isinstance(v, (bool, np.bool_)), otypes=[bool])(raw)
+            if not flags.any() or flags.all():
+                return criteria(test_range, condition)
+            b = np.zeros(raw.shape, dtype=bool)
+            b[flags] = criteria({"raw": raw[flags]}, condition)
+            b[~flags] = criteria({"raw": raw[~flags]}, condition)
+            return b
+
+        library_functions.__dict__["__xfilter"] = criteria_apart
         _REGISTERED = True
 
 
@@ -234,6 +268,7 @@ def _offset(ref, rows, cols, height=None, width=None):
     from formulas.ranges import Ranges
     from formulas.tokens.operand import Error
 
+    _CURRENT.last_ref = None  # (an argument may have set it)
     eng: Engine = _CURRENT.engine
     if not isinstance(ref, Ranges) or len(ref.ranges) != 1:
         return Error.errors["#VALUE!"]
@@ -258,7 +293,7 @@ def _offset(ref, rows, cols, height=None, width=None):
     r2, c2 = r1 + h - 1, c1 + w - 1
     if r1 < 1 or c1 < 1 or r2 > MAX_ROW or c2 > MAX_COL:
         return Error.errors["#REF!"]
-    return eng._ranges(sheet, r1, c1, r2, c2, demand=True)
+    return _returned(eng._ranges(sheet, r1, c1, r2, c2, demand=True))
 
 
 _SUBTOTAL_KINDS = {
@@ -334,6 +369,103 @@ def _subtotal(kind, *refs):
     )  # fmt: skip
 
 
+def _countblank(ref):
+    """COUNTBLANK(range): the cells of the whole range (A:A is 1,048,576 of them) that are
+    empty or hold empty text."""
+    from formulas.ranges import Ranges
+    from formulas.tokens.operand import Error
+
+    eng: Engine = _CURRENT.engine
+    if not isinstance(ref, Ranges) or len(ref.ranges) != 1:
+        return Error.errors["#VALUE!"]
+    rng = ref.ranges[0]
+    sheet = eng._sheet_of_id(rng.get("sheet_id") or "", _CURRENT.sheet)
+    r1, c1, r2, c2 = int(rng["r1"]), int(rng["n1"]), int(rng["r2"]), int(rng["n2"])
+    filled = 0
+    for c in range(c1, c2 + 1):
+        rows = eng._rows_by_col.get((sheet, c)) or []
+        for r in rows[bisect_left(rows, r1) : bisect_right(rows, r2)]:
+            v = eng._values.get((sheet, r, c))
+            filled += v is not None and v != ""
+    return float((r2 - r1 + 1) * (c2 - c1 + 1) - filled)
+
+
+def _index(array, row_num=None, col_num=None, area_num=None):
+    """INDEX(reference, row, [column], [area]) as a reference into the whole reference (a
+    row past the used part of A:A is a blank cell, not #REF!); arrays, and row or column
+    numbers given as arrays, go to the library's INDEX."""
+    from formulas.ranges import Ranges
+    from formulas.tokens.operand import Error
+
+    _CURRENT.last_ref = None  # (an argument may have set it)
+    eng: Engine = _CURRENT.engine
+    given = [v for v in (row_num, col_num, area_num) if v is not None]
+    if not isinstance(array, Ranges):
+        return _LIBRARY["INDEX"](array, *given)
+    nums = []
+    for v in (row_num, col_num, area_num):
+        v = _scalar(v) if v is not None and not isinstance(v, np.ndarray) else v
+        if isinstance(v, np.ndarray) and v.size != 1:
+            nums = None
+            break
+        v = _scalar(v) if isinstance(v, np.ndarray) else v
+        if type(v).__name__ == "XlError":
+            return v
+        if v is not None and (isinstance(v, str) or not isinstance(v, (int, float, np.number))):
+            if isinstance(v, str):
+                try:
+                    v = float(v)
+                except ValueError:
+                    return Error.errors["#VALUE!"]
+            elif v is not sh_empty():
+                return Error.errors["#VALUE!"]
+            else:
+                v = 0
+        nums.append(None if v is None else int(float(v)))
+    if nums is None:  # row or column numbers as arrays: the library's INDEX, on values
+        parts = []
+        for rng in array.ranges:
+            sheet = eng._sheet_of_id(rng.get("sheet_id") or "", _CURRENT.sheet)
+            box = (int(rng["r1"]), int(rng["n1"]), int(rng["r2"]), int(rng["n2"]))
+            parts.append(eng._ranges(sheet, *box))
+        ref = parts[0]
+        for p in parts[1:]:
+            ref = Ranges(ref.ranges + p.ranges, {**ref.values, **p.values})
+        return _LIBRARY["INDEX"](ref, *given)
+    row, col, area = nums
+    area = 1 if area is None else area
+    if area < 1 or area > len(array.ranges):
+        return Error.errors["#REF!"]
+    rng = array.ranges[area - 1]
+    sheet = eng._sheet_of_id(rng.get("sheet_id") or "", _CURRENT.sheet)
+    r1, c1, r2, c2 = int(rng["r1"]), int(rng["n1"]), int(rng["r2"]), int(rng["n2"])
+    if row is None:
+        row = 0
+    if r1 == r2 and col is None and len(array.ranges) == 1:
+        row, col = 1, row  # one row: the single number picks the column
+    col = 0 if col is None else col
+    if row < 0 or col < 0:
+        return Error.errors["#VALUE!"]
+    if (col == 0 and c1 != c2 and row == 0) or row > r2 - r1 + 1 or col > c2 - c1 + 1:
+        return Error.errors["#REF!"] if row or col else _whole_ref(eng, sheet, rng)
+    if col == 0 and c1 != c2 and row:
+        return _returned(eng._ranges(sheet, r1 + row - 1, c1, r1 + row - 1, c2, demand=True))
+    rr = (r1, r2) if row == 0 else (r1 + row - 1,) * 2
+    cc = (c1, c2) if col == 0 else (c1 + col - 1,) * 2
+    return _returned(eng._ranges(sheet, rr[0], cc[0], rr[1], cc[1], demand=True))
+
+
+def _whole_ref(eng, sheet, rng):
+    box = (int(rng["r1"]), int(rng["n1"]), int(rng["r2"]), int(rng["n2"]))
+    return _returned(eng._ranges(sheet, *box, demand=True))
+
+
+def sh_empty():
+    import schedula as sh
+
+    return sh.EMPTY
+
+
 def _is_subtotal(formula: str) -> bool:
     return any(
         t == "FUNC"
@@ -341,6 +473,13 @@ def _is_subtotal(formula: str) -> bool:
         and v[:-1].upper().removeprefix("_XLFN.") in ("SUBTOTAL", "AGGREGATE")
         for v, t, s in tokens(formula)
     )
+
+
+def _returned(ref):
+    """A reference a function returns: remembered, for the implicit intersection of a plain
+    formula whose whole result it is (the library hands on only its values)."""
+    _CURRENT.last_ref = ref
+    return ref
 
 
 def _range_op(x, y):
@@ -363,6 +502,7 @@ def _indirect(ref_text, a1=True):
     """INDIRECT(ref_text, [a1]) on the running engine (A1-style text)."""
     from formulas.tokens.operand import Error
 
+    _CURRENT.last_ref = None  # (an argument may have set it)
     eng: Engine = _CURRENT.engine
     text = _scalar(ref_text)
     a1 = _scalar(a1)
@@ -377,7 +517,7 @@ def _indirect(ref_text, a1=True):
     target = eng._place(ref, _CURRENT.sheet, _CURRENT.row, _CURRENT.col, 0, 0, None)
     if not isinstance(target, _Target) or len(target.sheets) != 1:
         return Error.errors["#REF!"]
-    return eng._ranges(target.sheets[0], *target.box, demand=True)
+    return _returned(eng._ranges(target.sheets[0], *target.box, demand=True))
 
 
 # ---------------------------------------------------------------------------------------
@@ -407,6 +547,8 @@ class _Template:
     implicit: tuple = ()  # placeholders that take Excel's implicit intersection
     modes: tuple = ()  # per placeholder: "ranges", "array" or "value" (see _REF_ARGS)
     position_only: frozenset = frozenset()  # placeholders read for their place, not values
+    unbounded: frozenset = frozenset()  # placeholders handed over at full size (no values)
+    top_ref: bool = False  # the whole formula is INDEX(…), OFFSET(…) or INDIRECT(…)
 
 
 @dataclass
@@ -437,6 +579,7 @@ class Engine:
     _sheet_upper: dict = field(default_factory=dict)
     _max: dict = field(default_factory=dict)
     _rows_by_col: dict = field(default_factory=dict)
+    _max_all: tuple | None = None  # the used rows and columns of the whole workbook
 
     def __post_init__(self):
         _register_ours()
@@ -489,12 +632,10 @@ class Engine:
         funcs: set = set()
         implicit: list = []
         modes: list = []
-        position_only: set = set()
+        marks: dict = {"where": set(), "whole": set()}
         problem = ""
         try:
-            text = self._rewrite(
-                formula, sheet, "cell", refs, funcs, implicit, 0, modes, position_only
-            )
+            text = self._rewrite(formula, sheet, "cell", refs, funcs, implicit, 0, modes, marks)
         except _Unsupported as e:
             text, problem = "", f"unsupported: {e}"
         except Exception as e:  # the tokenizer refused the text
@@ -517,17 +658,18 @@ class Engine:
             problem=problem,
             implicit=tuple(implicit),
             modes=tuple(modes),
-            position_only=frozenset(position_only),
+            position_only=frozenset(marks["where"]),
+            unbounded=frozenset(marks["whole"]),
+            top_ref=_returns_reference(formula),
         )
 
-    def _rewrite(
-        self, formula, sheet, frame, refs, funcs, implicit, depth, modes, position_only
-    ) -> str:
+    def _rewrite(self, formula, sheet, frame, refs, funcs, implicit, depth, modes, marks) -> str:
         if depth > _MAX_NAME_DEPTH:
             raise _Unsupported("defined names nested too deeply (or defined by themselves)")
         toks = tokens(formula)
         out = []
         stack: list[str] = []  # enclosing FUNC names ("(" for plain parentheses)
+        argpos: list[int] = []  # the argument of each enclosing function being written
         prev_type = ""
 
         def operand(value: str, i: int, mode: str = "") -> None:
@@ -549,15 +691,17 @@ class Engine:
                     idx = len(refs)
                     refs.append((inner, "name"))
                     modes.append(mode or _mode(toks, i, stack))
-                    if stack and stack[-1] in _POSITION_ONLY:
-                        position_only.add(idx)
+                    if stack and _where_only(stack[-1], argpos[-1]):
+                        marks["where"].add(idx)
+                    if stack and _whole_extent(stack[-1], argpos[-1]):
+                        marks["whole"].add(idx)
                     self._mark_implicit(stack, idx, implicit, modes)
                     out.append(f"_JBR{idx}")
                 else:
                     out.append(
                         "("
                         + self._rewrite(
-                            d, sheet, "name", refs, funcs, implicit, depth + 1, modes, position_only
+                            d, sheet, "name", refs, funcs, implicit, depth + 1, modes, marks
                         )
                         + ")"
                     )
@@ -565,8 +709,10 @@ class Engine:
                 idx = len(refs)
                 refs.append((ref, frame))
                 modes.append(mode or _mode(toks, i, stack))
-                if stack and stack[-1] in _POSITION_ONLY:
-                    position_only.add(idx)
+                if stack and _where_only(stack[-1], argpos[-1]):
+                    marks["where"].add(idx)
+                if stack and _whole_extent(stack[-1], argpos[-1]):
+                    marks["whole"].add(idx)
                 self._mark_implicit(stack, idx, implicit, modes)
                 out.append(f"_JBR{idx}")
 
@@ -604,15 +750,19 @@ class Engine:
                 if name in _POSITIONAL and nxt is not None and nxt[1] == "FUNC":
                     funcs.add("~positional")  # ROW() / COLUMN(): the cell's own position
                 stack.append(name)
+                argpos.append(0)
                 out.append(name + "(")
             elif ttype == "FUNC" and sub == "CLOSE":
                 stack.pop() if stack else None
+                argpos.pop() if argpos else None
                 out.append(")")
             elif ttype == "PAREN" and sub == "OPEN":
                 stack.append("(")
+                argpos.append(0)
                 out.append("(")
             elif ttype == "PAREN" and sub == "CLOSE":
                 stack.pop() if stack else None
+                argpos.pop() if argpos else None
                 out.append(")")
             elif ttype == "OPERAND" and sub == "RANGE" and value.startswith(":"):
                 out.append(":")  # OFFSET(…):D22 — a range starting where a function points
@@ -632,13 +782,19 @@ class Engine:
                     if not (nxt in ("FUNC",) and toks[i + 1][2] == "CLOSE"):
                         funcs.add("~ops")
                 out.append(" ")
+            elif ttype == "SEP" and sub == "ARG":
+                if argpos:
+                    argpos[-1] += 1
+                out.append(value)
             elif ttype == "SEP" and sub == "ROW":
                 out.append(";")
             elif ttype == "ARRAY":
                 if sub == "OPEN":
                     stack.append("{")
+                    argpos.append(0)
                 elif stack:
                     stack.pop()
+                    argpos.pop()
                 out.append(value)
             else:
                 out.append(value)
@@ -773,12 +929,20 @@ class Engine:
 
     # --- values -------------------------------------------------------------------------
     def _bounded(self, sheet: str, box):
-        """A box cut to the used part of the sheet (whole columns and rows), but never below
-        the size of the array formula being evaluated (it reads blanks there)."""
+        """A box cut to the used part of the workbook (whole columns and rows, and boxes
+        larger than _KEEP_CELLS), never below the size of the array formula being evaluated
+        (it reads blanks there).  The cut is the same on every sheet, so that A:A and
+        Sheet2!A:A stay the same size (SUMPRODUCT(A:A,Sheet2!A:A))."""
         r1, c1, r2, c2 = box
         if r2 < MAX_ROW and c2 < MAX_COL and (r2 - r1 + 1) * (c2 - c1 + 1) <= _KEEP_CELLS:
             return box  # a box as written keeps its size (INDEX, ROWS, MATCH count on it)
-        mr, mc = self._max.get(sheet, (1, 1))
+        if self._max_all is None:
+            used = self._max.values()
+            self._max_all = (
+                max((m[0] for m in used), default=1),
+                max((m[1] for m in used), default=1),
+            )
+        mr, mc = self._max_all
         h, w = getattr(_CURRENT, "min_shape", None) or (1, 1)
         mr, mc = max(mr, r1 + h - 1), max(mc, c1 + w - 1)
         return r1, c1, max(r1, min(r2, max(mr, 1))), max(c1, min(c2, max(mc, 1)))
@@ -841,6 +1005,12 @@ class Engine:
 
     def _input(self, i, targets, tpl: _Template, cell: Cell):
         if isinstance(i, int):
+            if (
+                i in tpl.unbounded
+                and isinstance(targets[i], _Target)
+                and len(targets[i].sheets) == 1
+            ):
+                return _whole(targets[i])
             return self._arg(targets[i], tpl.modes[i])
         t = self._place(i, cell.sheet, cell.row, cell.col, 0, 0, "cell")
         return self._arg(t, "ranges")
@@ -1099,13 +1269,15 @@ class Engine:
         p: _Plan = self._plans[key]
         c, tpl = p.cell, p.tpl
         self._in_progress.add(key)
-        outer = tuple(getattr(_CURRENT, a, None) for a in ("sheet", "row", "col", "problems"))
+        names = ("sheet", "row", "col", "problems", "last_ref")
+        outer = tuple(getattr(_CURRENT, a, None) for a in names)
         _CURRENT.sheet, _CURRENT.row, _CURRENT.col = c.sheet, c.row, c.col
-        _CURRENT.problems = []
+        _CURRENT.problems, _CURRENT.last_ref = [], None
         try:
             self._run_cell_here(key, p, c, tpl)
         finally:
-            _CURRENT.sheet, _CURRENT.row, _CURRENT.col, _CURRENT.problems = outer
+            for a, v in zip(names, outer):
+                setattr(_CURRENT, a, v)
 
     def _run_cell_here(self, key, p, c, tpl) -> None:
         if c.array_ref:
@@ -1218,6 +1390,9 @@ class Engine:
         problem = ""
         if p.tpl.volatile:
             problem = "volatile: " + ", ".join(sorted(p.tpl.volatile))
+        last = getattr(_CURRENT, "last_ref", None)
+        if p.tpl.top_ref and not c.array_ref and last is not None and len(last.ranges) == 1:
+            res = _intersect_result(last, c)  # a reference as a plain formula's result
         res = getattr(res, "value", res)  # a reference as the result: its values
         arr = np.asarray(res, dtype=object)
         if arr.ndim == 1:
@@ -1257,6 +1432,51 @@ class Engine:
 
 
 _NOTHING = object()
+
+
+def _intersect_result(res, c: Cell):
+    """Excel's implicit intersection of a reference that a plain (non-array) formula returns
+    (=INDEX(A1:B3,3) or =OFFSET(A1,0,0,3,1)): the cell of it in the formula's own row or
+    column, #VALUE! when there is none."""
+    from formulas.tokens.operand import Error
+
+    rng = res.ranges[0]
+    r1, c1, r2, c2 = int(rng["r1"]), int(rng["n1"]), int(rng["r2"]), int(rng["n2"])
+    if r1 == r2 and c1 == c2:
+        return res
+    i = 0 if r1 == r2 else (c.row - r1 if r1 <= c.row <= r2 else None)
+    j = 0 if c1 == c2 else (c.col - c1 if c1 <= c.col <= c2 else None)
+    if i is None or j is None:
+        return Error.errors["#VALUE!"]
+    arr = np.asarray(res.value, dtype=object)
+    return arr[i, j] if arr.ndim == 2 and i < arr.shape[0] and j < arr.shape[1] else arr.flat[0]
+
+
+def _returns_reference(formula: str) -> bool:
+    """True when the whole formula is one call of a function that returns a reference."""
+    try:
+        toks = [t for t in tokens(formula) if t[1] != "WHITE-SPACE"]
+    except Exception:
+        return False
+    if len(toks) < 2 or toks[0][1] != "FUNC" or toks[-1][1] != "FUNC":
+        return False
+    if toks[0][0][:-1].upper() not in ("INDEX", "OFFSET", "INDIRECT"):
+        return False
+    depth = 0
+    for i, (_v, t, sub) in enumerate(toks):
+        depth += (t in ("FUNC", "PAREN", "ARRAY") and sub == "OPEN") - (sub == "CLOSE")
+        if depth == 0 and i < len(toks) - 1:
+            return False
+    return True
+
+
+def _whole(t: _Target):
+    """A reference at its full size, with no values: for the functions that read only where
+    it is and how large (ROWS(A:A) is 1,048,576), or read its cells themselves (INDEX,
+    COUNTBLANK, OFFSET)."""
+    from formulas.ranges import Ranges
+
+    return Ranges((_range_dict(t.sheets[0], t.box),), {})
 
 
 def _inside(key, box) -> bool:
