@@ -574,7 +574,8 @@ class Engine:
     book: Book
     progress: object = None  # callable(done, total) or None
     batch: bool = True  # evaluate same-shape columns in one vectorised call
-    _templates: dict = field(default_factory=dict)
+    _templates: dict = field(default_factory=dict)  # (sheet, text) -> (template, shift)
+    _shapes: dict = field(default_factory=dict)  # shape key -> (template, row, col built at)
     _compiled: dict = field(default_factory=dict)
     _sheet_upper: dict = field(default_factory=dict)
     _max: dict = field(default_factory=dict)
@@ -619,13 +620,25 @@ class Engine:
     def _is_table(self, name: str) -> bool:
         return any(t.name.upper() == name.upper() for t in self.book.tables)
 
-    def _template(self, sheet: str, formula: str) -> _Template:
+    def _template(self, sheet: str, formula: str, row: int = 1, col: int = 1):
+        """The template of *formula* standing in (sheet, row, col), and the shift (rows,
+        columns) that moves its references to this text's.  One template serves every
+        formula of the same shape (the same text in relative form): A2*2 in B2 and A3*2 in
+        B3 share one, built once, the second moved by one row."""
         key = (sheet, formula)
-        tpl = self._templates.get(key)
-        if tpl is None:
-            tpl = self._build(sheet, formula)
-            self._templates[key] = tpl
-        return tpl
+        hit = self._templates.get(key)
+        if hit is None:
+            shape = _shape_key(sheet, formula, row, col)
+            first = self._shapes.get(shape) if shape is not None else None
+            if first is None:
+                hit = (self._build(sheet, formula), (0, 0))
+                if shape is not None:
+                    self._shapes[shape] = (hit[0], row, col)
+            else:
+                tpl, r0, c0 = first
+                hit = (tpl, (row - r0, col - c0))
+            self._templates[key] = hit
+        return hit
 
     def _build(self, sheet: str, formula: str) -> _Template:
         refs: list = []
@@ -901,11 +914,11 @@ class Engine:
         except LookupError as e:
             raise _Unsupported(str(e)) from None
 
-    def _targets(self, tpl: _Template, cell: Cell) -> list:
+    def _targets(self, tpl: _Template, cell: Cell, shift=(0, 0)) -> list:
         out = []
         for i, (ref, frame) in enumerate(tpl.refs):
             if frame == "cell":
-                t = self._place(ref, cell.sheet, cell.row, cell.col, 0, 0, frame)
+                t = self._place(ref, cell.sheet, cell.row, cell.col, shift[0], shift[1], frame)
             else:  # a name's reference: written from A1
                 t = self._place(
                     ref, cell.sheet, cell.row, cell.col, cell.row - 1, cell.col - 1, frame
@@ -1046,12 +1059,12 @@ class Engine:
                 values[k] = c.cached
         for c in book.formula_cells():
             key = (c.sheet, c.row, c.col)
-            tpl = self._template(c.sheet, c.formula)
+            tpl, shift = self._template(c.sheet, c.formula, c.row, c.col)
             if tpl.problem:
                 out[key] = self._refused(c, tpl.problem)
                 continue
             try:
-                targets = self._targets(tpl, c)
+                targets = self._targets(tpl, c, shift)
                 comp = self._compile(tpl, c)
             except _Unsupported as e:
                 out[key] = self._refused(c, f"unsupported: {e}")
@@ -1059,14 +1072,12 @@ class Engine:
             except Exception as e:
                 out[key] = self._refused(c, f"unsupported: {type(e).__name__} while parsing")
                 continue
+            # cells that one compiled function evaluates alike (batched by column)
             shape = (
                 tpl.text,
-                tuple(
-                    (t.sheets, tuple(b - o for b, o in zip(t.box, (c.row, c.col) * 2)))
-                    if isinstance(t, _Target)
-                    else t
-                    for t in targets
-                ),
+                tpl.modes,
+                tpl.implicit,
+                tuple(i for i, t in enumerate(targets) if not isinstance(t, _Target)),
             )
             plans[key] = _Plan(c, tpl, comp, targets, shape)
 
@@ -1247,7 +1258,7 @@ class Engine:
         """Value of *formula* (without "=") as if it stood in (sheet, row, col), reading
         *values*; used by the audit to show the value of an argument expression."""
         cell = Cell(sheet, row, col, formula=formula)
-        tpl = self._template(sheet, formula)
+        tpl, shift = self._template(sheet, formula, row, col)
         if tpl.problem:
             raise ValueError(tpl.problem)
         saved, self._values = self._values, values
@@ -1258,7 +1269,7 @@ class Engine:
                 self._rows_by_col[k] = sorted(set(rows))
         try:
             comp = self._compile(tpl, cell)
-            targets = self._targets(tpl, cell)
+            targets = self._targets(tpl, cell, shift)
             args = [self._input(i, targets, tpl, cell) for i in comp.order]
             res = np.asarray(comp.fn(*args), dtype=object)
         finally:
@@ -1450,6 +1461,27 @@ def _intersect_result(res, c: Cell):
         return Error.errors["#VALUE!"]
     arr = np.asarray(res.value, dtype=object)
     return arr[i, j] if arr.ndim == 2 and i < arr.shape[0] and j < arr.shape[1] else arr.flat[0]
+
+
+def _shape_key(sheet: str, formula: str, row: int, col: int):
+    """The formula seen from (row, col) in relative form, or None when it holds a reference
+    the key cannot move (a range glued to a function, A1:INDEX(…) or OFFSET(…):D22)."""
+    try:
+        toks = tokens(formula)
+    except Exception:
+        return None
+    parts: list = [sheet]
+    for v, t, sub in toks:
+        if t == "OPERAND" and sub == "RANGE":
+            if v.startswith(":"):
+                return None
+            ref = parse_ref(v)
+            parts.append(("ref", ref.key(row, col)) if ref is not None else ("text", v))
+        elif t == "FUNC" and sub == "OPEN" and ":" in v:
+            return None
+        else:
+            parts.append((v, t, sub))
+    return tuple(parts)
 
 
 def _returns_reference(formula: str) -> bool:

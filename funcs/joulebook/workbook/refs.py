@@ -235,6 +235,7 @@ def _external(text: str) -> bool:
     return bool(close) and index.isdigit() and "!" in rest
 
 
+@lru_cache(maxsize=65_536)
 def parse_ref(text: str) -> Ref | None:
     """Read one reference operand as the tokenizer gives it; None when it is not one."""
     if "[" in text and not _external(text):
