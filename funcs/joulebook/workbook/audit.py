@@ -24,7 +24,8 @@ from ..errors import JoulebookError
 from ..units import parse_phrase, parse_unit, unit_system
 from .check import Row, compare, fmt, summary
 from .engine import Engine
-from .reader import OUR_CALL, Book, Cell, col_letters
+from .reader import Book, Cell, col_letters
+from .refs import calls_ours, cell_refs, our_name, parse_ref, texts, tokens
 
 __all__ = ["Entry", "Audit", "build_audit", "render_html", "CAUTION"]
 
@@ -106,10 +107,9 @@ def _split_call(formula: str) -> tuple[str, list[str]] | None:
         return None
     for i, tok in enumerate(items):
         if tok.type == "FUNC" and tok.subtype == "OPEN":
-            m = OUR_CALL.fullmatch(tok.value.replace(" ", ""))
-            if not m:
+            name = our_name(tok.value.replace(" ", ""))
+            if not name:
                 continue
-            name = m.group(1).upper()
             args, cur, depth = [], [], 0
             for t in items[i + 1 :]:
                 if t.type == "FUNC" and t.subtype == "OPEN":
@@ -128,12 +128,15 @@ def _split_call(formula: str) -> tuple[str, list[str]] | None:
     return None
 
 
-_REF1 = re.compile(
-    r"^(?:(?P<sheet>'[^']+'|[A-Za-z0-9_.]+)!)?\$?(?P<col>[A-Za-z]{1,3})\$?(?P<row>\d+)$"
-)
-_RANGE = re.compile(
-    r"^(?:('[^']+'|[A-Za-z0-9_.]+)!)?\$?[A-Za-z]{1,3}\$?\d+:\$?[A-Za-z]{1,3}\$?\d+$"
-)
+def _one_ref(text: str):
+    """The reference *text* is, when it is one reference and nothing else."""
+    try:
+        toks = [t for t in tokens(text) if t[1] != "WHITE-SPACE"]
+    except Exception:
+        return None
+    if len(toks) != 1 or toks[0][1:] != ("OPERAND", "RANGE"):
+        return None
+    return parse_ref(toks[0][0])
 
 
 def _resolve_arg(text: str, here: Cell, book: Book, values: dict, engine: Engine):
@@ -146,19 +149,11 @@ def _resolve_arg(text: str, here: Cell, book: Book, values: dict, engine: Engine
         return float(text), "constant"
     except ValueError:
         pass
-    m = _REF1.match(text)
-    target = None
-    if m:
-        sheet = m.group("sheet").strip("'") if m.group("sheet") else here.sheet
-        target = (sheet, int(m.group("row")), _col(m.group("col")))
-    elif text.upper() in book.names:
-        tm = _REF1.match(book.names[text.upper()].replace("$", ""))
-        if tm:
-            target = (
-                tm.group("sheet").strip("'") if tm.group("sheet") else here.sheet,
-                int(tm.group("row")),
-                _col(tm.group("col")),
-            )
+    target, ref = None, _one_ref(text)
+    if ref is not None and ref.kind == "name" and ref.text.upper() in book.names:
+        ref = _one_ref(book.names[ref.text.upper()].lstrip("="))
+    if ref is not None and ref.kind == "cell" and ref.book is None and not ref.sheet2:
+        target = (ref.sheet or here.sheet, ref.r1, ref.c1)
     if target is not None:
         v = values.get(target)
         src_cell = book.cells.get(target)
@@ -166,7 +161,7 @@ def _resolve_arg(text: str, here: Cell, book: Book, values: dict, engine: Engine
         lab = _label(book, *target)
         where = f"{target[0]}!{col_letters(target[2])}{target[1]}"
         return v, f"{kind} {where}" + (f" ({lab})" if lab else "")
-    if _RANGE.match(text):
+    if ref is not None and ref.kind == "area":
         try:
             v = engine.evaluate(here.sheet, here.row, here.col, text, values)
         except Exception:
@@ -385,26 +380,21 @@ def _flags(
 
 _GAUGE_WORDS = ("gauge", "gage", "barg", "psig", "kpag", "mpag", "(g)")
 _GAUGE_UNITS = re.compile(r"\b(kPag|barg|psig|MPag|Pag)\b", re.IGNORECASE)
-_CELLS = re.compile(
-    r"(?:(?P<sheet>'[^']+'|[A-Za-z0-9_.]+)!)?\$?(?P<col>[A-Z]{1,3})\$?(?P<row>\d+)(?![0-9(A-Za-z_])"
-)
 
 
 def _gauge_refs(book: Book, c: Cell, formula: str) -> list[str]:
     """Cells labelled as gauge pressures that the formula reads with no gauge unit anywhere."""
-    if _GAUGE_UNITS.search(formula):
+    if any(_GAUGE_UNITS.search(t) for t in texts(formula)):
         return []
     out = []
-    for part in re.split(r'("(?:[^"]|"")*")', formula)[::2]:
-        for m in _CELLS.finditer(part):
-            sheet = m.group("sheet").strip("'") if m.group("sheet") else c.sheet
-            key = (sheet, int(m.group("row")), _col(m.group("col")))
-            lab = _label(book, *key).lower()
-            if any(w in lab for w in _GAUGE_WORDS):
-                where = f"{sheet}!{m.group('col')}{m.group('row')}"
-                out.append(
-                    f"{where} is labelled as a gauge pressure but this formula reads it with an absolute unit; use barg/psig/kPag"
-                )
+    for key in cell_refs(formula, c.sheet):
+        lab = _label(book, *key).lower()
+        if any(w in lab for w in _GAUGE_WORDS):
+            where = f"{key[0]}!{col_letters(key[2])}{key[1]}"
+            out.append(
+                f"{where} is labelled as a gauge pressure but this formula reads it with an"
+                " absolute unit; use barg/psig/kPag"
+            )
     return out
 
 
@@ -630,7 +620,7 @@ def build_audit(
     values.update({k: o.value for k, o in outcomes.items()})
     order = {s: i for i, s in enumerate(book.sheets)}
     ours = sorted(
-        (c for c in book.formula_cells() if OUR_CALL.search(c.formula)),
+        (c for c in book.formula_cells() if calls_ours(c.formula)),
         key=lambda c: (order.get(c.sheet, 0), c.row, c.col),
     )
     entries = []
@@ -761,15 +751,13 @@ def _hand_balances(book: Book, values: dict, entries: list[Entry]) -> None:
     ΔU + W (heat in +, work by the system +); a sign slip there is flagged on the ΔU entry's
     sheet as an extra entry."""
     for c in book.formula_cells():
-        if OUR_CALL.search(c.formula):
+        if calls_ours(c.formula):
             continue
         label = _label(book, c.sheet, c.row, c.col)
         if not _Q.search(label):
             continue
-        refs = re.findall(r"(?<![A-Z0-9_])\$?([A-Z]{1,3})\$?(\d+)(?![0-9(])", c.formula)
         du = w = None
-        for col, row in refs:
-            key = (c.sheet, int(row), _col(col))
+        for key in cell_refs(c.formula, c.sheet):
             lab = _label(book, *key)
             v = values.get(key)
             if isinstance(v, float) and _DU.search(lab):

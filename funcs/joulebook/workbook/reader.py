@@ -18,6 +18,7 @@ from pathlib import Path
 from defusedxml import ElementTree as SafeET
 
 from ..errors import BadInput
+from .refs import normalise
 
 __all__ = [
     "Limits",
@@ -27,15 +28,11 @@ __all__ = [
     "split_ref",
     "col_number",
     "col_letters",
-    "OUR_CALL",
 ]
 
 NS = "{http://schemas.openxmlformats.org/spreadsheetml/2006/main}"
 RNS = "{http://schemas.openxmlformats.org/officeDocument/2006/relationships}"
 PKG_RNS = "{http://schemas.openxmlformats.org/package/2006/relationships}"
-
-#: our functions as saved: plain, add-in linked ``[n]!JB_X(``, or Excel's ``_xludf.`` prefix
-OUR_CALL = re.compile(r"(?:\[\d+\]!|_xludf\.)?(JB_[A-Z][A-Z0-9_]*)\s*\(", re.IGNORECASE)
 
 
 @dataclass(frozen=True)
@@ -212,11 +209,6 @@ def _text_of(elem) -> str:
         if node.tag == NS + "t" and node.text and id(node) not in skip:
             parts.append(node.text)
     return unescape_text("".join(parts))
-
-
-def normalise(formula: str) -> str:
-    """Our functions as plain names (drop add-in link and ``_xludf.`` prefixes)."""
-    return OUR_CALL.sub(lambda m: m.group(1).upper() + "(", formula)
 
 
 def read_book(path: str | Path, limits: Limits | None = None) -> Book:

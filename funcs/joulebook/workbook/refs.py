@@ -252,3 +252,71 @@ def parse_ref(text: str) -> Ref | None:
         return None
     kind, r1, c1, r2, c2, (ar1, ac1, ar2, ac2) = a
     return Ref(kind, sheet, sheet2, book, r1, c1, r2, c2, ar1, ac1, ar2, ac2)
+
+
+def our_name(func_token: str) -> str | None:
+    """The joulebook function a FUNC token opens (``JB_X(``, ``_xludf.JB_X(``,
+    ``[1]!JB_X(``), upper case, or None."""
+    name = func_token[:-1] if func_token.endswith("(") else func_token
+    name = name.strip()
+    if name.startswith("[") and "]!" in name:
+        index, _, rest = name[1:].partition("]!")
+        if index.isdigit():
+            name = rest
+    if name.upper().startswith("_XLUDF."):
+        name = name[7:]
+    name = name.upper()
+    if not name.startswith("JB_") or len(name) < 4:
+        return None
+    if not all(ch.isascii() and (ch.isalnum() or ch == "_") for ch in name) or name[3].isdigit():
+        return None
+    return name
+
+
+def calls_ours(formula: str) -> bool:
+    """True when *formula* calls a joulebook function."""
+    try:
+        toks = tokens(formula)
+    except Exception:
+        return False
+    return any(t == "FUNC" and sub == "OPEN" and our_name(v) for v, t, sub in toks)
+
+
+def normalise(formula: str) -> str:
+    """*formula* with our functions as plain names (add-in link and ``_xludf.`` prefixes
+    dropped); any other text as it was."""
+    try:
+        toks = tokens(formula)
+    except Exception:
+        return formula
+    if not any(t == "FUNC" and sub == "OPEN" and our_name(v) for v, t, sub in toks):
+        return formula
+    out = []
+    for v, t, sub in toks:
+        name = our_name(v) if t == "FUNC" and sub == "OPEN" else None
+        out.append(name + "(" if name else v)
+    return "".join(out)
+
+
+def cell_refs(formula: str, here: str) -> list[tuple[str, int, int]]:
+    """The single cells *formula* names directly, as (sheet, row, column), in order."""
+    try:
+        toks = tokens(formula)
+    except Exception:
+        return []
+    out = []
+    for v, t, sub in toks:
+        if t == "OPERAND" and sub == "RANGE":
+            ref = parse_ref(v)
+            if ref is not None and ref.kind == "cell" and ref.book is None and not ref.sheet2:
+                out.append((ref.sheet or here, ref.r1, ref.c1))
+    return out
+
+
+def texts(formula: str) -> list[str]:
+    """The text constants of *formula*, unquoted."""
+    try:
+        toks = tokens(formula)
+    except Exception:
+        return []
+    return [v[1:-1].replace('""', '"') for v, t, sub in toks if t == "OPERAND" and sub == "TEXT"]
