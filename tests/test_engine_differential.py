@@ -16,7 +16,6 @@ checks the engine against Excel's rules and tests/test_libreoffice.py against Li
 
 import math
 
-import numpy as np
 import openpyxl
 import pytest
 from hypothesis import HealthCheck, given, settings
@@ -26,6 +25,7 @@ from openpyxl.workbook.defined_name import DefinedName
 
 from joulebook.workbook.engine import Engine
 from joulebook.workbook.reader import read_book
+from wbtools import library_values
 
 ROWS, COLS = 8, 5  # the data grid A1:E8 on both sheets
 OTHER = "Q 1"  # a sheet name that needs quotes
@@ -176,39 +176,6 @@ def _build(path, grid, formulas, copies):
     return cells
 
 
-def _library_values(path) -> dict:
-    import formulas
-    import schedula as sh
-    from formulas.tokens.operand import XlError
-    from openpyxl.utils.cell import range_boundaries
-
-    sol = formulas.ExcelModel().loads(str(path)).finish().calculate()
-    got = {}
-    for k, v in sol.items():
-        k = str(k)
-        if "!" not in k or not hasattr(v, "value"):
-            continue
-        sheet, _, addr = k.rpartition("!")
-        sheet = sheet.strip("'").split("]", 1)[-1]
-        try:
-            c, r, c2, r2 = range_boundaries(addr)
-        except ValueError:  # a defined name's node
-            continue
-        if (c, r) != (c2, r2):
-            continue
-        x = np.asarray(v.value, dtype=object).reshape(-1)[0]
-        if isinstance(x, XlError):
-            x = ("error", str(x))
-        elif x is sh.EMPTY:
-            x = 0.0
-        elif isinstance(x, (bool, np.bool_)):
-            x = bool(x)
-        elif isinstance(x, (int, float, np.number)):
-            x = float(x)
-        got[(sheet, r, c)] = x
-    return got
-
-
 def _library_defect(formula: str, theirs) -> str:
     """Why the library as-is is wrong on this cell, when it is a defect we know of."""
     if "INDEX(" in formula:
@@ -257,7 +224,7 @@ def test_compiled_engine_equals_the_library_as_is(tmp_path, case):
     cells = _build(path, grid, formulas, copies)
     book = read_book(path)
     ours = Engine(book).run()
-    library = _library_values(path)
+    library = library_values(path, book.sheets)
     for key in cells:
         assert not ours[key].problem, (key, book.cells[key].formula, ours[key].problem)
         if key in library and not _library_defect(book.cells[key].formula, library[key]):

@@ -47,11 +47,12 @@ def _book(path: Path) -> Path:
     return path
 
 
-def _as_csv(xlsx: Path, workdir: Path, mode: int) -> list[list[str]]:
-    profile = workdir / f"profile{mode}"
+def _convert(src: Path, workdir: Path, mode: int, target: str, tag: str) -> Path:
+    """LibreOffice headless: open *src* (recalculating per *mode*) and save it as *target*."""
+    profile = workdir / f"profile-{tag}"
     (profile / "user").mkdir(parents=True)
     (profile / "user" / "registrymodifications.xcu").write_text(PROFILE.format(mode=mode))
-    outdir = workdir / f"csv{mode}"
+    outdir = workdir / f"out-{tag}"
     subprocess.run(
         [
             SOFFICE,
@@ -59,16 +60,23 @@ def _as_csv(xlsx: Path, workdir: Path, mode: int) -> list[list[str]]:
             "--headless",
             "--norestore",
             "--convert-to",
-            "csv:Text - txt - csv (StarCalc):44,34,76,1,,0,false,true,true",
+            target,
             "--outdir",
             str(outdir),
-            str(xlsx),
+            str(src),
         ],
         check=True,
         capture_output=True,
         timeout=180,
     )
-    with open(outdir / (xlsx.stem + ".csv"), newline="", encoding="utf-8") as fh:
+    return outdir / (src.stem + "." + target.split(":", 1)[0])
+
+
+def _as_csv(xlsx: Path, workdir: Path, mode: int) -> list[list[str]]:
+    csv_filter = "csv:Text - txt - csv (StarCalc):44,34,76,1,,0,false,true,true"
+    with open(
+        _convert(xlsx, workdir, mode, csv_filter, f"csv{mode}"), newline="", encoding="utf-8"
+    ) as fh:
         return list(csv.reader(fh))
 
 
@@ -158,27 +166,7 @@ def _semantics_book(path: Path) -> Path:
 
 
 def _recalculated_by_libreoffice(src: Path, workdir: Path) -> Path:
-    profile = workdir / "profile-xlsx"
-    (profile / "user").mkdir(parents=True)
-    (profile / "user" / "registrymodifications.xcu").write_text(PROFILE.format(mode=0))
-    outdir = workdir / "lo-xlsx"
-    subprocess.run(
-        [
-            SOFFICE,
-            f"-env:UserInstallation={profile.as_uri()}",
-            "--headless",
-            "--norestore",
-            "--convert-to",
-            "xlsx:Calc MS Excel 2007 XML",
-            "--outdir",
-            str(outdir),
-            str(src),
-        ],
-        check=True,
-        capture_output=True,
-        timeout=180,
-    )
-    return outdir / src.name
+    return _convert(src, workdir, 0, "xlsx:Calc MS Excel 2007 XML", "xlsx")
 
 
 def _lo_value(cell):

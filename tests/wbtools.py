@@ -96,3 +96,44 @@ def with_saved(src: Path, dst: Path, saved: dict) -> Path:
         tmp.replace(dst)
         out = dst
     return dst
+
+
+def library_values(path: Path, sheets: list[str]) -> dict:
+    """The ``formulas`` library used as-is (its ExcelModel) on the workbook at *path*:
+    {(sheet, row, col): value} in the engine's value types, ranges spread cell by cell."""
+    import formulas
+    import numpy as np
+    import schedula as sh
+    from formulas.tokens.operand import XlError
+    from openpyxl.utils.cell import range_boundaries
+
+    upper = {s.upper(): s for s in sheets}
+    sol = formulas.ExcelModel().loads(str(path)).finish().calculate()
+    got = {}
+    for k, v in sol.items():
+        k = str(k)
+        if "!" not in k or not hasattr(v, "value"):
+            continue
+        sheet, _, addr = k.rpartition("!")
+        sheet = upper.get(sheet.strip("'").split("]", 1)[-1].replace("''", "'").upper())
+        try:
+            c1, r1, _, _ = range_boundaries(addr)
+        except ValueError:  # a defined name's node
+            continue
+        if sheet is None:
+            continue
+        arr = np.asarray(v.value, dtype=object)
+        arr = arr.reshape(1, -1) if arr.ndim < 2 else arr
+        for i in range(arr.shape[0]):
+            for j in range(arr.shape[1]):
+                x = arr[i, j]
+                if isinstance(x, XlError):
+                    x = ("error", str(x))
+                elif x is sh.EMPTY:
+                    x = 0.0
+                elif isinstance(x, (bool, np.bool_)):
+                    x = bool(x)
+                elif isinstance(x, (int, float, np.number)):
+                    x = float(x)
+                got[(sheet, r1 + i, c1 + j)] = x
+    return got

@@ -35,56 +35,20 @@ def _ours(path: str) -> dict:
 
 
 def _library(path: str) -> dict:
-    import formulas
-    import numpy as np
-    import schedula as sh
-    from formulas.tokens.operand import XlError
-
+    sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
     from joulebook.workbook.check import _same
     from joulebook.workbook.reader import col_letters, read_book
+    from wbtools import library_values
 
     book = read_book(path)
-    upper = {s.upper(): s for s in book.sheets}
-    xl = formulas.ExcelModel().loads(path).finish()
-    sol = xl.calculate()
-    got = {}
-    for k, v in sol.items():
-        k = str(k)
-        if "!" not in k or not hasattr(v, "value"):
-            continue
-        sheet, _, addr = k.rpartition("!")
-        sheet = sheet.strip("'").split("]", 1)[-1].replace("''", "'")
-        s = upper.get(sheet.upper())
-        if s is None:
-            continue
-        from openpyxl.utils.cell import range_boundaries
-
-        try:
-            c1, r1, c2, r2 = range_boundaries(addr)
-        except Exception:
-            continue
-        arr = np.asarray(v.value, dtype=object)
-        for i in range(arr.shape[0] if arr.ndim == 2 else 1):
-            for j in range(arr.shape[1] if arr.ndim == 2 else 1):
-                x = arr[i, j] if arr.ndim == 2 else arr.reshape(-1)[0]
-                got[(s, r1 + i, c1 + j)] = x
+    got = library_values(Path(path), book.sheets)
     out = {}
     for key, cell in book.cells.items():
         if cell.formula is None or not cell.has_cached:
             continue
         x = got.get(key, None)
-        if x is None:
-            out[f"{key[0]}!{col_letters(key[2])}{key[1]}"] = False
-            continue
-        if isinstance(x, XlError):
-            x = ("error", str(x))
-        elif x is sh.EMPTY:
-            x = 0.0
-        elif isinstance(x, (np.bool_, bool)):
-            x = bool(x)
-        elif isinstance(x, (int, float, np.number)):
-            x = float(x)
-        out[f"{key[0]}!{col_letters(key[2])}{key[1]}"] = _same(x, cell.cached, 1e-9, 1e-12)
+        where = f"{key[0]}!{col_letters(key[2])}{key[1]}"
+        out[where] = x is not None and _same(x, cell.cached, 1e-9, 1e-12)
     return out
 
 

@@ -685,6 +685,17 @@ class Engine:
         argpos: list[int] = []  # the argument of each enclosing function being written
         prev_type = ""
 
+        def placeholder(ref: Ref, where, i: int, mode: str) -> None:
+            idx = len(refs)
+            refs.append((ref, where))
+            modes.append(mode or _mode(toks, i, stack))
+            if stack and _where_only(stack[-1], argpos[-1]):
+                marks["where"].add(idx)
+            if stack and _whole_extent(stack[-1], argpos[-1]):
+                marks["whole"].add(idx)
+            self._mark_implicit(stack, idx, implicit, modes)
+            out.append(f"_JBR{idx}")
+
         def operand(value: str, i: int, mode: str = "") -> None:
             ref = parse_ref(value)
             if ref is None:
@@ -701,15 +712,7 @@ class Engine:
                 d = definition.lstrip("=")
                 inner = parse_ref(d) if len(tokens(d)) == 1 else None
                 if inner is not None and inner.kind not in ("name", "table"):
-                    idx = len(refs)
-                    refs.append((inner, "name"))
-                    modes.append(mode or _mode(toks, i, stack))
-                    if stack and _where_only(stack[-1], argpos[-1]):
-                        marks["where"].add(idx)
-                    if stack and _whole_extent(stack[-1], argpos[-1]):
-                        marks["whole"].add(idx)
-                    self._mark_implicit(stack, idx, implicit, modes)
-                    out.append(f"_JBR{idx}")
+                    placeholder(inner, "name", i, mode)
                 else:
                     out.append(
                         "("
@@ -719,15 +722,7 @@ class Engine:
                         + ")"
                     )
             else:
-                idx = len(refs)
-                refs.append((ref, frame))
-                modes.append(mode or _mode(toks, i, stack))
-                if stack and _where_only(stack[-1], argpos[-1]):
-                    marks["where"].add(idx)
-                if stack and _whole_extent(stack[-1], argpos[-1]):
-                    marks["whole"].add(idx)
-                self._mark_implicit(stack, idx, implicit, modes)
-                out.append(f"_JBR{idx}")
+                placeholder(ref, frame, i, mode)
 
         pending: list[int] = []  # depths where a "-(-(" opened for "--" waits for its operand
         skip = 0

@@ -18,7 +18,7 @@ from pathlib import Path
 from defusedxml import ElementTree as SafeET
 
 from ..errors import BadInput
-from .refs import normalise
+from .refs import col_letters, col_number, normalise
 
 __all__ = [
     "Limits",
@@ -114,23 +114,6 @@ class Book:
 
     def formula_cells(self) -> list[Cell]:
         return [c for c in self.cells.values() if c.formula is not None]
-
-
-def col_number(letters: str) -> int:
-    n = 0
-    for ch in letters.upper():
-        n = n * 26 + (ord(ch) - 64)
-    return n
-
-
-def col_letters(n: int) -> str:
-    if n < 1:
-        raise ValueError(f"column number {n} is off the sheet")
-    s = ""
-    while n:
-        n, r = divmod(n - 1, 26)
-        s = chr(65 + r) + s
-    return s
 
 
 _REF = re.compile(r"^\$?([A-Za-z]{1,3})\$?(\d+)$")
