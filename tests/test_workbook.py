@@ -109,13 +109,18 @@ def test_check_reports_missing_values_then_passes_after_recalc(
 
     data = json.loads(rep.read_text())
     open_ = {(c["sheet"], c["cell"]): c["status"] for c in data["cells"] if c["status"] != "pass"}
-    # left: the deliberate cycle (the spill cells E2:E3 that openpyxl wrote no <c> element
-    # for were inserted by the writer, so they hold values now)
-    assert open_ == {("Calc Sheet", "A5"): "circular", ("Calc Sheet", "A6"): "circular"}
+    # left: the deliberate cycle, and the out-of-range call in D1 (a joulebook error fails
+    # the check even though the file saved the same text); the spill cells E2:E3 that
+    # openpyxl wrote no <c> element for were inserted by the writer, so they hold values now
+    assert open_ == {
+        ("Calc Sheet", "A5"): "circular",
+        ("Calc Sheet", "A6"): "circular",
+        ("Inputs", "D1"): "error",
+    }
     assert code == 1
     assert data["summary"]["circular"] == 2
     xml = junit.read_text()
-    assert 'errors="2"' in xml and 'failures="0"' in xml
+    assert 'errors="2"' in xml and 'failures="1"' in xml
     assert (_sha(fixture_book), _sha(recalculated)) == before  # check never writes its input
 
 
@@ -220,3 +225,39 @@ def test_shared_formulas_are_expanded(tmp_path):
     assert book.cells[("Inputs", 9, 3)].formula == "ROUND(B9,3)"
     out = Engine(book).run()
     assert out[("Inputs", 9, 3)].value == round(out[("Inputs", 9, 2)].value, 3)
+
+
+def test_strict_check_relaxed_by_name_and_its_exit_codes(recalculated, tmp_path, capsys):
+    # D1 holds an out-of-range joulebook error; A5/A6 are a deliberate cycle
+    assert main(["check", str(recalculated), "--allow-errors"]) == 1  # the cycle still fails
+    out = capsys.readouterr().out
+    assert "relaxed: errors allowed" in out and "rtol=1e-09" in out and "Inputs!D1" not in out
+    reports = tmp_path / "reports" / "deep"  # output folders are created
+    code = main(
+        [
+            "check",
+            str(recalculated),
+            "--junit",
+            str(reports / "x.xml"),
+            "--json",
+            str(reports / "x.json"),
+        ]
+    )
+    assert code == 1 and (reports / "x.xml").exists() and (reports / "x.json").exists()
+    assert main(["check", str(tmp_path / "missing.xlsx")]) == 2
+    assert "missing.xlsx" in capsys.readouterr().err
+    with pytest.raises(SystemExit) as e:
+        main(["check"])  # usage error
+    assert e.value.code == 2
+
+
+def test_an_internal_failure_exits_3_with_its_message(recalculated, monkeypatch, capsys):
+    import joulebook.workbook.check as check
+
+    def broken(*a, **k):
+        raise RuntimeError("simulated defect")
+
+    monkeypatch.setattr(check, "compare", broken)
+    assert main(["check", str(recalculated)]) == 3
+    err = capsys.readouterr().err
+    assert "internal error (RuntimeError): simulated defect" in err and "Traceback" not in err

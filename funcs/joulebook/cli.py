@@ -186,13 +186,13 @@ def _write_text(path: str, text: str) -> bool:
 
 
 def _check(ns: argparse.Namespace) -> int:
-    from .workbook.check import compare, fmt, summary, to_json, to_junit
+    from .workbook.check import compare, failing, fmt, summary, to_json, to_junit
 
     book, outcomes = _load(ns.book)
     if book is None:
         return 2
     rows = compare(book, outcomes, rtol=ns.rtol, atol=ns.atol)
-    bad = [r for r in rows if r.status != "pass"]
+    bad = failing(rows, ns.allow_errors, ns.allow_unsupported)
     if bad:
         print(f"{'cell':<24} {'status':<16} {'saved':>18} {'recomputed':>18}  formula")
         for r in bad[: ns.max_rows]:
@@ -203,11 +203,19 @@ def _check(ns: argparse.Namespace) -> int:
         if len(bad) > ns.max_rows:
             print(f"… {len(bad) - ns.max_rows} more (see --json)")
     s = summary(rows)
-    print(", ".join(f"{v} {k}" for k, v in s.items()))
-    if ns.json:
-        Path(ns.json).write_text(to_json(book, rows, ns.rtol, ns.atol), encoding="utf-8")
-    if ns.junit:
-        Path(ns.junit).write_text(to_junit(book, rows), encoding="utf-8")
+    relaxed = [
+        w for w, on in (("errors", ns.allow_errors), ("unsupported", ns.allow_unsupported)) if on
+    ]
+    print(
+        ", ".join(f"{v} {k}" for k, v in s.items())
+        + f"; tolerance rtol={ns.rtol:g}, atol={ns.atol:g}"
+        + (f"; relaxed: {', '.join(relaxed)} allowed" if relaxed else "")
+        + f"; {len(bad)} failing"
+    )
+    if ns.json and not _write_text(ns.json, to_json(book, rows, ns.rtol, ns.atol)):
+        return 2
+    if ns.junit and not _write_text(ns.junit, to_junit(book, rows, bad)):
+        return 2
     return 1 if bad else 0
 
 
@@ -316,14 +324,26 @@ def build_parser() -> argparse.ArgumentParser:
     c = sub.add_parser(
         "check",
         help="recompute a workbook and compare with the values Excel saved",
-        description="Exit 0 when every formula cell holds, 1 on differences or cells that "
-        "could not be checked, 2 when the workbook cannot be used.",
+        description="Exit 0 when every formula cell holds; 1 when at least one cell fails "
+        "(differs, holds a joulebook or engine error, unsupported, not checked, circular; "
+        "--allow-errors and --allow-unsupported relax it by name); 2 on a usage error or a "
+        "workbook that cannot be read; 3 on an internal failure.",
     )
     c.add_argument("book", help="the .xlsx/.xlsm to check")
     c.add_argument("--rtol", type=float, default=1e-9, help="relative tolerance (default 1e-9)")
     c.add_argument("--atol", type=float, default=1e-12, help="absolute tolerance (default 1e-12)")
     c.add_argument("--json", help="write a JSON report here")
     c.add_argument("--junit", help="write a JUnit XML report here (for CI)")
+    c.add_argument(
+        "--allow-errors",
+        action="store_true",
+        help="do not fail on cells holding joulebook or engine errors (they are still counted)",
+    )
+    c.add_argument(
+        "--allow-unsupported",
+        action="store_true",
+        help="do not fail on unsupported cells and the cells depending on them",
+    )
     c.add_argument(
         "--max-rows", type=int, default=50, help="rows of the table printed (default 50)"
     )
@@ -377,7 +397,11 @@ def main(argv: list[str] | None = None) -> int:
     if not getattr(ns, "run", None):
         parser.print_help()
         return 0
-    return ns.run(ns)
+    try:
+        return ns.run(ns)
+    except Exception as e:  # a defect of ours: exit 3 with the message, never a traceback
+        print(f"joulebook: internal error ({type(e).__name__}): {e}", file=sys.stderr)
+        return 3
 
 
 if __name__ == "__main__":  # pragma: no cover

@@ -10,7 +10,7 @@ from xml.sax.saxutils import escape, quoteattr
 from .engine import Outcome
 from .reader import Book, col_letters
 
-__all__ = ["Row", "compare", "summary", "to_json", "to_junit", "fmt"]
+__all__ = ["Row", "compare", "failing", "summary", "to_json", "to_junit", "fmt"]
 
 
 @dataclass
@@ -77,8 +77,11 @@ def compare(book: Book, outcomes: dict, rtol: float = 1e-9, atol: float = 1e-12)
             status, note = "pass", ""
         else:
             status, note = "differs", ""
-        if status == "pass" and (_is_our_error_text(o.value) or (isinstance(o.value, tuple))):
-            note = "the cell holds an error (Excel saved the same)"
+        if status == "pass" and _is_our_error_text(o.value):
+            # a joulebook failure is a failed cell even when the file saved the same text
+            status, note = "error", "joulebook error in the value: " + str(o.value)[:200]
+        elif status == "pass" and isinstance(o.value, tuple):
+            note = "the cell holds an error value (the file saved the same)"
         if o.note:
             note = (note + "; " if note else "") + o.note
         rows.append(
@@ -87,10 +90,35 @@ def compare(book: Book, outcomes: dict, rtol: float = 1e-9, atol: float = 1e-12)
     return rows
 
 
+#: statuses that fail a check unless relaxed by name (see `failing`)
+RELAX = {"error": "allow_errors", "unsupported": "allow_unsupported"}
+
+
+def failing(rows: list[Row], allow_errors: bool = False, allow_unsupported: bool = False):
+    """The rows that fail a strict check: anything but pass, except what was relaxed —
+    joulebook errors and engine errors (--allow-errors); unsupported cells and the cells
+    not checked because of them (--allow-unsupported)."""
+    out = []
+    for r in rows:
+        if r.status == "pass":
+            continue
+        if allow_errors and r.status == "error":
+            continue
+        if allow_unsupported and (
+            r.status == "unsupported" or (r.status == "not checked" and "(unsupported" in r.note)
+        ):
+            continue
+        out.append(r)
+    return out
+
+
 def summary(rows: list[Row]) -> dict:
     out = {"cells": len(rows)}
     for r in rows:
         out[r.status] = out.get(r.status, 0) + 1
+    out["saved_error_values"] = sum(
+        1 for r in rows if r.status == "pass" and isinstance(r.recomputed, tuple)
+    )
     out["errors_in_values"] = sum(
         1
         for r in rows
@@ -121,10 +149,13 @@ def to_json(book: Book, rows: list[Row], rtol: float, atol: float) -> str:
     )
 
 
-def to_junit(book: Book, rows: list[Row]) -> str:
-    """JUnit XML: one test case per cell; differences are failures, problems are errors."""
-    fails = sum(r.status in ("differs", "no cached value") for r in rows)
-    errs = sum(r.status in ("error", "unsupported", "circular", "not checked") for r in rows)
+def to_junit(book: Book, rows: list[Row], bad: list[Row] | None = None) -> str:
+    """JUnit XML: one test case per cell; the failing ones (*bad*, by default every cell not
+    passing) are failures (values) or errors (cells that could not be checked)."""
+    bad_ids = {id(r) for r in (rows if bad is None else bad) if r.status != "pass"}
+    value_kinds = ("differs", "no cached value", "error")
+    fails = sum(id(r) in bad_ids and r.status in value_kinds for r in rows)
+    errs = sum(id(r) in bad_ids and r.status not in value_kinds for r in rows)
     out = [
         '<?xml version="1.0" encoding="utf-8"?>',
         f'<testsuite name={quoteattr("joulebook check " + book.path.name)} tests="{len(rows)}" '
@@ -133,12 +164,11 @@ def to_junit(book: Book, rows: list[Row]) -> str:
     for r in rows:
         name = quoteattr(f"{r.sheet}!{r.cell}")
         body = ""
-        msg = f"cached {fmt(r.cached)}, recomputed {fmt(r.recomputed)}"
-        if r.status in ("differs", "no cached value"):
-            body = (
-                f"<failure message={quoteattr(r.status + ': ' + msg)}>{escape(r.formula)}</failure>"
-            )
-        elif r.status in ("error", "unsupported", "circular", "not checked"):
+        msg = f"saved {fmt(r.cached)}, recomputed {fmt(r.recomputed)}"
+        if id(r) in bad_ids and r.status in value_kinds:
+            text = r.status + ": " + msg + (f"; {r.note}" if r.note else "")
+            body = f"<failure message={quoteattr(text)}>{escape(r.formula)}</failure>"
+        elif id(r) in bad_ids:
             body = f"<error message={quoteattr(r.note)}>{escape(r.formula)}</error>"
         out.append(f"  <testcase classname={quoteattr(r.sheet)} name={name}>{body}</testcase>")
     out.append("</testsuite>")
