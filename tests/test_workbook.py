@@ -261,3 +261,62 @@ def test_an_internal_failure_exits_3_with_its_message(recalculated, monkeypatch,
     assert main(["check", str(recalculated)]) == 3
     err = capsys.readouterr().err
     assert "internal error (RuntimeError): simulated defect" in err and "Traceback" not in err
+
+
+def test_check_a_folder_of_mixed_workbooks_in_two_processes(recalculated, tmp_path, capsys):
+    import json
+    import shutil
+
+    from wbtools import build, with_saved
+
+    calcs = tmp_path / "calcs"
+    (calcs / "sub").mkdir(parents=True)
+    fresh = with_saved(
+        build(tmp_path / "f.xlsx", {"S!A1": 2.0, "S!B1": "=A1*3"}),
+        calcs / "fresh.xlsx",
+        {"S!B1": 6.0},
+    )
+    with_saved(
+        build(tmp_path / "s.xlsx", {"S!A1": 2.0, "S!B1": "=A1*3"}),
+        calcs / "sub" / "stale.xlsx",
+        {"S!B1": 5.0},
+    )
+    shutil.copy(recalculated, calcs / "errors.xlsx")  # holds an out-of-range joulebook cell
+    (calcs / "corrupt.xlsx").write_bytes(b"PK\x03\x04 not really a zip")
+    (calcs / "table.xlsx").write_text("a,b\n1,2\n")  # a CSV renamed
+    shutil.copy(fresh, calcs / "~$fresh.xlsx")  # Excel's lock file: skipped
+    out = tmp_path / "reports"
+    code = main(
+        [
+            "check",
+            str(calcs),
+            "-j",
+            "2",
+            "--json",
+            str(out / "all.json"),
+            "--junit",
+            str(out / "all.xml"),
+            "--summary",
+            str(out / "summary.md"),
+        ]
+    )
+    assert code == 2  # an input could not be read; the others were still checked
+    text = capsys.readouterr()
+    assert "corrupt.xlsx" in text.err and "table.xlsx" in text.err
+    assert "5 workbooks: 1 hold, 2 fail, 2 could not be checked" in text.out
+    data = json.loads((out / "all.json").read_text())
+    exits = {Path(w["workbook"]).name: w["exit"] for w in data["workbooks"]}
+    assert exits == {
+        "fresh.xlsx": 0,
+        "stale.xlsx": 1,
+        "errors.xlsx": 1,
+        "corrupt.xlsx": 2,
+        "table.xlsx": 2,
+    }
+    xml = (out / "all.xml").read_text()
+    assert xml.count("<testsuite ") == 5 and "<testsuites>" in xml
+    assert "| stale.xlsx | fails |" in (out / "summary.md").read_text()
+    # the same verdicts in one process, and for the two good ones alone
+    assert main(["check", str(calcs / "fresh.xlsx"), str(calcs / "sub" / "*.xlsx"), "-j", "1"]) == 1
+    assert main(["check", str(calcs / "fresh.xlsx")]) == 0
+    assert main(["check", str(tmp_path / "nothing-*.xlsx")]) == 2

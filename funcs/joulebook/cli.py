@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import argparse
+import os
 import sys
 from pathlib import Path
 
@@ -186,37 +187,170 @@ def _write_text(path: str, text: str) -> bool:
 
 
 def _check(ns: argparse.Namespace) -> int:
-    from .workbook.check import compare, failing, fmt, summary, to_json, to_junit
+    from .workbook.check import fmt
 
-    book, outcomes = _load(ns.book)
-    if book is None:
+    paths, unmatched = _workbook_paths(ns.books)
+    for spec in unmatched:
+        print(f"{spec}: no such workbook (nor a folder or pattern matching any)", file=sys.stderr)
+    if not paths:
         return 2
-    rows = compare(book, outcomes, rtol=ns.rtol, atol=ns.atol)
-    bad = failing(rows, ns.allow_errors, ns.allow_unsupported)
-    if bad:
-        print(f"{'cell':<24} {'status':<16} {'saved':>18} {'recomputed':>18}  formula")
-        for r in bad[: ns.max_rows]:
-            print(
-                f"{r.sheet + '!' + r.cell:<24} {r.status:<16} {fmt(r.cached)[:18]:>18} "
-                f"{fmt(r.recomputed)[:18]:>18}  {r.formula[:60]}"
+    jobs = [(str(p), ns.rtol, ns.atol, ns.allow_errors, ns.allow_unsupported) for p in paths]
+    workers = max(1, min(ns.jobs or os.cpu_count() or 1, len(jobs)))
+    if workers > 1:
+        from concurrent.futures import ProcessPoolExecutor
+
+        with ProcessPoolExecutor(max_workers=workers) as pool:
+            results = list(pool.map(check_one, jobs))
+    else:
+        results = [check_one(j) for j in jobs]
+    many = len(results) > 1
+    code = 2 if unmatched else 0
+    for res in results:
+        code = max(code, res["code"])
+        if res["message"]:
+            print(f"{res['path']}: {res['message']}", file=sys.stderr)
+            continue
+        bad = res["failing"]
+        if bad:
+            print(f"{'cell':<24} {'status':<16} {'saved':>18} {'recomputed':>18}  formula")
+            for r in bad[: ns.max_rows]:
+                print(
+                    f"{r['sheet'] + '!' + r['cell']:<24} {r['status']:<16} "
+                    f"{fmt(r['cached'])[:18]:>18} {fmt(r['recomputed'])[:18]:>18}  "
+                    f"{r['formula'][:60]}"
+                )
+            if len(bad) > ns.max_rows:
+                print(f"… {len(bad) - ns.max_rows} more (see --json)")
+        relaxed = [
+            w
+            for w, on in (("errors", ns.allow_errors), ("unsupported", ns.allow_unsupported))
+            if on
+        ]
+        print(
+            (f"{res['path']}: " if many else "")
+            + ", ".join(f"{v} {k}" for k, v in res["summary"].items())
+            + f"; tolerance rtol={ns.rtol:g}, atol={ns.atol:g}"
+            + (f"; relaxed: {', '.join(relaxed)} allowed" if relaxed else "")
+            + f"; {len(bad)} failing"
+        )
+    if many:
+        print(
+            f"{len(results)} workbooks: {sum(r['code'] == 0 for r in results)} hold, "
+            f"{sum(r['code'] == 1 for r in results)} fail, "
+            f"{sum(r['code'] >= 2 for r in results)} could not be checked"
+        )
+    if ns.json and not _write_text(ns.json, _combined_json(results, ns, many)):
+        return 2
+    if ns.junit and not _write_text(ns.junit, _combined_junit(results, many)):
+        return 2
+    if ns.summary and not _write_text(ns.summary, _summary_markdown(results)):
+        return 2
+    return code
+
+
+def _workbook_paths(specs: list[str]):
+    """Files, folders (searched recursively for .xlsx/.xlsm, lock files ``~$…`` skipped) and
+    glob patterns (expanded here, so they work unquoted or quoted) → workbook paths."""
+    import glob
+
+    out, unmatched = [], []
+    for spec in specs:
+        p = Path(spec)
+        if p.is_dir():
+            found = sorted(
+                q
+                for q in p.rglob("*")
+                if q.suffix.lower() in (".xlsx", ".xlsm") and not q.name.startswith("~$")
             )
-        if len(bad) > ns.max_rows:
-            print(f"… {len(bad) - ns.max_rows} more (see --json)")
-    s = summary(rows)
-    relaxed = [
-        w for w, on in (("errors", ns.allow_errors), ("unsupported", ns.allow_unsupported)) if on
-    ]
-    print(
-        ", ".join(f"{v} {k}" for k, v in s.items())
-        + f"; tolerance rtol={ns.rtol:g}, atol={ns.atol:g}"
-        + (f"; relaxed: {', '.join(relaxed)} allowed" if relaxed else "")
-        + f"; {len(bad)} failing"
+        elif any(ch in spec for ch in "*?["):
+            found = sorted(Path(q) for q in glob.glob(spec, recursive=True) if Path(q).is_file())
+        else:
+            found = [p]
+        if not found:
+            unmatched.append(spec)
+        out.extend(q for q in found if q not in out)
+    return out, unmatched
+
+
+def check_one(job) -> dict:
+    """Check one workbook (in this process or a worker): its verdict as plain data."""
+    from .errors import JoulebookError
+    from .workbook.check import compare, failing, summary, to_json, to_junit
+    from .workbook.engine import Engine
+    from .workbook.reader import read_book
+
+    path, rtol, atol, allow_errors, allow_unsupported = job
+    res = {"path": path, "code": 0, "message": "", "failing": [], "summary": {}}
+    try:
+        book = read_book(path)
+        rows = compare(book, Engine(book).run(), rtol=rtol, atol=atol)
+    except (JoulebookError, OSError) as e:
+        why = e.cell_text() if isinstance(e, JoulebookError) else f"cannot read: {e.strerror}"
+        return {**res, "code": 2, "message": why}
+    except Exception as e:  # a defect of ours, reported with this workbook's name
+        return {**res, "code": 3, "message": f"internal error ({type(e).__name__}): {e}"}
+    bad = failing(rows, allow_errors, allow_unsupported)
+    res.update(
+        code=1 if bad else 0,
+        summary=summary(rows),
+        failing=[vars(r) for r in bad],
+        json=to_json(book, rows, rtol, atol),
+        junit=to_junit(book, rows, bad),
     )
-    if ns.json and not _write_text(ns.json, to_json(book, rows, ns.rtol, ns.atol)):
-        return 2
-    if ns.junit and not _write_text(ns.junit, to_junit(book, rows, bad)):
-        return 2
-    return 1 if bad else 0
+    return res
+
+
+def _combined_json(results: list, ns, many: bool) -> str:
+    import json
+
+    if not many and not results[0]["message"]:
+        return results[0]["json"]
+    books = []
+    for r in results:
+        if r["message"]:
+            books.append({"workbook": r["path"], "exit": r["code"], "reason": r["message"]})
+        else:
+            books.append({**json.loads(r["json"]), "exit": r["code"]})
+    return json.dumps(
+        {"tolerance": {"rtol": ns.rtol, "atol": ns.atol}, "workbooks": books}, indent=2
+    )
+
+
+def _combined_junit(results: list, many: bool) -> str:
+    from xml.sax.saxutils import quoteattr
+
+    if not many and not results[0]["message"]:
+        return results[0]["junit"]
+    head = '<?xml version="1.0" encoding="utf-8"?>'
+    suites = []
+    for r in results:
+        if r["message"]:
+            name = quoteattr("joulebook check " + Path(r["path"]).name)
+            suites.append(
+                f'<testsuite name={name} tests="1" failures="0" errors="1">\n'
+                f'  <testcase classname="workbook" name={quoteattr(r["path"])}>'
+                f"<error message={quoteattr(r['message'])}/></testcase>\n</testsuite>"
+            )
+        else:
+            suites.append(r["junit"].replace(head, "").strip())
+    return head + "\n<testsuites>\n" + "\n".join(suites) + "\n</testsuites>\n"
+
+
+def _summary_markdown(results: list) -> str:
+    lines = [
+        "| workbook | verdict | cells | pass | failing |",
+        "| --- | --- | ---: | ---: | ---: |",
+    ]
+    verdicts = {0: "holds", 1: "fails", 2: "could not be read", 3: "internal error"}
+    for r in results:
+        s = r["summary"]
+        name = Path(r["path"]).name.replace("|", "\\|")
+        lines.append(
+            f"| {name} | {verdicts[r['code']]}"
+            + (f": {r['message']}" if r["message"] else "")
+            + f" | {s.get('cells', 0)} | {s.get('pass', 0)} | {len(r['failing'])} |"
+        )
+    return "\n".join(lines) + "\n"
 
 
 def _audit(ns: argparse.Namespace) -> int:
@@ -329,7 +463,17 @@ def build_parser() -> argparse.ArgumentParser:
         "--allow-errors and --allow-unsupported relax it by name); 2 on a usage error or a "
         "workbook that cannot be read; 3 on an internal failure.",
     )
-    c.add_argument("book", help="the .xlsx/.xlsm to check")
+    c.add_argument(
+        "books",
+        nargs="+",
+        metavar="PATH",
+        help="workbooks (.xlsx/.xlsm), folders (searched recursively) or patterns such as "
+        "'calcs/**/*.xlsx'",
+    )
+    c.add_argument(
+        "-j", "--jobs", type=int, default=0, help="workbooks checked at once (default: the cores)"
+    )
+    c.add_argument("--summary", help="write a Markdown table of the verdicts here (CI summaries)")
     c.add_argument("--rtol", type=float, default=1e-9, help="relative tolerance (default 1e-9)")
     c.add_argument("--atol", type=float, default=1e-12, help="absolute tolerance (default 1e-12)")
     c.add_argument("--json", help="write a JSON report here")
