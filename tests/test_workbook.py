@@ -298,6 +298,8 @@ def test_check_a_folder_of_mixed_workbooks_in_two_processes(recalculated, tmp_pa
             str(out / "all.xml"),
             "--summary",
             str(out / "summary.md"),
+            "--sarif",
+            str(out / "check.sarif"),
         ]
     )
     assert code == 2  # an input could not be read; the others were still checked
@@ -316,6 +318,15 @@ def test_check_a_folder_of_mixed_workbooks_in_two_processes(recalculated, tmp_pa
     xml = (out / "all.xml").read_text()
     assert xml.count("<testsuite ") == 5 and "<testsuites>" in xml
     assert "| stale.xlsx | fails |" in (out / "summary.md").read_text()
+    # SARIF 2.1.0 (OASIS): one result per failing cell or unreadable workbook
+    sarif = json.loads((out / "check.sarif").read_text())
+    run = sarif["runs"][0]
+    assert sarif["version"] == "2.1.0" and len(run["artifacts"]) == 5
+    texts = [r["locations"][0]["physicalLocation"].get("region", {}) for r in run["results"]]
+    assert {"text": "S!B1"} in [t.get("message") for t in texts]  # the stale cell
+    assert sorted(r["ruleId"] for r in run["results"]).count("unreadable") == 2
+    rules = [d["id"] for d in run["tool"]["driver"]["rules"]]
+    assert all(rules[r["ruleIndex"]] == r["ruleId"] for r in run["results"])
     # the same verdicts in one process, and for the two good ones alone
     assert main(["check", str(calcs / "fresh.xlsx"), str(calcs / "sub" / "*.xlsx"), "-j", "1"]) == 1
     assert main(["check", str(calcs / "fresh.xlsx")]) == 0

@@ -245,6 +245,8 @@ def _check(ns: argparse.Namespace) -> int:
         return 2
     if ns.summary and not _write_text(ns.summary, _summary_markdown(results)):
         return 2
+    if ns.sarif and not _write_text(ns.sarif, _sarif(results)):
+        return 2
     return code
 
 
@@ -334,6 +336,88 @@ def _combined_junit(results: list, many: bool) -> str:
         else:
             suites.append(r["junit"].replace(head, "").strip())
     return head + "\n<testsuites>\n" + "\n".join(suites) + "\n</testsuites>\n"
+
+
+_SARIF_RULES = {
+    "differs": "the saved value differs from the recomputed one",
+    "error": "the cell holds a joulebook or engine error",
+    "no cached value": "the file holds no saved value for the cell",
+    "unsupported": "the cell uses a function or feature the engine does not evaluate",
+    "not checked": "the cell reads a cell that could not be evaluated",
+    "circular": "the cell is part of a circular reference",
+    "volatile": "the cell depends on NOW, TODAY, RAND or RANDBETWEEN",
+    "unreadable": "the workbook could not be read",
+}
+
+
+def _sarif(results: list) -> str:
+    """SARIF 2.1.0 (OASIS): one result per failing cell, each workbook an artifact, the
+    cell (Sheet!A1) in the region's message."""
+    import json
+
+    from .workbook.check import fmt
+
+    ids = list(_SARIF_RULES)
+    artifacts, found = [], []
+    for i, r in enumerate(results):
+        uri = Path(r["path"]).as_posix()
+        artifacts.append({"location": {"uri": uri}})
+        where = {"artifactLocation": {"uri": uri, "index": i}}
+        if r["message"]:
+            found.append(
+                {
+                    "ruleId": "unreadable",
+                    "ruleIndex": ids.index("unreadable"),
+                    "level": "error",
+                    "message": {"text": r["message"]},
+                    "locations": [{"physicalLocation": where}],
+                }
+            )
+        for c in r["failing"]:
+            cell = f"{c['sheet']}!{c['cell']}"
+            text = (
+                f"{cell}: {c['status']}; saved {fmt(c['cached'])}, recomputed "
+                f"{fmt(c['recomputed'])}" + (f"; {c['note']}" if c["note"] else "")
+            )
+            found.append(
+                {
+                    "ruleId": c["status"],
+                    "ruleIndex": ids.index(c["status"]) if c["status"] in ids else 0,
+                    "level": "error" if c["status"] in ("differs", "error") else "warning",
+                    "message": {"text": text},
+                    "locations": [
+                        {
+                            "physicalLocation": {
+                                **where,
+                                "region": {"startLine": 1, "message": {"text": cell}},
+                            },
+                            "logicalLocations": [{"name": cell, "kind": "member"}],
+                        }
+                    ],
+                    "properties": {"formula": "=" + c["formula"]},
+                }
+            )
+    log = {
+        "$schema": "https://json.schemastore.org/sarif-2.1.0.json",
+        "version": "2.1.0",
+        "runs": [
+            {
+                "tool": {
+                    "driver": {
+                        "name": "joulebook check",
+                        "version": __version__,
+                        "rules": [
+                            {"id": k, "shortDescription": {"text": v}}
+                            for k, v in _SARIF_RULES.items()
+                        ],
+                    }
+                },
+                "artifacts": artifacts,
+                "results": found,
+            }
+        ],
+    }
+    return json.dumps(log, indent=2, default=str)
 
 
 def _summary_markdown(results: list) -> str:
@@ -474,6 +558,7 @@ def build_parser() -> argparse.ArgumentParser:
         "-j", "--jobs", type=int, default=0, help="workbooks checked at once (default: the cores)"
     )
     c.add_argument("--summary", help="write a Markdown table of the verdicts here (CI summaries)")
+    c.add_argument("--sarif", help="write a SARIF 2.1.0 log of the failing cells here")
     c.add_argument("--rtol", type=float, default=1e-9, help="relative tolerance (default 1e-9)")
     c.add_argument("--atol", type=float, default=1e-12, help="absolute tolerance (default 1e-12)")
     c.add_argument("--json", help="write a JSON report here")
