@@ -62,11 +62,14 @@ class NoConvergence(JoulebookError):
     label = "NoConvergence"
 
 
+INTERNAL_LABEL = "InternalError"  # the cell text of a failure that is a defect of ours
+
+
 def cell_text(exc: BaseException) -> str:
     """Text a cell shows for *exc* (``Label: message``)."""
     if isinstance(exc, JoulebookError):
         return exc.cell_text()
-    return f"InternalError: {_clip(type(exc).__name__ + ': ' + str(exc))}"
+    return f"{INTERNAL_LABEL}: {_clip(type(exc).__name__ + ': ' + str(exc))}"
 
 
 def fmt_value(value: object) -> str:

@@ -25,7 +25,7 @@ from ..units import parse_phrase, parse_unit, unit_system
 from .check import Row, compare, fmt, summary
 from .engine import Engine
 from .reader import Book, Cell, col_letters
-from .refs import calls_ours, cell_refs, our_name, parse_ref, texts, tokens
+from .refs import calls_ours, cell_refs, col_number, our_name, parse_ref, texts, tokens
 
 __all__ = ["Entry", "Audit", "build_audit", "render_html", "CAUTION"]
 
@@ -178,13 +178,6 @@ def _resolve_arg(text: str, here: Cell, book: Book, values: dict, engine: Engine
     except Exception:  # an argument the engine cannot evaluate on its own: show its text
         return None, f"expression {text}"
     return (v if not isinstance(v, np.ndarray) else None), f"expression {text}"
-
-
-def _col(letters: str) -> int:
-    n = 0
-    for ch in letters.upper():
-        n = n * 26 + ord(ch) - 64
-    return n
 
 
 # ---------------------------------------------------------------------------------------
@@ -707,7 +700,7 @@ def _unit_consistency(entries: list[Entry], unit_of_cell: dict) -> None:
             m = re.match(r"formula (.+?)!([A-Z]+)(\d+)", inp.source)
             if not m:
                 continue
-            src = by_key.get((m.group(1), int(m.group(3)), _col(m.group(2))))
+            src = by_key.get((m.group(1), int(m.group(3)), col_number(m.group(2))))
             if (
                 src is None
                 or not src.result_unit

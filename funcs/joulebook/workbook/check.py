@@ -7,6 +7,7 @@ import math
 from dataclasses import asdict, dataclass
 from xml.sax.saxutils import escape, quoteattr
 
+from ..errors import INTERNAL_LABEL, BadInput, NoConvergence, OutOfRange
 from .engine import Outcome
 from .reader import Book, col_letters
 
@@ -42,13 +43,14 @@ def _same(a, b, rtol: float, atol: float) -> bool:
     return a == b
 
 
+#: the labels of joulebook's failure text in a cell (``BadInput: …``), from the error types
+_ERROR_LABELS = frozenset(
+    [c.label for c in (BadInput, OutOfRange, NoConvergence)] + [INTERNAL_LABEL]
+)
+
+
 def _is_our_error_text(v) -> bool:
-    return isinstance(v, str) and v.split(":", 1)[0] in (
-        "BadInput",
-        "OutOfRange",
-        "NoConvergence",
-        "InternalError",
-    )
+    return isinstance(v, str) and v.split(":", 1)[0] in _ERROR_LABELS
 
 
 def compare(book: Book, outcomes: dict, rtol: float = 1e-9, atol: float = 1e-12) -> list[Row]:

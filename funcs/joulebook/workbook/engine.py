@@ -263,6 +263,33 @@ def _scalar(x):
     return v[0] if v else None
 
 
+def _box(eng: Engine, rng: dict) -> tuple[str, int, int, int, int]:
+    """(sheet, r1, c1, r2, c2) of one range of the library's reference object."""
+    sheet = eng._sheet_of_id(rng.get("sheet_id") or "", _CURRENT.sheet)
+    return sheet, int(rng["r1"]), int(rng["n1"]), int(rng["r2"]), int(rng["n2"])
+
+
+def _whole_number(v):
+    """An INDEX position as an int, None when omitted, or the error value to return."""
+    from formulas.tokens.operand import Error
+
+    if v is None:
+        return None
+    v = _scalar(v)
+    if type(v).__name__ == "XlError":
+        return v
+    if v is sh_empty():
+        return 0
+    if isinstance(v, str):
+        try:
+            return int(float(v))
+        except ValueError:
+            return Error.errors["#VALUE!"]
+    if isinstance(v, (bool, int, float, np.number)):
+        return int(float(v))
+    return Error.errors["#VALUE!"]
+
+
 def _offset(ref, rows, cols, height=None, width=None):
     """OFFSET(reference, rows, cols, [height], [width]) on the running engine."""
     from formulas.ranges import Ranges
@@ -272,10 +299,8 @@ def _offset(ref, rows, cols, height=None, width=None):
     eng: Engine = _CURRENT.engine
     if not isinstance(ref, Ranges) or len(ref.ranges) != 1:
         return Error.errors["#VALUE!"]
-    rng = ref.ranges[0]
-    sheet = eng._sheet_of_id(rng.get("sheet_id") or "", _CURRENT.sheet)
-    r1, c1 = int(rng["r1"]), int(rng["n1"])
-    h0, w0 = int(rng["r2"]) - r1 + 1, int(rng["n2"]) - c1 + 1
+    sheet, r1, c1, r2, c2 = _box(eng, ref.ranges[0])
+    h0, w0 = r2 - r1 + 1, c2 - c1 + 1
     vals = []
     for v in (rows, cols, height, width):
         v = _scalar(v) if v is not None else None
@@ -323,10 +348,8 @@ def _subtotal(kind, *refs):
         if not isinstance(ref, Ranges):
             return Error.errors["#VALUE!"]
         for rng in ref.ranges:
-            sheet = eng._sheet_of_id(rng.get("sheet_id") or "", _CURRENT.sheet)
-            r1, c1, r2, c2 = eng._bounded(
-                sheet, (int(rng["r1"]), int(rng["n1"]), int(rng["r2"]), int(rng["n2"]))
-            )
+            sheet, *box = _box(eng, rng)
+            r1, c1, r2, c2 = eng._bounded(sheet, tuple(box))
             hidden = eng.book.hidden_rows.get(sheet, set())
             if n < 100 and sheet in eng.book.filtered and any(r1 <= r <= r2 for r in hidden):
                 _CURRENT.problems.append(
@@ -378,9 +401,7 @@ def _countblank(ref):
     eng: Engine = _CURRENT.engine
     if not isinstance(ref, Ranges) or len(ref.ranges) != 1:
         return Error.errors["#VALUE!"]
-    rng = ref.ranges[0]
-    sheet = eng._sheet_of_id(rng.get("sheet_id") or "", _CURRENT.sheet)
-    r1, c1, r2, c2 = int(rng["r1"]), int(rng["n1"]), int(rng["r2"]), int(rng["n2"])
+    sheet, r1, c1, r2, c2 = _box(eng, ref.ranges[0])
     filled = 0
     for c in range(c1, c2 + 1):
         rows = eng._rows_by_col.get((sheet, c)) or []
@@ -402,43 +423,23 @@ def _index(array, row_num=None, col_num=None, area_num=None):
     given = [v for v in (row_num, col_num, area_num) if v is not None]
     if not isinstance(array, Ranges):
         return _LIBRARY["INDEX"](array, *given)
-    nums = []
-    for v in (row_num, col_num, area_num):
-        v = _scalar(v) if v is not None and not isinstance(v, np.ndarray) else v
-        if isinstance(v, np.ndarray) and v.size != 1:
-            nums = None
-            break
-        v = _scalar(v) if isinstance(v, np.ndarray) else v
-        if type(v).__name__ == "XlError":
-            return v
-        if v is not None and (isinstance(v, str) or not isinstance(v, (int, float, np.number))):
-            if isinstance(v, str):
-                try:
-                    v = float(v)
-                except ValueError:
-                    return Error.errors["#VALUE!"]
-            elif v is not sh_empty():
-                return Error.errors["#VALUE!"]
-            else:
-                v = 0
-        nums.append(None if v is None else int(float(v)))
-    if nums is None:  # row or column numbers as arrays: the library's INDEX, on values
-        parts = []
-        for rng in array.ranges:
-            sheet = eng._sheet_of_id(rng.get("sheet_id") or "", _CURRENT.sheet)
-            box = (int(rng["r1"]), int(rng["n1"]), int(rng["r2"]), int(rng["n2"]))
-            parts.append(eng._ranges(sheet, *box))
+    if any(isinstance(v, np.ndarray) and v.size != 1 for v in given):
+        # row or column numbers as arrays: the library's INDEX, on values
+        parts = [eng._ranges(*_box(eng, rng)) for rng in array.ranges]
         ref = parts[0]
         for p in parts[1:]:
             ref = Ranges(ref.ranges + p.ranges, {**ref.values, **p.values})
         return _LIBRARY["INDEX"](ref, *given)
+    nums = [_whole_number(v) for v in (row_num, col_num, area_num)]
+    for v in nums:
+        if v is not None and not isinstance(v, int):
+            return v  # an error value
     row, col, area = nums
     area = 1 if area is None else area
     if area < 1 or area > len(array.ranges):
         return Error.errors["#REF!"]
     rng = array.ranges[area - 1]
-    sheet = eng._sheet_of_id(rng.get("sheet_id") or "", _CURRENT.sheet)
-    r1, c1, r2, c2 = int(rng["r1"]), int(rng["n1"]), int(rng["r2"]), int(rng["n2"])
+    sheet, r1, c1, r2, c2 = _box(eng, rng)
     if row is None:
         row = 0
     if r1 == r2 and col is None and len(array.ranges) == 1:
@@ -447,7 +448,7 @@ def _index(array, row_num=None, col_num=None, area_num=None):
     if row < 0 or col < 0:
         return Error.errors["#VALUE!"]
     if (col == 0 and c1 != c2 and row == 0) or row > r2 - r1 + 1 or col > c2 - c1 + 1:
-        return Error.errors["#REF!"] if row or col else _whole_ref(eng, sheet, rng)
+        return Error.errors["#REF!"] if row or col else _whole_ref(eng, rng)
     if col == 0 and c1 != c2 and row:
         return _returned(eng._ranges(sheet, r1 + row - 1, c1, r1 + row - 1, c2, demand=True))
     rr = (r1, r2) if row == 0 else (r1 + row - 1,) * 2
@@ -455,9 +456,8 @@ def _index(array, row_num=None, col_num=None, area_num=None):
     return _returned(eng._ranges(sheet, rr[0], cc[0], rr[1], cc[1], demand=True))
 
 
-def _whole_ref(eng, sheet, rng):
-    box = (int(rng["r1"]), int(rng["n1"]), int(rng["r2"]), int(rng["n2"]))
-    return _returned(eng._ranges(sheet, *box, demand=True))
+def _whole_ref(eng, rng):
+    return _returned(eng._ranges(*_box(eng, rng), demand=True))
 
 
 def sh_empty():
@@ -491,11 +491,7 @@ def _range_op(x, y):
     eng = getattr(_CURRENT, "engine", None)
     if eng is None or not box.ranges:
         return x + y
-    rng = box.ranges[0]
-    sheet = eng._sheet_of_id(rng.get("sheet_id") or "", _CURRENT.sheet)
-    return eng._ranges(
-        sheet, int(rng["r1"]), int(rng["n1"]), int(rng["r2"]), int(rng["n2"]), demand=True
-    )
+    return eng._ranges(*_box(eng, box.ranges[0]), demand=True)
 
 
 def _indirect(ref_text, a1=True):
