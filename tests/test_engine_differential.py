@@ -103,7 +103,10 @@ def expression(draw, depth=0, whole=True) -> str:
         )
         return f"{draw(sub)}{op}{draw(sub)}"
     if form == "neg":
-        return f"-{draw(sub)}"
+        # a run of signs (--x) is left out: the library as-is folds it by parity, so --"abc"
+        # gives "abc" where Excel gives #VALUE! (tests/test_engine_semantics.py checks it)
+        inner = draw(sub)
+        return f"-({inner})" if inner.startswith("-") else f"-{inner}"
     if form == "agg":
         fn = draw(st.sampled_from(["SUM", "MAX", "MIN", "COUNT", "COUNTA", "AVERAGE"]))
         args = draw(st.lists(st.one_of(area(whole), sub), min_size=1, max_size=3))

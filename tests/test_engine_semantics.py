@@ -492,7 +492,7 @@ def test_subtotal_leaves_out_nested_subtotals_and_hidden_rows(tmp_path):
 
 
 def test_double_minus_turns_booleans_and_text_into_numbers(tmp_path):
-    cells = {"S!A1": True, "S!A2": "3", "S!A3": False, "S!A4": True}
+    cells = {"S!A1": True, "S!A2": "3", "S!A3": False, "S!A4": True, "S!A5": "abc"}
     cells |= {
         "S!B1": "=--A1",
         "S!B2": "=--A2+1",
@@ -502,10 +502,15 @@ def test_double_minus_turns_booleans_and_text_into_numbers(tmp_path):
         "S!B6": "=--2^2",  # negation binds tighter than ^ in spreadsheet formulas
         "S!B7": "=-2^2",
         "S!B8": "=+A1",  # unary plus leaves a value as it is
+        "S!B9": "=--A5",  # text that is not a number: #VALUE! (the library as-is gives "abc")
+        "S!B10": "=--'S'!A5&\"x\"",
     }
     v = _values(tmp_path, cells)
     assert [v[f"S!B{i}"] for i in range(1, 8)] == [1.0, 4.0, 2.0, 1.0, -1.0, 4.0, 4.0]
     assert v["S!B8"] is True
+    # Excel's rule (from memory; LibreOffice agrees, tests/test_libreoffice.py): each minus
+    # converts its operand to a number, so a run of signs is not folded away by parity
+    assert v["S!B9"] == ERROR("#VALUE!") and v["S!B10"] == ERROR("#VALUE!")
 
 
 def test_found_by_the_differential_tests(tmp_path):
