@@ -186,23 +186,55 @@ def test_external_references_are_reported_not_fetched(tmp_path):
     assert out[("Sheet", 3, 1)].problem.startswith("unsupported")
 
 
+def _encrypted() -> bytes:
+    # written by an independent implementation of [MS-OFFCRYPTO] (msoffcrypto-tool)
+    import io
+
+    import openpyxl
+    from msoffcrypto.format.ooxml import OOXMLFile
+
+    wb = openpyxl.Workbook()
+    wb.active["A1"] = 1.0
+    plain, out = io.BytesIO(), io.BytesIO()
+    wb.save(plain)
+    plain.seek(0)
+    OOXMLFile(plain).encrypt("a password", out)
+    return out.getvalue()
+
+
+def _legacy_xls() -> bytes:
+    # written by an independent writer of the BIFF8 .xls format (xlwt)
+    import io
+
+    import xlwt
+
+    wb = xlwt.Workbook()
+    wb.add_sheet("S").write(0, 0, 1.0)
+    out = io.BytesIO()
+    wb.save(out)
+    return out.getvalue()
+
+
 @pytest.mark.parametrize(
     "content, words",
     [
-        (
-            b"\xd0\xcf\x11\xe0\xa1\xb1\x1a\xe1" + b"\x00" * 600,
-            "encrypted",
-        ),  # OLE: .xls or password-protected
-        (b"a,b\n1,2\n", "not a zip package"),
-        (b"PK\x03\x04garbage", "not a zip package"),
+        (_encrypted, "password-protected"),
+        (_legacy_xls, "legacy binary .xls"),
+        (b"\xd0\xcf\x11\xe0\xa1\xb1\x1a\xe1" + b"\x00" * 600, "OLE compound file"),
+        (b"a,b\n1,2\n", "looks like CSV"),
+        (b"PK\x03\x04garbage", "damaged zip package"),
+        (b"", "empty file"),
+        (b"just words", "not a zip package"),
     ],
 )
-def test_not_a_workbook(tmp_path, content, words):
+def test_not_a_workbook(tmp_path, content, words, capsys):
     p = tmp_path / "x.xlsx"
-    p.write_bytes(content)
+    p.write_bytes(content() if callable(content) else content)
     with pytest.raises(BadInput, match=words):
         read_book(p)
     assert main(["check", str(p)]) == 2
+    err = capsys.readouterr().err
+    assert "x.xlsx" in err and words in err and "Traceback" not in err
 
 
 def test_corrupted_part(tmp_path):

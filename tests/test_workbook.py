@@ -183,7 +183,7 @@ def test_unusable_input(tmp_path, capsys):
     csv = tmp_path / "data.xlsx"
     csv.write_text("a,b\n1,2\n")
     assert main(["check", str(csv)]) == 2
-    assert "not a zip package" in capsys.readouterr().err
+    assert "looks like CSV" in capsys.readouterr().err
     with pytest.raises(BadInput, match="limit"):
         read_book(_make(tmp_path / "b.xlsx"), Limits(max_cells=5))
 
@@ -263,10 +263,11 @@ def test_an_internal_failure_exits_3_with_its_message(recalculated, monkeypatch,
     assert "internal error (RuntimeError): simulated defect" in err and "Traceback" not in err
 
 
-def test_check_a_folder_of_mixed_workbooks_in_two_processes(recalculated, tmp_path, capsys):
-    import json
+def _mixed_folder(recalculated: Path, tmp_path: Path) -> Path:
+    """calcs/: fresh, stale and error-holding workbooks beside unreadable ones."""
     import shutil
 
+    from test_hardening import _encrypted, _legacy_xls
     from wbtools import build, with_saved
 
     calcs = tmp_path / "calcs"
@@ -284,7 +285,27 @@ def test_check_a_folder_of_mixed_workbooks_in_two_processes(recalculated, tmp_pa
     shutil.copy(recalculated, calcs / "errors.xlsx")  # holds an out-of-range joulebook cell
     (calcs / "corrupt.xlsx").write_bytes(b"PK\x03\x04 not really a zip")
     (calcs / "table.xlsx").write_text("a,b\n1,2\n")  # a CSV renamed
+    (calcs / "locked.xlsx").write_bytes(_encrypted())  # password-protected
+    (calcs / "sub" / "old.xls").write_bytes(_legacy_xls())
     shutil.copy(fresh, calcs / "~$fresh.xlsx")  # Excel's lock file: skipped
+    return calcs
+
+
+_MIXED_EXITS = {
+    "fresh.xlsx": 0,
+    "stale.xlsx": 1,
+    "errors.xlsx": 1,
+    "corrupt.xlsx": 2,
+    "table.xlsx": 2,
+    "locked.xlsx": 2,
+    "old.xls": 2,
+}
+
+
+def test_check_a_folder_of_mixed_workbooks_in_two_processes(recalculated, tmp_path, capsys):
+    import json
+
+    calcs = _mixed_folder(recalculated, tmp_path)
     out = tmp_path / "reports"
     code = main(
         [
@@ -304,30 +325,62 @@ def test_check_a_folder_of_mixed_workbooks_in_two_processes(recalculated, tmp_pa
     )
     assert code == 2  # an input could not be read; the others were still checked
     text = capsys.readouterr()
-    assert "corrupt.xlsx" in text.err and "table.xlsx" in text.err
-    assert "5 workbooks: 1 hold, 2 fail, 2 could not be checked" in text.out
+    assert "corrupt.xlsx: a damaged zip package" in text.err
+    assert "table.xlsx: text (it looks like CSV)" in text.err
+    assert "locked.xlsx: password-protected" in text.err
+    assert "old.xls: a legacy binary .xls workbook" in text.err
+    assert "7 workbooks: 1 hold, 2 fail, 4 could not be checked" in text.out
+    assert "workbooks/s" not in text.err  # no progress bar when stderr is not a terminal
     data = json.loads((out / "all.json").read_text())
     exits = {Path(w["workbook"]).name: w["exit"] for w in data["workbooks"]}
-    assert exits == {
-        "fresh.xlsx": 0,
-        "stale.xlsx": 1,
-        "errors.xlsx": 1,
-        "corrupt.xlsx": 2,
-        "table.xlsx": 2,
-    }
+    assert exits == _MIXED_EXITS
     xml = (out / "all.xml").read_text()
-    assert xml.count("<testsuite ") == 5 and "<testsuites>" in xml
+    assert xml.count("<testsuite ") == 7 and "<testsuites>" in xml
     assert "| stale.xlsx | fails |" in (out / "summary.md").read_text()
     # SARIF 2.1.0 (OASIS): one result per failing cell or unreadable workbook
     sarif = json.loads((out / "check.sarif").read_text())
     run = sarif["runs"][0]
-    assert sarif["version"] == "2.1.0" and len(run["artifacts"]) == 5
+    assert sarif["version"] == "2.1.0" and len(run["artifacts"]) == 7
     texts = [r["locations"][0]["physicalLocation"].get("region", {}) for r in run["results"]]
     assert {"text": "S!B1"} in [t.get("message") for t in texts]  # the stale cell
-    assert sorted(r["ruleId"] for r in run["results"]).count("unreadable") == 2
+    assert sorted(r["ruleId"] for r in run["results"]).count("unreadable") == 4
     rules = [d["id"] for d in run["tool"]["driver"]["rules"]]
     assert all(rules[r["ruleIndex"]] == r["ruleId"] for r in run["results"])
     # the same verdicts in one process, and for the two good ones alone
     assert main(["check", str(calcs / "fresh.xlsx"), str(calcs / "sub" / "*.xlsx"), "-j", "1"]) == 1
     assert main(["check", str(calcs / "fresh.xlsx")]) == 0
     assert main(["check", str(tmp_path / "nothing-*.xlsx")]) == 2
+
+
+def test_check_on_a_dask_cluster_gives_the_local_verdicts(
+    recalculated, tmp_path, capsys, monkeypatch
+):
+    import json
+
+    distributed = pytest.importorskip("distributed")  # in the test extras: never skipped in CI
+    calcs = _mixed_folder(recalculated, tmp_path)
+    local, remote = tmp_path / "local", tmp_path / "remote"
+    args = ["check", str(calcs), "--rtol", "1e-9"]
+    reports = ("--json", "all.json", "--junit", "all.xml", "--sarif", "c.sarif", "--summary", "s.md")
+
+    def outputs(folder):
+        return [a if a.startswith("--") else str(folder / a) for a in reports]
+
+    assert main([*args, "-j", "2", *outputs(local)]) == 2
+    with distributed.LocalCluster(
+        n_workers=2, threads_per_worker=1, processes=True, dashboard_address=None
+    ) as cluster:
+        assert main([*args, "--cluster", cluster.scheduler_address, *outputs(remote)]) == 2
+    capsys.readouterr()
+    for name in ("all.json", "all.xml", "c.sarif", "s.md"):
+        assert (local / name).read_text() == (remote / name).read_text(), name
+    exits = {
+        Path(w["workbook"]).name: w["exit"]
+        for w in json.loads((remote / "all.json").read_text())["workbooks"]
+    }
+    assert exits == _MIXED_EXITS
+    # no cluster there: a usage error that names the address, never a traceback
+    monkeypatch.setattr("joulebook.cli._CLUSTER_CONNECT", "2s")
+    assert main(["check", str(calcs / "fresh.xlsx"), "--cluster", "tcp://127.0.0.1:9"]) == 2
+    err = capsys.readouterr().err
+    assert "tcp://127.0.0.1:9" in err and "Traceback" not in err

@@ -72,14 +72,36 @@ def _sheet(ns: argparse.Namespace) -> int:
     return 0
 
 
-def _progress(done: int, total: int) -> None:
-    if total >= 2000 and sys.stderr.isatty():
-        width = 30
-        filled = int(width * done / total)
-        sys.stderr.write(f"\r[{'#' * filled}{'.' * (width - filled)}] {done}/{total} cells")
-        if done == total:
-            sys.stderr.write("\n")
-        sys.stderr.flush()
+class _Bar:
+    """A progress bar (tqdm) on a terminal's stderr; silent when stderr is not a terminal or
+    with ``-q``, so CI logs and redirected output never carry it."""
+
+    def __init__(self, total: int, unit: str, quiet: bool = False, least: int = 1):
+        self._bar = None
+        self._total, self._unit = total, unit
+        self._on = not quiet and total >= least and sys.stderr.isatty()
+
+    def __call__(self, done: int, total: int | None = None) -> None:
+        """Engine callback form: *done* of *total* so far."""
+        if not self._on:
+            return
+        if self._bar is None:
+            from tqdm import tqdm
+
+            self._bar = tqdm(total=total or self._total, unit=self._unit, file=sys.stderr)
+        self._bar.update(done - self._bar.n)
+
+    def step(self) -> None:
+        self(self._bar.n + 1 if self._bar is not None else 1)
+
+    def close(self) -> None:
+        if self._bar is not None:
+            self._bar.close()
+
+
+def _progress(quiet: bool = False) -> _Bar:
+    """The cell progress of one large workbook (shown from 2,000 formula cells)."""
+    return _Bar(0, "cells", quiet, least=0)
 
 
 def _load(path: str):
@@ -95,7 +117,19 @@ def _load(path: str):
         )
         print(msg, file=sys.stderr)
         return None, None
-    return book, Engine(book, progress=_progress).run()
+    bar = _progress()
+    try:
+        return book, Engine(book, progress=_cells_only(bar)).run()
+    finally:
+        bar.close()
+
+
+def _cells_only(bar: _Bar):
+    def report(done: int, total: int) -> None:
+        if total >= 2000:
+            bar(done, total)
+
+    return report
 
 
 def _recalc(ns: argparse.Namespace) -> int:
@@ -195,14 +229,16 @@ def _check(ns: argparse.Namespace) -> int:
     if not paths:
         return 2
     jobs = [(str(p), ns.rtol, ns.atol, ns.allow_errors, ns.allow_unsupported) for p in paths]
-    workers = max(1, min(ns.jobs or os.cpu_count() or 1, len(jobs)))
-    if workers > 1:
-        from concurrent.futures import ProcessPoolExecutor
-
-        with ProcessPoolExecutor(max_workers=workers) as pool:
-            results = list(pool.map(check_one, jobs))
-    else:
-        results = [check_one(j) for j in jobs]
+    bar = _Bar(len(jobs), "workbooks", ns.quiet, least=2)
+    try:
+        if ns.cluster:
+            results = _on_cluster(ns.cluster, jobs, bar)
+            if results is None:
+                return 2
+        else:
+            results = _on_this_machine(jobs, ns.jobs, bar)
+    finally:
+        bar.close()
     many = len(results) > 1
     code = 2 if unmatched else 0
     for res in results:
@@ -250,6 +286,94 @@ def _check(ns: argparse.Namespace) -> int:
     return code
 
 
+def _on_this_machine(jobs: list, n: int, bar: _Bar) -> list[dict]:
+    """Check each workbook in one of *n* processes (0: one per core); results in job order."""
+    workers = max(1, min(n or os.cpu_count() or 1, len(jobs)))
+    if workers == 1:
+        out = []
+        for j in jobs:
+            out.append(check_one(j))
+            bar.step()
+        return out
+    import multiprocessing
+    from concurrent.futures import ProcessPoolExecutor, as_completed
+
+    context = None
+    if "fork" in multiprocessing.get_all_start_methods() and sys.platform != "darwin":
+        # the engine's imports are done once here and shared with forked workers (each
+        # would otherwise pay them again); where fork is not offered, workers import anew
+        from .workbook.engine import warm_up
+
+        warm_up()
+        context = multiprocessing.get_context("fork")
+    results: list = [None] * len(jobs)
+    with ProcessPoolExecutor(max_workers=workers, mp_context=context) as pool:
+        futures = {pool.submit(check_one, j): i for i, j in enumerate(jobs)}
+        for fut in as_completed(futures):
+            results[futures[fut]] = fut.result()
+            bar.step()
+    return results
+
+
+def _on_cluster(address: str, jobs: list, bar: _Bar) -> list[dict] | None:
+    """Check each workbook on a Dask distributed cluster at *address*.
+
+    The workbook's bytes travel with its job, so the workers need joulebook (the same
+    version) but not the files; each result is the one :func:`check_one` gives here."""
+    try:
+        from distributed import Client, as_completed
+    except ImportError:
+        print(
+            "--cluster needs Dask distributed: pip install 'joulebook[cluster]'", file=sys.stderr
+        )
+        return None
+    try:
+        client = Client(address, timeout=_CLUSTER_CONNECT)
+    except (OSError, TimeoutError, ValueError) as e:
+        print(f"--cluster {address}: cannot connect ({type(e).__name__}: {e})", file=sys.stderr)
+        return None
+    results: list = [None] * len(jobs)
+    with client:
+        futures = {}
+        for i, job in enumerate(jobs):
+            try:
+                data = Path(job[0]).read_bytes()
+            except OSError as e:
+                results[i] = _unreadable(job[0], f"cannot read: {e.strerror}")
+                bar.step()
+                continue
+            futures[client.submit(check_bytes, job, data, pure=False)] = i
+        for fut in as_completed(list(futures)):
+            results[futures[fut]] = fut.result()
+            bar.step()
+    return results
+
+
+_CLUSTER_CONNECT = "15s"  # how long to keep trying to reach the scheduler
+
+
+def _unreadable(path: str, why: str, code: int = 2) -> dict:
+    return {"path": path, "code": code, "message": why, "failing": [], "summary": {}}
+
+
+def check_bytes(job, data: bytes) -> dict:
+    """:func:`check_one` for a workbook sent as bytes (a cluster worker has no copy of the
+    file): written to a private temporary folder under its own name, checked, removed; the
+    verdict names the original path."""
+    import tempfile
+
+    path = job[0]
+    with tempfile.TemporaryDirectory(prefix="joulebook-") as tmp:
+        local = Path(tmp) / Path(path).name
+        local.write_bytes(data)
+        return check_one((str(local), *job[1:]), shown_as=path)
+
+
+_WORKBOOK_SUFFIXES = (".xlsx", ".xlsm")
+# found in folders too, so that a legacy or binary file is reported rather than passed over
+_REPORTED_SUFFIXES = (".xls", ".xlsb")
+
+
 def _workbook_paths(specs: list[str]):
     """Files, folders (searched recursively for .xlsx/.xlsm, lock files ``~$…`` skipped) and
     glob patterns (expanded here, so they work unquoted or quoted) → workbook paths."""
@@ -262,7 +386,8 @@ def _workbook_paths(specs: list[str]):
             found = sorted(
                 q
                 for q in p.rglob("*")
-                if q.suffix.lower() in (".xlsx", ".xlsm") and not q.name.startswith("~$")
+                if q.suffix.lower() in _WORKBOOK_SUFFIXES + _REPORTED_SUFFIXES
+                and not q.name.startswith("~$")
             )
         elif any(ch in spec for ch in "*?["):
             found = sorted(Path(q) for q in glob.glob(spec, recursive=True) if Path(q).is_file())
@@ -274,17 +399,21 @@ def _workbook_paths(specs: list[str]):
     return out, unmatched
 
 
-def check_one(job) -> dict:
-    """Check one workbook (in this process or a worker): its verdict as plain data."""
+def check_one(job, shown_as: str | None = None) -> dict:
+    """Check one workbook (in this process or a worker): its verdict as plain data.
+
+    *shown_as* is the path the verdict names when the file checked is a copy."""
     from .errors import JoulebookError
     from .workbook.check import compare, failing, summary, to_json, to_junit
     from .workbook.engine import Engine
     from .workbook.reader import read_book
 
     path, rtol, atol, allow_errors, allow_unsupported = job
-    res = {"path": path, "code": 0, "message": "", "failing": [], "summary": {}}
+    res = {"path": shown_as or path, "code": 0, "message": "", "failing": [], "summary": {}}
     try:
         book = read_book(path)
+        if shown_as:
+            book.path = Path(shown_as)
         rows = compare(book, Engine(book).run(), rtol=rtol, atol=atol)
     except (JoulebookError, OSError) as e:
         why = e.cell_text() if isinstance(e, JoulebookError) else f"cannot read: {e.strerror}"
@@ -459,7 +588,11 @@ def _audit(ns: argparse.Namespace) -> int:
             file=sys.stderr,
         )
         return 2
-    report = build_audit(book, progress=_progress)
+    bar = _progress()
+    try:
+        report = build_audit(book, progress=_cells_only(bar))
+    finally:
+        bar.close()
     text = render_html(report).encode("utf-8")
     atomic_write(out, lambda fh: fh.write(text))
     if ns.xlsx:
@@ -575,6 +708,15 @@ def build_parser() -> argparse.ArgumentParser:
     )
     c.add_argument(
         "--max-rows", type=int, default=50, help="rows of the table printed (default 50)"
+    )
+    c.add_argument(
+        "--cluster",
+        metavar="ADDRESS",
+        help="check on an existing Dask distributed cluster (e.g. tcp://10.0.0.5:8786); "
+        "needs joulebook[cluster] here and on the workers",
+    )
+    c.add_argument(
+        "-q", "--quiet", action="store_true", help="no progress bar (it is shown only on a terminal)"
     )
     c.set_defaults(run=_check)
 

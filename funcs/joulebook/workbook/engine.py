@@ -204,6 +204,14 @@ def _register_ours() -> None:
         _REGISTERED = True
 
 
+def warm_up() -> None:
+    """Do the engine's one-off imports and registrations now (before forking workers that
+    then share them): the formula library and its function table, and the property library."""
+    _register_ours()
+    import formulas.functions.stat  # noqa: F401  (what most workbooks reach for)
+    import CoolProp.CoolProp  # noqa: F401
+
+
 def _to_cell_value(x):
     """A value as our cell path expects it: numbers, text, None for blank, '#N/A' for errors."""
     import schedula as sh

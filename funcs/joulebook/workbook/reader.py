@@ -194,6 +194,34 @@ def _text_of(elem) -> str:
     return unescape_text("".join(parts))
 
 
+_CFB = b"\xd0\xcf\x11\xe0\xa1\xb1\x1a\xe1"  # an OLE compound file ([MS-CFB] 2.2)
+
+
+def _not_a_package(data: bytes) -> str:
+    """Why *data* is not an .xlsx/.xlsm package, in words a user can act on.
+
+    An encrypted workbook is a compound file holding the streams ``EncryptionInfo`` and
+    ``EncryptedPackage`` ([MS-OFFCRYPTO] 2.3.4); a legacy .xls holds ``Workbook`` (or ``Book``)
+    ([MS-XLS] 2.1.2).  Directory entry names are UTF-16LE ([MS-CFB] 2.6.1)."""
+    if data.startswith(_CFB):
+        if "EncryptedPackage".encode("utf-16-le") in data:
+            return (
+                "password-protected (encrypted): save an unprotected copy to check it, or "
+                "check it where the password may be used"
+            )
+        if "Workbook".encode("utf-16-le") in data or "Book".encode("utf-16-le") in data:
+            return "a legacy binary .xls workbook: save it as .xlsx or .xlsm to check it"
+        return "an OLE compound file, not an .xlsx/.xlsm package"
+    if data[:4] == b"PK\x03\x04":
+        return "a damaged zip package (truncated or corrupt): joulebook reads .xlsx/.xlsm"
+    if not data:
+        return "an empty file, not an .xlsx/.xlsm package"
+    head = data[:512]
+    if b"\x00" not in head and (b"," in head or b";" in head or b"\t" in head):
+        return "text (it looks like CSV), not an .xlsx/.xlsm package: open it and save as .xlsx"
+    return "not a zip package; joulebook reads .xlsx/.xlsm workbooks"
+
+
 def read_book(path: str | Path, limits: Limits | None = None) -> Book:
     """Read a saved workbook: formulas, shared and array formulas, names, cached values.
 
@@ -210,13 +238,7 @@ def read_book(path: str | Path, limits: Limits | None = None) -> Book:
     try:
         zf = zipfile.ZipFile(path)
     except zipfile.BadZipFile:
-        head = data[:8]
-        what = (
-            "an encrypted (password-protected) or legacy .xls file"
-            if head.startswith(b"\xd0\xcf\x11\xe0")
-            else "not a zip package"
-        )
-        raise BadInput(f"{path.name}: {what}; joulebook reads .xlsx/.xlsm workbooks") from None
+        raise BadInput(f"{path.name}: {_not_a_package(data)}") from None
     with zf:
         _check_package(zf, limits)
         wb = _parse(zf, "xl/workbook.xml")
