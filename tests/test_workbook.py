@@ -361,7 +361,16 @@ def test_check_on_a_dask_cluster_gives_the_local_verdicts(
     calcs = _mixed_folder(recalculated, tmp_path)
     local, remote = tmp_path / "local", tmp_path / "remote"
     args = ["check", str(calcs), "--rtol", "1e-9"]
-    reports = ("--json", "all.json", "--junit", "all.xml", "--sarif", "c.sarif", "--summary", "s.md")
+    reports = (
+        "--json",
+        "all.json",
+        "--junit",
+        "all.xml",
+        "--sarif",
+        "c.sarif",
+        "--summary",
+        "s.md",
+    )
 
     def outputs(folder):
         return [a if a.startswith("--") else str(folder / a) for a in reports]

@@ -323,9 +323,7 @@ def _on_cluster(address: str, jobs: list, bar: _Bar) -> list[dict] | None:
     try:
         from distributed import Client, as_completed
     except ImportError:
-        print(
-            "--cluster needs Dask distributed: pip install 'joulebook[cluster]'", file=sys.stderr
-        )
+        print("--cluster needs Dask distributed: pip install 'joulebook[cluster]'", file=sys.stderr)
         return None
     try:
         client = Client(address, timeout=_CLUSTER_CONNECT)
@@ -716,7 +714,10 @@ def build_parser() -> argparse.ArgumentParser:
         "needs joulebook[cluster] here and on the workers",
     )
     c.add_argument(
-        "-q", "--quiet", action="store_true", help="no progress bar (it is shown only on a terminal)"
+        "-q",
+        "--quiet",
+        action="store_true",
+        help="no progress bar (it is shown only on a terminal)",
     )
     c.set_defaults(run=_check)
 

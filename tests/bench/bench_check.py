@@ -34,7 +34,10 @@ def build(folder: Path, books: int, rows: int = 10) -> list[Path]:
         ws.title = "Calc"
         ws["A1"], ws["B1"] = "fill temperature, degC", 15.0 + i % 40
         ws["A2"], ws["B2"] = "fill pressure, kPa", 101.325 + 10 * (i % 7)
-        ws["A3"], ws["B3"] = "h, kJ/kg", '=JB_PROP("water","h in kJ/kg","T in degC",B1,"P in kPa",B2)'
+        ws["A3"], ws["B3"] = (
+            "h, kJ/kg",
+            '=JB_PROP("water","h in kJ/kg","T in degC",B1,"P in kPa",B2)',
+        )
         ws["A4"], ws["B4"] = "W, kJ", "=JB_WORK_POLYTROPIC_N(B2,0.1,0.05,1.3)"
         ws["A5"], ws["B5"] = "check", "=IF(B3>0,ROUND(B3+B4,3),0)"
         for r in range(6, 6 + rows):  # a table: built-ins and a property lookup per row

@@ -208,8 +208,8 @@ def warm_up() -> None:
     """Do the engine's one-off imports and registrations now (before forking workers that
     then share them): the formula library and its function table, and the property library."""
     _register_ours()
-    import formulas.functions.stat  # noqa: F401  (what most workbooks reach for)
     import CoolProp.CoolProp  # noqa: F401
+    import formulas.functions.stat  # noqa: F401  (what most workbooks reach for)
 
 
 def _to_cell_value(x):
