@@ -4,10 +4,10 @@ Attribute VB_Name = "xlwings_udfs"
 Function JB_ABOUT(Optional topic)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_ABOUT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_ABOUT", Array(topic), ThisWorkbook, Application.Caller)
+        JB_ABOUT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_ABOUT", Array(topic, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_ABOUT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_ABOUT", Array(topic))
+        JB_ABOUT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_ABOUT", Array(topic, Nothing))
         Exit Function
     #End If
 failed:
@@ -17,10 +17,10 @@ End Function
 Function JB_BALANCE_DELTA_KE(m, vel_1, vel_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_BALANCE_DELTA_KE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_DELTA_KE", Array(m, vel_1, vel_2, units), ThisWorkbook, Application.Caller)
+        JB_BALANCE_DELTA_KE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_DELTA_KE", Array(m, vel_1, vel_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_BALANCE_DELTA_KE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_DELTA_KE", Array(m, vel_1, vel_2, units))
+        JB_BALANCE_DELTA_KE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_DELTA_KE", Array(m, vel_1, vel_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -30,10 +30,10 @@ End Function
 Function JB_BALANCE_DELTA_PE(m, z_1, z_2, Optional g, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_BALANCE_DELTA_PE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_DELTA_PE", Array(m, z_1, z_2, g, units), ThisWorkbook, Application.Caller)
+        JB_BALANCE_DELTA_PE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_DELTA_PE", Array(m, z_1, z_2, g, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_BALANCE_DELTA_PE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_DELTA_PE", Array(m, z_1, z_2, g, units))
+        JB_BALANCE_DELTA_PE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_DELTA_PE", Array(m, z_1, z_2, g, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -43,10 +43,10 @@ End Function
 Function JB_BALANCE_GAP(Q, W_b, dU, Optional W_other, Optional dKE, Optional dPE, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_BALANCE_GAP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_GAP", Array(Q, W_b, dU, W_other, dKE, dPE, units), ThisWorkbook, Application.Caller)
+        JB_BALANCE_GAP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_GAP", Array(Q, W_b, dU, W_other, dKE, dPE, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_BALANCE_GAP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_GAP", Array(Q, W_b, dU, W_other, dKE, dPE, units))
+        JB_BALANCE_GAP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_GAP", Array(Q, W_b, dU, W_other, dKE, dPE, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -56,10 +56,10 @@ End Function
 Function JB_BALANCE_HEAT(dU, W_b, Optional W_other, Optional dKE, Optional dPE, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_BALANCE_HEAT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_HEAT", Array(dU, W_b, W_other, dKE, dPE, units), ThisWorkbook, Application.Caller)
+        JB_BALANCE_HEAT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_HEAT", Array(dU, W_b, W_other, dKE, dPE, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_BALANCE_HEAT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_HEAT", Array(dU, W_b, W_other, dKE, dPE, units))
+        JB_BALANCE_HEAT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_HEAT", Array(dU, W_b, W_other, dKE, dPE, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -69,10 +69,10 @@ End Function
 Function JB_CONVERT(value, from_unit, to_unit)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_CONVERT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CONVERT", Array(value, from_unit, to_unit), ThisWorkbook, Application.Caller)
+        JB_CONVERT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CONVERT", Array(value, from_unit, to_unit, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_CONVERT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CONVERT", Array(value, from_unit, to_unit))
+        JB_CONVERT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CONVERT", Array(value, from_unit, to_unit, Nothing))
         Exit Function
     #End If
 failed:
@@ -82,10 +82,10 @@ End Function
 Function JB_CYCLE_EFFICIENCY(Q_values, W_values, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_CYCLE_EFFICIENCY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CYCLE_EFFICIENCY", Array(Q_values, W_values, units), ThisWorkbook, Application.Caller)
+        JB_CYCLE_EFFICIENCY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CYCLE_EFFICIENCY", Array(Q_values, W_values, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_CYCLE_EFFICIENCY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CYCLE_EFFICIENCY", Array(Q_values, W_values, units))
+        JB_CYCLE_EFFICIENCY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CYCLE_EFFICIENCY", Array(Q_values, W_values, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -95,10 +95,10 @@ End Function
 Function JB_CYCLE_GAP(Q_values, W_values, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_CYCLE_GAP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CYCLE_GAP", Array(Q_values, W_values, units), ThisWorkbook, Application.Caller)
+        JB_CYCLE_GAP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CYCLE_GAP", Array(Q_values, W_values, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_CYCLE_GAP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CYCLE_GAP", Array(Q_values, W_values, units))
+        JB_CYCLE_GAP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CYCLE_GAP", Array(Q_values, W_values, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -108,10 +108,10 @@ End Function
 Function JB_CYCLE_NET(values, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_CYCLE_NET = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CYCLE_NET", Array(values, units), ThisWorkbook, Application.Caller)
+        JB_CYCLE_NET = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CYCLE_NET", Array(values, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_CYCLE_NET = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CYCLE_NET", Array(values, units))
+        JB_CYCLE_NET = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CYCLE_NET", Array(values, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -121,10 +121,10 @@ End Function
 Function JB_GAS_CP(gas, T, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_GAS_CP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_CP", Array(gas, T, units), ThisWorkbook, Application.Caller)
+        JB_GAS_CP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_CP", Array(gas, T, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_GAS_CP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_CP", Array(gas, T, units))
+        JB_GAS_CP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_CP", Array(gas, T, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -134,10 +134,10 @@ End Function
 Function JB_GAS_CP_MEAN(gas, T_1, T_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_GAS_CP_MEAN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_CP_MEAN", Array(gas, T_1, T_2, units), ThisWorkbook, Application.Caller)
+        JB_GAS_CP_MEAN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_CP_MEAN", Array(gas, T_1, T_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_GAS_CP_MEAN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_CP_MEAN", Array(gas, T_1, T_2, units))
+        JB_GAS_CP_MEAN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_CP_MEAN", Array(gas, T_1, T_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -147,10 +147,10 @@ End Function
 Function JB_GAS_CV(gas, T, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_GAS_CV = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_CV", Array(gas, T, units), ThisWorkbook, Application.Caller)
+        JB_GAS_CV = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_CV", Array(gas, T, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_GAS_CV = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_CV", Array(gas, T, units))
+        JB_GAS_CV = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_CV", Array(gas, T, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -160,10 +160,10 @@ End Function
 Function JB_GAS_DELTA_H(gas, T_1, T_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_GAS_DELTA_H = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_DELTA_H", Array(gas, T_1, T_2, units), ThisWorkbook, Application.Caller)
+        JB_GAS_DELTA_H = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_DELTA_H", Array(gas, T_1, T_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_GAS_DELTA_H = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_DELTA_H", Array(gas, T_1, T_2, units))
+        JB_GAS_DELTA_H = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_DELTA_H", Array(gas, T_1, T_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -173,10 +173,10 @@ End Function
 Function JB_GAS_DELTA_S(gas, T_1, T_2, Optional P_1, Optional P_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_GAS_DELTA_S = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_DELTA_S", Array(gas, T_1, T_2, P_1, P_2, units), ThisWorkbook, Application.Caller)
+        JB_GAS_DELTA_S = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_DELTA_S", Array(gas, T_1, T_2, P_1, P_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_GAS_DELTA_S = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_DELTA_S", Array(gas, T_1, T_2, P_1, P_2, units))
+        JB_GAS_DELTA_S = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_DELTA_S", Array(gas, T_1, T_2, P_1, P_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -186,10 +186,10 @@ End Function
 Function JB_GAS_DELTA_U(gas, T_1, T_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_GAS_DELTA_U = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_DELTA_U", Array(gas, T_1, T_2, units), ThisWorkbook, Application.Caller)
+        JB_GAS_DELTA_U = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_DELTA_U", Array(gas, T_1, T_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_GAS_DELTA_U = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_DELTA_U", Array(gas, T_1, T_2, units))
+        JB_GAS_DELTA_U = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_DELTA_U", Array(gas, T_1, T_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -199,10 +199,10 @@ End Function
 Function JB_GAS_K(gas, T, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_GAS_K = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_K", Array(gas, T, units), ThisWorkbook, Application.Caller)
+        JB_GAS_K = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_K", Array(gas, T, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_GAS_K = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_K", Array(gas, T, units))
+        JB_GAS_K = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_K", Array(gas, T, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -212,10 +212,10 @@ End Function
 Function JB_GAS_MOLAR_MASS(gas, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_GAS_MOLAR_MASS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_MOLAR_MASS", Array(gas, units), ThisWorkbook, Application.Caller)
+        JB_GAS_MOLAR_MASS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_MOLAR_MASS", Array(gas, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_GAS_MOLAR_MASS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_MOLAR_MASS", Array(gas, units))
+        JB_GAS_MOLAR_MASS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_MOLAR_MASS", Array(gas, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -225,10 +225,10 @@ End Function
 Function JB_GAS_R(gas, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_GAS_R = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_R", Array(gas, units), ThisWorkbook, Application.Caller)
+        JB_GAS_R = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_R", Array(gas, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_GAS_R = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_R", Array(gas, units))
+        JB_GAS_R = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_R", Array(gas, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -238,10 +238,10 @@ End Function
 Function JB_HEAT_ISOBARIC_GAS(gas, m, T_1, T_2, Optional W_other, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_HEAT_ISOBARIC_GAS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_HEAT_ISOBARIC_GAS", Array(gas, m, T_1, T_2, W_other, units), ThisWorkbook, Application.Caller)
+        JB_HEAT_ISOBARIC_GAS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_HEAT_ISOBARIC_GAS", Array(gas, m, T_1, T_2, W_other, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_HEAT_ISOBARIC_GAS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_HEAT_ISOBARIC_GAS", Array(gas, m, T_1, T_2, W_other, units))
+        JB_HEAT_ISOBARIC_GAS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_HEAT_ISOBARIC_GAS", Array(gas, m, T_1, T_2, W_other, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -251,10 +251,10 @@ End Function
 Function JB_HEAT_RIGID_GAS(gas, m, T_1, T_2, Optional W_other, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_HEAT_RIGID_GAS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_HEAT_RIGID_GAS", Array(gas, m, T_1, T_2, W_other, units), ThisWorkbook, Application.Caller)
+        JB_HEAT_RIGID_GAS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_HEAT_RIGID_GAS", Array(gas, m, T_1, T_2, W_other, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_HEAT_RIGID_GAS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_HEAT_RIGID_GAS", Array(gas, m, T_1, T_2, W_other, units))
+        JB_HEAT_RIGID_GAS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_HEAT_RIGID_GAS", Array(gas, m, T_1, T_2, W_other, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -264,10 +264,10 @@ End Function
 Function JB_PHASE(substance, Optional spec1, Optional value1, Optional spec2, Optional value2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_PHASE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PHASE", Array(substance, spec1, value1, spec2, value2, units), ThisWorkbook, Application.Caller)
+        JB_PHASE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PHASE", Array(substance, spec1, value1, spec2, value2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_PHASE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PHASE", Array(substance, spec1, value1, spec2, value2, units))
+        JB_PHASE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PHASE", Array(substance, spec1, value1, spec2, value2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -277,10 +277,10 @@ End Function
 Function JB_POLY_EXPONENT(P_1, V_1, P_2, V_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_POLY_EXPONENT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_EXPONENT", Array(P_1, V_1, P_2, V_2, units), ThisWorkbook, Application.Caller)
+        JB_POLY_EXPONENT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_EXPONENT", Array(P_1, V_1, P_2, V_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_POLY_EXPONENT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_EXPONENT", Array(P_1, V_1, P_2, V_2, units))
+        JB_POLY_EXPONENT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_EXPONENT", Array(P_1, V_1, P_2, V_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -290,10 +290,10 @@ End Function
 Function JB_POLY_FIT(P_values, V_values, Optional show, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_POLY_FIT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_FIT", Array(P_values, V_values, show, units), ThisWorkbook, Application.Caller)
+        JB_POLY_FIT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_FIT", Array(P_values, V_values, show, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_POLY_FIT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_FIT", Array(P_values, V_values, show, units))
+        JB_POLY_FIT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_FIT", Array(P_values, V_values, show, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -303,10 +303,10 @@ End Function
 Function JB_POLY_P2(P_1, V_1, V_2, n, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_POLY_P2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_P2", Array(P_1, V_1, V_2, n, units), ThisWorkbook, Application.Caller)
+        JB_POLY_P2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_P2", Array(P_1, V_1, V_2, n, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_POLY_P2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_P2", Array(P_1, V_1, V_2, n, units))
+        JB_POLY_P2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_P2", Array(P_1, V_1, V_2, n, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -316,10 +316,10 @@ End Function
 Function JB_POLY_T2_FROM_P(T_1, P_1, P_2, n, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_POLY_T2_FROM_P = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_T2_FROM_P", Array(T_1, P_1, P_2, n, units), ThisWorkbook, Application.Caller)
+        JB_POLY_T2_FROM_P = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_T2_FROM_P", Array(T_1, P_1, P_2, n, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_POLY_T2_FROM_P = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_T2_FROM_P", Array(T_1, P_1, P_2, n, units))
+        JB_POLY_T2_FROM_P = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_T2_FROM_P", Array(T_1, P_1, P_2, n, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -329,10 +329,10 @@ End Function
 Function JB_POLY_T2_FROM_V(T_1, V_1, V_2, n, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_POLY_T2_FROM_V = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_T2_FROM_V", Array(T_1, V_1, V_2, n, units), ThisWorkbook, Application.Caller)
+        JB_POLY_T2_FROM_V = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_T2_FROM_V", Array(T_1, V_1, V_2, n, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_POLY_T2_FROM_V = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_T2_FROM_V", Array(T_1, V_1, V_2, n, units))
+        JB_POLY_T2_FROM_V = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_T2_FROM_V", Array(T_1, V_1, V_2, n, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -342,10 +342,10 @@ End Function
 Function JB_POLY_V2(P_1, V_1, P_2, n, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_POLY_V2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_V2", Array(P_1, V_1, P_2, n, units), ThisWorkbook, Application.Caller)
+        JB_POLY_V2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_V2", Array(P_1, V_1, P_2, n, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_POLY_V2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_V2", Array(P_1, V_1, P_2, n, units))
+        JB_POLY_V2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_V2", Array(P_1, V_1, P_2, n, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -356,10 +356,10 @@ Function JB_PROCESS(state1, path, end_spec, end_value, want, Optional mass, Opti
     If (Not Application.CommandBars("Standard").Controls(1).Enabled) Then Exit Function
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_PROCESS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROCESS", Array(state1, path, end_spec, end_value, want, mass, units), ThisWorkbook, Application.Caller)
+        JB_PROCESS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROCESS", Array(state1, path, end_spec, end_value, want, mass, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_PROCESS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROCESS", Array(state1, path, end_spec, end_value, want, mass, units))
+        JB_PROCESS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROCESS", Array(state1, path, end_spec, end_value, want, mass, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -370,10 +370,10 @@ Function JB_PROCESS_PATH(state1, path, end_spec, end_value, Optional points, Opt
     If (Not Application.CommandBars("Standard").Controls(1).Enabled) Then Exit Function
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_PROCESS_PATH = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROCESS_PATH", Array(state1, path, end_spec, end_value, points, mass, units), ThisWorkbook, Application.Caller)
+        JB_PROCESS_PATH = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROCESS_PATH", Array(state1, path, end_spec, end_value, points, mass, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_PROCESS_PATH = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROCESS_PATH", Array(state1, path, end_spec, end_value, points, mass, units))
+        JB_PROCESS_PATH = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROCESS_PATH", Array(state1, path, end_spec, end_value, points, mass, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -384,10 +384,10 @@ Function JB_PROCESS_TABLE(state1, path, end_spec, end_value, Optional mass, Opti
     If (Not Application.CommandBars("Standard").Controls(1).Enabled) Then Exit Function
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_PROCESS_TABLE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROCESS_TABLE", Array(state1, path, end_spec, end_value, mass, units), ThisWorkbook, Application.Caller)
+        JB_PROCESS_TABLE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROCESS_TABLE", Array(state1, path, end_spec, end_value, mass, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_PROCESS_TABLE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROCESS_TABLE", Array(state1, path, end_spec, end_value, mass, units))
+        JB_PROCESS_TABLE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROCESS_TABLE", Array(state1, path, end_spec, end_value, mass, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -397,10 +397,10 @@ End Function
 Function JB_PROP(substance, want, Optional spec1, Optional value1, Optional spec2, Optional value2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_PROP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROP", Array(substance, want, spec1, value1, spec2, value2, units), ThisWorkbook, Application.Caller)
+        JB_PROP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROP", Array(substance, want, spec1, value1, spec2, value2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_PROP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROP", Array(substance, want, spec1, value1, spec2, value2, units))
+        JB_PROP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROP", Array(substance, want, spec1, value1, spec2, value2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -410,10 +410,10 @@ End Function
 Function JB_PROP_SAT(substance, want, given, value, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_PROP_SAT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROP_SAT", Array(substance, want, given, value, units), ThisWorkbook, Application.Caller)
+        JB_PROP_SAT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROP_SAT", Array(substance, want, given, value, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_PROP_SAT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROP_SAT", Array(substance, want, given, value, units))
+        JB_PROP_SAT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROP_SAT", Array(substance, want, given, value, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -423,10 +423,10 @@ End Function
 Function JB_SOLID_C(material, T, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_SOLID_C = XLPy.CallUDF("joulebook.sheet.udfs", "JB_SOLID_C", Array(material, T, units), ThisWorkbook, Application.Caller)
+        JB_SOLID_C = XLPy.CallUDF("joulebook.sheet.udfs", "JB_SOLID_C", Array(material, T, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_SOLID_C = XLPy.CallUDF("joulebook.sheet.udfs", "JB_SOLID_C", Array(material, T, units))
+        JB_SOLID_C = XLPy.CallUDF("joulebook.sheet.udfs", "JB_SOLID_C", Array(material, T, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -436,10 +436,10 @@ End Function
 Function JB_SOLID_C_MEAN(material, T_1, T_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_SOLID_C_MEAN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_SOLID_C_MEAN", Array(material, T_1, T_2, units), ThisWorkbook, Application.Caller)
+        JB_SOLID_C_MEAN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_SOLID_C_MEAN", Array(material, T_1, T_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_SOLID_C_MEAN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_SOLID_C_MEAN", Array(material, T_1, T_2, units))
+        JB_SOLID_C_MEAN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_SOLID_C_MEAN", Array(material, T_1, T_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -449,10 +449,10 @@ End Function
 Function JB_SOLID_DELTA_U(material, T_1, T_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_SOLID_DELTA_U = XLPy.CallUDF("joulebook.sheet.udfs", "JB_SOLID_DELTA_U", Array(material, T_1, T_2, units), ThisWorkbook, Application.Caller)
+        JB_SOLID_DELTA_U = XLPy.CallUDF("joulebook.sheet.udfs", "JB_SOLID_DELTA_U", Array(material, T_1, T_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_SOLID_DELTA_U = XLPy.CallUDF("joulebook.sheet.udfs", "JB_SOLID_DELTA_U", Array(material, T_1, T_2, units))
+        JB_SOLID_DELTA_U = XLPy.CallUDF("joulebook.sheet.udfs", "JB_SOLID_DELTA_U", Array(material, T_1, T_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -462,10 +462,10 @@ End Function
 Function JB_SOLID_HEAT(material, m, T_1, T_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_SOLID_HEAT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_SOLID_HEAT", Array(material, m, T_1, T_2, units), ThisWorkbook, Application.Caller)
+        JB_SOLID_HEAT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_SOLID_HEAT", Array(material, m, T_1, T_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_SOLID_HEAT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_SOLID_HEAT", Array(material, m, T_1, T_2, units))
+        JB_SOLID_HEAT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_SOLID_HEAT", Array(material, m, T_1, T_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -475,10 +475,10 @@ End Function
 Function JB_STATE(substance, Optional spec1, Optional value1, Optional spec2, Optional value2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_STATE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STATE", Array(substance, spec1, value1, spec2, value2, units), ThisWorkbook, Application.Caller)
+        JB_STATE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STATE", Array(substance, spec1, value1, spec2, value2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_STATE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STATE", Array(substance, spec1, value1, spec2, value2, units))
+        JB_STATE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STATE", Array(substance, spec1, value1, spec2, value2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -489,10 +489,10 @@ Function JB_STORED_IDEAL_ISENTROPIC(P, V, k, Optional P_amb, Optional units)
     If (Not Application.CommandBars("Standard").Controls(1).Enabled) Then Exit Function
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_STORED_IDEAL_ISENTROPIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STORED_IDEAL_ISENTROPIC", Array(P, V, k, P_amb, units), ThisWorkbook, Application.Caller)
+        JB_STORED_IDEAL_ISENTROPIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STORED_IDEAL_ISENTROPIC", Array(P, V, k, P_amb, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_STORED_IDEAL_ISENTROPIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STORED_IDEAL_ISENTROPIC", Array(P, V, k, P_amb, units))
+        JB_STORED_IDEAL_ISENTROPIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STORED_IDEAL_ISENTROPIC", Array(P, V, k, P_amb, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -503,10 +503,10 @@ Function JB_STORED_ISENTROPIC(state, V, Optional P_amb, Optional units)
     If (Not Application.CommandBars("Standard").Controls(1).Enabled) Then Exit Function
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_STORED_ISENTROPIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STORED_ISENTROPIC", Array(state, V, P_amb, units), ThisWorkbook, Application.Caller)
+        JB_STORED_ISENTROPIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STORED_ISENTROPIC", Array(state, V, P_amb, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_STORED_ISENTROPIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STORED_ISENTROPIC", Array(state, V, P_amb, units))
+        JB_STORED_ISENTROPIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STORED_ISENTROPIC", Array(state, V, P_amb, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -517,23 +517,36 @@ Function JB_STORED_ISOCHORIC(P, V, k, Optional P_amb, Optional units)
     If (Not Application.CommandBars("Standard").Controls(1).Enabled) Then Exit Function
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_STORED_ISOCHORIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STORED_ISOCHORIC", Array(P, V, k, P_amb, units), ThisWorkbook, Application.Caller)
+        JB_STORED_ISOCHORIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STORED_ISOCHORIC", Array(P, V, k, P_amb, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_STORED_ISOCHORIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STORED_ISOCHORIC", Array(P, V, k, P_amb, units))
+        JB_STORED_ISOCHORIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STORED_ISOCHORIC", Array(P, V, k, P_amb, units, Nothing))
         Exit Function
     #End If
 failed:
     JB_STORED_ISOCHORIC = Err.Description
 End Function
 
+Function JB_WHY(cell)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_WHY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WHY", Array(cell, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_WHY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WHY", Array(cell, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_WHY = Err.Description
+End Function
+
 Function JB_WORK_ELECTRIC_IN(voltage, current, duration, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_WORK_ELECTRIC_IN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_ELECTRIC_IN", Array(voltage, current, duration, units), ThisWorkbook, Application.Caller)
+        JB_WORK_ELECTRIC_IN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_ELECTRIC_IN", Array(voltage, current, duration, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_WORK_ELECTRIC_IN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_ELECTRIC_IN", Array(voltage, current, duration, units))
+        JB_WORK_ELECTRIC_IN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_ELECTRIC_IN", Array(voltage, current, duration, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -543,10 +556,10 @@ End Function
 Function JB_WORK_ISOBARIC(P, V_1, V_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_WORK_ISOBARIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_ISOBARIC", Array(P, V_1, V_2, units), ThisWorkbook, Application.Caller)
+        JB_WORK_ISOBARIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_ISOBARIC", Array(P, V_1, V_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_WORK_ISOBARIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_ISOBARIC", Array(P, V_1, V_2, units))
+        JB_WORK_ISOBARIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_ISOBARIC", Array(P, V_1, V_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -556,10 +569,10 @@ End Function
 Function JB_WORK_ISOTHERMAL(P_1, V_1, V_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_WORK_ISOTHERMAL = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_ISOTHERMAL", Array(P_1, V_1, V_2, units), ThisWorkbook, Application.Caller)
+        JB_WORK_ISOTHERMAL = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_ISOTHERMAL", Array(P_1, V_1, V_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_WORK_ISOTHERMAL = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_ISOTHERMAL", Array(P_1, V_1, V_2, units))
+        JB_WORK_ISOTHERMAL = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_ISOTHERMAL", Array(P_1, V_1, V_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -569,10 +582,10 @@ End Function
 Function JB_WORK_ISOTHERMAL_MASS(gas, m, T, V_1, V_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_WORK_ISOTHERMAL_MASS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_ISOTHERMAL_MASS", Array(gas, m, T, V_1, V_2, units), ThisWorkbook, Application.Caller)
+        JB_WORK_ISOTHERMAL_MASS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_ISOTHERMAL_MASS", Array(gas, m, T, V_1, V_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_WORK_ISOTHERMAL_MASS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_ISOTHERMAL_MASS", Array(gas, m, T, V_1, V_2, units))
+        JB_WORK_ISOTHERMAL_MASS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_ISOTHERMAL_MASS", Array(gas, m, T, V_1, V_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -582,10 +595,10 @@ End Function
 Function JB_WORK_LINEAR(P_1, V_1, P_2, V_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_WORK_LINEAR = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_LINEAR", Array(P_1, V_1, P_2, V_2, units), ThisWorkbook, Application.Caller)
+        JB_WORK_LINEAR = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_LINEAR", Array(P_1, V_1, P_2, V_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_WORK_LINEAR = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_LINEAR", Array(P_1, V_1, P_2, V_2, units))
+        JB_WORK_LINEAR = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_LINEAR", Array(P_1, V_1, P_2, V_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -595,10 +608,10 @@ End Function
 Function JB_WORK_PATH(state1, path, end_spec, end_value, Optional mass, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_WORK_PATH = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_PATH", Array(state1, path, end_spec, end_value, mass, units), ThisWorkbook, Application.Caller)
+        JB_WORK_PATH = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_PATH", Array(state1, path, end_spec, end_value, mass, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_WORK_PATH = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_PATH", Array(state1, path, end_spec, end_value, mass, units))
+        JB_WORK_PATH = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_PATH", Array(state1, path, end_spec, end_value, mass, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -608,10 +621,10 @@ End Function
 Function JB_WORK_POLYTROPIC(P_1, V_1, P_2, V_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_WORK_POLYTROPIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_POLYTROPIC", Array(P_1, V_1, P_2, V_2, units), ThisWorkbook, Application.Caller)
+        JB_WORK_POLYTROPIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_POLYTROPIC", Array(P_1, V_1, P_2, V_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_WORK_POLYTROPIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_POLYTROPIC", Array(P_1, V_1, P_2, V_2, units))
+        JB_WORK_POLYTROPIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_POLYTROPIC", Array(P_1, V_1, P_2, V_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -621,10 +634,10 @@ End Function
 Function JB_WORK_POLYTROPIC_N(P_1, V_1, V_2, n, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_WORK_POLYTROPIC_N = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_POLYTROPIC_N", Array(P_1, V_1, V_2, n, units), ThisWorkbook, Application.Caller)
+        JB_WORK_POLYTROPIC_N = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_POLYTROPIC_N", Array(P_1, V_1, V_2, n, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_WORK_POLYTROPIC_N = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_POLYTROPIC_N", Array(P_1, V_1, V_2, n, units))
+        JB_WORK_POLYTROPIC_N = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_POLYTROPIC_N", Array(P_1, V_1, V_2, n, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -634,10 +647,10 @@ End Function
 Function JB_WORK_PV(P_values, V_values, Optional method, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_WORK_PV = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_PV", Array(P_values, V_values, method, units), ThisWorkbook, Application.Caller)
+        JB_WORK_PV = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_PV", Array(P_values, V_values, method, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_WORK_PV = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_PV", Array(P_values, V_values, method, units))
+        JB_WORK_PV = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_PV", Array(P_values, V_values, method, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -647,10 +660,10 @@ End Function
 Function JB_WORK_SHAFT_IN(torque, revolutions, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_WORK_SHAFT_IN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_SHAFT_IN", Array(torque, revolutions, units), ThisWorkbook, Application.Caller)
+        JB_WORK_SHAFT_IN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_SHAFT_IN", Array(torque, revolutions, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_WORK_SHAFT_IN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_SHAFT_IN", Array(torque, revolutions, units))
+        JB_WORK_SHAFT_IN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_SHAFT_IN", Array(torque, revolutions, units, Nothing))
         Exit Function
     #End If
 failed:

@@ -21,7 +21,7 @@ from functools import cache
 
 import numpy as np
 
-from .errors import BadInput, JoulebookError, OutOfRange, cell_text, fmt_value
+from .errors import BadInput, BlankInput, JoulebookError, OutOfRange, cell_text, fmt_value
 from .units import DEFAULT_SYSTEM, unit_system
 
 __all__ = ["Arg", "Example", "Func", "CATALOG", "FAMILIES", "lookup", "call", "UNITS_ARG"]
@@ -67,6 +67,9 @@ class Func:
     notes: str = ""
     caution: bool = False  # result concerns pressure / stored energy: docs carry the caution
     column: str = ""  # optional adapter taking whole float columns of the numeric arguments
+    # its one argument is a cell whose joulebook message the face hands over (JB_WHY): the
+    # message behind an error value, or the cell's value when it holds a message as text
+    reads_message: bool = False
 
     @property
     def all_args(self) -> tuple[Arg, ...]:
@@ -945,6 +948,29 @@ CATALOG: tuple[Func, ...] = (
         units=False,
     ),
     Func(
+        "JB_WHY",
+        "util",
+        "The joulebook message behind a cell's failure (its error value in a workbook whose "
+        'JB_ERRORS name is "values", or its text); blank when the cell did not fail.',
+        (
+            Arg(
+                "cell",
+                "a cell holding a joulebook result, e.g. B7",
+                type="text",
+            ),
+        ),
+        "text",
+        "why",
+        "—",
+        ("common practice: a spreadsheet error value carries no message; the face keeps it",),
+        Example(
+            ("OutOfRange: T = 5 K is below 273.16 K",), "OutOfRange: T = 5 K is below 273.16 K"
+        ),
+        units=False,
+        elementwise=False,
+        reads_message=True,
+    ),
+    Func(
         "JB_ABOUT",
         "util",
         "joulebook and property-library versions; with a topic, a spilled list: fluids, materials, units.",
@@ -1161,7 +1187,7 @@ def _evaluate(f: Func, fargs, prepared, system):
     for arg, x in zip(fargs, prepared):
         if x is None:
             if not arg.optional:
-                raise BadInput(f"{arg.name} is required: {arg.help[:120]}")
+                raise BlankInput(f"{arg.name} is required: {arg.help[:120]}")
             si_args.append(arg.default)
         elif arg.quantity is None:
             si_args.append(x)
@@ -1229,6 +1255,8 @@ def _broadcast(f: Func, fargs, prepared, arrays, system):
         if r is memo:
             try:
                 r = _evaluate(f, fargs, elem, system)
+            except BlankInput:  # a blank input outside the ranges: a blank element
+                r = None
             except JoulebookError as e:
                 r = e.cell_text()
             except Exception as e:  # a library failure must not kill the whole column

@@ -1,9 +1,9 @@
 """Error types of joulebook and the cell text they become.
 
-Classic xlwings turns a Python exception into the cell text ``ErrorType: message``; the
-headless engine turns the same exceptions into error values.  So every failure the user can
-cause is one of the three types below, with a message under 200 characters that names the
-argument, the value given and the valid range.
+Every failure the user can cause is one of the types below, with a message under 200
+characters that names the argument, the value given and the valid range.  Both cell faces
+show it the same way (:mod:`joulebook.cellvalues`): the cell text ``Label: message``, or, in
+a workbook whose ``JB_ERRORS`` name is ``"values"``, an error value with the message kept.
 """
 
 from __future__ import annotations
@@ -13,6 +13,7 @@ __all__ = [
     "BadInput",
     "OutOfRange",
     "NoConvergence",
+    "BlankInput",
     "cell_text",
     "MAX_MESSAGE",
 ]
@@ -50,6 +51,11 @@ class BadInput(JoulebookError):
     label = "BadInput"
 
 
+class BlankInput(BadInput):
+    """A required argument is blank.  The Python face raises it; the cell faces show a blank
+    result (a copied-down row whose inputs are not filled in yet)."""
+
+
 class OutOfRange(JoulebookError):
     """A value lies outside the valid range of the property model or of the physics."""
 
@@ -70,6 +76,16 @@ def cell_text(exc: BaseException) -> str:
     if isinstance(exc, JoulebookError):
         return exc.cell_text()
     return f"{INTERNAL_LABEL}: {_clip(type(exc).__name__ + ': ' + str(exc))}"
+
+
+#: every label a failure's cell text starts with
+LABELS = ("BadInput", "OutOfRange", "NoConvergence", INTERNAL_LABEL)
+_PREFIXES = tuple(f"{label}: " for label in LABELS)
+
+
+def message_in(value: object) -> str:
+    """*value* when it is a failure's cell text (``Label: message``), else ""."""
+    return value if isinstance(value, str) and value.startswith(_PREFIXES) else ""
 
 
 def fmt_value(value: object) -> str:

@@ -15,7 +15,7 @@ from functools import lru_cache
 import numpy as np
 
 from . import __version__, firstlaw, states
-from .errors import BadInput, JoulebookError, OutOfRange
+from .errors import BadInput, JoulebookError, OutOfRange, message_in
 from .media import medium
 from .processes import cycles, polytropic, solve, stored, work
 from .substances import fluids, gases, solids
@@ -269,6 +269,11 @@ def unit_convert(value, from_unit, to_unit, *, system):
 
 
 _TOPICS = ("version", "fluids", "materials", "units")
+
+
+def why(message, *, system):
+    """The joulebook message a face found in a cell ("" when the cell did not fail)."""
+    return message_in(message)
 
 
 def about(topic, *, system):

@@ -41,8 +41,17 @@ def _windows_engine_namespace():
 
 
 class _FakeComRange:
+    """A calling range with no workbook behind it (the caller of a UDF called from VBA)."""
+
     def __init__(self, xl=None):
         self.xl = xl
+        self.api = types.SimpleNamespace(CLSID=None)
+
+
+# what xlwings' ComRange (the `caller` argument) asks of COM to pass a range between threads
+pythoncom = sys.modules["pythoncom"]
+pythoncom.IID_IDispatch = None
+pythoncom.CoMarshalInterThreadInterfaceInStream = lambda iid, api: None
 
 
 ns = _windows_engine_namespace()
@@ -97,10 +106,12 @@ cases = {
     ),
     "error_value_in": ("JB_GAS_CP", ("air", NA, MISSING)),
     "boolean_in": ("JB_GAS_CP", ("air", True, MISSING)),
+    "blank_required": ("JB_GAS_CP", ("air", None, MISSING)),  # a row not filled in yet
     "text_out": ("JB_PHASE", ("water", "T in degC", 120.0, "P in kPa", 101.325, MISSING)),
 }
 out = {}
 for key, (fname, args) in cases.items():
-    res = udfs.call_udf("joulebook.sheet.udfs", fname, args)
+    # the VBA wrapper passes Nothing in the slot of the reserved `caller` argument
+    res = udfs.call_udf("joulebook.sheet.udfs", fname, (*args, None))
     out[key] = res
 print(json.dumps(out))

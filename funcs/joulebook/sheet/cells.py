@@ -1,49 +1,121 @@
-"""Cell conversion for the sheet face: what xlwings hands a UDF in, what a cell gets back.
+"""The sheet face's cell call: xlwings hands a UDF its arguments and the calling range.
 
-Arguments arrive as 2-D lists (every wrapper reads its arguments with ``ndim=2`` and
-``err_to_str=True``): a single cell is ``[[v]]``, a column ``[[a], [b], …]``, blanks ``None``,
-cell errors their text (``"#N/A"``), dates ``datetime``.  1×1 lists are unwrapped; everything
-else goes through :func:`joulebook.catalog.call`, the same path as the Python face and the
-headless engine.
+The conversion of arguments and results, the blank rule and the error styles are shared with
+the headless engine (:mod:`joulebook.cellvalues`).  What is particular to Excel:
 
-Results: a number, a text, or a 2-D list that spills.  A failure becomes the readable cell
-text ``Label: message`` (never a traceback, NaN, inf or a silent 0).
+* the error style is read from the calling workbook's defined name ``JB_ERRORS`` (kept for
+  a few seconds per workbook, so that a sheet of thousands of calls reads it a few times);
+* in the ``"values"`` style a failure is returned as a COM error value (``VT_ERROR`` with
+  Excel's code, so the cell shows ``#NUM!``, ``#VALUE!`` or ``#N/A``), and its message is
+  kept by the calling cell's address for ``JB_WHY(cell)`` in this Excel session.
 """
 
 from __future__ import annotations
 
-import numpy as np
+import time
 
-from ..catalog import as_rows, call
-from ..errors import JoulebookError, cell_text
+from ..cellvalues import ERRORS_NAME, ErrorValue, error_style, message_of, to_cell, unwrap
+from ..cellvalues import cell as shared_cell
+from ..errors import JoulebookError
 
-__all__ = ["cell", "to_cell", "unwrap"]
+__all__ = ["cell", "why", "to_cell", "unwrap", "com_error", "COM_ERROR_CODES"]
+
+#: Excel's error values as COM SCODEs (xlErrValue 2015 etc. + 0x800A0000), as Excel reads
+#: them from a VT_ERROR variant
+COM_ERROR_CODES = {
+    "#NULL!": -2146826288,
+    "#DIV/0!": -2146826281,
+    "#VALUE!": -2146826273,
+    "#REF!": -2146826265,
+    "#NAME?": -2146826259,
+    "#NUM!": -2146826252,
+    "#N/A": -2146826246,
+}
+
+_STYLE_TTL = 2.0  # seconds a workbook's error style is kept
+_STYLES: dict[str, tuple[float, str]] = {}
+_MESSAGES: dict[tuple, str] = {}  # (workbook, sheet, cell) -> message of its last failure
+_MAX_MESSAGES = 100_000
 
 
-def unwrap(value):
-    """``[[v]]`` → ``v``; any other value unchanged."""
-    if type(value) is list and len(value) == 1:
-        row = value[0]
-        if type(row) is list and len(row) == 1:
-            return row[0]
-    return value
-
-
-def to_cell(result):
-    """A call result as a cell value or a 2-D list (blank elements stay None → empty cells)."""
-    if isinstance(result, (np.ndarray, list)):
-        rows = as_rows(result)
-        return [[float(v) if isinstance(v, np.floating) else v for v in row] for row in rows]
-    if isinstance(result, np.floating):
-        return float(result)
-    return result
-
-
-def cell(name: str, *args):
-    """Evaluate catalog function *name* for a cell; failures become the cell's text."""
+def _book_key(caller) -> str | None:
     try:
-        return to_cell(call(name, *(unwrap(a) for a in args)))
-    except JoulebookError as e:
-        return e.cell_text()
-    except Exception as e:  # never a traceback in a cell
-        return cell_text(e)
+        return str(caller.sheet.book.fullname)
+    except Exception:  # no workbook (called from VBA or the function wizard)
+        return None
+
+
+def _style(caller) -> str:
+    """The calling workbook's error style ("text" when there is no caller or no name)."""
+    book = _book_key(caller) if caller is not None else None
+    if book is None:
+        return "text"
+    now = time.monotonic()
+    hit = _STYLES.get(book)
+    if hit is not None and now - hit[0] < _STYLE_TTL:
+        return hit[1]
+    try:
+        names = caller.sheet.book.names
+        text = names[ERRORS_NAME].refers_to if ERRORS_NAME in [n.name for n in names] else None
+    except Exception:
+        text = None
+    try:
+        style = error_style(text)
+    except JoulebookError:
+        style = "text"  # an unknown word: the readable text style, which names no value
+    _STYLES[book] = (now, style)
+    return style
+
+
+def _where(rng) -> tuple | None:
+    try:
+        return (_book_key(rng), str(rng.sheet.name), str(rng.address).split(":")[0])
+    except Exception:
+        return None
+
+
+def com_error(code: str):
+    """Excel's error value *code* ("#NUM!") as the COM variant a UDF returns."""
+    import pythoncom
+    from win32com.client import VARIANT
+
+    return VARIANT(pythoncom.VT_ERROR, COM_ERROR_CODES[code])
+
+
+def cell(name: str, *args, caller=None):
+    """Evaluate catalog function *name* for the calling cell, in its workbook's error style."""
+    style = _style(caller)
+    out = shared_cell(name, *args, errors=style)
+    if style != "values":
+        return out
+    where = _where(caller) if caller is not None else None
+    first = ""
+    if isinstance(out, list):
+        for row in out:
+            for j, v in enumerate(row):
+                if isinstance(v, ErrorValue):
+                    first = first or v.message
+                    row[j] = com_error(v.code)
+    elif isinstance(out, ErrorValue):
+        first, out = out.message, com_error(out.code)
+    if where is not None:
+        if first:
+            if len(_MESSAGES) >= _MAX_MESSAGES:
+                _MESSAGES.clear()
+            _MESSAGES[where] = first
+        else:
+            _MESSAGES.pop(where, None)
+    return out
+
+
+def why(name: str, target, caller=None):
+    """A message reader (JB_WHY): *target* is the referenced range; its value is read as
+    text, its kept message (in the "values" style) looked up by its address."""
+    where = _where(target)
+    message = _MESSAGES.get(where, "") if where is not None else ""
+    if not message:
+        try:
+            message = message_of(unwrap(target.value))
+        except Exception:
+            message = message_of(unwrap(target))  # a value, not a range
+    return shared_cell(name, message or None, errors="text")

@@ -24,12 +24,15 @@ _HEADER = '''"""joulebook worksheet functions for Excel (xlwings UDF module).
 
 GENERATED from joulebook's catalog by `joulebook sheet` -- do not edit by hand.
 Put `joulebook.sheet.udfs` in xlwings' "UDF Modules" and click "Import Functions".
-Each wrapper hands its cells to joulebook.catalog.call, the same path as the Python face.
+Each wrapper hands its cells to joulebook.catalog.call, the same path as the Python face;
+`caller` (filled in by xlwings, not an Excel argument) is the calling range, whose workbook's
+JB_ERRORS name sets the error style.
 """
 
 import xlwings as _xw
 
 from joulebook.sheet.cells import cell as _cell
+from joulebook.sheet.cells import why as _why
 '''
 
 
@@ -57,18 +60,19 @@ def _py(s: str) -> str:
 
 def _wrapper(f: Func) -> str:
     args = f.all_args
-    params = ", ".join(f"{a.name}=None" if a.optional else a.name for a in args)
+    params = ", ".join([*(f"{a.name}=None" if a.optional else a.name for a in args), "caller=None"])
     lines = []
     opts = f"category={_py('joulebook · ' + FAMILIES[f.family])}"
     if f.family in HEAVY_FAMILIES:
         opts += ", call_in_wizard=False"
     lines.append(f"@_xw.func({opts})")
     for a in args:
-        lines.append(f"@_xw.arg({_py(a.name)}, doc={_py(_arg_doc(a))}, ndim=2, err_to_str=True)")
+        how = "'range'" if f.reads_message else "ndim=2, err_to_str=True"
+        lines.append(f"@_xw.arg({_py(a.name)}, {how}, doc={_py(_arg_doc(a))})")
     lines.append(f"def {f.name}({params}):")
     lines.append(f"    {_py(f.help)}")
-    call_args = ", ".join([_py(f.name), *(a.name for a in args)])
-    lines.append(f"    return _cell({call_args})")
+    call_args = ", ".join([_py(f.name), *(a.name for a in args), "caller=caller"])
+    lines.append(f"    return {'_why' if f.reads_message else '_cell'}({call_args})")
     return "\n".join(lines)
 
 
@@ -98,11 +102,18 @@ def windows_stubs() -> dict[str, types.ModuleType]:
     def _dispatch(*_a, **_k):  # pragma: no cover - never called headless
         raise RuntimeError("no COM on this machine")
 
+    class _Variant:  # win32com.client.VARIANT: a typed COM value
+        def __init__(self, vartype, value):
+            self.varianttype, self.value = vartype, value
+
+        def __repr__(self):
+            return f"VARIANT({self.varianttype}, {self.value})"
+
     win32com = _stub("win32com")
-    client = _stub("win32com.client", Dispatch=_dispatch)
+    client = _stub("win32com.client", Dispatch=_dispatch, VARIANT=_Variant)
     win32com.client = client
     return {
-        "pythoncom": _stub("pythoncom", CoInitialize=lambda: None),
+        "pythoncom": _stub("pythoncom", CoInitialize=lambda: None, VT_ERROR=10),
         "pywintypes": _stub("pywintypes", com_error=_ComError, TimeType=type(None)),
         "win32com": win32com,
         "win32com.client": client,

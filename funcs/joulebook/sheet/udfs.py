@@ -2,539 +2,549 @@
 
 GENERATED from joulebook's catalog by `joulebook sheet` -- do not edit by hand.
 Put `joulebook.sheet.udfs` in xlwings' "UDF Modules" and click "Import Functions".
-Each wrapper hands its cells to joulebook.catalog.call, the same path as the Python face.
+Each wrapper hands its cells to joulebook.catalog.call, the same path as the Python face;
+`caller` (filled in by xlwings, not an Excel argument) is the calling range, whose workbook's
+JB_ERRORS name sets the error style.
 """
 
 import xlwings as _xw
 
 from joulebook.sheet.cells import cell as _cell
+from joulebook.sheet.cells import why as _why
 
 
 
-__all__ = ['JB_STATE', 'JB_PROP', 'JB_PHASE', 'JB_PROP_SAT', 'JB_GAS_CP', 'JB_GAS_CV', 'JB_GAS_K', 'JB_GAS_R', 'JB_GAS_MOLAR_MASS', 'JB_GAS_DELTA_H', 'JB_GAS_DELTA_U', 'JB_GAS_CP_MEAN', 'JB_GAS_DELTA_S', 'JB_SOLID_C', 'JB_SOLID_C_MEAN', 'JB_SOLID_DELTA_U', 'JB_SOLID_HEAT', 'JB_WORK_ISOBARIC', 'JB_WORK_ISOTHERMAL', 'JB_WORK_ISOTHERMAL_MASS', 'JB_WORK_POLYTROPIC', 'JB_WORK_POLYTROPIC_N', 'JB_WORK_LINEAR', 'JB_WORK_PV', 'JB_WORK_PATH', 'JB_WORK_ELECTRIC_IN', 'JB_WORK_SHAFT_IN', 'JB_POLY_EXPONENT', 'JB_POLY_FIT', 'JB_POLY_P2', 'JB_POLY_V2', 'JB_POLY_T2_FROM_V', 'JB_POLY_T2_FROM_P', 'JB_BALANCE_HEAT', 'JB_BALANCE_GAP', 'JB_BALANCE_DELTA_KE', 'JB_BALANCE_DELTA_PE', 'JB_HEAT_ISOBARIC_GAS', 'JB_HEAT_RIGID_GAS', 'JB_PROCESS', 'JB_PROCESS_TABLE', 'JB_PROCESS_PATH', 'JB_CYCLE_NET', 'JB_CYCLE_GAP', 'JB_CYCLE_EFFICIENCY', 'JB_STORED_ISENTROPIC', 'JB_STORED_IDEAL_ISENTROPIC', 'JB_STORED_ISOCHORIC', 'JB_CONVERT', 'JB_ABOUT']
+__all__ = ['JB_STATE', 'JB_PROP', 'JB_PHASE', 'JB_PROP_SAT', 'JB_GAS_CP', 'JB_GAS_CV', 'JB_GAS_K', 'JB_GAS_R', 'JB_GAS_MOLAR_MASS', 'JB_GAS_DELTA_H', 'JB_GAS_DELTA_U', 'JB_GAS_CP_MEAN', 'JB_GAS_DELTA_S', 'JB_SOLID_C', 'JB_SOLID_C_MEAN', 'JB_SOLID_DELTA_U', 'JB_SOLID_HEAT', 'JB_WORK_ISOBARIC', 'JB_WORK_ISOTHERMAL', 'JB_WORK_ISOTHERMAL_MASS', 'JB_WORK_POLYTROPIC', 'JB_WORK_POLYTROPIC_N', 'JB_WORK_LINEAR', 'JB_WORK_PV', 'JB_WORK_PATH', 'JB_WORK_ELECTRIC_IN', 'JB_WORK_SHAFT_IN', 'JB_POLY_EXPONENT', 'JB_POLY_FIT', 'JB_POLY_P2', 'JB_POLY_V2', 'JB_POLY_T2_FROM_V', 'JB_POLY_T2_FROM_P', 'JB_BALANCE_HEAT', 'JB_BALANCE_GAP', 'JB_BALANCE_DELTA_KE', 'JB_BALANCE_DELTA_PE', 'JB_HEAT_ISOBARIC_GAS', 'JB_HEAT_RIGID_GAS', 'JB_PROCESS', 'JB_PROCESS_TABLE', 'JB_PROCESS_PATH', 'JB_CYCLE_NET', 'JB_CYCLE_GAP', 'JB_CYCLE_EFFICIENCY', 'JB_STORED_ISENTROPIC', 'JB_STORED_IDEAL_ISENTROPIC', 'JB_STORED_ISOCHORIC', 'JB_CONVERT', 'JB_WHY', 'JB_ABOUT']
 
 
 @_xw.func(category='joulebook · States and real-fluid properties')
-@_xw.arg('substance', doc='fluid name (water, air, R134a, CO2 …) [text]', ndim=2, err_to_str=True)
-@_xw.arg('spec1', doc="first property phrase, e.g. 'T in degC' (T P v rho u h s x) (optional) [text]", ndim=2, err_to_str=True)
-@_xw.arg('value1', doc="value of the first property, in the phrase's unit (optional) [number or range]", ndim=2, err_to_str=True)
-@_xw.arg('spec2', doc="second property phrase, e.g. 'P in kPa' (optional) [text]", ndim=2, err_to_str=True)
-@_xw.arg('value2', doc="value of the second property, in the phrase's unit (optional) [number or range]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_STATE(substance, spec1=None, value1=None, spec2=None, value2=None, units=None):
+@_xw.arg('substance', ndim=2, err_to_str=True, doc='fluid name (water, air, R134a, CO2 …) [text]')
+@_xw.arg('spec1', ndim=2, err_to_str=True, doc="first property phrase, e.g. 'T in degC' (T P v rho u h s x) (optional) [text]")
+@_xw.arg('value1', ndim=2, err_to_str=True, doc="value of the first property, in the phrase's unit (optional) [number or range]")
+@_xw.arg('spec2', ndim=2, err_to_str=True, doc="second property phrase, e.g. 'P in kPa' (optional) [text]")
+@_xw.arg('value2', ndim=2, err_to_str=True, doc="value of the second property, in the phrase's unit (optional) [number or range]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_STATE(substance, spec1=None, value1=None, spec2=None, value2=None, units=None, caller=None):
     "State text of a real fluid fixed by two properties, e.g. 'water | T = 25 degC | P = 200 kPa'; validated, and accepted by every property function in place of substance + specs."
-    return _cell('JB_STATE', substance, spec1, value1, spec2, value2, units)
+    return _cell('JB_STATE', substance, spec1, value1, spec2, value2, units, caller=caller)
 
 
 @_xw.func(category='joulebook · States and real-fluid properties')
-@_xw.arg('substance', doc='fluid name (water, air, R134a, CO2 …) or a state text from JB_STATE [text]', ndim=2, err_to_str=True)
-@_xw.arg('want', doc="wanted property with unit, e.g. 'h in kJ/kg' (bare symbol: default unit) [text]", ndim=2, err_to_str=True)
-@_xw.arg('spec1', doc="first property phrase, e.g. 'T in degC' (T P v rho u h s x) (optional) [text]", ndim=2, err_to_str=True)
-@_xw.arg('value1', doc="value of the first property, in the phrase's unit (optional) [number or range]", ndim=2, err_to_str=True)
-@_xw.arg('spec2', doc="second property phrase, e.g. 'P in kPa' (optional) [text]", ndim=2, err_to_str=True)
-@_xw.arg('value2', doc="value of the second property, in the phrase's unit (optional) [number or range]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_PROP(substance, want, spec1=None, value1=None, spec2=None, value2=None, units=None):
+@_xw.arg('substance', ndim=2, err_to_str=True, doc='fluid name (water, air, R134a, CO2 …) or a state text from JB_STATE [text]')
+@_xw.arg('want', ndim=2, err_to_str=True, doc="wanted property with unit, e.g. 'h in kJ/kg' (bare symbol: default unit) [text]")
+@_xw.arg('spec1', ndim=2, err_to_str=True, doc="first property phrase, e.g. 'T in degC' (T P v rho u h s x) (optional) [text]")
+@_xw.arg('value1', ndim=2, err_to_str=True, doc="value of the first property, in the phrase's unit (optional) [number or range]")
+@_xw.arg('spec2', ndim=2, err_to_str=True, doc="second property phrase, e.g. 'P in kPa' (optional) [text]")
+@_xw.arg('value2', ndim=2, err_to_str=True, doc="value of the second property, in the phrase's unit (optional) [number or range]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_PROP(substance, want, spec1=None, value1=None, spec2=None, value2=None, units=None, caller=None):
     'Property of a real fluid (T P v rho u h s cp cv k x Z Tsat Psat) at a state fixed by two properties, each with its unit: JB_PROP("water","h in kJ/kg","T in degC",25,"P in kPa",101.325).'
-    return _cell('JB_PROP', substance, want, spec1, value1, spec2, value2, units)
+    return _cell('JB_PROP', substance, want, spec1, value1, spec2, value2, units, caller=caller)
 
 
 @_xw.func(category='joulebook · States and real-fluid properties')
-@_xw.arg('substance', doc='fluid name (water, air, R134a, CO2 …) or a state text from JB_STATE [text]', ndim=2, err_to_str=True)
-@_xw.arg('spec1', doc="first property phrase, e.g. 'T in degC' (T P v rho u h s x) (optional) [text]", ndim=2, err_to_str=True)
-@_xw.arg('value1', doc="value of the first property, in the phrase's unit (optional) [number or range]", ndim=2, err_to_str=True)
-@_xw.arg('spec2', doc="second property phrase, e.g. 'P in kPa' (optional) [text]", ndim=2, err_to_str=True)
-@_xw.arg('value2', doc="value of the second property, in the phrase's unit (optional) [number or range]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_PHASE(substance, spec1=None, value1=None, spec2=None, value2=None, units=None):
+@_xw.arg('substance', ndim=2, err_to_str=True, doc='fluid name (water, air, R134a, CO2 …) or a state text from JB_STATE [text]')
+@_xw.arg('spec1', ndim=2, err_to_str=True, doc="first property phrase, e.g. 'T in degC' (T P v rho u h s x) (optional) [text]")
+@_xw.arg('value1', ndim=2, err_to_str=True, doc="value of the first property, in the phrase's unit (optional) [number or range]")
+@_xw.arg('spec2', ndim=2, err_to_str=True, doc="second property phrase, e.g. 'P in kPa' (optional) [text]")
+@_xw.arg('value2', ndim=2, err_to_str=True, doc="value of the second property, in the phrase's unit (optional) [number or range]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_PHASE(substance, spec1=None, value1=None, spec2=None, value2=None, units=None, caller=None):
     'Phase of a real-fluid state in plain words: compressed liquid, saturated liquid, saturated mixture, saturated vapor, superheated vapor, supercritical fluid …'
-    return _cell('JB_PHASE', substance, spec1, value1, spec2, value2, units)
+    return _cell('JB_PHASE', substance, spec1, value1, spec2, value2, units, caller=caller)
 
 
 @_xw.func(category='joulebook · States and real-fluid properties')
-@_xw.arg('substance', doc='fluid name [text]', ndim=2, err_to_str=True)
-@_xw.arg('want', doc="saturation property with unit, e.g. 'hfg in kJ/kg' or 'Tsat in degC' [text]", ndim=2, err_to_str=True)
-@_xw.arg('given', doc="'T in …' or 'P in …' [text]", ndim=2, err_to_str=True)
-@_xw.arg('value', doc='the given saturation temperature or pressure [number or range]', ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_PROP_SAT(substance, want, given, value, units=None):
+@_xw.arg('substance', ndim=2, err_to_str=True, doc='fluid name [text]')
+@_xw.arg('want', ndim=2, err_to_str=True, doc="saturation property with unit, e.g. 'hfg in kJ/kg' or 'Tsat in degC' [text]")
+@_xw.arg('given', ndim=2, err_to_str=True, doc="'T in …' or 'P in …' [text]")
+@_xw.arg('value', ndim=2, err_to_str=True, doc='the given saturation temperature or pressure [number or range]')
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_PROP_SAT(substance, want, given, value, units=None, caller=None):
     'Saturation property of a real fluid at a given T or P: Tsat, Psat, vf vg vfg, uf ug ufg, hf hg hfg, sf sg sfg (f liquid, g vapor, fg = g − f), e.g. JB_PROP_SAT("water","hfg in kJ/kg","P in kPa",101.325).'
-    return _cell('JB_PROP_SAT', substance, want, given, value, units)
+    return _cell('JB_PROP_SAT', substance, want, given, value, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Ideal gases')
-@_xw.arg('gas', doc="gas name (air, nitrogen, CO2 …) or constant-cp model 'air | k = 1.4' [text]", ndim=2, err_to_str=True)
-@_xw.arg('T', doc="absolute temperature [number or range; temperature in the units argument's unit (K by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_GAS_CP(gas, T, units=None):
+@_xw.arg('gas', ndim=2, err_to_str=True, doc="gas name (air, nitrogen, CO2 …) or constant-cp model 'air | k = 1.4' [text]")
+@_xw.arg('T', ndim=2, err_to_str=True, doc="absolute temperature [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_GAS_CP(gas, T, units=None, caller=None):
     'Ideal-gas specific heat at constant pressure cp(T) of a gas.'
-    return _cell('JB_GAS_CP', gas, T, units)
+    return _cell('JB_GAS_CP', gas, T, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Ideal gases')
-@_xw.arg('gas', doc="gas name (air, nitrogen, CO2 …) or constant-cp model 'air | k = 1.4' [text]", ndim=2, err_to_str=True)
-@_xw.arg('T', doc="absolute temperature [number or range; temperature in the units argument's unit (K by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_GAS_CV(gas, T, units=None):
+@_xw.arg('gas', ndim=2, err_to_str=True, doc="gas name (air, nitrogen, CO2 …) or constant-cp model 'air | k = 1.4' [text]")
+@_xw.arg('T', ndim=2, err_to_str=True, doc="absolute temperature [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_GAS_CV(gas, T, units=None, caller=None):
     'Ideal-gas specific heat at constant volume cv(T) = cp(T) − R.'
-    return _cell('JB_GAS_CV', gas, T, units)
+    return _cell('JB_GAS_CV', gas, T, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Ideal gases')
-@_xw.arg('gas', doc="gas name (air, nitrogen, CO2 …) or constant-cp model 'air | k = 1.4' [text]", ndim=2, err_to_str=True)
-@_xw.arg('T', doc="absolute temperature [number or range; temperature in the units argument's unit (K by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_GAS_K(gas, T, units=None):
+@_xw.arg('gas', ndim=2, err_to_str=True, doc="gas name (air, nitrogen, CO2 …) or constant-cp model 'air | k = 1.4' [text]")
+@_xw.arg('T', ndim=2, err_to_str=True, doc="absolute temperature [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_GAS_K(gas, T, units=None, caller=None):
     'Ideal-gas specific-heat ratio k(T) = cp/cv.'
-    return _cell('JB_GAS_K', gas, T, units)
+    return _cell('JB_GAS_K', gas, T, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Ideal gases')
-@_xw.arg('gas', doc="gas name (air, nitrogen, CO2 …) or constant-cp model 'air | k = 1.4' [text]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_GAS_R(gas, units=None):
+@_xw.arg('gas', ndim=2, err_to_str=True, doc="gas name (air, nitrogen, CO2 …) or constant-cp model 'air | k = 1.4' [text]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_GAS_R(gas, units=None, caller=None):
     'Specific gas constant R = R_u / M of a gas.'
-    return _cell('JB_GAS_R', gas, units)
+    return _cell('JB_GAS_R', gas, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Ideal gases')
-@_xw.arg('gas', doc="gas name (air, nitrogen, CO2 …) or constant-cp model 'air | k = 1.4' [text]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_GAS_MOLAR_MASS(gas, units=None):
+@_xw.arg('gas', ndim=2, err_to_str=True, doc="gas name (air, nitrogen, CO2 …) or constant-cp model 'air | k = 1.4' [text]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_GAS_MOLAR_MASS(gas, units=None, caller=None):
     'Molar mass M of a gas (default unit kg/kmol).'
-    return _cell('JB_GAS_MOLAR_MASS', gas, units)
+    return _cell('JB_GAS_MOLAR_MASS', gas, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Ideal gases')
-@_xw.arg('gas', doc="gas name (air, nitrogen, CO2 …) or constant-cp model 'air | k = 1.4' [text]", ndim=2, err_to_str=True)
-@_xw.arg('T_1', doc="initial absolute temperature [number or range; temperature in the units argument's unit (K by default)]", ndim=2, err_to_str=True)
-@_xw.arg('T_2', doc="final absolute temperature [number or range; temperature in the units argument's unit (K by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_GAS_DELTA_H(gas, T_1, T_2, units=None):
+@_xw.arg('gas', ndim=2, err_to_str=True, doc="gas name (air, nitrogen, CO2 …) or constant-cp model 'air | k = 1.4' [text]")
+@_xw.arg('T_1', ndim=2, err_to_str=True, doc="initial absolute temperature [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('T_2', ndim=2, err_to_str=True, doc="final absolute temperature [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_GAS_DELTA_H(gas, T_1, T_2, units=None, caller=None):
     'Ideal-gas enthalpy change per unit mass from T1 to T2, integrating cp(T).'
-    return _cell('JB_GAS_DELTA_H', gas, T_1, T_2, units)
+    return _cell('JB_GAS_DELTA_H', gas, T_1, T_2, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Ideal gases')
-@_xw.arg('gas', doc="gas name (air, nitrogen, CO2 …) or constant-cp model 'air | k = 1.4' [text]", ndim=2, err_to_str=True)
-@_xw.arg('T_1', doc="initial absolute temperature [number or range; temperature in the units argument's unit (K by default)]", ndim=2, err_to_str=True)
-@_xw.arg('T_2', doc="final absolute temperature [number or range; temperature in the units argument's unit (K by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_GAS_DELTA_U(gas, T_1, T_2, units=None):
+@_xw.arg('gas', ndim=2, err_to_str=True, doc="gas name (air, nitrogen, CO2 …) or constant-cp model 'air | k = 1.4' [text]")
+@_xw.arg('T_1', ndim=2, err_to_str=True, doc="initial absolute temperature [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('T_2', ndim=2, err_to_str=True, doc="final absolute temperature [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_GAS_DELTA_U(gas, T_1, T_2, units=None, caller=None):
     'Ideal-gas internal-energy change per unit mass from T1 to T2, integrating cv(T).'
-    return _cell('JB_GAS_DELTA_U', gas, T_1, T_2, units)
+    return _cell('JB_GAS_DELTA_U', gas, T_1, T_2, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Ideal gases')
-@_xw.arg('gas', doc="gas name (air, nitrogen, CO2 …) or constant-cp model 'air | k = 1.4' [text]", ndim=2, err_to_str=True)
-@_xw.arg('T_1', doc="initial absolute temperature [number or range; temperature in the units argument's unit (K by default)]", ndim=2, err_to_str=True)
-@_xw.arg('T_2', doc="final absolute temperature [number or range; temperature in the units argument's unit (K by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_GAS_CP_MEAN(gas, T_1, T_2, units=None):
+@_xw.arg('gas', ndim=2, err_to_str=True, doc="gas name (air, nitrogen, CO2 …) or constant-cp model 'air | k = 1.4' [text]")
+@_xw.arg('T_1', ndim=2, err_to_str=True, doc="initial absolute temperature [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('T_2', ndim=2, err_to_str=True, doc="final absolute temperature [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_GAS_CP_MEAN(gas, T_1, T_2, units=None, caller=None):
     'Mean ideal-gas cp over T1..T2, so that Δh = cp_mean·(T2 − T1).'
-    return _cell('JB_GAS_CP_MEAN', gas, T_1, T_2, units)
+    return _cell('JB_GAS_CP_MEAN', gas, T_1, T_2, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Ideal gases')
-@_xw.arg('gas', doc="gas name (air, nitrogen, CO2 …) or constant-cp model 'air | k = 1.4' [text]", ndim=2, err_to_str=True)
-@_xw.arg('T_1', doc="initial absolute temperature [number or range; temperature in the units argument's unit (K by default)]", ndim=2, err_to_str=True)
-@_xw.arg('T_2', doc="final absolute temperature [number or range; temperature in the units argument's unit (K by default)]", ndim=2, err_to_str=True)
-@_xw.arg('P_1', doc="initial absolute pressure (optional) (optional) [number or range; pressure in the units argument's unit (kPa by default)]", ndim=2, err_to_str=True)
-@_xw.arg('P_2', doc="final absolute pressure (optional) (optional) [number or range; pressure in the units argument's unit (kPa by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_GAS_DELTA_S(gas, T_1, T_2, P_1=None, P_2=None, units=None):
+@_xw.arg('gas', ndim=2, err_to_str=True, doc="gas name (air, nitrogen, CO2 …) or constant-cp model 'air | k = 1.4' [text]")
+@_xw.arg('T_1', ndim=2, err_to_str=True, doc="initial absolute temperature [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('T_2', ndim=2, err_to_str=True, doc="final absolute temperature [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('P_1', ndim=2, err_to_str=True, doc="initial absolute pressure (optional) (optional) [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('P_2', ndim=2, err_to_str=True, doc="final absolute pressure (optional) (optional) [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_GAS_DELTA_S(gas, T_1, T_2, P_1=None, P_2=None, units=None, caller=None):
     'Ideal-gas entropy change per unit mass from (T1, P1) to (T2, P2); without pressures, the change at equal pressure.'
-    return _cell('JB_GAS_DELTA_S', gas, T_1, T_2, P_1, P_2, units)
+    return _cell('JB_GAS_DELTA_S', gas, T_1, T_2, P_1, P_2, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Incompressible solids and liquids')
-@_xw.arg('material', doc='material name (carbon steel, copper, concrete, water …) [text]', ndim=2, err_to_str=True)
-@_xw.arg('T', doc="absolute temperature [number or range; temperature in the units argument's unit (K by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_SOLID_C(material, T, units=None):
+@_xw.arg('material', ndim=2, err_to_str=True, doc='material name (carbon steel, copper, concrete, water …) [text]')
+@_xw.arg('T', ndim=2, err_to_str=True, doc="absolute temperature [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_SOLID_C(material, T, units=None, caller=None):
     'Specific heat c(T) of an incompressible solid or liquid (cp = cv = c).'
-    return _cell('JB_SOLID_C', material, T, units)
+    return _cell('JB_SOLID_C', material, T, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Incompressible solids and liquids')
-@_xw.arg('material', doc='material name (carbon steel, copper, concrete, water …) [text]', ndim=2, err_to_str=True)
-@_xw.arg('T_1', doc="initial absolute temperature [number or range; temperature in the units argument's unit (K by default)]", ndim=2, err_to_str=True)
-@_xw.arg('T_2', doc="final absolute temperature [number or range; temperature in the units argument's unit (K by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_SOLID_C_MEAN(material, T_1, T_2, units=None):
+@_xw.arg('material', ndim=2, err_to_str=True, doc='material name (carbon steel, copper, concrete, water …) [text]')
+@_xw.arg('T_1', ndim=2, err_to_str=True, doc="initial absolute temperature [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('T_2', ndim=2, err_to_str=True, doc="final absolute temperature [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_SOLID_C_MEAN(material, T_1, T_2, units=None, caller=None):
     'Mean specific heat of an incompressible solid or liquid over T1..T2.'
-    return _cell('JB_SOLID_C_MEAN', material, T_1, T_2, units)
+    return _cell('JB_SOLID_C_MEAN', material, T_1, T_2, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Incompressible solids and liquids')
-@_xw.arg('material', doc='material name (carbon steel, copper, concrete, water …) [text]', ndim=2, err_to_str=True)
-@_xw.arg('T_1', doc="initial absolute temperature [number or range; temperature in the units argument's unit (K by default)]", ndim=2, err_to_str=True)
-@_xw.arg('T_2', doc="final absolute temperature [number or range; temperature in the units argument's unit (K by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_SOLID_DELTA_U(material, T_1, T_2, units=None):
+@_xw.arg('material', ndim=2, err_to_str=True, doc='material name (carbon steel, copper, concrete, water …) [text]')
+@_xw.arg('T_1', ndim=2, err_to_str=True, doc="initial absolute temperature [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('T_2', ndim=2, err_to_str=True, doc="final absolute temperature [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_SOLID_DELTA_U(material, T_1, T_2, units=None, caller=None):
     'Internal-energy change per unit mass of an incompressible solid or liquid from T1 to T2.'
-    return _cell('JB_SOLID_DELTA_U', material, T_1, T_2, units)
+    return _cell('JB_SOLID_DELTA_U', material, T_1, T_2, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Incompressible solids and liquids')
-@_xw.arg('material', doc='material name (carbon steel, copper, concrete, water …) [text]', ndim=2, err_to_str=True)
-@_xw.arg('m', doc="mass of the body [number or range; mass in the units argument's unit (kg by default)]", ndim=2, err_to_str=True)
-@_xw.arg('T_1', doc="initial absolute temperature [number or range; temperature in the units argument's unit (K by default)]", ndim=2, err_to_str=True)
-@_xw.arg('T_2', doc="final absolute temperature [number or range; temperature in the units argument's unit (K by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_SOLID_HEAT(material, m, T_1, T_2, units=None):
+@_xw.arg('material', ndim=2, err_to_str=True, doc='material name (carbon steel, copper, concrete, water …) [text]')
+@_xw.arg('m', ndim=2, err_to_str=True, doc="mass of the body [number or range; mass in the units argument's unit (kg by default)]")
+@_xw.arg('T_1', ndim=2, err_to_str=True, doc="initial absolute temperature [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('T_2', ndim=2, err_to_str=True, doc="final absolute temperature [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_SOLID_HEAT(material, m, T_1, T_2, units=None, caller=None):
     'Sensible heat to take a mass of an incompressible solid or liquid from T1 to T2 (positive when heated).'
-    return _cell('JB_SOLID_HEAT', material, m, T_1, T_2, units)
+    return _cell('JB_SOLID_HEAT', material, m, T_1, T_2, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Boundary and other work')
-@_xw.arg('P', doc="absolute pressure of the process [number or range; pressure in the units argument's unit (kPa by default)]", ndim=2, err_to_str=True)
-@_xw.arg('V_1', doc="initial volume [number or range; volume in the units argument's unit (m3 by default)]", ndim=2, err_to_str=True)
-@_xw.arg('V_2', doc="final volume [number or range; volume in the units argument's unit (m3 by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_WORK_ISOBARIC(P, V_1, V_2, units=None):
+@_xw.arg('P', ndim=2, err_to_str=True, doc="absolute pressure of the process [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('V_1', ndim=2, err_to_str=True, doc="initial volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('V_2', ndim=2, err_to_str=True, doc="final volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_WORK_ISOBARIC(P, V_1, V_2, units=None, caller=None):
     'Boundary work at constant pressure, W = P·(V2 − V1); positive when the system expands (work by the system), exactly 0 for a rigid (constant-volume) system.'
-    return _cell('JB_WORK_ISOBARIC', P, V_1, V_2, units)
+    return _cell('JB_WORK_ISOBARIC', P, V_1, V_2, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Boundary and other work')
-@_xw.arg('P_1', doc="initial absolute pressure [number or range; pressure in the units argument's unit (kPa by default)]", ndim=2, err_to_str=True)
-@_xw.arg('V_1', doc="initial volume [number or range; volume in the units argument's unit (m3 by default)]", ndim=2, err_to_str=True)
-@_xw.arg('V_2', doc="final volume [number or range; volume in the units argument's unit (m3 by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_WORK_ISOTHERMAL(P_1, V_1, V_2, units=None):
+@_xw.arg('P_1', ndim=2, err_to_str=True, doc="initial absolute pressure [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('V_1', ndim=2, err_to_str=True, doc="initial volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('V_2', ndim=2, err_to_str=True, doc="final volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_WORK_ISOTHERMAL(P_1, V_1, V_2, units=None, caller=None):
     'Boundary work of an ideal gas at constant temperature, W = P1·V1·ln(V2/V1); positive when the system expands (work by the system).'
-    return _cell('JB_WORK_ISOTHERMAL', P_1, V_1, V_2, units)
+    return _cell('JB_WORK_ISOTHERMAL', P_1, V_1, V_2, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Boundary and other work')
-@_xw.arg('gas', doc="gas name (air, nitrogen, CO2 …) or constant-cp model 'air | k = 1.4' [text]", ndim=2, err_to_str=True)
-@_xw.arg('m', doc="mass of gas [number or range; mass in the units argument's unit (kg by default)]", ndim=2, err_to_str=True)
-@_xw.arg('T', doc="absolute temperature [number or range; temperature in the units argument's unit (K by default)]", ndim=2, err_to_str=True)
-@_xw.arg('V_1', doc="initial volume [number or range; volume in the units argument's unit (m3 by default)]", ndim=2, err_to_str=True)
-@_xw.arg('V_2', doc="final volume [number or range; volume in the units argument's unit (m3 by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_WORK_ISOTHERMAL_MASS(gas, m, T, V_1, V_2, units=None):
+@_xw.arg('gas', ndim=2, err_to_str=True, doc="gas name (air, nitrogen, CO2 …) or constant-cp model 'air | k = 1.4' [text]")
+@_xw.arg('m', ndim=2, err_to_str=True, doc="mass of gas [number or range; mass in the units argument's unit (kg by default)]")
+@_xw.arg('T', ndim=2, err_to_str=True, doc="absolute temperature [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('V_1', ndim=2, err_to_str=True, doc="initial volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('V_2', ndim=2, err_to_str=True, doc="final volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_WORK_ISOTHERMAL_MASS(gas, m, T, V_1, V_2, units=None, caller=None):
     'Boundary work of a mass of ideal gas at constant temperature, W = m·R·T·ln(V2/V1); positive when the system expands (work by the system).'
-    return _cell('JB_WORK_ISOTHERMAL_MASS', gas, m, T, V_1, V_2, units)
+    return _cell('JB_WORK_ISOTHERMAL_MASS', gas, m, T, V_1, V_2, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Boundary and other work')
-@_xw.arg('P_1', doc="initial absolute pressure [number or range; pressure in the units argument's unit (kPa by default)]", ndim=2, err_to_str=True)
-@_xw.arg('V_1', doc="initial volume [number or range; volume in the units argument's unit (m3 by default)]", ndim=2, err_to_str=True)
-@_xw.arg('P_2', doc="final absolute pressure [number or range; pressure in the units argument's unit (kPa by default)]", ndim=2, err_to_str=True)
-@_xw.arg('V_2', doc="final volume [number or range; volume in the units argument's unit (m3 by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_WORK_POLYTROPIC(P_1, V_1, P_2, V_2, units=None):
+@_xw.arg('P_1', ndim=2, err_to_str=True, doc="initial absolute pressure [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('V_1', ndim=2, err_to_str=True, doc="initial volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('P_2', ndim=2, err_to_str=True, doc="final absolute pressure [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('V_2', ndim=2, err_to_str=True, doc="final volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_WORK_POLYTROPIC(P_1, V_1, P_2, V_2, units=None, caller=None):
     'Boundary work along P·V^n = C through two states, W = (P2·V2 − P1·V1)/(1 − n), n from the states; continuous at n = 1; positive when the system expands (work by the system).'
-    return _cell('JB_WORK_POLYTROPIC', P_1, V_1, P_2, V_2, units)
+    return _cell('JB_WORK_POLYTROPIC', P_1, V_1, P_2, V_2, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Boundary and other work')
-@_xw.arg('P_1', doc="initial absolute pressure [number or range; pressure in the units argument's unit (kPa by default)]", ndim=2, err_to_str=True)
-@_xw.arg('V_1', doc="initial volume [number or range; volume in the units argument's unit (m3 by default)]", ndim=2, err_to_str=True)
-@_xw.arg('V_2', doc="final volume [number or range; volume in the units argument's unit (m3 by default)]", ndim=2, err_to_str=True)
-@_xw.arg('n', doc='polytropic exponent n of P·V^n = C [number or range]', ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_WORK_POLYTROPIC_N(P_1, V_1, V_2, n, units=None):
+@_xw.arg('P_1', ndim=2, err_to_str=True, doc="initial absolute pressure [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('V_1', ndim=2, err_to_str=True, doc="initial volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('V_2', ndim=2, err_to_str=True, doc="final volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('n', ndim=2, err_to_str=True, doc='polytropic exponent n of P·V^n = C [number or range]')
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_WORK_POLYTROPIC_N(P_1, V_1, V_2, n, units=None, caller=None):
     'Boundary work along P·V^n = C from (P1, V1) to V2 for a given n; equals the isothermal result at n = 1; positive when the system expands (work by the system).'
-    return _cell('JB_WORK_POLYTROPIC_N', P_1, V_1, V_2, n, units)
+    return _cell('JB_WORK_POLYTROPIC_N', P_1, V_1, V_2, n, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Boundary and other work')
-@_xw.arg('P_1', doc="initial absolute pressure [number or range; pressure in the units argument's unit (kPa by default)]", ndim=2, err_to_str=True)
-@_xw.arg('V_1', doc="initial volume [number or range; volume in the units argument's unit (m3 by default)]", ndim=2, err_to_str=True)
-@_xw.arg('P_2', doc="final absolute pressure [number or range; pressure in the units argument's unit (kPa by default)]", ndim=2, err_to_str=True)
-@_xw.arg('V_2', doc="final volume [number or range; volume in the units argument's unit (m3 by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_WORK_LINEAR(P_1, V_1, P_2, V_2, units=None):
+@_xw.arg('P_1', ndim=2, err_to_str=True, doc="initial absolute pressure [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('V_1', ndim=2, err_to_str=True, doc="initial volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('P_2', ndim=2, err_to_str=True, doc="final absolute pressure [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('V_2', ndim=2, err_to_str=True, doc="final volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_WORK_LINEAR(P_1, V_1, P_2, V_2, units=None, caller=None):
     'Boundary work when pressure is linear in volume (spring-loaded piston), W = (P1 + P2)/2·(V2 − V1); positive when the system expands (work by the system).'
-    return _cell('JB_WORK_LINEAR', P_1, V_1, P_2, V_2, units)
+    return _cell('JB_WORK_LINEAR', P_1, V_1, P_2, V_2, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Boundary and other work')
-@_xw.arg('P_values', doc="absolute pressures in path order (blank rows ignored) [range; pressure in the units argument's unit (kPa by default)]", ndim=2, err_to_str=True)
-@_xw.arg('V_values', doc="volumes in the same order [range; volume in the units argument's unit (m3 by default)]", ndim=2, err_to_str=True)
-@_xw.arg('method', doc='trapezoid (default) or polytropic (each segment P·V^n = C) (optional) [text]', ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_WORK_PV(P_values, V_values, method=None, units=None):
+@_xw.arg('P_values', ndim=2, err_to_str=True, doc="absolute pressures in path order (blank rows ignored) [range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('V_values', ndim=2, err_to_str=True, doc="volumes in the same order [range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('method', ndim=2, err_to_str=True, doc='trapezoid (default) or polytropic (each segment P·V^n = C) (optional) [text]')
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_WORK_PV(P_values, V_values, method=None, units=None, caller=None):
     'Boundary work from measured pressure–volume points (two ranges, in path order); a closed loop (last point = first) gives the net cycle work; positive = work by the system.'
-    return _cell('JB_WORK_PV', P_values, V_values, method, units)
+    return _cell('JB_WORK_PV', P_values, V_values, method, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Boundary and other work')
-@_xw.arg('state1', doc="initial state text from JB_STATE (real fluid, or ideal gas such as 'air (ideal gas) | …') [text]", ndim=2, err_to_str=True)
-@_xw.arg('path', doc="rigid, isobaric, isothermal, isentropic, 'polytropic n = 1.3', 'linear slope = 500 kPa/m3', 'stops P = 4 bar' or 'stops V = 0.02 m3' [text]", ndim=2, err_to_str=True)
-@_xw.arg('end_spec', doc="end condition with unit: V2, v2, P2, T2, x2, Q or W, e.g. 'T2 in degC' [text]", ndim=2, err_to_str=True)
-@_xw.arg('end_value', doc='value of the end condition, in its unit [number or range]', ndim=2, err_to_str=True)
-@_xw.arg('mass', doc="mass of the system (default 1 of the mass unit) (optional) [number or range; mass in the units argument's unit (kg by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_WORK_PATH(state1, path, end_spec, end_value, mass=None, units=None):
+@_xw.arg('state1', ndim=2, err_to_str=True, doc="initial state text from JB_STATE (real fluid, or ideal gas such as 'air (ideal gas) | …') [text]")
+@_xw.arg('path', ndim=2, err_to_str=True, doc="rigid, isobaric, isothermal, isentropic, 'polytropic n = 1.3', 'linear slope = 500 kPa/m3', 'stops P = 4 bar' or 'stops V = 0.02 m3' [text]")
+@_xw.arg('end_spec', ndim=2, err_to_str=True, doc="end condition with unit: V2, v2, P2, T2, x2, Q or W, e.g. 'T2 in degC' [text]")
+@_xw.arg('end_value', ndim=2, err_to_str=True, doc='value of the end condition, in its unit [number or range]')
+@_xw.arg('mass', ndim=2, err_to_str=True, doc="mass of the system (default 1 of the mass unit) (optional) [number or range; mass in the units argument's unit (kg by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_WORK_PATH(state1, path, end_spec, end_value, mass=None, units=None, caller=None):
     'Boundary work of a mass of real fluid or ideal gas along a path (isothermal, isentropic, polytropic …) on its equation of state, to an end condition; positive = work by the system.'
-    return _cell('JB_WORK_PATH', state1, path, end_spec, end_value, mass, units)
+    return _cell('JB_WORK_PATH', state1, path, end_spec, end_value, mass, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Boundary and other work')
-@_xw.arg('voltage', doc="voltage across the element [number or range; voltage in the units argument's unit (V by default)]", ndim=2, err_to_str=True)
-@_xw.arg('current', doc="current through it [number or range; current in the units argument's unit (A by default)]", ndim=2, err_to_str=True)
-@_xw.arg('duration', doc="time it runs [number or range; time in the units argument's unit (s by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_WORK_ELECTRIC_IN(voltage, current, duration, units=None):
+@_xw.arg('voltage', ndim=2, err_to_str=True, doc="voltage across the element [number or range; voltage in the units argument's unit (V by default)]")
+@_xw.arg('current', ndim=2, err_to_str=True, doc="current through it [number or range; current in the units argument's unit (A by default)]")
+@_xw.arg('duration', ndim=2, err_to_str=True, doc="time it runs [number or range; time in the units argument's unit (s by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_WORK_ELECTRIC_IN(voltage, current, duration, units=None, caller=None):
     'Electrical energy delivered to the system, V·I·Δt; it is work done ON the system, so enter it in a balance as a negative W_other.'
-    return _cell('JB_WORK_ELECTRIC_IN', voltage, current, duration, units)
+    return _cell('JB_WORK_ELECTRIC_IN', voltage, current, duration, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Boundary and other work')
-@_xw.arg('torque', doc="shaft torque [number or range; torque in the units argument's unit (N*m by default)]", ndim=2, err_to_str=True)
-@_xw.arg('revolutions', doc='number of turns [number or range]', ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_WORK_SHAFT_IN(torque, revolutions, units=None):
+@_xw.arg('torque', ndim=2, err_to_str=True, doc="shaft torque [number or range; torque in the units argument's unit (N*m by default)]")
+@_xw.arg('revolutions', ndim=2, err_to_str=True, doc='number of turns [number or range]')
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_WORK_SHAFT_IN(torque, revolutions, units=None, caller=None):
     'Shaft (paddle-wheel, stirrer) work delivered to the system, 2π·N·τ; it is work done ON the system, so enter it in a balance as a negative W_other.'
-    return _cell('JB_WORK_SHAFT_IN', torque, revolutions, units)
+    return _cell('JB_WORK_SHAFT_IN', torque, revolutions, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Polytropic analysis')
-@_xw.arg('P_1', doc="initial absolute pressure [number or range; pressure in the units argument's unit (kPa by default)]", ndim=2, err_to_str=True)
-@_xw.arg('V_1', doc="initial volume [number or range; volume in the units argument's unit (m3 by default)]", ndim=2, err_to_str=True)
-@_xw.arg('P_2', doc="final absolute pressure [number or range; pressure in the units argument's unit (kPa by default)]", ndim=2, err_to_str=True)
-@_xw.arg('V_2', doc="final volume [number or range; volume in the units argument's unit (m3 by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_POLY_EXPONENT(P_1, V_1, P_2, V_2, units=None):
+@_xw.arg('P_1', ndim=2, err_to_str=True, doc="initial absolute pressure [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('V_1', ndim=2, err_to_str=True, doc="initial volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('P_2', ndim=2, err_to_str=True, doc="final absolute pressure [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('V_2', ndim=2, err_to_str=True, doc="final volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_POLY_EXPONENT(P_1, V_1, P_2, V_2, units=None, caller=None):
     'Polytropic exponent n of the path P·V^n = C through two states.'
-    return _cell('JB_POLY_EXPONENT', P_1, V_1, P_2, V_2, units)
+    return _cell('JB_POLY_EXPONENT', P_1, V_1, P_2, V_2, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Polytropic analysis')
-@_xw.arg('P_values', doc="absolute pressures (blank rows ignored) [range; pressure in the units argument's unit (kPa by default)]", ndim=2, err_to_str=True)
-@_xw.arg('V_values', doc="volumes in the same order [range; volume in the units argument's unit (m3 by default)]", ndim=2, err_to_str=True)
-@_xw.arg('show', doc='n (default) or all (optional) [text]', ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_POLY_FIT(P_values, V_values, show=None, units=None):
+@_xw.arg('P_values', ndim=2, err_to_str=True, doc="absolute pressures (blank rows ignored) [range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('V_values', ndim=2, err_to_str=True, doc="volumes in the same order [range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('show', ndim=2, err_to_str=True, doc='n (default) or all (optional) [text]')
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_POLY_FIT(P_values, V_values, show=None, units=None, caller=None):
     "Least-squares polytropic fit of measured data in ln P – ln V: n, or with show = all a row (n, C in the sheet's P·V^n units, R²)."
-    return _cell('JB_POLY_FIT', P_values, V_values, show, units)
+    return _cell('JB_POLY_FIT', P_values, V_values, show, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Polytropic analysis')
-@_xw.arg('P_1', doc="initial absolute pressure [number or range; pressure in the units argument's unit (kPa by default)]", ndim=2, err_to_str=True)
-@_xw.arg('V_1', doc="initial volume [number or range; volume in the units argument's unit (m3 by default)]", ndim=2, err_to_str=True)
-@_xw.arg('V_2', doc="final volume [number or range; volume in the units argument's unit (m3 by default)]", ndim=2, err_to_str=True)
-@_xw.arg('n', doc='polytropic exponent n of P·V^n = C [number or range]', ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_POLY_P2(P_1, V_1, V_2, n, units=None):
+@_xw.arg('P_1', ndim=2, err_to_str=True, doc="initial absolute pressure [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('V_1', ndim=2, err_to_str=True, doc="initial volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('V_2', ndim=2, err_to_str=True, doc="final volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('n', ndim=2, err_to_str=True, doc='polytropic exponent n of P·V^n = C [number or range]')
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_POLY_P2(P_1, V_1, V_2, n, units=None, caller=None):
     'End pressure on P·V^n = C: P2 = P1·(V1/V2)^n.'
-    return _cell('JB_POLY_P2', P_1, V_1, V_2, n, units)
+    return _cell('JB_POLY_P2', P_1, V_1, V_2, n, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Polytropic analysis')
-@_xw.arg('P_1', doc="initial absolute pressure [number or range; pressure in the units argument's unit (kPa by default)]", ndim=2, err_to_str=True)
-@_xw.arg('V_1', doc="initial volume [number or range; volume in the units argument's unit (m3 by default)]", ndim=2, err_to_str=True)
-@_xw.arg('P_2', doc="final absolute pressure [number or range; pressure in the units argument's unit (kPa by default)]", ndim=2, err_to_str=True)
-@_xw.arg('n', doc='polytropic exponent n of P·V^n = C [number or range]', ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_POLY_V2(P_1, V_1, P_2, n, units=None):
+@_xw.arg('P_1', ndim=2, err_to_str=True, doc="initial absolute pressure [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('V_1', ndim=2, err_to_str=True, doc="initial volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('P_2', ndim=2, err_to_str=True, doc="final absolute pressure [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('n', ndim=2, err_to_str=True, doc='polytropic exponent n of P·V^n = C [number or range]')
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_POLY_V2(P_1, V_1, P_2, n, units=None, caller=None):
     'End volume on P·V^n = C: V2 = V1·(P1/P2)^(1/n).'
-    return _cell('JB_POLY_V2', P_1, V_1, P_2, n, units)
+    return _cell('JB_POLY_V2', P_1, V_1, P_2, n, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Polytropic analysis')
-@_xw.arg('T_1', doc="initial absolute temperature [number or range; temperature in the units argument's unit (K by default)]", ndim=2, err_to_str=True)
-@_xw.arg('V_1', doc="initial volume [number or range; volume in the units argument's unit (m3 by default)]", ndim=2, err_to_str=True)
-@_xw.arg('V_2', doc="final volume [number or range; volume in the units argument's unit (m3 by default)]", ndim=2, err_to_str=True)
-@_xw.arg('n', doc='polytropic exponent n of P·V^n = C [number or range]', ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_POLY_T2_FROM_V(T_1, V_1, V_2, n, units=None):
+@_xw.arg('T_1', ndim=2, err_to_str=True, doc="initial absolute temperature [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('V_1', ndim=2, err_to_str=True, doc="initial volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('V_2', ndim=2, err_to_str=True, doc="final volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('n', ndim=2, err_to_str=True, doc='polytropic exponent n of P·V^n = C [number or range]')
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_POLY_T2_FROM_V(T_1, V_1, V_2, n, units=None, caller=None):
     'End temperature of an ideal gas on P·V^n = C from the volume ratio: T2 = T1·(V1/V2)^(n − 1).'
-    return _cell('JB_POLY_T2_FROM_V', T_1, V_1, V_2, n, units)
+    return _cell('JB_POLY_T2_FROM_V', T_1, V_1, V_2, n, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Polytropic analysis')
-@_xw.arg('T_1', doc="initial absolute temperature [number or range; temperature in the units argument's unit (K by default)]", ndim=2, err_to_str=True)
-@_xw.arg('P_1', doc="initial absolute pressure [number or range; pressure in the units argument's unit (kPa by default)]", ndim=2, err_to_str=True)
-@_xw.arg('P_2', doc="final absolute pressure [number or range; pressure in the units argument's unit (kPa by default)]", ndim=2, err_to_str=True)
-@_xw.arg('n', doc='polytropic exponent n of P·V^n = C [number or range]', ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_POLY_T2_FROM_P(T_1, P_1, P_2, n, units=None):
+@_xw.arg('T_1', ndim=2, err_to_str=True, doc="initial absolute temperature [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('P_1', ndim=2, err_to_str=True, doc="initial absolute pressure [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('P_2', ndim=2, err_to_str=True, doc="final absolute pressure [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('n', ndim=2, err_to_str=True, doc='polytropic exponent n of P·V^n = C [number or range]')
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_POLY_T2_FROM_P(T_1, P_1, P_2, n, units=None, caller=None):
     'End temperature of an ideal gas on P·V^n = C from the pressure ratio: T2 = T1·(P2/P1)^((n − 1)/n).'
-    return _cell('JB_POLY_T2_FROM_P', T_1, P_1, P_2, n, units)
+    return _cell('JB_POLY_T2_FROM_P', T_1, P_1, P_2, n, units, caller=caller)
 
 
 @_xw.func(category='joulebook · First law of a closed system')
-@_xw.arg('dU', doc="internal-energy change ΔU [number or range; energy in the units argument's unit (kJ by default)]", ndim=2, err_to_str=True)
-@_xw.arg('W_b', doc="boundary work by the system (+ on expansion) [number or range; energy in the units argument's unit (kJ by default)]", ndim=2, err_to_str=True)
-@_xw.arg('W_other', doc="other work BY the system: shaft, electrical (negative when done on it) (optional) [number or range; energy in the units argument's unit (kJ by default)]", ndim=2, err_to_str=True)
-@_xw.arg('dKE', doc="kinetic-energy change (optional) (optional) [number or range; energy in the units argument's unit (kJ by default)]", ndim=2, err_to_str=True)
-@_xw.arg('dPE', doc="potential-energy change (optional) (optional) [number or range; energy in the units argument's unit (kJ by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_BALANCE_HEAT(dU, W_b, W_other=None, dKE=None, dPE=None, units=None):
+@_xw.arg('dU', ndim=2, err_to_str=True, doc="internal-energy change ΔU [number or range; energy in the units argument's unit (kJ by default)]")
+@_xw.arg('W_b', ndim=2, err_to_str=True, doc="boundary work by the system (+ on expansion) [number or range; energy in the units argument's unit (kJ by default)]")
+@_xw.arg('W_other', ndim=2, err_to_str=True, doc="other work BY the system: shaft, electrical (negative when done on it) (optional) [number or range; energy in the units argument's unit (kJ by default)]")
+@_xw.arg('dKE', ndim=2, err_to_str=True, doc="kinetic-energy change (optional) (optional) [number or range; energy in the units argument's unit (kJ by default)]")
+@_xw.arg('dPE', ndim=2, err_to_str=True, doc="potential-energy change (optional) (optional) [number or range; energy in the units argument's unit (kJ by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_BALANCE_HEAT(dU, W_b, W_other=None, dKE=None, dPE=None, units=None, caller=None):
     'Heat of a closed system from the first law, Q = ΔU + ΔKE + ΔPE + W_b + W_other; heat into the system +, work by the system + (work done on it is negative).'
-    return _cell('JB_BALANCE_HEAT', dU, W_b, W_other, dKE, dPE, units)
+    return _cell('JB_BALANCE_HEAT', dU, W_b, W_other, dKE, dPE, units, caller=caller)
 
 
 @_xw.func(category='joulebook · First law of a closed system')
-@_xw.arg('Q', doc="heat into the system [number or range; energy in the units argument's unit (kJ by default)]", ndim=2, err_to_str=True)
-@_xw.arg('W_b', doc="boundary work by the system (+ on expansion) [number or range; energy in the units argument's unit (kJ by default)]", ndim=2, err_to_str=True)
-@_xw.arg('dU', doc="internal-energy change ΔU [number or range; energy in the units argument's unit (kJ by default)]", ndim=2, err_to_str=True)
-@_xw.arg('W_other', doc="other work BY the system: shaft, electrical (negative when done on it) (optional) [number or range; energy in the units argument's unit (kJ by default)]", ndim=2, err_to_str=True)
-@_xw.arg('dKE', doc="kinetic-energy change (optional) (optional) [number or range; energy in the units argument's unit (kJ by default)]", ndim=2, err_to_str=True)
-@_xw.arg('dPE', doc="potential-energy change (optional) (optional) [number or range; energy in the units argument's unit (kJ by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_BALANCE_GAP(Q, W_b, dU, W_other=None, dKE=None, dPE=None, units=None):
+@_xw.arg('Q', ndim=2, err_to_str=True, doc="heat into the system [number or range; energy in the units argument's unit (kJ by default)]")
+@_xw.arg('W_b', ndim=2, err_to_str=True, doc="boundary work by the system (+ on expansion) [number or range; energy in the units argument's unit (kJ by default)]")
+@_xw.arg('dU', ndim=2, err_to_str=True, doc="internal-energy change ΔU [number or range; energy in the units argument's unit (kJ by default)]")
+@_xw.arg('W_other', ndim=2, err_to_str=True, doc="other work BY the system: shaft, electrical (negative when done on it) (optional) [number or range; energy in the units argument's unit (kJ by default)]")
+@_xw.arg('dKE', ndim=2, err_to_str=True, doc="kinetic-energy change (optional) (optional) [number or range; energy in the units argument's unit (kJ by default)]")
+@_xw.arg('dPE', ndim=2, err_to_str=True, doc="potential-energy change (optional) (optional) [number or range; energy in the units argument's unit (kJ by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_BALANCE_GAP(Q, W_b, dU, W_other=None, dKE=None, dPE=None, units=None, caller=None):
     "Checker's first-law gap Q − W − ΔE for numbers already in a workbook; 0 when they close. Heat into the system +, work by the system +."
-    return _cell('JB_BALANCE_GAP', Q, W_b, dU, W_other, dKE, dPE, units)
+    return _cell('JB_BALANCE_GAP', Q, W_b, dU, W_other, dKE, dPE, units, caller=caller)
 
 
 @_xw.func(category='joulebook · First law of a closed system')
-@_xw.arg('m', doc="mass of the system [number or range; mass in the units argument's unit (kg by default)]", ndim=2, err_to_str=True)
-@_xw.arg('vel_1', doc="initial speed [number or range; speed in the units argument's unit (m/s by default)]", ndim=2, err_to_str=True)
-@_xw.arg('vel_2', doc="final speed [number or range; speed in the units argument's unit (m/s by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_BALANCE_DELTA_KE(m, vel_1, vel_2, units=None):
+@_xw.arg('m', ndim=2, err_to_str=True, doc="mass of the system [number or range; mass in the units argument's unit (kg by default)]")
+@_xw.arg('vel_1', ndim=2, err_to_str=True, doc="initial speed [number or range; speed in the units argument's unit (m/s by default)]")
+@_xw.arg('vel_2', ndim=2, err_to_str=True, doc="final speed [number or range; speed in the units argument's unit (m/s by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_BALANCE_DELTA_KE(m, vel_1, vel_2, units=None, caller=None):
     'Kinetic-energy change of a moving closed system, ΔKE = m·(V2² − V1²)/2.'
-    return _cell('JB_BALANCE_DELTA_KE', m, vel_1, vel_2, units)
+    return _cell('JB_BALANCE_DELTA_KE', m, vel_1, vel_2, units, caller=caller)
 
 
 @_xw.func(category='joulebook · First law of a closed system')
-@_xw.arg('m', doc="mass of the system [number or range; mass in the units argument's unit (kg by default)]", ndim=2, err_to_str=True)
-@_xw.arg('z_1', doc="initial elevation [number or range; length in the units argument's unit (m by default)]", ndim=2, err_to_str=True)
-@_xw.arg('z_2', doc="final elevation [number or range; length in the units argument's unit (m by default)]", ndim=2, err_to_str=True)
-@_xw.arg('g', doc="gravity (default 9.80665 m/s2) (optional) [number or range; acceleration in the units argument's unit (m/s2 by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_BALANCE_DELTA_PE(m, z_1, z_2, g=None, units=None):
+@_xw.arg('m', ndim=2, err_to_str=True, doc="mass of the system [number or range; mass in the units argument's unit (kg by default)]")
+@_xw.arg('z_1', ndim=2, err_to_str=True, doc="initial elevation [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('z_2', ndim=2, err_to_str=True, doc="final elevation [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('g', ndim=2, err_to_str=True, doc="gravity (default 9.80665 m/s2) (optional) [number or range; acceleration in the units argument's unit (m/s2 by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_BALANCE_DELTA_PE(m, z_1, z_2, g=None, units=None, caller=None):
     'Potential-energy change of a closed system raised or lowered, ΔPE = m·g·(z2 − z1), g = 9.80665 m/s² unless given.'
-    return _cell('JB_BALANCE_DELTA_PE', m, z_1, z_2, g, units)
+    return _cell('JB_BALANCE_DELTA_PE', m, z_1, z_2, g, units, caller=caller)
 
 
 @_xw.func(category='joulebook · First law of a closed system')
-@_xw.arg('gas', doc="gas name (air, nitrogen, CO2 …) or constant-cp model 'air | k = 1.4' [text]", ndim=2, err_to_str=True)
-@_xw.arg('m', doc="mass of gas [number or range; mass in the units argument's unit (kg by default)]", ndim=2, err_to_str=True)
-@_xw.arg('T_1', doc="initial absolute temperature [number or range; temperature in the units argument's unit (K by default)]", ndim=2, err_to_str=True)
-@_xw.arg('T_2', doc="final absolute temperature [number or range; temperature in the units argument's unit (K by default)]", ndim=2, err_to_str=True)
-@_xw.arg('W_other', doc="other work BY the system: shaft, electrical (negative when done on it) (optional) [number or range; energy in the units argument's unit (kJ by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_HEAT_ISOBARIC_GAS(gas, m, T_1, T_2, W_other=None, units=None):
+@_xw.arg('gas', ndim=2, err_to_str=True, doc="gas name (air, nitrogen, CO2 …) or constant-cp model 'air | k = 1.4' [text]")
+@_xw.arg('m', ndim=2, err_to_str=True, doc="mass of gas [number or range; mass in the units argument's unit (kg by default)]")
+@_xw.arg('T_1', ndim=2, err_to_str=True, doc="initial absolute temperature [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('T_2', ndim=2, err_to_str=True, doc="final absolute temperature [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('W_other', ndim=2, err_to_str=True, doc="other work BY the system: shaft, electrical (negative when done on it) (optional) [number or range; energy in the units argument's unit (kJ by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_HEAT_ISOBARIC_GAS(gas, m, T_1, T_2, W_other=None, units=None, caller=None):
     'Heat to a mass of ideal gas at constant pressure, Q = m·Δh + W_other (Q − W_other = ΔH); heat into the system +, W_other by the system +.'
-    return _cell('JB_HEAT_ISOBARIC_GAS', gas, m, T_1, T_2, W_other, units)
+    return _cell('JB_HEAT_ISOBARIC_GAS', gas, m, T_1, T_2, W_other, units, caller=caller)
 
 
 @_xw.func(category='joulebook · First law of a closed system')
-@_xw.arg('gas', doc="gas name (air, nitrogen, CO2 …) or constant-cp model 'air | k = 1.4' [text]", ndim=2, err_to_str=True)
-@_xw.arg('m', doc="mass of gas [number or range; mass in the units argument's unit (kg by default)]", ndim=2, err_to_str=True)
-@_xw.arg('T_1', doc="initial absolute temperature [number or range; temperature in the units argument's unit (K by default)]", ndim=2, err_to_str=True)
-@_xw.arg('T_2', doc="final absolute temperature [number or range; temperature in the units argument's unit (K by default)]", ndim=2, err_to_str=True)
-@_xw.arg('W_other', doc="other work BY the system: shaft, electrical (negative when done on it) (optional) [number or range; energy in the units argument's unit (kJ by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_HEAT_RIGID_GAS(gas, m, T_1, T_2, W_other=None, units=None):
+@_xw.arg('gas', ndim=2, err_to_str=True, doc="gas name (air, nitrogen, CO2 …) or constant-cp model 'air | k = 1.4' [text]")
+@_xw.arg('m', ndim=2, err_to_str=True, doc="mass of gas [number or range; mass in the units argument's unit (kg by default)]")
+@_xw.arg('T_1', ndim=2, err_to_str=True, doc="initial absolute temperature [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('T_2', ndim=2, err_to_str=True, doc="final absolute temperature [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('W_other', ndim=2, err_to_str=True, doc="other work BY the system: shaft, electrical (negative when done on it) (optional) [number or range; energy in the units argument's unit (kJ by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_HEAT_RIGID_GAS(gas, m, T_1, T_2, W_other=None, units=None, caller=None):
     'Heat to a mass of ideal gas in a rigid vessel, Q = m·Δu + W_other; heat into the system +, W_other by the system + (a stirrer or heater inside is negative).'
-    return _cell('JB_HEAT_RIGID_GAS', gas, m, T_1, T_2, W_other, units)
+    return _cell('JB_HEAT_RIGID_GAS', gas, m, T_1, T_2, W_other, units, caller=caller)
 
 
 @_xw.func(category='joulebook · End states of processes', call_in_wizard=False)
-@_xw.arg('state1', doc="initial state text from JB_STATE (real fluid, or ideal gas such as 'air (ideal gas) | …') [text]", ndim=2, err_to_str=True)
-@_xw.arg('path', doc="rigid, isobaric, isothermal, isentropic, 'polytropic n = 1.3', 'linear slope = 500 kPa/m3', 'stops P = 4 bar' or 'stops V = 0.02 m3' [text]", ndim=2, err_to_str=True)
-@_xw.arg('end_spec', doc="end condition with unit: V2, v2, P2, T2, x2, Q or W, e.g. 'T2 in degC' [text]", ndim=2, err_to_str=True)
-@_xw.arg('end_value', doc='value of the end condition, in its unit [number or range]', ndim=2, err_to_str=True)
-@_xw.arg('want', doc="P2 T2 v2 V2 x2 u2 h2 s2 phase2 W Q dU dH, with unit, e.g. 'P2 in MPa' [text]", ndim=2, err_to_str=True)
-@_xw.arg('mass', doc="mass of the system (default 1 of the mass unit) (optional) [number or range; mass in the units argument's unit (kg by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_PROCESS(state1, path, end_spec, end_value, want, mass=None, units=None):
+@_xw.arg('state1', ndim=2, err_to_str=True, doc="initial state text from JB_STATE (real fluid, or ideal gas such as 'air (ideal gas) | …') [text]")
+@_xw.arg('path', ndim=2, err_to_str=True, doc="rigid, isobaric, isothermal, isentropic, 'polytropic n = 1.3', 'linear slope = 500 kPa/m3', 'stops P = 4 bar' or 'stops V = 0.02 m3' [text]")
+@_xw.arg('end_spec', ndim=2, err_to_str=True, doc="end condition with unit: V2, v2, P2, T2, x2, Q or W, e.g. 'T2 in degC' [text]")
+@_xw.arg('end_value', ndim=2, err_to_str=True, doc='value of the end condition, in its unit [number or range]')
+@_xw.arg('want', ndim=2, err_to_str=True, doc="P2 T2 v2 V2 x2 u2 h2 s2 phase2 W Q dU dH, with unit, e.g. 'P2 in MPa' [text]")
+@_xw.arg('mass', ndim=2, err_to_str=True, doc="mass of the system (default 1 of the mass unit) (optional) [number or range; mass in the units argument's unit (kg by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_PROCESS(state1, path, end_spec, end_value, want, mass=None, units=None, caller=None):
     'End state, work or heat of a fixed mass taken from state1 along a path (rigid, isobaric, isothermal, isentropic, polytropic n=…, linear slope=…, stops P=…/V=…) to an end condition. Q in +, W out +.'
-    return _cell('JB_PROCESS', state1, path, end_spec, end_value, want, mass, units)
+    return _cell('JB_PROCESS', state1, path, end_spec, end_value, want, mass, units, caller=caller)
 
 
 @_xw.func(category='joulebook · End states of processes', call_in_wizard=False)
-@_xw.arg('state1', doc="initial state text from JB_STATE (real fluid, or ideal gas such as 'air (ideal gas) | …') [text]", ndim=2, err_to_str=True)
-@_xw.arg('path', doc="rigid, isobaric, isothermal, isentropic, 'polytropic n = 1.3', 'linear slope = 500 kPa/m3', 'stops P = 4 bar' or 'stops V = 0.02 m3' [text]", ndim=2, err_to_str=True)
-@_xw.arg('end_spec', doc="end condition with unit: V2, v2, P2, T2, x2, Q or W, e.g. 'T2 in degC' [text]", ndim=2, err_to_str=True)
-@_xw.arg('end_value', doc='value of the end condition, in its unit [number or range]', ndim=2, err_to_str=True)
-@_xw.arg('mass', doc="mass of the system (default 1 of the mass unit) (optional) [number or range; mass in the units argument's unit (kg by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_PROCESS_TABLE(state1, path, end_spec, end_value, mass=None, units=None):
+@_xw.arg('state1', ndim=2, err_to_str=True, doc="initial state text from JB_STATE (real fluid, or ideal gas such as 'air (ideal gas) | …') [text]")
+@_xw.arg('path', ndim=2, err_to_str=True, doc="rigid, isobaric, isothermal, isentropic, 'polytropic n = 1.3', 'linear slope = 500 kPa/m3', 'stops P = 4 bar' or 'stops V = 0.02 m3' [text]")
+@_xw.arg('end_spec', ndim=2, err_to_str=True, doc="end condition with unit: V2, v2, P2, T2, x2, Q or W, e.g. 'T2 in degC' [text]")
+@_xw.arg('end_value', ndim=2, err_to_str=True, doc='value of the end condition, in its unit [number or range]')
+@_xw.arg('mass', ndim=2, err_to_str=True, doc="mass of the system (default 1 of the mass unit) (optional) [number or range; mass in the units argument's unit (kg by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_PROCESS_TABLE(state1, path, end_spec, end_value, mass=None, units=None, caller=None):
     'All end-state and energy results of JB_PROCESS as a spilled table (quantity, value, unit): P2 T2 v2 V2 x2 u2 h2 s2 phase2 W Q dU dH. Q in +, W out +.'
-    return _cell('JB_PROCESS_TABLE', state1, path, end_spec, end_value, mass, units)
+    return _cell('JB_PROCESS_TABLE', state1, path, end_spec, end_value, mass, units, caller=caller)
 
 
 @_xw.func(category='joulebook · End states of processes', call_in_wizard=False)
-@_xw.arg('state1', doc="initial state text from JB_STATE (real fluid, or ideal gas such as 'air (ideal gas) | …') [text]", ndim=2, err_to_str=True)
-@_xw.arg('path', doc="rigid, isobaric, isothermal, isentropic, 'polytropic n = 1.3', 'linear slope = 500 kPa/m3', 'stops P = 4 bar' or 'stops V = 0.02 m3' [text]", ndim=2, err_to_str=True)
-@_xw.arg('end_spec', doc="end condition with unit: V2, v2, P2, T2, x2, Q or W, e.g. 'T2 in degC' [text]", ndim=2, err_to_str=True)
-@_xw.arg('end_value', doc='value of the end condition, in its unit [number or range]', ndim=2, err_to_str=True)
-@_xw.arg('points', doc='number of points (default 21, 2 to 10000) (optional) [number or range]', ndim=2, err_to_str=True)
-@_xw.arg('mass', doc="mass of the system (default 1 of the mass unit) (optional) [number or range; mass in the units argument's unit (kg by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_PROCESS_PATH(state1, path, end_spec, end_value, points=None, mass=None, units=None):
+@_xw.arg('state1', ndim=2, err_to_str=True, doc="initial state text from JB_STATE (real fluid, or ideal gas such as 'air (ideal gas) | …') [text]")
+@_xw.arg('path', ndim=2, err_to_str=True, doc="rigid, isobaric, isothermal, isentropic, 'polytropic n = 1.3', 'linear slope = 500 kPa/m3', 'stops P = 4 bar' or 'stops V = 0.02 m3' [text]")
+@_xw.arg('end_spec', ndim=2, err_to_str=True, doc="end condition with unit: V2, v2, P2, T2, x2, Q or W, e.g. 'T2 in degC' [text]")
+@_xw.arg('end_value', ndim=2, err_to_str=True, doc='value of the end condition, in its unit [number or range]')
+@_xw.arg('points', ndim=2, err_to_str=True, doc='number of points (default 21, 2 to 10000) (optional) [number or range]')
+@_xw.arg('mass', ndim=2, err_to_str=True, doc="mass of the system (default 1 of the mass unit) (optional) [number or range; mass in the units argument's unit (kg by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_PROCESS_PATH(state1, path, end_spec, end_value, points=None, mass=None, units=None, caller=None):
     'Points along a JB_PROCESS path as a spilled table with a header row: V, P, T, v, s, for a native P–v or T–s chart of the process.'
-    return _cell('JB_PROCESS_PATH', state1, path, end_spec, end_value, points, mass, units)
+    return _cell('JB_PROCESS_PATH', state1, path, end_spec, end_value, points, mass, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Cycles')
-@_xw.arg('values', doc="heats or works of the cycle's processes [range; energy in the units argument's unit (kJ by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_CYCLE_NET(values, units=None):
+@_xw.arg('values', ndim=2, err_to_str=True, doc="heats or works of the cycle's processes [range; energy in the units argument's unit (kJ by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_CYCLE_NET(values, units=None, caller=None):
     "Net value over a cycle's processes: Σ of a range of heats (Q_net) or works (W_net); blanks ignored."
-    return _cell('JB_CYCLE_NET', values, units)
+    return _cell('JB_CYCLE_NET', values, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Cycles')
-@_xw.arg('Q_values', doc="heats into the system of each process (+ in) [range; energy in the units argument's unit (kJ by default)]", ndim=2, err_to_str=True)
-@_xw.arg('W_values', doc="works by the system of each process (+ out) [range; energy in the units argument's unit (kJ by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_CYCLE_GAP(Q_values, W_values, units=None):
+@_xw.arg('Q_values', ndim=2, err_to_str=True, doc="heats into the system of each process (+ in) [range; energy in the units argument's unit (kJ by default)]")
+@_xw.arg('W_values', ndim=2, err_to_str=True, doc="works by the system of each process (+ out) [range; energy in the units argument's unit (kJ by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_CYCLE_GAP(Q_values, W_values, units=None, caller=None):
     'Closure gap of a cycle, Q_net − W_net; 0 when the process results close (ΔE over a cycle is 0). Heat in +, work by the system +.'
-    return _cell('JB_CYCLE_GAP', Q_values, W_values, units)
+    return _cell('JB_CYCLE_GAP', Q_values, W_values, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Cycles')
-@_xw.arg('Q_values', doc="heats into the system of each process (+ in) [range; energy in the units argument's unit (kJ by default)]", ndim=2, err_to_str=True)
-@_xw.arg('W_values', doc="works by the system of each process (+ out) [range; energy in the units argument's unit (kJ by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_CYCLE_EFFICIENCY(Q_values, W_values, units=None):
+@_xw.arg('Q_values', ndim=2, err_to_str=True, doc="heats into the system of each process (+ in) [range; energy in the units argument's unit (kJ by default)]")
+@_xw.arg('W_values', ndim=2, err_to_str=True, doc="works by the system of each process (+ out) [range; energy in the units argument's unit (kJ by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_CYCLE_EFFICIENCY(Q_values, W_values, units=None, caller=None):
     'Thermal efficiency W_net / Q_in of a cycle (Q_in = sum of positive heats); refuses a cycle whose Q_net and W_net differ. Heat in +, work by the system +.'
-    return _cell('JB_CYCLE_EFFICIENCY', Q_values, W_values, units)
+    return _cell('JB_CYCLE_EFFICIENCY', Q_values, W_values, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Stored expansion energy', call_in_wizard=False)
-@_xw.arg('state', doc='state text of the contents from JB_STATE (real fluid or ideal gas) [text]', ndim=2, err_to_str=True)
-@_xw.arg('V', doc="gas volume [number or range; volume in the units argument's unit (m3 by default)]", ndim=2, err_to_str=True)
-@_xw.arg('P_amb', doc="absolute ambient pressure (default 101.325 kPa) (optional) [number or range; pressure in the units argument's unit (kPa by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_STORED_ISENTROPIC(state, V, P_amb=None, units=None):
+@_xw.arg('state', ndim=2, err_to_str=True, doc='state text of the contents from JB_STATE (real fluid or ideal gas) [text]')
+@_xw.arg('V', ndim=2, err_to_str=True, doc="gas volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('P_amb', ndim=2, err_to_str=True, doc="absolute ambient pressure (default 101.325 kPa) (optional) [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_STORED_ISENTROPIC(state, V, P_amb=None, units=None, caller=None):
     'Stored expansion energy of a gas volume: isentropic expansion to ambient on the real-fluid equation of state, m·(u1 − u2s). An estimate: pressure tests are governed by the codes.'
-    return _cell('JB_STORED_ISENTROPIC', state, V, P_amb, units)
+    return _cell('JB_STORED_ISENTROPIC', state, V, P_amb, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Stored expansion energy', call_in_wizard=False)
-@_xw.arg('P', doc="absolute gas pressure [number or range; pressure in the units argument's unit (kPa by default)]", ndim=2, err_to_str=True)
-@_xw.arg('V', doc="gas volume [number or range; volume in the units argument's unit (m3 by default)]", ndim=2, err_to_str=True)
-@_xw.arg('k', doc='specific-heat ratio cp/cv of the gas (1 < k ≤ 1.7) [number or range]', ndim=2, err_to_str=True)
-@_xw.arg('P_amb', doc="absolute ambient pressure (default 101.325 kPa) (optional) [number or range; pressure in the units argument's unit (kPa by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_STORED_IDEAL_ISENTROPIC(P, V, k, P_amb=None, units=None):
+@_xw.arg('P', ndim=2, err_to_str=True, doc="absolute gas pressure [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('V', ndim=2, err_to_str=True, doc="gas volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('k', ndim=2, err_to_str=True, doc='specific-heat ratio cp/cv of the gas (1 < k ≤ 1.7) [number or range]')
+@_xw.arg('P_amb', ndim=2, err_to_str=True, doc="absolute ambient pressure (default 101.325 kPa) (optional) [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_STORED_IDEAL_ISENTROPIC(P, V, k, P_amb=None, units=None, caller=None):
     'Stored expansion energy, ideal gas with constant k: P·V/(k − 1)·[1 − (P_amb/P)^((k−1)/k)]. An estimate: pressure tests are governed by the codes and a competent engineer.'
-    return _cell('JB_STORED_IDEAL_ISENTROPIC', P, V, k, P_amb, units)
+    return _cell('JB_STORED_IDEAL_ISENTROPIC', P, V, k, P_amb, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Stored expansion energy', call_in_wizard=False)
-@_xw.arg('P', doc="absolute gas pressure [number or range; pressure in the units argument's unit (kPa by default)]", ndim=2, err_to_str=True)
-@_xw.arg('V', doc="gas volume [number or range; volume in the units argument's unit (m3 by default)]", ndim=2, err_to_str=True)
-@_xw.arg('k', doc='specific-heat ratio cp/cv of the gas (1 < k ≤ 1.7) [number or range]', ndim=2, err_to_str=True)
-@_xw.arg('P_amb', doc="absolute ambient pressure (default 101.325 kPa) (optional) [number or range; pressure in the units argument's unit (kPa by default)]", ndim=2, err_to_str=True)
-@_xw.arg('units', doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]", ndim=2, err_to_str=True)
-def JB_STORED_ISOCHORIC(P, V, k, P_amb=None, units=None):
+@_xw.arg('P', ndim=2, err_to_str=True, doc="absolute gas pressure [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('V', ndim=2, err_to_str=True, doc="gas volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('k', ndim=2, err_to_str=True, doc='specific-heat ratio cp/cv of the gas (1 < k ≤ 1.7) [number or range]')
+@_xw.arg('P_amb', ndim=2, err_to_str=True, doc="absolute ambient pressure (default 101.325 kPa) (optional) [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_STORED_ISOCHORIC(P, V, k, P_amb=None, units=None, caller=None):
     'Stored energy as a constant-volume release, (P − P_amb)·V/(k − 1): the largest of the usual estimates. An estimate: pressure tests are governed by the codes and a competent engineer.'
-    return _cell('JB_STORED_ISOCHORIC', P, V, k, P_amb, units)
+    return _cell('JB_STORED_ISOCHORIC', P, V, k, P_amb, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Units and information')
-@_xw.arg('value', doc='number to convert [number or range]', ndim=2, err_to_str=True)
-@_xw.arg('from_unit', doc='unit of value, e.g. psig [text]', ndim=2, err_to_str=True)
-@_xw.arg('to_unit', doc='wanted unit, e.g. kPa [text]', ndim=2, err_to_str=True)
-def JB_CONVERT(value, from_unit, to_unit):
+@_xw.arg('value', ndim=2, err_to_str=True, doc='number to convert [number or range]')
+@_xw.arg('from_unit', ndim=2, err_to_str=True, doc='unit of value, e.g. psig [text]')
+@_xw.arg('to_unit', ndim=2, err_to_str=True, doc='wanted unit, e.g. kPa [text]')
+def JB_CONVERT(value, from_unit, to_unit, caller=None):
     "Convert a value between units of the same quantity; temperatures convert as absolute (27 degC → 300.15 K), gauge pressure uses 101.325 kPa unless written 'kPag @ 95 kPa'."
-    return _cell('JB_CONVERT', value, from_unit, to_unit)
+    return _cell('JB_CONVERT', value, from_unit, to_unit, caller=caller)
 
 
 @_xw.func(category='joulebook · Units and information')
-@_xw.arg('topic', doc='version (default), fluids, materials or units (optional) [text]', ndim=2, err_to_str=True)
-def JB_ABOUT(topic=None):
+@_xw.arg('cell', 'range', doc='a cell holding a joulebook result, e.g. B7 [text]')
+def JB_WHY(cell, caller=None):
+    'The joulebook message behind a cell\'s failure (its error value in a workbook whose JB_ERRORS name is "values", or its text); blank when the cell did not fail.'
+    return _why('JB_WHY', cell, caller=caller)
+
+
+@_xw.func(category='joulebook · Units and information')
+@_xw.arg('topic', ndim=2, err_to_str=True, doc='version (default), fluids, materials or units (optional) [text]')
+def JB_ABOUT(topic=None, caller=None):
     'joulebook and property-library versions; with a topic, a spilled list: fluids, materials, units.'
-    return _cell('JB_ABOUT', topic)
+    return _cell('JB_ABOUT', topic, caller=caller)

@@ -647,6 +647,9 @@ def build_audit(
         for g in _gauge_refs(book, c, c.formula):
             if g not in flags and not any(g.split(" ")[0] in x for x in flags):
                 flags.append(g)
+        why = outcomes[key].message if key in outcomes else ""
+        if why and isinstance(result, tuple):  # an error value (JB_ERRORS "values"): say why
+            flags.insert(0, f"the cell shows {result[1]}: {why}")
         unit_of_cell[key] = str(unit_text or "K-kPa-kJ").strip()
         label = _label(book, c.sheet, c.row, c.col)
         names = _names_for(book, c.sheet, c.ref)

@@ -79,9 +79,10 @@ def compare(book: Book, outcomes: dict, rtol: float = 1e-9, atol: float = 1e-12)
             status, note = "pass", ""
         else:
             status, note = "differs", ""
-        if status == "pass" and _is_our_error_text(o.value):
-            # a joulebook failure is a failed cell even when the file saved the same text
-            status, note = "error", "joulebook error in the value: " + str(o.value)[:200]
+        if status == "pass" and o.message:
+            # a joulebook failure (its text, or an error value in a workbook whose JB_ERRORS
+            # is "values") is a failed cell even when the file saved the same
+            status, note = "error", "joulebook error in the value: " + o.message[:200]
         elif status == "pass" and isinstance(o.value, tuple):
             note = "the cell holds an error value (the file saved the same)"
         if o.note:

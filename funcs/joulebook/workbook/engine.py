@@ -34,7 +34,8 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..catalog import CATALOG
-from ..sheet.cells import cell as sheet_cell
+from ..cellvalues import ERRORS_NAME, ErrorValue, error_style, message_of
+from ..cellvalues import cell as shared_cell
 from .reader import Book, Cell
 from .refs import MAX_COL, MAX_ROW, Ref, col_letters, parse_ref, quote_sheet, tokens
 
@@ -61,7 +62,7 @@ _NEEDS_RANGES = frozenset(
         "ISFORMULA",
         "_XLFN.ISFORMULA",
     }
-)
+) | frozenset(f.name for f in CATALOG if f.reads_message)
 _DYNAMIC = frozenset({"OFFSET", "INDIRECT"})
 #: functions whose arguments are references or arrays in Excel: a single cell given as a whole
 #: argument stays a reference (a 1x1 array), so text, booleans and blanks are skipped as by
@@ -123,6 +124,7 @@ class Outcome:
     value: object
     problem: str = ""
     note: str = ""
+    message: str = ""  # the joulebook message behind a failure (its text or error value)
 
     @property
     def kept(self) -> bool:
@@ -157,7 +159,11 @@ def _register_ours() -> None:
         logging.getLogger("formulas").setLevel(logging.CRITICAL)
         table = formulas.get_functions()
         for f in CATALOG:
-            table[f.name] = _our_function(f.name)
+            table[f.name] = (
+                wrap_func(_message_reader(f.name), ranges=True)
+                if f.reads_message
+                else _our_function(f.name)
+            )
         import collections
 
         from formulas.functions import COMPILING, wrap_impure_func
@@ -234,19 +240,82 @@ def _to_cell_value(x):
     return x
 
 
+def _failed_type():
+    from formulas.tokens.operand import XlError
+
+    class JoulebookFailure(XlError):
+        """An error value that carries its joulebook message (``why``)."""
+
+    return JoulebookFailure
+
+
+_FAILED = None
+
+
+def _as_library(v):
+    """One value of our cell path as the formula library takes it."""
+    global _FAILED
+    if v is None:
+        return ""  # a blank result shows as an empty cell, as xlwings writes it
+    if isinstance(v, ErrorValue):
+        if _FAILED is None:
+            _FAILED = _failed_type()
+        out = _FAILED(v.code)
+        out.why = v.message
+        return out
+    return v
+
+
+def _style() -> str:
+    eng = getattr(_CURRENT, "engine", None)
+    return eng.error_style if eng is not None else "text"
+
+
 def _our_function(name: str):
     def fn(*args):
-        out = sheet_cell(name, *(_to_cell_value(a) for a in args))
+        out = shared_cell(name, *(_to_cell_value(a) for a in args), errors=_style())
         if isinstance(out, list):
             arr = np.empty((len(out), len(out[0]) if out else 0), dtype=object)
             for i, row in enumerate(out):
                 for j, v in enumerate(row):
-                    arr[i, j] = "" if v is None else v
+                    arr[i, j] = _as_library(v)
             return arr
-        return out
+        return _as_library(out)
 
     fn.__name__ = name
     return fn
+
+
+def _message_reader(name: str):
+    """A function that reads a cell's joulebook message (JB_WHY): a reference gives the
+    message the engine kept for its top-left cell; a value gives the message it carries."""
+
+    def fn(x):
+        eng = getattr(_CURRENT, "engine", None)
+        message = ""
+        if hasattr(x, "ranges") and x.ranges and eng is not None:
+            key = _box(eng, x.ranges[0])[:3]
+            out = eng._out.get(key)
+            message = (out.message or message_of(out.value)) if out is not None else ""
+        else:
+            message = _message_of_library(_scalar(x))
+        out = _as_library(shared_cell(name, message or None, errors=_style()))
+        return _Explained(out) if type(out) is str else out
+
+    fn.__name__ = name
+    return fn
+
+
+class _Explained(str):
+    """A message shown by a message reader (JB_WHY): the cell explains a failure elsewhere
+    and has not failed itself."""
+
+
+def _message_of_library(x) -> str:
+    """The joulebook failure a library value carries ("" for none)."""
+    if isinstance(x, _Explained):
+        return ""
+    return getattr(x, "why", "") or message_of(x)
 
 
 def _unknown_function(name: str):
@@ -588,6 +657,8 @@ class Engine:
 
     def __post_init__(self):
         _register_ours()
+        # the workbook's error style, as the xlwings face reads it (joulebook.cellvalues)
+        self.error_style = error_style(self.book.names.get(ERRORS_NAME))
         self._sheet_upper = {s.upper(): s for s in self.book.sheets}
         for s, r, c in self.book.cells:
             mr, mc = self._max.get(s, (0, 0))
@@ -1376,9 +1447,10 @@ class Engine:
             return
         flat = res.reshape(-1)
         for j, m in enumerate(members):
-            v = _plain(flat[0] if flat.size == 1 else flat[j])
+            raw = flat[0] if flat.size == 1 else flat[j]
+            v = _plain(raw)
             values[m] = v
-            self._out[m] = Outcome(v)
+            self._out[m] = Outcome(v, message=_message_of_library(raw))
 
     def _order(self, graph: dict) -> list:
         graph = {k: set(v) for k, v in graph.items()}
@@ -1413,17 +1485,20 @@ class Engine:
                 for cc in range(c1, c2 + 1):
                     i, j = r - r1, cc - c1
                     if arr.ndim == 2 and i < arr.shape[0] and j < arr.shape[1]:
-                        v = _plain(arr[i, j])
+                        raw = arr[i, j]
                     elif arr.ndim == 2 and arr.shape[0] == 1 and j < arr.shape[1]:
-                        v = _plain(arr[0, j])  # a row repeats down the range
+                        raw = arr[0, j]  # a row repeats down the range
                     elif arr.ndim == 2 and arr.shape[1] == 1 and i < arr.shape[0]:
-                        v = _plain(arr[i, 0])  # a column repeats across
+                        raw = arr[i, 0]  # a column repeats across
                     elif arr.size == 1:
-                        v = _plain(arr.reshape(-1)[0])
+                        raw = arr.reshape(-1)[0]
                     else:
-                        v = ERROR("#N/A")
+                        raw = None
+                    v = _plain(raw) if raw is not None else ERROR("#N/A")
                     self._values[(c.sheet, r, cc)] = v
-                    self._out[(c.sheet, r, cc)] = Outcome(v, problem, note)
+                    self._out[(c.sheet, r, cc)] = Outcome(
+                        v, problem, note, _message_of_library(raw)
+                    )
             return
         # a plain formula shows the top-left value of an array result
         v = _plain(arr.reshape(-1)[0]) if arr.size >= 1 else ERROR("#VALUE!")
@@ -1438,7 +1513,8 @@ class Engine:
             self._out[key] = self._refused(c, f"unsupported: {what}", v)
             return
         self._values[key] = v
-        self._out[key] = Outcome(v, problem, note)
+        message = _message_of_library(arr.reshape(-1)[0]) if arr.size >= 1 else ""
+        self._out[key] = Outcome(v, problem, note, message)
 
 
 _NOTHING = object()
