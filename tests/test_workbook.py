@@ -393,3 +393,28 @@ def test_check_on_a_dask_cluster_gives_the_local_verdicts(
     assert main(["check", str(calcs / "fresh.xlsx"), "--cluster", "tcp://127.0.0.1:9"]) == 2
     err = capsys.readouterr().err
     assert "tcp://127.0.0.1:9" in err and "Traceback" not in err
+
+
+def test_progress_bar_only_on_a_terminal_and_never_with_quiet(monkeypatch):
+    import io
+
+    from joulebook.cli import _Bar
+
+    class Terminal(io.StringIO):
+        def isatty(self):
+            return True
+
+    for quiet, shown in ((False, True), (True, False)):
+        err = Terminal()
+        monkeypatch.setattr("sys.stderr", err)
+        bar = _Bar(3, "workbooks", quiet, least=2)
+        for _ in range(3):
+            bar.step()
+        bar.close()
+        assert ("3/3" in err.getvalue() and "workbooks" in err.getvalue()) is shown
+    err = io.StringIO()  # a CI log: not a terminal
+    monkeypatch.setattr("sys.stderr", err)
+    bar = _Bar(3, "workbooks")
+    bar.step()
+    bar.close()
+    assert err.getvalue() == ""
