@@ -179,8 +179,27 @@ def _build(path, grid, formulas, copies):
     return cells
 
 
-def _library_defect(formula: str, theirs) -> str:
+_AGGREGATES = ("SUM(", "MAX(", "MIN(", "COUNT(", "AVERAGE(", "SUMIF(", "AVERAGEIF(")
+
+
+def _library_defect(formula: str, theirs, grid=None) -> str:
     """Why the library as-is is wrong on this cell, when it is a defect we know of."""
+    text_numbers = grid is not None and any(
+        v == "12" for rows in grid.values() for row in rows for v in row
+    )
+    if text_numbers and any(a in formula for a in _AGGREGATES):
+        # formulas 1.3.4: the text "12" in a referenced cell is counted as the number 12 by
+        # SUM, MAX, MIN, COUNT, AVERAGE (Excel skips every text in a reference; the engine's
+        # rule is checked in tests/test_engine_builtins.py)
+        return "numeric text in a reference counted as a number"
+    if isinstance(theirs, str) and ("True" in theirs or "False" in theirs):
+        # formulas 1.3.4 writes a logical value into text as Python does ("0False");
+        # Excel writes TRUE and FALSE (tests/test_engine_semantics.py)
+        return "logical value in text"
+    if '"<>"' in formula:
+        # formulas 1.3.4: the criterion "<>" (not blank) matches no cell; Excel's COUNTIF and
+        # SUMIF match every non-blank cell (checked in tests/test_engine_builtins.py)
+        return 'the criterion "<>"'
     if "INDEX(" in formula:
         # formulas 1.3.4: INDEX over a box holding blank cells gives #VALUE! or a wrong cell
         # (INDEX(A1:E8,1,1) with A6 blank is #VALUE!; COUNT(INDEX(A1:E8,1,1)) is 0 with A1 = 0);
@@ -196,6 +215,22 @@ def _same(a, b) -> bool:
     if isinstance(a, float) and isinstance(b, float):
         return math.isclose(a, b, rel_tol=1e-12, abs_tol=1e-12)
     return a == b
+
+
+_POOL = []
+
+
+def _as_is():
+    """One worker process, started once, that has never loaded the engine."""
+    if not _POOL:
+        import atexit
+        import multiprocessing
+        from concurrent.futures import ProcessPoolExecutor
+
+        pool = ProcessPoolExecutor(1, mp_context=multiprocessing.get_context("spawn"))
+        atexit.register(pool.shutdown)
+        _POOL.append(pool)
+    return _POOL[0]
 
 
 _SETTINGS = dict(
@@ -227,10 +262,12 @@ def test_compiled_engine_equals_the_library_as_is(tmp_path, case):
     cells = _build(path, grid, formulas, copies)
     book = read_book(path)
     ours = Engine(book).run()
-    library = library_values(path, book.sheets)
+    # the library as-is: in a process of its own, since the engine corrects some of the
+    # library's helpers in this one (workbook/builtins.py)
+    library = _as_is().submit(library_values, path, book.sheets).result()
     for key in cells:
         assert not ours[key].problem, (key, book.cells[key].formula, ours[key].problem)
-        if key in library and not _library_defect(book.cells[key].formula, library[key]):
+        if key in library and not _library_defect(book.cells[key].formula, library[key], grid):
             assert _same(ours[key].value, library[key]), (
                 key,
                 book.cells[key].formula,

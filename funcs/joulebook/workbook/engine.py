@@ -81,6 +81,37 @@ _REF_ARGS = frozenset(
     HSTACK VSTACK TOCOL TOROW""".split()
 )
 _REF_ARGS = _REF_ARGS | {"_XLFN." + n for n in _REF_ARGS}
+#: functions whose every argument is a single value in Excel: a single cell there is its
+#: value, and a range takes the implicit intersection with the formula's row or column.  Any
+#: function not named here or above gets its references as arrays, as the formula library
+#: used as-is hands them (TRIMMEAN, FVSCHEDULE, PERCENTRANK, PROB, … take ranges), so the
+#: engine is never less correct than the library on a function it does not know.
+_VALUE_ARGS = frozenset(
+    """ABS ACOS ACOSH ACOT ACOTH ASIN ASINH ATAN ATAN2 ATANH COS COSH COT COTH CSC CSCH SEC SECH
+    SIN SINH TAN TANH DEGREES RADIANS EXP LN LOG LOG10 POWER SQRT SQRTPI PI SIGN INT TRUNC MOD
+    QUOTIENT ROUND ROUNDUP ROUNDDOWN MROUND CEILING FLOOR CEILING.MATH FLOOR.MATH
+    CEILING.PRECISE FLOOR.PRECISE ISO.CEILING EVEN ODD FACT FACTDOUBLE COMBIN COMBINA PERMUT
+    PERMUTATIONA ROMAN ARABIC BASE DECIMAL GAMMA GAMMALN GAMMALN.PRECISE GAUSS PHI
+    IF IFERROR IFNA NOT ISBLANK ISERR ISERROR ISNA ISLOGICAL ISNONTEXT ISNUMBER ISTEXT ISEVEN
+    ISODD N T ERROR.TYPE
+    CHAR UNICHAR CODE UNICODE CLEAN TRIM LOWER UPPER PROPER LEFT RIGHT MID LEN FIND SEARCH
+    REPLACE SUBSTITUTE REPT EXACT VALUE NUMBERVALUE TEXT FIXED DOLLAR CONCATENATE HYPERLINK
+    DATE DATEVALUE TIME TIMEVALUE YEAR MONTH DAY HOUR MINUTE SECOND WEEKDAY WEEKNUM ISOWEEKNUM
+    EDATE EOMONTH DAYS DAYS360 DATEDIF YEARFRAC
+    PMT PV FV NPER RATE IPMT PPMT CUMIPMT CUMPRINC ISPMT SLN SYD DB DDB EFFECT NOMINAL RRI
+    PDURATION
+    NORMDIST NORM.DIST NORMINV NORM.INV NORMSDIST NORM.S.DIST NORMSINV NORM.S.INV LOGNORMDIST
+    LOGNORM.DIST LOGINV LOGNORM.INV EXPONDIST EXPON.DIST BINOMDIST BINOM.DIST BINOM.INV
+    CRITBINOM POISSON POISSON.DIST TDIST T.DIST T.DIST.2T T.DIST.RT TINV T.INV T.INV.2T
+    CHIDIST CHISQ.DIST CHISQ.DIST.RT CHIINV CHISQ.INV CHISQ.INV.RT FDIST F.DIST F.DIST.RT
+    FINV F.INV F.INV.RT GAMMADIST GAMMA.DIST GAMMAINV GAMMA.INV BETADIST BETA.DIST BETAINV
+    BETA.INV WEIBULL WEIBULL.DIST HYPGEOMDIST HYPGEOM.DIST NEGBINOMDIST NEGBINOM.DIST
+    CONFIDENCE CONFIDENCE.NORM CONFIDENCE.T STANDARDIZE FISHER FISHERINV
+    ERF ERFC ERF.PRECISE ERFC.PRECISE BESSELI BESSELJ BESSELK BESSELY DELTA GESTEP
+    BIN2DEC BIN2HEX BIN2OCT DEC2BIN DEC2HEX DEC2OCT HEX2BIN HEX2DEC HEX2OCT OCT2BIN OCT2DEC
+    OCT2HEX BITAND BITOR BITXOR BITLSHIFT BITRSHIFT CONVERT""".split()
+)
+_VALUE_ARGS = _VALUE_ARGS | {"_XLFN." + n for n in _VALUE_ARGS}
 #: functions that evaluate their arguments as arrays even in a plain formula
 _ARRAY_CONTEXT = frozenset(
     """SUMPRODUCT MMULT MDETERM MINVERSE TRANSPOSE FREQUENCY LOOKUP TREND GROWTH LINEST LOGEST
@@ -169,6 +200,9 @@ def _register_ours() -> None:
         from formulas.functions import COMPILING, wrap_impure_func
 
         _LIBRARY["INDEX"] = table["INDEX"]["function"].__wrapped__  # arrays: the library
+        from . import builtins
+
+        builtins.install(table)  # built-ins the library lacks or gets wrong
         table["SUBTOTAL"] = wrap_func(_subtotal, ranges=True)
         table["COUNTBLANK"] = wrap_func(_countblank, ranges=True)
         for name, fn in (("OFFSET", _offset), ("INDIRECT", _indirect), ("INDEX", _index)):
@@ -1625,6 +1659,8 @@ def _mode(toks, i: int, stack: list) -> str:
         return "ranges"
     if whole and stack and stack[-1] in (_REF_ARGS | _OURS_RANGE_ARGS):
         return "array"
+    if whole and stack and stack[-1] not in _VALUE_ARGS and stack[-1] not in _OURS:
+        return "array"  # a function we do not know takes its references as the library does
     return "value"
 
 
@@ -1688,6 +1724,7 @@ _ELEMENTWISE = {
     "RADIANS",
 }
 _OURS_RANGE_ARGS = frozenset(f.name for f in CATALOG if any(a.type == "range" for a in f.args))
+_OURS = frozenset(f.name for f in CATALOG)
 _OURS_ELEMENTWISE = {
     f.name for f in CATALOG if f.elementwise and not any(a.type == "range" for a in f.args)
 }
