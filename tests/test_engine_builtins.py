@@ -99,6 +99,7 @@ def test_type_of_values_blanks_errors_and_arrays(tmp_path):
         ("=DOLLAR(1234.567,2)", "$1,234.57"),  # [XL] DOLLAR example (from memory)
         ("=DOLLAR(-1234.567,-2)", "($1,200)"),  # [XL] DOLLAR example (from memory)
         ("=DOLLAR(99.888)", "$99.89"),  # [XL] DOLLAR example (from memory)
+        ("=DOLLAR(0,4)", "$0.0000"),  # hand
     ],
 )
 def test_text_and_dollar_number_formats(tmp_path, formula, expected):
@@ -193,6 +194,18 @@ def test_criteria_not_equal_matches_blanks_and_other_types(tmp_path):
     v = _run(tmp_path, {"A1": '=COUNTIF(D!B1:B4,"<>abc")', "A2": '=COUNTIF(D!B1:B4,"<>")'})
     assert v["A1"] == 3.0  # hand: 1, TRUE and the blank B4
     assert v["A2"] == 3.0  # hand: the non-blank cells B1, B2, B3
+
+
+def test_criteria_comparing_with_a_number_skip_numeric_text(tmp_path):
+    v = _run(tmp_path, {
+        "A1": '=COUNTIF(D!B1:B10,">=2.5")', "A2": '=SUMIF(D!B1:B10,">=2.5")',
+        "A3": '=COUNTIF(D!B3:B4,"=")', "A4": '=COUNTIF(D!B1:B10,"3.5")',
+    })  # fmt: skip
+    # [XL] COUNTIF counts numbers for a numeric comparison; numbers stored as text are not
+    # counted (from memory: the function reference's "common problems" note)
+    assert v["A1"] == 2.0 and v["A2"] == 13.0  # hand: 5 and 8
+    assert v["A3"] == 1.0  # [XL] "=" counts blank cells: B4
+    assert v["A4"] == 1.0  # [XL] an equality criterion matches the text "3.5" (from memory)
 
 
 def test_text_dates_outside_excels_calendar_are_not_dates(tmp_path):

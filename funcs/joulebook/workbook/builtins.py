@@ -609,17 +609,42 @@ def _patch_library() -> None:
     libdate._text2datetime = text2datetime
 
 
+def _reads_as_number(t: str) -> bool:
+    try:
+        float(t)
+    except ValueError:
+        return False
+    return True
+
+
 def _criteria_not_equal(criteria):
-    """``"<>x"`` is the complement of ``"=x"``: it matches blanks, logical values and
-    numbers too (COUNTIF(A1:A4,"<>abc") counts every cell that is not "abc")."""
+    """Excel's criteria where the library differs: ``"<>x"`` is the complement of ``"=x"``
+    (it matches blanks, logical values and numbers too: COUNTIF(A1:A4,"<>abc") counts every
+    cell that is not "abc"); ``"<>"`` is not blank and ``"="`` is blank; a comparison with a
+    number (``">2"``) matches numbers only, never text that looks like one."""
 
     def test(test_range, condition):
         if condition == "<>":  # not blank
             raw = np.asarray(test_range["raw"], dtype=object)
             return np.vectorize(lambda v: not (isinstance(v, str) and v == ""), otypes=[bool])(raw)
+        if condition == "=":  # blank (or empty text)
+            raw = np.asarray(test_range["raw"], dtype=object)
+            return np.vectorize(lambda v: isinstance(v, str) and v == "", otypes=[bool])(raw)
         if isinstance(condition, str) and condition.startswith("<>"):
             return ~np.asarray(criteria(test_range, "=" + condition[2:]), dtype=bool)
-        return criteria(test_range, condition)
+        b = criteria(test_range, condition)
+        if (
+            isinstance(condition, str)
+            and condition[:1] in "<>"
+            and _reads_as_number(condition.lstrip("<>="))
+        ):
+            # a comparison with a number matches numbers only: "3.5" stored as text is not
+            # counted by COUNTIF(A1:A9,">2") (an equality criterion does match it)
+            raw = np.asarray(test_range["raw"], dtype=object)
+            b = np.asarray(b, dtype=bool) & ~np.vectorize(
+                lambda v: isinstance(v, str), otypes=[bool]
+            )(raw)
+        return b
 
     return test
 

@@ -50,7 +50,7 @@ def general(x: float) -> str:
 def _round(x: float, places: int) -> str:
     """*x* to *places* decimals, halves away from zero, as plain digits."""
     q = Decimal(1).scaleb(-places)
-    return str(Decimal(repr(x)).quantize(q, rounding=ROUND_HALF_UP))
+    return format(Decimal(repr(x)).quantize(q, rounding=ROUND_HALF_UP), "f")
 
 
 def _sections(fmt: str) -> list[str]:
