@@ -109,9 +109,8 @@ def _error(code: str):
     return Error.errors[code]
 
 
-def _scalar_function(fn):
-    """Excel's value function: applied element by element over arrays (array formulas), an
-    error value in, that error out; failures as Excel's error values."""
+def _guarded(fn):
+    """*fn* with its failures as Excel's error values."""
 
     def one(*args):
         try:
@@ -120,6 +119,14 @@ def _scalar_function(fn):
             return _error(e.code)
         except (OverflowError, ValueError, ZeroDivisionError):
             return _error("#NUM!")
+
+    return one
+
+
+def _scalar_function(fn):
+    """Excel's value function: applied element by element over arrays (array formulas), an
+    error value in, that error out; failures as Excel's error values."""
+    one = _guarded(fn)
 
     def wrapper(*args):
         if any(isinstance(a, np.ndarray) and a.size != 1 for a in args):
@@ -534,16 +541,7 @@ def xsequence(rows, columns=None, start=None, step=None):
 
 def _array_function(fn):
     """A function some of whose parameters take arrays: arguments handed over as they are."""
-
-    def wrapper(*args):
-        try:
-            return fn(*args)
-        except _Fail as e:
-            return _error(e.code)
-        except (OverflowError, ValueError, ZeroDivisionError):
-            return _error("#NUM!")
-
-    return functools.update_wrapper(wrapper, fn)
+    return functools.update_wrapper(_guarded(fn), fn)
 
 
 # ---------------------------------------------------------------------------------------
