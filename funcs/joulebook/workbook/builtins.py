@@ -167,30 +167,29 @@ def xtype(value=None):
 # math
 
 
-def xceiling_math(number, significance=None, mode=None):
-    """CEILING.MATH(number, [significance], [mode]): up to a multiple of |significance|
-    (default 1); a negative number rounds toward zero, or away from it when mode is not 0."""
+def _to_multiple(number, significance, mode, up: bool) -> float:
+    """Round to a multiple of |significance| (default 1), up or down along the number line;
+    a negative number with a non-zero mode goes the other way (away from or toward zero)."""
     x = _num(number)
     s = abs(_num(significance)) if significance is not None and not _empty(significance) else 1.0
     m = _num(mode) if mode is not None and not _empty(mode) else 0.0
     if s == 0:
         return 0.0
     if x < 0 and m != 0:
-        return -math.ceil(-x / s - 1e-12) * s
-    return math.ceil(x / s - 1e-12) * s if x >= 0 else -math.floor(-x / s + 1e-12) * s
+        up = not up
+    return math.ceil(x / s - 1e-12) * s if up else math.floor(x / s + 1e-12) * s
+
+
+def xceiling_math(number, significance=None, mode=None):
+    """CEILING.MATH(number, [significance], [mode]): up to a multiple of |significance|
+    (default 1); a negative number rounds toward zero, or away from it when mode is not 0."""
+    return _to_multiple(number, significance, mode, up=True)
 
 
 def xfloor_math(number, significance=None, mode=None):
     """FLOOR.MATH(number, [significance], [mode]): down to a multiple of |significance|
     (default 1); a negative number rounds away from zero, or toward it when mode is not 0."""
-    x = _num(number)
-    s = abs(_num(significance)) if significance is not None and not _empty(significance) else 1.0
-    m = _num(mode) if mode is not None and not _empty(mode) else 0.0
-    if s == 0:
-        return 0.0
-    if x < 0 and m != 0:
-        return -math.floor(-x / s + 1e-12) * s
-    return math.floor(x / s + 1e-12) * s if x >= 0 else -math.ceil(-x / s - 1e-12) * s
+    return _to_multiple(number, significance, mode, up=False)
 
 
 def xquotient(numerator, denominator):
@@ -462,20 +461,17 @@ def xvdb(cost, salvage, life, start_period, end_period, factor=None, no_switch=N
 
 
 def _text_value(value):
-    """The value TEXT formats: a number, or text that does not read as one."""
+    """The value TEXT formats: a number, or text (logical values as TRUE/FALSE, text that
+    does not read as a number as it is)."""
     v = _one(value)
-    if _err(v):
-        raise _Fail(str(v))
-    if _empty(v):
-        return 0.0
     if isinstance(v, (bool, np.bool_)):
-        return "TRUE" if v else "FALSE"
-    if isinstance(v, str):
-        try:
-            return _num(v)
-        except _Fail:
+        return _text(v)
+    try:
+        return _num(v)
+    except _Fail:
+        if isinstance(v, str):
             return v
-    return float(v)
+        raise
 
 
 def xtext(value, format_text):
