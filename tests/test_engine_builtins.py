@@ -3,7 +3,8 @@ and workbook/numfmt.py), each on an openpyxl-built fixture workbook.
 
 Sources of the expected values, named beside each check:
 * [XL] Microsoft's Excel function reference (support.microsoft.com), the function's own page
-  and its worked example where it has one ("from memory" where recalled, not re-read);
+  and its worked example where it has one; every [XL] value here is from memory (recalled,
+  not re-read while writing the test);
 * [SAVED] the value Excel saved in a public test workbook for the same call (the workbook
   itself is not part of this project; the call and the saved value are copied here);
 * hand: worked out by hand from the rule stated beside it.
