@@ -218,3 +218,102 @@ def test_text_dates_outside_excels_calendar_are_not_dates(tmp_path):
     assert v["A2"] == ("error", "#VALUE!")  # [SAVED] after 9999
     assert v["A3"] == ("error", "#VALUE!")  # [XL] DATEVALUE: text that is not a date
     assert v["A4"] == 2008.0  # hand
+
+
+def test_let_names_stand_for_their_values(tmp_path):
+    # files spell LET with the _xlfn. prefix and its names with _xlpm. (ECMA-376 future
+    # functions); an inner LET binding the same name shadows the outer one [XL] LET
+    v = _run(tmp_path, {
+        "A1": "=_xlfn.LET(_xlpm.x,D!A1*2,_xlpm.x+1)",
+        "A2": "=_xlfn.LET(_xlpm.r,D!E1:E6,SUM(_xlpm.r)/COUNT(_xlpm.r))",
+        "A3": "=1+_xlfn.LET(_xlpm.x,2,_xlpm.y,_xlpm.x*3,_xlfn.LET(_xlpm.x,10,_xlpm.x+_xlpm.y))",
+        "A4": '=_xlfn.LET(_xlpm.t,"ab",_xlpm.n,COUNT(D!B1:B10),_xlpm.t&_xlpm.n)',
+    })  # fmt: skip
+    assert v["A1"] == 6.0  # hand: 2.5·2 + 1
+    assert v["A2"] == 3.5  # hand: 21/6
+    assert v["A3"] == 17.0  # hand: 1 + (10 + 2·3)
+    assert v["A4"] == "ab4"  # hand: four numbers in D!B1:B10
+
+
+def test_lambda_is_refused_by_name(tmp_path):
+    cells = dict(DATA)
+    cells["T!A1"] = "=_xlfn.LAMBDA(_xlpm.a,_xlpm.a*3)(D!E3)"
+    cells["T!A2"] = "=_xlfn.LET(_xlpm.x,1,_xlpm.x+)"
+    out = outcomes(build(tmp_path / "b.xlsx", cells))
+    assert out["T!A1"].problem == "unsupported: LAMBDA (a function defined in the formula)"
+    assert out["T!A2"].problem.startswith("unsupported:")
+
+
+def test_aggregate_functions_and_options(tmp_path):
+    cells = {
+        "T!A1": "=AGGREGATE(9,0,D!E1:E6)",
+        "T!A2": "=AGGREGATE(9,6,D!E1:E6,D!F1)",  # 6: errors left out
+        "T!A3": "=AGGREGATE(9,0,D!E1:E6,D!F1)",  # 0: an error is the result
+        "T!A4": "=AGGREGATE(14,6,D!E1:E6,2)",
+        "T!A5": "=AGGREGATE(15,6,D!E1:E6/(D!E1:E6>2),1)",  # array form: the error trick
+        "T!A6": "=AGGREGATE(16,0,D!E1:E6,0.25)",
+        "T!A7": "=AGGREGATE(18,0,D!E1:E6,0.25)",
+        "T!A8": "=AGGREGATE(17,0,D!E1:E6,3)",
+        "T!A9": "=AGGREGATE(12,0,D!E1:E6)",
+        "T!A10": "=AGGREGATE(4,0,D!B1:B10)",
+        "T!A11": "=AGGREGATE(3,0,D!B1:B10)",
+        "T!A12": "=AGGREGATE(9,0,D!E1:E3,T!A1)",  # 0: nested AGGREGATE left out
+        "T!A13": "=AGGREGATE(9,4,D!E1:E3,T!A1)",  # 4: nested AGGREGATE counted
+        "T!A14": "=AGGREGATE(20,0,D!E1:E6)",
+        "T!A15": "=AGGREGATE(13,0,D!E1:E6)",
+        "T!A16": "=AGGREGATE(7,6,D!E1:E6)",
+    }
+    v = _run(tmp_path, {k[2:]: f for k, f in cells.items()})
+    # [XL] AGGREGATE: 9 SUM, 14 LARGE, 15 SMALL, 16 PERCENTILE.INC, 17 QUARTILE.INC,
+    # 18 PERCENTILE.EXC, 12 MEDIAN, 4 MAX, 3 COUNTA, 13 MODE.SNGL, 7 STDEV.S; options 0 and 4
+    # keep error values (0 leaves nested SUBTOTAL/AGGREGATE out, 4 keeps them), 6 leaves
+    # errors out; each value below worked out by hand on E1:E6 = 1..6
+    assert v["A1"] == 21.0 and v["A2"] == 21.0
+    assert v["A3"] == ("error", "#N/A")
+    assert v["A4"] == 5.0 and v["A5"] == 3.0
+    assert v["A6"] == 2.25  # rank 0.25·5 + 1 = 2.25
+    assert v["A7"] == 1.75  # rank 0.25·7 = 1.75
+    assert v["A8"] == 4.75  # the third quartile: rank 0.75·5 + 1
+    assert v["A9"] == 3.5
+    assert v["A10"] == 8.0 and v["A11"] == 8.0  # text, TRUE and FALSE count in COUNTA
+    assert v["A12"] == 6.0 and v["A13"] == 27.0
+    assert v["A14"] == ("error", "#VALUE!")
+    assert v["A15"] == ("error", "#N/A")  # no value occurs twice
+    assert v["A16"] == pytest.approx(1.8708286933869707)  # sqrt(3.5)
+
+
+def test_aggregate_leaves_out_hidden_rows_with_odd_options(tmp_path):
+    def hide(wb):
+        wb["T"].row_dimensions[2].hidden = True
+
+    cells = dict(DATA)
+    cells.update({"T!A1": 1.0, "T!A2": 10.0, "T!A3": 100.0})
+    cells.update({"T!B1": "=AGGREGATE(9,5,A1:A3)", "T!B2": "=AGGREGATE(9,4,A1:A3)"})
+    out = outcomes(build(tmp_path / "b.xlsx", cells, prepare=hide))
+    assert out["T!B1"].value == 101.0  # [XL] option 5: hidden rows left out
+    assert out["T!B2"].value == 111.0  # [XL] option 4: nothing left out
+
+
+def test_formulatext_sheet_sheets_and_cell(tmp_path):
+    cells = dict(DATA)
+    cells.update({
+        "T!A1": "=_xlfn.FORMULATEXT(T!A2)", "T!A2": "=_xlfn.XLOOKUP(2,D!E1:E6,D!A1:A6)",
+        "T!A3": "=_xlfn.FORMULATEXT(D!A1)", "T!A4": "=_xlfn.SHEET()", "T!A5": "=_xlfn.SHEET(D!A1)",
+        "T!A6": '=_xlfn.SHEET("t")', "T!A7": "=_xlfn.SHEETS()", "T!A8": '=CELL("address",D!B2)',
+        "T!A9": '=CELL("row",D!B2)+CELL("col",D!B2)', "T!A10": '=CELL("contents",D!B2)',
+        "T!A11": '=CELL("type",D!C3)&CELL("type",D!B2)&CELL("type",D!A1)',
+        "T!A12": '=CELL("address",B7)', "T!A13": '=_xlfn.SHEET("nowhere")',
+        "T!A14": '=CELL("filename",A1)', "T!A15": '=CELL("width",A1)',
+    })  # fmt: skip
+    out = outcomes(build(tmp_path / "b.xlsx", cells))
+    v = {k[2:]: o.value for k, o in out.items() if k.startswith("T!")}
+    assert v["A1"] == "=XLOOKUP(2,D!E1:E6,D!A1:A6)"  # [XL] shown without the file's prefix
+    assert v["A3"] == ("error", "#N/A")  # [XL] FORMULATEXT of a cell without a formula
+    assert v["A4"] == 2.0 and v["A5"] == 1.0 and v["A6"] == 2.0  # [XL] SHEET: sheet numbers
+    assert v["A7"] == 2.0  # [XL] SHEETS: sheets in the book
+    assert v["A8"] == "D!$B$2" and v["A9"] == 4.0 and v["A10"] == "abc"  # [XL] CELL
+    assert v["A11"] == "blv"  # [XL] CELL "type": b blank, l label (text), v value
+    assert v["A12"] == "$B$7"  # [XL] an address on the formula's own sheet has no sheet name
+    assert v["A13"] == ("error", "#N/A")  # [XL] SHEET of a name that is no sheet
+    assert out["T!A14"].problem.startswith("volatile: CELL(")  # where the file was saved
+    assert out["T!A15"].problem == 'unsupported: CELL("width") (formatting and window facts)'

@@ -597,3 +597,29 @@ def test_criteria_tell_true_from_one(tmp_path):
     }
     v = _values(tmp_path, cells)
     assert [v["S!C1"], v["S!C2"], v["S!C3"], v["S!C4"]] == [3.0, 1.0, 1.0, 7.0]
+
+
+def test_what_if_data_table_is_refused_by_name_and_keeps_its_values(tmp_path):
+    """A data table (What-If Analysis) stores only its range and input cells; its cells hold
+    values.  They are the formula recomputed per input: refused by name, saved values kept,
+    and a cell reading one is not checked (never a silent constant)."""
+    from openpyxl.worksheet.formula import DataTableFormula
+
+    from wbtools import build, outcomes, with_saved
+
+    def table(wb):
+        ws = wb["S"]
+        ws["B2"] = DataTableFormula(ref="B2:B4", r1="A1")  # column input A1
+        ws["B3"], ws["B4"] = 20.0, 30.0
+
+    src = build(
+        tmp_path / "t.xlsx",
+        {"S!A1": 1.0, "S!B1": "=A1*10", "S!A2": 1.0, "S!A3": 2.0, "S!A4": 3.0, "S!C4": "=B4+1"},
+        table,
+    )
+    path = with_saved(src, tmp_path / "t2.xlsx", {"S!B2": 10.0, "S!C4": 31.0})
+    out = outcomes(path)
+    for cell in ("S!B2", "S!B3", "S!B4"):
+        assert out[cell].problem.startswith("unsupported: a What-If data table"), cell
+    assert out["S!B4"].value == 30.0  # the saved value stays
+    assert out["S!C4"].problem.startswith("not checked: depends on S!B4")

@@ -77,7 +77,9 @@ SUMIF m c r?; SUMIFS r m c; COUNTIF m c; COUNTIFS m c r c; AVERAGEIF m c r?; AVE
 MAXIFS r m c; MINIFS r m c; SWITCH x x x x x?; IFS b x b x;
 BIN2DEC s; BIN2HEX s i?; BIN2OCT s i?; DEC2BIN n i?; DEC2HEX n i?; DEC2OCT n i?; HEX2BIN s i?;
 HEX2DEC s; HEX2OCT s i?; OCT2BIN s i?; OCT2DEC s; OCT2HEX s i?; BITAND i i; BITOR i i;
-BITXOR i i; BITLSHIFT i i; BITRSHIFT i i; CONVERT n s s
+BITXOR i i; BITLSHIFT i i; BITRSHIFT i i; CONVERT n s s;
+AGGREGATE w o m m?; AGGREGATE z o m i; AGGREGATE y o r p; FORMULATEXT x; SHEET x?; SHEETS r?;
+CELL e x
 """
 
 NUMBERS = ["2.5", "-3", "0", "7", "0.5", "100", "1E-3", "4", "-0.25", "12", "1E+15", "D!A1",
@@ -104,11 +106,17 @@ SQUARE = ["D!G1:H2", "D!G1:I3", "D!G1:G1"]
 CASHFLOWS = ["D!J1:J5", "D!J1:J3", "D!J2:J5"]
 GRID = ["D!E1:F10", "D!C1:E10", "D!E1:E10"]
 HGRID = ["D!K1:T2", "D!K1:T3"]
+AGG_REF = [str(n) for n in range(1, 14)]  # AGGREGATE's reference-form functions
+AGG_K = ["14", "15", "17", "19"]  # its array-form functions with a whole k
+AGG_P = ["16", "18"]  # its percentiles
+AGG_OPTIONS = [str(n) for n in range(8)]
+CELL_KINDS = ['"address"', '"row"', '"col"', '"contents"', '"type"']
 
 POOLS = {
     "n": NUMBERS, "i": INTS, "p": PROBS, "r": RANGES, "m": MIXED, "s": TEXTS, "d": DATES,
     "x": ANY, "c": CRITERIA, "b": BOOLS, "k": SORTED, "f": FORMATS, "u": UNITS, "q": SQUARE,
-    "g": GRID, "h": HGRID,
+    "g": GRID, "h": HGRID, "w": AGG_REF, "z": AGG_K, "y": AGG_P, "o": AGG_OPTIONS,
+    "e": CELL_KINDS,
 }  # fmt: skip
 POOLS["q"] = SQUARE
 # IRR/MIRR take cash flows: the square pool stands in for MDETERM only
@@ -210,6 +218,10 @@ def build(path: Path, seed: int, per: int, only: set | None) -> int:
         "UNICHAR",
         "UNICODE",
         "NUMBERVALUE",
+        "AGGREGATE",
+        "FORMULATEXT",
+        "SHEET",
+        "SHEETS",
     }
     for name, kinds in signatures():
         if only and name not in only:

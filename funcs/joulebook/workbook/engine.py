@@ -25,8 +25,10 @@ and run through :func:`joulebook.catalog.call` exactly as in Excel.
 
 from __future__ import annotations
 
+import collections
 import graphlib
 import logging
+import os
 import threading
 from bisect import bisect_left, bisect_right
 from dataclasses import dataclass, field
@@ -37,7 +39,16 @@ from ..catalog import CATALOG
 from ..cellvalues import ERRORS_NAME, ErrorValue, error_style, message_of
 from ..cellvalues import cell as shared_cell
 from .reader import Book, Cell
-from .refs import MAX_COL, MAX_ROW, Ref, col_letters, parse_ref, quote_sheet, tokens
+from .refs import (
+    MAX_COL,
+    MAX_ROW,
+    Ref,
+    col_letters,
+    expand_let,
+    parse_ref,
+    quote_sheet,
+    tokens,
+)
 
 __all__ = ["Engine", "Outcome", "ERROR", "VOLATILE"]
 
@@ -61,6 +72,15 @@ _NEEDS_RANGES = frozenset(
         "_XLFN.SINGLE",
         "ISFORMULA",
         "_XLFN.ISFORMULA",
+        "AGGREGATE",
+        "_XLFN.AGGREGATE",
+        "FORMULATEXT",
+        "_XLFN.FORMULATEXT",
+        "SHEET",
+        "_XLFN.SHEET",
+        "SHEETS",
+        "_XLFN.SHEETS",
+        "CELL",
     }
 ) | frozenset(f.name for f in CATALOG if f.reads_message)
 _DYNAMIC = frozenset({"OFFSET", "INDIRECT"})
@@ -115,7 +135,8 @@ _VALUE_ARGS = _VALUE_ARGS | {"_XLFN." + n for n in _VALUE_ARGS}
 #: functions that evaluate their arguments as arrays even in a plain formula
 _ARRAY_CONTEXT = frozenset(
     """SUMPRODUCT MMULT MDETERM MINVERSE TRANSPOSE FREQUENCY LOOKUP TREND GROWTH LINEST LOGEST
-    SUMX2MY2 SUMX2PY2 SUMXMY2 CORREL COVAR PEARSON RSQ SLOPE INTERCEPT STEYX""".split()
+    SUMX2MY2 SUMX2PY2 SUMXMY2 CORREL COVAR PEARSON RSQ SLOPE INTERCEPT STEYX AGGREGATE
+    _XLFN.AGGREGATE""".split()
 )
 #: functions that read where a reference is, never its cells' values: no dependency, and
 #: no circular reference when the reference covers the cell itself
@@ -205,7 +226,22 @@ def _register_ours() -> None:
         builtins.install(table)  # built-ins the library lacks or gets wrong
         table["SUBTOTAL"] = wrap_func(_subtotal, ranges=True)
         table["COUNTBLANK"] = wrap_func(_countblank, ranges=True)
-        for name, fn in (("OFFSET", _offset), ("INDIRECT", _indirect), ("INDEX", _index)):
+        for names, fn in (
+            (("AGGREGATE", "_XLFN.AGGREGATE"), _aggregate),
+            (("FORMULATEXT", "_XLFN.FORMULATEXT"), _formulatext),
+        ):
+            for name in names:
+                table[name] = wrap_func(fn, ranges=True)
+        for name, fn in (
+            ("OFFSET", _offset),
+            ("INDIRECT", _indirect),
+            ("INDEX", _index),
+            ("SHEET", _sheet_number),
+            ("_XLFN.SHEET", _sheet_number),
+            ("SHEETS", _sheet_count),
+            ("_XLFN.SHEETS", _sheet_count),
+            ("CELL", _cell_info),
+        ):
             # run-time only: never folded into a constant while the formula is compiled
             table[name] = {
                 "extra_inputs": collections.OrderedDict([(COMPILING, False)]),
@@ -438,50 +474,98 @@ _SUBTOTAL_KINDS = {
 }  # fmt: skip
 
 
-def _subtotal(kind, *refs):
-    """SUBTOTAL(function_num, ref1, …): the aggregate of the cells of the references that do
-    not hold a SUBTOTAL or AGGREGATE of their own; 101–111 also leave out hidden rows.  On a
-    sheet with an AutoFilter, 1–11 would count manually hidden rows but not filtered ones,
-    which the file does not tell apart: refused there."""
+def _is_error(v) -> bool:
+    return type(v).__name__ == "XlError"
+
+
+def _collected(refs, skip_hidden: bool, skip_nested: bool, who: str, filtered_ok: bool):
+    """The values of the cells of the references *refs* (blanks left out) in reading order,
+    leaving out cells holding a SUBTOTAL or AGGREGATE of their own (*skip_nested*) and
+    hidden rows (*skip_hidden*); None when an argument is not a reference.  Where hidden
+    rows must be kept but the sheet has an AutoFilter, the file does not tell filtered rows
+    from hidden ones: refused (unless *filtered_ok*)."""
     from formulas.ranges import Ranges
-    from formulas.tokens.operand import Error
 
     eng: Engine = _CURRENT.engine
-    k = _scalar(kind)
-    if isinstance(k, bool) or not isinstance(k, (int, float, np.number)):
-        return k if type(k).__name__ == "XlError" else Error.errors["#VALUE!"]
-    n = int(k)
-    name = _SUBTOTAL_KINDS.get(n % 100) if n // 100 in (0, 1) else None
-    if name is None or not refs:
-        return Error.errors["#VALUE!"]
     values = []
     for ref in refs:
         if not isinstance(ref, Ranges):
-            return Error.errors["#VALUE!"]
+            return None
         for rng in ref.ranges:
             sheet, *box = _box(eng, rng)
             r1, c1, r2, c2 = eng._bounded(sheet, tuple(box))
             hidden = eng.book.hidden_rows.get(sheet, set())
-            if n < 100 and sheet in eng.book.filtered and any(r1 <= r <= r2 for r in hidden):
+            if (
+                not skip_hidden
+                and not filtered_ok
+                and sheet in eng.book.filtered
+                and any(r1 <= r <= r2 for r in hidden)
+            ):
                 _CURRENT.problems.append(
-                    "unsupported: SUBTOTAL over hidden rows of a filtered sheet (filtered and "
+                    f"unsupported: {who} over hidden rows of a filtered sheet (filtered and "
                     "hidden rows are not told apart in the file)"
                 )
-                return Error.errors["#VALUE!"]
-            for c in range(c1, c2 + 1):
-                rows = eng._rows_by_col.get((sheet, c)) or []
-                for r in rows[bisect_left(rows, r1) : bisect_right(rows, r2)]:
-                    if n > 100 and r in hidden:
+                return "refused"
+            for r in range(r1, r2 + 1) if r2 - r1 < 4096 else _rows_in(eng, sheet, r1, r2, c1, c2):
+                if skip_hidden and r in hidden:
+                    continue
+                for c in range(c1, c2 + 1):
+                    v = eng._values.get((sheet, r, c))
+                    if v is None:
                         continue
                     cell = eng.book.cells.get((sheet, r, c))
-                    if cell is not None and cell.formula and _is_subtotal(cell.formula):
+                    if (
+                        skip_nested
+                        and cell is not None
+                        and cell.formula
+                        and _is_subtotal(cell.formula)
+                    ):
                         continue
-                    v = eng._values.get((sheet, r, c))
-                    if v is not None:
-                        values.append(v)
-    for v in values:
-        if isinstance(v, tuple):
-            return Error.errors.get(v[1], Error.errors["#VALUE!"])
+                    values.append(v)
+    return values
+
+
+def _rows_in(eng, sheet, r1, r2, c1, c2):
+    """The rows between r1 and r2 that hold a cell in columns c1..c2, in order."""
+    rows: set = set()
+    for c in range(c1, c2 + 1):
+        got = eng._rows_by_col.get((sheet, c)) or []
+        rows.update(got[bisect_left(got, r1) : bisect_right(got, r2)])
+    return sorted(rows)
+
+
+_SUBTOTAL_KINDS = {
+    1: "AVERAGE", 2: "COUNT", 3: "COUNTA", 4: "MAX", 5: "MIN", 6: "PRODUCT",
+    7: "STDEV", 8: "STDEVP", 9: "SUM", 10: "VAR", 11: "VARP",
+}  # fmt: skip
+_AGGREGATE_KINDS = {
+    **_SUBTOTAL_KINDS, 12: "MEDIAN", 13: "MODE", 14: "LARGE", 15: "SMALL",
+    16: "PERCENTILE.INC", 17: "QUARTILE.INC", 18: "PERCENTILE.EXC", 19: "QUARTILE.EXC",
+}  # fmt: skip
+
+
+def _number_arg(x):
+    """A numeric argument as a float, or the error value to return."""
+    from formulas.tokens.operand import Error
+
+    x = _scalar(x)
+    if _is_error(x):
+        return x
+    if isinstance(x, bool) or not isinstance(x, (int, float, np.number)):
+        if isinstance(x, str):
+            try:
+                return float(x)
+            except ValueError:
+                pass
+        return Error.errors["#VALUE!"]
+    return float(x)
+
+
+def _aggregate_of(name: str, values: list, k=None):
+    """*name* (a SUBTOTAL or AGGREGATE function) over cell *values*: numbers count, text and
+    logical values in cells are skipped (COUNTA counts every value)."""
+    from formulas.tokens.operand import Error
+
     if name == "COUNTA":
         return float(len(values))
     x = np.array(
@@ -493,14 +577,256 @@ def _subtotal(kind, *refs):
         return 0.0
     need = 2 if name in ("STDEV", "VAR") else 1
     if x.size < need:
-        return Error.errors["#DIV/0!"]
+        none = "#DIV/0!" if name in ("AVERAGE", "STDEV", "STDEVP", "VAR", "VARP") else "#NUM!"
+        return Error.errors["#N/A" if name == "MODE" else none]
+    if name == "MODE":
+        counts = collections.Counter(x.tolist())
+        best = max(counts.values())
+        if best < 2:
+            return Error.errors["#N/A"]
+        return next(v for v in x.tolist() if counts[v] == best)  # the first to occur
+    if k is not None:
+        return _ranked(name, np.sort(x), k)
     return float(
         {
             "AVERAGE": np.mean, "MAX": np.max, "MIN": np.min, "PRODUCT": np.prod, "SUM": np.sum,
             "STDEV": lambda a: np.std(a, ddof=1), "STDEVP": np.std,
-            "VAR": lambda a: np.var(a, ddof=1), "VARP": np.var,
+            "VAR": lambda a: np.var(a, ddof=1), "VARP": np.var, "MEDIAN": np.median,
         }[name](x)
     )  # fmt: skip
+
+
+def _ranked(name: str, x, k: float):
+    """LARGE, SMALL and the percentiles and quartiles of the sorted numbers *x* [1]_.
+
+    .. [1] Excel's function reference: LARGE, SMALL, PERCENTILE.INC/.EXC, QUARTILE.INC/.EXC
+       (k-th value with k rounded up; inclusive rank p(n-1)+1, exclusive rank p(n+1))."""
+    from formulas.tokens.operand import Error
+
+    n = x.size
+    if name in ("LARGE", "SMALL"):
+        i = int(np.ceil(k))
+        if i < 1 or i > n:
+            return Error.errors["#NUM!"]
+        return float(x[n - i] if name == "LARGE" else x[i - 1])
+    if name.startswith("QUARTILE"):
+        q = int(np.floor(k))
+        lo, hi = (0, 4) if name.endswith("INC") else (1, 3)
+        if q < lo or q > hi:
+            return Error.errors["#NUM!"]
+        k = q / 4
+    if name.endswith("INC"):
+        if k < 0 or k > 1:
+            return Error.errors["#NUM!"]
+        rank = k * (n - 1) + 1
+    else:
+        rank = k * (n + 1)
+        if rank < 1 or rank > n:
+            return Error.errors["#NUM!"]
+    lo = int(np.floor(rank))
+    frac = rank - lo
+    if lo >= n:
+        return float(x[n - 1])
+    return float(x[lo - 1] + frac * (x[lo] - x[lo - 1]))
+
+
+def _subtotal(kind, *refs):
+    """SUBTOTAL(function_num, ref1, …): the aggregate of the cells of the references that do
+    not hold a SUBTOTAL or AGGREGATE of their own; 101–111 also leave out hidden rows.  On a
+    sheet with an AutoFilter, 1–11 would count manually hidden rows but not filtered ones,
+    which the file does not tell apart: refused there."""
+    from formulas.tokens.operand import Error
+
+    k = _number_arg(kind)
+    if _is_error(k):
+        return k
+    n = int(k)
+    name = _SUBTOTAL_KINDS.get(n % 100) if n // 100 in (0, 1) else None
+    if name is None or not refs:
+        return Error.errors["#VALUE!"]
+    values = _collected(refs, n > 100, True, "SUBTOTAL", False)
+    if values is None or values == "refused":
+        return Error.errors["#VALUE!"]
+    for v in values:
+        if isinstance(v, tuple):
+            return Error.errors.get(v[1], Error.errors["#VALUE!"])
+    return _aggregate_of(name, values)
+
+
+def _aggregate(kind, options, *args):
+    """AGGREGATE(function_num, options, ref1, …) and AGGREGATE(function_num, options, array,
+    k) [1]_: functions 1–13 over references, 14–19 over a reference or an array with k.
+    Options 0–7: 0–3 leave out nested SUBTOTAL and AGGREGATE cells, odd options leave out
+    hidden rows, 2, 3, 6 and 7 leave out error values.
+
+    .. [1] Excel's function reference, AGGREGATE (function numbers and options)."""
+    from formulas.ranges import Ranges
+    from formulas.tokens.operand import Error
+
+    fn = _number_arg(kind)
+    opt = _number_arg(0 if options is None or options is sh_empty() else options)
+    for v in (fn, opt):
+        if _is_error(v):
+            return v
+    fn, opt = int(fn), int(opt)
+    name = _AGGREGATE_KINDS.get(fn)
+    if name is None or not 0 <= opt <= 7 or not args:
+        return Error.errors["#VALUE!"]
+    skip_errors = opt in (2, 3, 6, 7)
+    k = None
+    if fn >= 14:
+        if len(args) != 2:
+            return Error.errors["#VALUE!"]
+        k = _number_arg(args[1])
+        if _is_error(k):
+            return k
+        args = args[:1]
+    if isinstance(args[0], Ranges):
+        values = _collected(args, opt % 2 == 1, opt <= 3, "AGGREGATE", False)
+        if values == "refused":
+            return Error.errors["#VALUE!"]
+    elif fn >= 14:  # an array computed by the formula (AGGREGATE(14,6,A1:A9/(B1:B9="x"),1))
+        raw = getattr(args[0], "value", args[0])
+        values = [
+            _engine_value(v) for v in np.asarray(raw, dtype=object).ravel() if v is not sh_empty()
+        ]
+    else:
+        values = None
+    if values is None:
+        return Error.errors["#VALUE!"]
+    kept = []
+    for v in values:
+        if isinstance(v, tuple):
+            if skip_errors:
+                continue
+            return Error.errors.get(v[1], Error.errors["#VALUE!"])
+        kept.append(v)
+    return _aggregate_of(name, kept, k)
+
+
+def _engine_value(v):
+    """A library value as the engine keeps cell values (an error as ("error", code))."""
+    if _is_error(v):
+        return ("error", str(v))
+    if isinstance(v, np.bool_):
+        return bool(v)
+    if isinstance(v, np.number):
+        return float(v)
+    return v
+
+
+def _formulatext(ref):
+    """FORMULATEXT(reference): the formula of the reference's first cell as Excel shows it
+    (without the file's ``_xlfn.`` and ``_xlpm.`` prefixes); #N/A for a cell without one."""
+    from formulas.ranges import Ranges
+    from formulas.tokens.operand import Error
+
+    eng: Engine = _CURRENT.engine
+    if not isinstance(ref, Ranges) or not ref.ranges:
+        return Error.errors["#N/A"]
+    sheet, r1, c1, _, _ = _box(eng, ref.ranges[0])
+    cell = eng.book.cells.get((sheet, r1, c1))
+    if cell is None or not cell.formula:
+        return Error.errors["#N/A"]
+    return "=" + shown_formula(cell.formula)
+
+
+def _sheet_number(value=None):
+    """SHEET([value]): the number of the formula's sheet, of a reference's sheet, or of the
+    sheet named by a text; #NA for a text naming no sheet."""
+    from formulas.ranges import Ranges
+    from formulas.tokens.operand import Error
+
+    eng: Engine = _CURRENT.engine
+    sheets = [s.upper() for s in eng.book.sheets]
+    if value is None or value is sh_empty():
+        return float(sheets.index(_CURRENT.sheet.upper()) + 1)
+    if isinstance(value, Ranges):
+        return float(sheets.index(_box(eng, value.ranges[0])[0].upper()) + 1)
+    v = _scalar(value)
+    if _is_error(v):
+        return v
+    if isinstance(v, str) and v.upper() in sheets:
+        return float(sheets.index(v.upper()) + 1)
+    return Error.errors["#N/A"]
+
+
+def _sheet_count(ref=None):
+    """SHEETS([reference]): the sheets of a reference (3-D spans count each) or of the book."""
+    from formulas.ranges import Ranges
+
+    eng: Engine = _CURRENT.engine
+    if ref is None or ref is sh_empty():
+        return float(len(eng.book.sheets))
+    if isinstance(ref, Ranges):
+        return float(len({_box(eng, rng)[0] for rng in ref.ranges}))
+    from formulas.tokens.operand import Error
+
+    return Error.errors["#VALUE!"]
+
+
+_CELL_KINDS = ("address", "col", "row", "contents", "type", "filename")
+
+
+def _cell_info(info, ref=None):
+    """CELL(info_type, [reference]) for the kinds a saved file determines: address, col, row,
+    contents, type; filename is the checked file's own path (a saved value holds the path
+    where it was saved, so the cell is reported volatile).  The kinds that read formatting
+    or the window (format, width, color, …) are refused by name."""
+    from formulas.ranges import Ranges
+    from formulas.tokens.operand import Error
+
+    eng: Engine = _CURRENT.engine
+    kind = _scalar(info)
+    if _is_error(kind):
+        return kind
+    if not isinstance(kind, str):
+        return Error.errors["#VALUE!"]
+    kind = kind.lower()
+    if kind not in _CELL_KINDS:
+        _CURRENT.problems.append(f'unsupported: CELL("{kind}") (formatting and window facts)')
+        return Error.errors["#VALUE!"]
+    if ref is None or ref is sh_empty():
+        sheet, r, c = _CURRENT.sheet, _CURRENT.row, _CURRENT.col
+    elif isinstance(ref, Ranges):
+        sheet, r, c, _, _ = _box(eng, ref.ranges[0])
+    else:
+        return Error.errors["#VALUE!"]
+    if kind == "address":
+        here = "" if sheet == _CURRENT.sheet else quote_sheet(sheet) + "!"
+        return f"{here}${col_letters(c)}${r}"
+    if kind == "row":
+        return float(r)
+    if kind == "col":
+        return float(c)
+    if kind == "filename":
+        _CURRENT.problems.append('volatile: CELL("filename") holds where the file is saved')
+        path = eng.book.path
+        return f"{path.parent}{os.sep}[{path.name}]{sheet}"
+    v = eng._values.get((sheet, r, c))
+    if kind == "type":
+        return "b" if v is None else "l" if isinstance(v, str) else "v"
+    if v is None:
+        return 0.0
+    if isinstance(v, tuple):
+        return Error.errors.get(v[1], Error.errors["#VALUE!"])
+    return v
+
+
+def shown_formula(formula: str) -> str:
+    """*formula* as a spreadsheet shows it: without the ``_xlfn.``, ``_xlws.`` and ``_xlpm.``
+    prefixes the file format adds to newer functions and LET/LAMBDA names."""
+    out = []
+    for v, t, sub in tokens(formula):
+        if t == "FUNC" and sub == "OPEN":
+            for prefix in ("_xlfn._xlws.", "_xlfn.", "_xlws."):
+                if v.lower().startswith(prefix):
+                    v = v[len(prefix) :]
+                    break
+        elif t == "OPERAND" and sub == "RANGE" and v.lower().startswith("_xlpm."):
+            v = v[6:]
+        out.append(v)
+    return "".join(out)
 
 
 def _countblank(ref):
@@ -737,6 +1063,10 @@ class Engine:
         key = (sheet, formula)
         hit = self._templates.get(key)
         if hit is None:
+            try:
+                formula = expand_let(formula)
+            except Exception:  # refused with its reason by _build
+                pass
             shape = _shape_key(sheet, formula, row, col)
             first = self._shapes.get(shape) if shape is not None else None
             if first is None:
@@ -757,6 +1087,11 @@ class Engine:
         marks: dict = {"where": set(), "whole": set()}
         problem = ""
         try:
+            try:
+                formula = expand_let(formula)
+            except ValueError as e:
+                raise _Unsupported(f"LET: {e}") from None
+            _refuse_lambda(formula)
             text = self._rewrite(formula, sheet, "cell", refs, funcs, implicit, 0, modes, marks)
         except _Unsupported as e:
             text, problem = "", f"unsupported: {e}"
@@ -1224,7 +1559,9 @@ class Engine:
                             continue
                         for r in rows[bisect_left(rows, r1) : bisect_right(rows, r2)]:
                             dep = owner.get((s, r, cc), (s, r, cc))
-                            if dep != key and dep in plans:
+                            # a cell refused before it could run (its formula not
+                            # understood) is a dependency too: its readers are not checked
+                            if dep != key and (dep in plans or dep in out):
                                 deps.add(dep)
             graph[key] = deps
         self._graph = graph
@@ -1570,6 +1907,21 @@ def _intersect_result(res, c: Cell):
         return Error.errors["#VALUE!"]
     arr = np.asarray(res.value, dtype=object)
     return arr[i, j] if arr.ndim == 2 and i < arr.shape[0] and j < arr.shape[1] else arr.flat[0]
+
+
+def _refuse_lambda(formula: str) -> None:
+    """Functions a workbook defines for itself (LAMBDA, and the names bound by LAMBDA or by
+    the helpers that take one) and What-If data tables are not evaluated: refused by name."""
+    for v, t, sub in tokens(formula):
+        if t == "FUNC" and sub == "OPEN" and v.upper() == "TABLE(":
+            raise _Unsupported(
+                "a What-If data table {=TABLE(…)}: each of its cells is the table's formula "
+                "recomputed with other input values"
+            )
+        if t == "FUNC" and sub == "OPEN" and v[:-1].upper().removeprefix("_XLFN.") == "LAMBDA":
+            raise _Unsupported("LAMBDA (a function defined in the formula)")
+        if t == "OPERAND" and sub == "RANGE" and v.upper().startswith("_XLPM."):
+            raise _Unsupported(f"the parameter {v[6:]} of a LAMBDA or LET")
 
 
 def _shape_key(sheet: str, formula: str, row: int, col: int):

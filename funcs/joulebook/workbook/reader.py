@@ -420,8 +420,10 @@ def _shared_strings(zf: zipfile.ZipFile, limits: Limits) -> list[str]:
 
 def _read_sheet(zf, part, sheet, book: Book, shared, limits: Limits, counts) -> None:
     from openpyxl.formula.translate import Translator
+    from openpyxl.utils.cell import range_boundaries
 
     masters: dict[str, tuple[str, str]] = {}  # shared-formula id -> (text, master ref)
+    data_tables: list[tuple[str, str]] = []  # (range, TABLE(…) text) of What-If data tables
     try:
         fh = zf.open(part)
     except KeyError:
@@ -466,6 +468,16 @@ def _read_sheet(zf, part, sheet, book: Book, shared, limits: Limits, counts) -> 
                             text = Translator("=" + mt, origin=mref).translate_formula(ref)[1:]
                     if ftype == "array":
                         cell.array_ref = f.get("ref") or ref
+                    if ftype == "dataTable":
+                        # a What-If data table: every cell of its range is the table's formula
+                        # recomputed with other inputs; written as Excel shows it, TABLE(row
+                        # input, column input), so the engine can name it
+                        one, two = f.get("r1") or "", f.get("r2") or ""
+                        if f.get("dt2D") == "1":
+                            text = f"TABLE({one},{two})"
+                        else:
+                            text = f"TABLE({one},)" if f.get("dtr") == "1" else f"TABLE(,{one})"
+                        data_tables.append((f.get("ref") or ref, text))
                     if text:
                         cell.raw_formula = text
                         cell.formula = normalise(text)
@@ -497,3 +509,11 @@ def _read_sheet(zf, part, sheet, book: Book, shared, limits: Limits, counts) -> 
             raise BadInput(
                 f"sheet {sheet!r} is not safe, well-formed XML ({type(e).__name__})"
             ) from None
+    for box, text in data_tables:
+        try:
+            c1, r1, c2, r2 = range_boundaries(box)
+        except ValueError:
+            continue
+        for (s_, r, c), cell in book.cells.items():
+            if s_ == sheet and r1 <= r <= r2 and c1 <= c <= c2 and cell.formula is None:
+                cell.formula = cell.raw_formula = text

@@ -320,3 +320,70 @@ def texts(formula: str) -> list[str]:
     except Exception:
         return []
     return [v[1:-1].replace('""', '"') for v, t, sub in toks if t == "OPERAND" and sub == "TEXT"]
+
+
+#: the longest formula a LET may expand to (Excel's own limit on formula text is 8,192)
+MAX_EXPANDED = 65_536
+_LET = ("LET(", "_XLFN.LET(")
+
+
+def _args(toks: tuple, i: int) -> tuple[list[list], int]:
+    """The arguments (token lists, blank space dropped at their ends) of the call whose
+    opening token is ``toks[i]``, and the index of its closing token."""
+    args: list[list] = [[]]
+    depth = 0
+    for j in range(i + 1, len(toks)):
+        v, t, sub = toks[j]
+        if sub == "OPEN":
+            depth += 1
+        elif sub == "CLOSE":
+            if depth == 0:
+                return [[x for x in a if x[1] != "WHITE-SPACE"] or a for a in args], j
+            depth -= 1
+        elif t == "SEP" and sub == "ARG" and depth == 0:
+            args.append([])
+            continue
+        args[-1].append(toks[j])
+    raise ValueError("unbalanced call")
+
+
+def expand_let(formula: str) -> str:
+    """*formula* with every ``LET(name1, value1, …, calculation)`` replaced by its
+    calculation, each name standing for its value's text (in parentheses unless it is one
+    operand).  The innermost LET goes first, so a name bound again inside shadows the outer
+    one, as in Excel.  LET's values are pure expressions, so the result is the same
+    formula; only a volatile value (RAND) would be drawn once per use instead of once.
+    Raises ValueError for a LET that is not well formed or expands past MAX_EXPANDED."""
+    while True:
+        toks = tokens(formula)
+        opens = [i for i, (v, t, sub) in enumerate(toks) if t == "FUNC" and sub == "OPEN"]
+        lets = [i for i in opens if toks[i][0].upper() in _LET]
+        if not lets:
+            return formula
+        # the LET that closes first holds no other LET
+        spans = [(i, *_args(toks, i)) for i in lets]
+        i, args, j = min(spans, key=lambda s: s[2])
+        if len(args) < 3 or len(args) % 2 == 0:
+            raise ValueError("LET needs name, value pairs and a calculation")
+        bound: dict[str, str] = {}
+
+        def text(arg: list, bound: dict = bound) -> str:
+            return "".join(
+                bound.get(v.upper(), v) if t == "OPERAND" and sub == "RANGE" else v
+                for v, t, sub in arg
+            )
+
+        for k in range(0, len(args) - 1, 2):
+            name = args[k]
+            if len(name) != 1 or name[0][1] != "OPERAND" or name[0][2] != "RANGE":
+                raise ValueError("a LET name must be a plain name")
+            value = args[k + 1]
+            body = text(value)
+            single = len(value) == 1 and value[0][1] == "OPERAND"
+            bound[name[0][0].upper()] = body if single else f"({body})"
+        calc = text(args[-1])
+        head = "".join(v for v, _, _ in toks[:i])
+        tail = "".join(v for v, _, _ in toks[j + 1 :])
+        formula = f"{head}({calc}){tail}"
+        if len(formula) > MAX_EXPANDED:
+            raise ValueError(f"LET expands past {MAX_EXPANDED:,} characters")
