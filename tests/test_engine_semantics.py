@@ -599,27 +599,76 @@ def test_criteria_tell_true_from_one(tmp_path):
     assert [v["S!C1"], v["S!C2"], v["S!C3"], v["S!C4"]] == [3.0, 1.0, 1.0, 7.0]
 
 
-def test_what_if_data_table_is_refused_by_name_and_keeps_its_values(tmp_path):
-    """A data table (What-If Analysis) stores only its range and input cells; its cells hold
-    values.  They are the formula recomputed per input: refused by name, saved values kept,
-    and a cell reading one is not checked (never a silent constant)."""
+def _data_table_book(tmp_path, saved):
+    """A sheet with a one-input table down a column (input A1, formula B2 = A1^2 + C1, values
+    2, 3, 4 in A3:A5, results B3:B5), a two-input table (row input A1, column input C1,
+    formula E2 = A1^2 + C1, row values F2:G2, column values E3:E4, results F3:G4) and a cell
+    reading a result (H5 = B5 + 1)."""
     from openpyxl.worksheet.formula import DataTableFormula
 
-    from wbtools import build, outcomes, with_saved
+    from wbtools import build, with_saved
+
+    def tables(wb):
+        ws = wb["S"]
+        ws["B3"] = DataTableFormula(ref="B3:B5", r1="A1")
+        ws["B4"], ws["B5"] = 0.0, 0.0
+        ws["F3"] = DataTableFormula(ref="F3:G4", dt2D=True, r1="A1", r2="C1")
+        ws["G3"], ws["F4"], ws["G4"] = 0.0, 0.0, 0.0
+
+    cells = {"S!A1": 1.0, "S!C1": 10.0, "S!B2": "=A1^2+C1", "S!D1": "=C1*2",
+             "S!A3": 2.0, "S!A4": 3.0, "S!A5": 4.0,
+             "S!E2": "=A1^2+C1", "S!F2": 5.0, "S!G2": 6.0, "S!E3": 100.0, "S!E4": 200.0,
+             "S!H5": "=B5+1"}  # fmt: skip
+    src = build(tmp_path / "t.xlsx", cells, tables)
+    return with_saved(src, tmp_path / "t2.xlsx", saved)
+
+
+def test_what_if_data_table_cells_are_the_formula_recomputed_per_input(tmp_path):
+    """A data table stores only its range and input cells; each result cell is the formula
+    cell recomputed with the input cell holding that row's (and column's) value [1]; the
+    inputs keep their own values for every other cell.
+    [1] hand: B3 = 2² + 10; F3 = 5² + 100 (row value in A1, column value in C1)."""
+    from wbtools import outcomes
+
+    path = _data_table_book(tmp_path, {"S!B3": 14.0, "S!B4": 19.0, "S!B5": 0.0, "S!H5": 27.0,
+                                       "S!F3": 125.0})  # fmt: skip
+    out = outcomes(path)
+    assert [out[f"S!B{r}"].value for r in (3, 4, 5)] == [14.0, 19.0, 26.0]  # hand
+    assert [out[k].value for k in ("S!F3", "S!G3", "S!F4", "S!G4")] == [125.0, 136.0, 225.0, 236.0]
+    assert out["S!B2"].value == 11.0 and out["S!D1"].value == 20.0  # inputs put back
+    assert out["S!H5"].value == 27.0 and not out["S!H5"].problem  # reads the table's result
+    assert all(not out[k].problem for k in ("S!B3", "S!B5", "S!G4"))
+
+
+def test_data_table_recalc_writes_the_results_and_check_tells_a_stale_one(tmp_path):
+    from joulebook.workbook.engine import Engine
+    from joulebook.workbook.reader import read_book
+    from joulebook.workbook.writer import write_copy
+
+    path = _data_table_book(tmp_path, {"S!B5": 0.0})
+    book = read_book(path)
+    outcomes = Engine(book).run()
+    assert outcomes[("S", 5, 2)].value == 26.0  # the saved 0 is stale: recomputed
+    out = write_copy(book, outcomes, tmp_path / "re.xlsx")
+    import openpyxl
+
+    ws = openpyxl.load_workbook(out, data_only=True)["S"]
+    assert ws["B5"].value == 26.0 and ws["G4"].value == 236.0
+
+
+def test_data_table_sweeps_a_joulebook_formula(tmp_path):
+    """A sensitivity table over a joulebook cell: boundary work of an isobaric expansion from
+    0.1 to 0.3 m³ for pressures 100, 200 and 350 kPa (hand: W = P·ΔV = 20, 40, 70 kJ)."""
+    from openpyxl.worksheet.formula import DataTableFormula
+
+    from wbtools import build, outcomes
 
     def table(wb):
-        ws = wb["S"]
-        ws["B2"] = DataTableFormula(ref="B2:B4", r1="A1")  # column input A1
-        ws["B3"], ws["B4"] = 20.0, 30.0
+        wb["S"]["B3"] = DataTableFormula(ref="B3:B5", r1="A1")
 
-    src = build(
-        tmp_path / "t.xlsx",
-        {"S!A1": 1.0, "S!B1": "=A1*10", "S!A2": 1.0, "S!A3": 2.0, "S!A4": 3.0, "S!C4": "=B4+1"},
-        table,
-    )
-    path = with_saved(src, tmp_path / "t2.xlsx", {"S!B2": 10.0, "S!C4": 31.0})
-    out = outcomes(path)
-    for cell in ("S!B2", "S!B3", "S!B4"):
-        assert out[cell].problem.startswith("unsupported: a What-If data table"), cell
-    assert out["S!B4"].value == 30.0  # the saved value stays
-    assert out["S!C4"].problem.startswith("not checked: depends on S!B4")
+    cells = {"S!A1": 500.0, "S!B2": "=JB_WORK_ISOBARIC(A1,0.1,0.3)",
+             "S!A3": 100.0, "S!A4": 200.0, "S!A5": 350.0, "S!B4": 0.0, "S!B5": 0.0}  # fmt: skip
+    out = outcomes(build(tmp_path / "w.xlsx", cells, table))
+    got = [out[f"S!B{r}"].value for r in (3, 4, 5)]
+    assert got == pytest.approx([20.0, 40.0, 70.0], rel=1e-12)  # hand
+    assert out["S!B2"].value == pytest.approx(100.0)  # the input's own value: 500 kPa

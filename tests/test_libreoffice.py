@@ -141,6 +141,13 @@ def _semantics_book(path: Path) -> Path:
         "S!F40": "=ROUND(SUM(E1:E3 E2:E2),6)", "S!F41": "=ROWS(A:A)", "S!F42": "=COUNTBLANK(E:E)",
         "S!F43": "=INDEX(E:E,100)", "S!F44": "=INDEX(D1:E3,2,2)", "S!F45": "=SUM(E1:INDEX(E:E,2))",
         "S!F46": "=INDEX(D1:E3,3)", "S!F47": "=SUBTOTAL(2,E1:E3)", "S!F48": "=COLUMNS(1:1)",
+        "S!F49": "=_xlfn.AGGREGATE(9,6,E1:E3,F35)", "S!F50": "=_xlfn.AGGREGATE(14,6,E1:E3,2)",
+        "S!F51": "=_xlfn.FORMULATEXT(F30)", "S!F52": "=_xlfn.SHEET(S1!A1)",
+        "S!F53": '=CELL("address",E2)', "S!F54": "=_xlfn.SHEETS()",
+        # What-If data tables: one input down a column (R3:R5), two inputs (U3:V4)
+        "S!P1": 2.0, "S!Q1": 10.0, "S!R2": "=P1^2+Q1", "S!Q3": 1.0, "S!Q4": 2.0, "S!Q5": 3.0,
+        "S!T2": "=P1*Q1", "S!U2": 3.0, "S!V2": 4.0, "S!T3": 5.0, "S!T4": 6.0,
+        "S!W1": "=SUM(R3:R5)+SUM(U3:V4)",
     }  # fmt: skip
     for r in range(1, 15):
         cells[f"S!L{r}"] = f"x{r}"
@@ -161,6 +168,13 @@ def _semantics_book(path: Path) -> Path:
         ("twice", "S!$A$2*2"), ("pair", "S!$A$2:$A$5"),
     ):  # fmt: skip
         dn[name] = DefinedName(name, attr_text=text)
+    from openpyxl.worksheet.formula import DataTableFormula
+
+    ws = wb["S"]
+    ws["R3"] = DataTableFormula(ref="R3:R5", r1="P1")
+    ws["U3"] = DataTableFormula(ref="U3:V4", dt2D=True, r1="P1", r2="Q1")
+    for addr in ("R4", "R5", "V3", "U4", "V4"):
+        ws[addr] = 0.0  # a stale saved value: both programs recompute it
     wb.save(path)
     return path
 

@@ -1014,6 +1014,7 @@ class Engine:
     _max: dict = field(default_factory=dict)
     _rows_by_col: dict = field(default_factory=dict)
     _max_all: tuple | None = None  # the used rows and columns of the whole workbook
+    _tables: dict = field(default_factory=dict)  # data-table cell -> its DataTable
 
     def __post_init__(self):
         _register_ours()
@@ -1496,8 +1497,17 @@ class Engine:
         for k, c in book.cells.items():
             if c.formula is None and c.has_cached:
                 values[k] = c.cached
+        table_of = {
+            (t.sheet, r, c): t
+            for t in book.data_tables
+            for r in range(t.box[0], t.box[2] + 1)
+            for c in range(t.box[1], t.box[3] + 1)
+        }
         for c in book.formula_cells():
             key = (c.sheet, c.row, c.col)
+            if key in table_of:
+                self._tables[key] = table_of[key]
+                continue
             tpl, shift = self._template(c.sheet, c.formula, c.row, c.col)
             if tpl.problem:
                 out[key] = self._refused(c, tpl.problem)
@@ -1539,6 +1549,7 @@ class Engine:
             self._rows_by_col[k] = sorted(set(rows))
 
         graph: dict = {}
+        tables = self._tables
         for key, p in plans.items():
             deps = set()
             for i, t in enumerate(p.targets):
@@ -1561,8 +1572,12 @@ class Engine:
                             dep = owner.get((s, r, cc), (s, r, cc))
                             # a cell refused before it could run (its formula not
                             # understood) is a dependency too: its readers are not checked
-                            if dep != key and (dep in plans or dep in out):
+                            if dep != key and (dep in plans or dep in out or dep in tables):
                                 deps.add(dep)
+            graph[key] = deps
+        for key, t in self._tables.items():
+            formula, subs = _table_parts(t, key)
+            deps = {k for k in (formula, *(v for _, v in subs)) if k in plans or k in out}
             graph[key] = deps
         self._graph = graph
 
@@ -1580,6 +1595,11 @@ class Engine:
                     if d not in late:
                         late.add(d)
                         stack.append(d)
+        for key in late & set(self._tables):
+            out[key] = self._refused(
+                book.cells[key], "unsupported: a data table whose formula reads OFFSET or INDIRECT"
+            )
+        late -= set(self._tables)
         early = {k: d for k, d in graph.items() if k not in late}
         batches = self._batches(early) if self.batch else {}
         member_of = {m: b for b, members in batches.items() for m in members}
@@ -1617,6 +1637,8 @@ class Engine:
             for i, node in enumerate(order):
                 if node in batches:
                     self._run_batch(batches[node])
+                elif node in self._tables and node not in out:
+                    self._run_table(node)
                 elif node in plans and node not in out:
                     self._run_cell(node)
                 if self.progress and (i % 200 == 0 or i == total - 1):
@@ -1629,6 +1651,89 @@ class Engine:
             _CURRENT.engine = None
         self._taint()
         return out
+
+    def _run_table(self, key) -> None:
+        """One cell of a What-If data table: the table's formula cell recomputed with its
+        input cell(s) holding this cell's row and column values, then everything put back.
+        The cells recomputed are those between the inputs and the formula cell."""
+        t = self._tables[key]
+        cell = self.book.cells[key]
+        formula, subs = _table_parts(t, key)
+        plans, out, values, graph = self._plans, self._out, self._values, self._graph
+        where = f"{formula[0]}!{col_letters(formula[2])}{formula[1]}"
+        if formula not in plans:
+            o = out.get(formula)
+            self._out[key] = self._refused(
+                cell,
+                f"not checked: depends on {where} ({o.problem})"
+                if o is not None and o.problem
+                else f"unsupported: a data table whose formula cell {where} holds no formula",
+            )
+            return
+        inputs = {x for x, _ in subs}
+        # the formula cell and what it reads, then those of them that read an input
+        above: set = set()
+        stack = [formula]
+        while stack:
+            k = stack.pop()
+            if k in above or k not in plans:
+                continue
+            above.add(k)
+            stack.extend(graph.get(k, ()))
+        order = list(
+            graphlib.TopologicalSorter({k: graph[k] & above for k in above}).static_order()
+        )
+        redo: list = []
+        for k in order:
+            p = plans[k]
+            reads = any(
+                isinstance(tg, _Target)
+                and any(
+                    s == x[0] and tg.box[0] <= x[1] <= tg.box[2] and tg.box[1] <= x[2] <= tg.box[3]
+                    for s in tg.sheets
+                    for x in inputs
+                )
+                for tg in p.targets
+            )
+            if reads or any(d in redo for d in graph[k]):
+                redo.append(k)
+        if any(k in self._late for k in redo):
+            self._out[key] = self._refused(
+                cell, "unsupported: a data table whose formula reads OFFSET or INDIRECT"
+            )
+            return
+        kept_values = {k: values.get(k, _NOTHING) for k in (*redo, *inputs)}
+        kept_out = {k: out.get(k) for k in redo}
+        try:
+            for x, v in subs:
+                new = values.get(v)
+                if new is None:
+                    values.pop(x, None)
+                else:
+                    values[x] = new
+            for k in redo:
+                out.pop(k, None)
+                self._run_cell(k)
+            o = out.get(formula)
+            result = values.get(formula)
+        finally:
+            for k, v in kept_values.items():
+                if v is _NOTHING:
+                    values.pop(k, None)
+                else:
+                    values[k] = v
+            for k, o_ in kept_out.items():
+                if o_ is None:
+                    out.pop(k, None)
+                else:
+                    out[k] = o_
+        if o is None or o.problem:
+            problem = o.problem if o is not None else "not evaluated"
+            self._out[key] = self._refused(cell, f"not checked: depends on {where} ({problem})")
+            return
+        if result is not None:
+            values[key] = result
+        self._out[key] = Outcome(o.value, "", o.note, o.message)
 
     _LATE_PASSES = 12
 
@@ -1757,7 +1862,9 @@ class Engine:
         are all elementwise: evaluated together in one vectorised call."""
         groups: dict = {}
         for key in graph:
-            p = self._plans[key]
+            p = self._plans.get(key)
+            if p is None:  # a data-table cell
+                continue
             tpl = p.tpl
             if (
                 key in self._out
@@ -1831,7 +1938,8 @@ class Engine:
             except graphlib.CycleError as e:
                 cycle = set(e.args[1])
                 for key in cycle:
-                    self._out[key] = self._refused(self._plans[key].cell, "circular reference")
+                    cell = self._plans[key].cell if key in self._plans else self.book.cells[key]
+                    self._out[key] = self._refused(cell, "circular reference")
                     graph.pop(key, None)
                 for deps in graph.values():
                     deps -= cycle
@@ -1907,6 +2015,26 @@ def _intersect_result(res, c: Cell):
         return Error.errors["#VALUE!"]
     arr = np.asarray(res.value, dtype=object)
     return arr[i, j] if arr.ndim == 2 and i < arr.shape[0] and j < arr.shape[1] else arr.flat[0]
+
+
+def _table_parts(t, key) -> tuple:
+    """The formula cell of data-table cell *key* and its substitutions ((input cell, cell
+    whose value it takes), …)."""
+    sheet, r, c = key
+    r1, c1 = t.box[0], t.box[1]
+    if t.row_input and t.col_input:
+        formula = (sheet, r1 - 1, c1 - 1)
+        subs = (
+            ((sheet, *t.row_input), (sheet, r1 - 1, c)),
+            ((sheet, *t.col_input), (sheet, r, c1 - 1)),
+        )
+    elif t.col_input:  # values down the column at left, formulas in the row above
+        formula = (sheet, r1 - 1, c)
+        subs = (((sheet, *t.col_input), (sheet, r, c1 - 1)),)
+    else:  # values across the row above, formulas in the column at left
+        formula = (sheet, r, c1 - 1)
+        subs = (((sheet, *t.row_input), (sheet, r1 - 1, c)),)
+    return formula, subs
 
 
 def _refuse_lambda(formula: str) -> None:

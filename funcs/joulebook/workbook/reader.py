@@ -96,6 +96,19 @@ class Table:
     columns: list[str]
 
 
+@dataclass(frozen=True)
+class DataTable:
+    """A What-If data table: its range of results and the input cells it varies.  A table of
+    one input down a column has its formulas in the row above the range and the values in the
+    column to its left (``row_input`` None); across a row, the other way round
+    (``col_input`` None); with two inputs, one formula above-left of the range."""
+
+    sheet: str
+    box: tuple[int, int, int, int]  # r1, c1, r2, c2 of the results
+    row_input: tuple[int, int] | None  # the cell the values of the row above stand in for
+    col_input: tuple[int, int] | None  # the cell the values of the column at left stand in for
+
+
 @dataclass
 class Book:
     path: Path
@@ -111,6 +124,7 @@ class Book:
     tables: list[Table] = field(default_factory=list)
     hidden_rows: dict[str, set[int]] = field(default_factory=dict)  # sheet -> hidden row numbers
     filtered: set[str] = field(default_factory=set)  # sheets with an AutoFilter
+    data_tables: list[DataTable] = field(default_factory=list)  # What-If data tables
 
     def formula_cells(self) -> list[Cell]:
         return [c for c in self.cells.values() if c.formula is not None]
@@ -423,7 +437,7 @@ def _read_sheet(zf, part, sheet, book: Book, shared, limits: Limits, counts) -> 
     from openpyxl.utils.cell import range_boundaries
 
     masters: dict[str, tuple[str, str]] = {}  # shared-formula id -> (text, master ref)
-    data_tables: list[tuple[str, str]] = []  # (range, TABLE(…) text) of What-If data tables
+    data_tables: list[tuple[str, str, str]] = []  # (range, row input, column input)
     try:
         fh = zf.open(part)
     except KeyError:
@@ -474,10 +488,11 @@ def _read_sheet(zf, part, sheet, book: Book, shared, limits: Limits, counts) -> 
                         # input, column input), so the engine can name it
                         one, two = f.get("r1") or "", f.get("r2") or ""
                         if f.get("dt2D") == "1":
-                            text = f"TABLE({one},{two})"
+                            row_in, col_in = one, two
                         else:
-                            text = f"TABLE({one},)" if f.get("dtr") == "1" else f"TABLE(,{one})"
-                        data_tables.append((f.get("ref") or ref, text))
+                            row_in, col_in = (one, "") if f.get("dtr") == "1" else ("", one)
+                        data_tables.append((f.get("ref") or ref, row_in, col_in))
+                        text = f"TABLE({row_in},{col_in})"
                     if text:
                         cell.raw_formula = text
                         cell.formula = normalise(text)
@@ -509,11 +524,14 @@ def _read_sheet(zf, part, sheet, book: Book, shared, limits: Limits, counts) -> 
             raise BadInput(
                 f"sheet {sheet!r} is not safe, well-formed XML ({type(e).__name__})"
             ) from None
-    for box, text in data_tables:
+    for box, row_in, col_in in data_tables:
+        text = f"TABLE({row_in},{col_in})"
         try:
             c1, r1, c2, r2 = range_boundaries(box)
-        except ValueError:
+            inputs = tuple(split_ref(x) if x else None for x in (row_in, col_in))
+        except (ValueError, BadInput):
             continue
+        book.data_tables.append(DataTable(sheet, (r1, c1, r2, c2), *inputs))
         for (s_, r, c), cell in book.cells.items():
             if s_ == sheet and r1 <= r <= r2 and c1 <= c <= c2 and cell.formula is None:
                 cell.formula = cell.raw_formula = text
