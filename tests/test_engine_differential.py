@@ -25,6 +25,7 @@ from openpyxl.workbook.defined_name import DefinedName
 
 from joulebook.workbook.engine import Engine
 from joulebook.workbook.reader import read_book
+from joulebook.workbook.refs import texts
 from wbtools import library_values
 
 ROWS, COLS = 8, 5  # the data grid A1:E8 on both sheets
@@ -126,7 +127,9 @@ def expression(draw, depth=0, whole=True) -> str:
         return f"INDEX(A1:E8,{draw(st.integers(1, ROWS))},{draw(st.integers(1, COLS))})"
     if form == "cond":
         fn = draw(st.sampled_from(["SUMIF", "COUNTIF", "AVERAGEIF"]))
-        crit = draw(st.sampled_from(['">0"', '"abc"', "0", '"<>"', draw(reference())]))
+        crit = draw(
+            st.sampled_from(['">0"', '"abc"', "0", '"<>"', '"A*"', '"?b?"', draw(reference())])
+        )
         return f"{fn}({draw(area(whole))},{crit})"
     if form == "logic":
         fn = draw(st.sampled_from(["AND", "OR", "NOT"]))
@@ -200,6 +203,11 @@ def _library_defect(formula: str, theirs, grid=None) -> str:
         # formulas 1.3.4: the criterion "<>" (not blank) matches no cell; Excel's COUNTIF and
         # SUMIF match every non-blank cell (checked in tests/test_engine_builtins.py)
         return 'the criterion "<>"'
+    if any(("*" in t or "?" in t) for t in texts(formula)):
+        # formulas 1.3.4: a wildcard criterion is matched against the start of the text and
+        # with case ("A*" misses "abc", "?b?" matches "abcd"); Excel matches the whole text
+        # without case (tests/test_engine_builtins.py)
+        return "wildcard criterion"
     if "INDEX(" in formula:
         # formulas 1.3.4: INDEX over a box holding blank cells gives #VALUE! or a wrong cell
         # (INDEX(A1:E8,1,1) with A6 blank is #VALUE!; COUNT(INDEX(A1:E8,1,1)) is 0 with A1 = 0);

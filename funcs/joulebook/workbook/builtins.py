@@ -20,6 +20,7 @@ from __future__ import annotations
 
 import functools
 import math
+import re
 
 import numpy as np
 
@@ -246,6 +247,22 @@ def xseriessum(x, n, m, coefficients):
             raise _Fail("#VALUE!")
         total += float(c) * xv ** (nv + i * mv)
     return total
+
+
+def xsearch(find_text, within_text, start_num=1):
+    """SEARCH(find_text, within_text, [start_num]): the position of the first match at or
+    after start_num, ignoring case, with Excel's wildcards (``?``, ``*``, ``~``); #VALUE!
+    when there is none or start_num is outside 1..len(within_text)+1."""
+    find, within = _text(find_text), _text(within_text)
+    start = 1 if _empty(_one(start_num)) else _int(start_num)
+    if start < 1 or start > len(within) + 1:
+        raise _Fail("#VALUE!")
+    if find == "":
+        return start
+    m = wildcard(find, always=True).search(within, start - 1)
+    if m is None:
+        raise _Fail("#VALUE!")
+    return m.start() + 1
 
 
 def xrept(text, number_times):
@@ -611,6 +628,32 @@ def _reads_as_number(t: str) -> bool:
     return True
 
 
+def wildcard(pattern: str, always: bool = False):
+    """The test of Excel's wildcard pattern [1]_ (``?`` one character, ``*`` any run, ``~``
+    before either or before ``~`` takes it literally) against a whole text, ignoring case;
+    None when the pattern holds no wildcard.
+
+    .. [1] Excel's function reference: COUNTIF, MATCH, SEARCH ("use the wildcard
+       characters"); criteria compare text without regard to case.  With *always*, the test
+       of a pattern without wildcards too (its ``~`` escapes read)."""
+    out, wild, i = [], False, 0
+    while i < len(pattern):
+        ch = pattern[i]
+        if ch == "~" and i + 1 < len(pattern) and pattern[i + 1] in "?*~":
+            out.append(re.escape(pattern[i + 1]))
+            i += 2
+            continue
+        if ch in "?*":
+            wild = True
+            out.append("." if ch == "?" else ".*")
+        else:
+            out.append(re.escape(ch))
+        i += 1
+    if not wild and not always:
+        return None
+    return re.compile("".join(out), re.IGNORECASE | re.DOTALL)
+
+
 def _criteria_not_equal(criteria):
     """Excel's criteria where the library differs: ``"<>x"`` is the complement of ``"=x"``
     (it matches blanks, logical values and numbers too: COUNTIF(A1:A4,"<>abc") counts every
@@ -625,7 +668,14 @@ def _criteria_not_equal(criteria):
             raw = np.asarray(test_range["raw"], dtype=object)
             return np.vectorize(lambda v: isinstance(v, str) and v == "", otypes=[bool])(raw)
         if isinstance(condition, str) and condition.startswith("<>"):
-            return ~np.asarray(criteria(test_range, "=" + condition[2:]), dtype=bool)
+            return ~np.asarray(test(test_range, "=" + condition[2:]), dtype=bool)
+        if isinstance(condition, str) and condition[:1] not in "<>":
+            match = wildcard(condition[1:] if condition[:1] == "=" else condition)
+            if match is not None:  # the whole text, any case (the library: its start, case)
+                raw = np.asarray(test_range["raw"], dtype=object)
+                return np.vectorize(
+                    lambda v: isinstance(v, str) and match.fullmatch(v) is not None, otypes=[bool]
+                )(raw)
         b = criteria(test_range, condition)
         if (
             isinstance(condition, str)
@@ -669,6 +719,7 @@ def install(table: dict) -> None:
     put("COMBINA", _scalar_function(xcombina), prefixed=True)
     put("BASE", _scalar_function(xbase), prefixed=True)
     put("REPT", _scalar_function(xrept))
+    put("SEARCH", _scalar_function(xsearch))
     put("SERIESSUM", _array_function(xseriessum))
     for src in _BASES:
         for dst in _BASES:

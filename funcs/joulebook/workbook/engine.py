@@ -54,6 +54,9 @@ __all__ = ["Engine", "Outcome", "ERROR", "VOLATILE"]
 
 #: functions whose value changes with the clock or by chance: reported, never compared
 VOLATILE = frozenset({"NOW", "TODAY", "RAND", "RANDBETWEEN", "RANDARRAY", "_XLFN.RANDARRAY"})
+_DATABASE_NAMES = (
+    "DAVERAGE DCOUNT DCOUNTA DGET DMAX DMIN DPRODUCT DSTDEV DSTDEVP DSUM DVAR DVARP".split()
+)
 #: functions (and operators) that need the reference itself, not only its values
 _NEEDS_RANGES = frozenset(
     {
@@ -81,6 +84,7 @@ _NEEDS_RANGES = frozenset(
         "SHEETS",
         "_XLFN.SHEETS",
         "CELL",
+        *_DATABASE_NAMES,
     }
 ) | frozenset(f.name for f in CATALOG if f.reads_message)
 _DYNAMIC = frozenset({"OFFSET", "INDIRECT"})
@@ -229,6 +233,7 @@ def _register_ours() -> None:
         for names, fn in (
             (("AGGREGATE", "_XLFN.AGGREGATE"), _aggregate),
             (("FORMULATEXT", "_XLFN.FORMULATEXT"), _formulatext),
+            *(((name,), _database_function(name)) for name in _DATABASE),
         ):
             for name in names:
                 table[name] = wrap_func(fn, ranges=True)
@@ -702,6 +707,122 @@ def _aggregate(kind, options, *args):
             return Error.errors.get(v[1], Error.errors["#VALUE!"])
         kept.append(v)
     return _aggregate_of(name, kept, k)
+
+
+_DATABASE = {
+    "DAVERAGE": "AVERAGE", "DCOUNT": "COUNT", "DCOUNTA": "COUNTA", "DGET": "GET",
+    "DMAX": "MAX", "DMIN": "MIN", "DPRODUCT": "PRODUCT", "DSTDEV": "STDEV",
+    "DSTDEVP": "STDEVP", "DSUM": "SUM", "DVAR": "VAR", "DVARP": "VARP",
+}  # fmt: skip
+
+
+def _grid(eng, ref) -> list[list]:
+    """The values of a one-area reference, row by row (None for a blank cell)."""
+    sheet, r1, c1, r2, c2 = _box(eng, ref.ranges[0])
+    r2 = min(r2, eng._bounded(sheet, (r1, c1, r2, c2))[2])
+    return [[eng._values.get((sheet, r, c)) for c in range(c1, c2 + 1)] for r in range(r1, r2 + 1)]
+
+
+def _database_function(name: str):
+    """D-function *name* (DSUM, DCOUNT, DGET, …) [1]_: the records (rows below the header
+    row) of the database that meet the criteria range — each row of criteria one
+    alternative, each filled cell of a row a condition on the field its header names — and
+    the function of the field's values in them.  A criterion text without an operator
+    matches field texts that begin with it (Excel's filter rule), ``=text`` the whole text;
+    comparisons and wildcards as in COUNTIF.  Computed criteria (a header that names no
+    field) are refused by name.
+
+    .. [1] Excel's function reference: DSUM, DCOUNT, DGET, … and "Filter by using advanced
+       criteria" (criteria ranges)."""
+    kind = _DATABASE[name]
+
+    def fn(database, field=None, criteria=None):
+        import formulas.functions as library_functions
+        from formulas.ranges import Ranges
+        from formulas.tokens.operand import Error
+
+        eng: Engine = _CURRENT.engine
+        if not isinstance(database, Ranges) or not isinstance(criteria, Ranges):
+            return Error.errors["#VALUE!"]
+        db, crit = _grid(eng, database), _grid(eng, criteria)
+        if len(db) < 1 or len(crit) < 2:
+            return Error.errors["#VALUE!"]
+        heads = [h.strip().casefold() if isinstance(h, str) else h for h in db[0]]
+        col = None
+        # the library hands an omitted argument (DCOUNT(db,,criteria)) as the number 0, which
+        # names no field either: both count the records
+        omitted = field is None or field is sh_empty() or (type(field) is int and field == 0)
+        f = None if omitted else _scalar(field)
+        if _is_error(f):
+            return f
+        if isinstance(f, str):
+            if f.strip().casefold() not in heads:
+                return Error.errors["#VALUE!"]
+            col = heads.index(f.strip().casefold())
+        elif isinstance(f, (int, float, np.number)) and not isinstance(f, bool):
+            col = int(f) - 1
+            if not 0 <= col < len(heads):
+                return Error.errors["#VALUE!"]
+        elif f is not None and f is not sh_empty():
+            return Error.errors["#VALUE!"]
+        elif kind not in ("COUNT", "COUNTA"):
+            return Error.errors["#VALUE!"]
+        records = db[1:]
+        test = library_functions.__dict__["__xfilter"]
+        chosen = np.zeros(len(records), dtype=bool)
+        for row in crit[1:]:
+            keep = np.ones(len(records), dtype=bool)
+            for head, cond in zip(crit[0], row):
+                if cond is None or cond == "":
+                    continue
+                h = head.strip().casefold() if isinstance(head, str) else head
+                if h not in heads:
+                    _CURRENT.problems.append(
+                        f"unsupported: {name} with a computed criterion (the criteria header "
+                        f"{head!r} names no field)"
+                    )
+                    return Error.errors["#VALUE!"]
+                if _is_error(cond) or isinstance(cond, tuple):
+                    return Error.errors["#VALUE!"]
+                if isinstance(cond, str) and cond[:1] not in "<>=" and not _reads_number(cond):
+                    cond = "=" + cond + "*"  # begins with
+                at = heads.index(h)
+                raw = np.array(
+                    [sh_empty() if r[at] is None else _as_formula_value(r[at]) for r in records],
+                    dtype=object,
+                )
+                keep &= np.asarray(test({"raw": raw}, cond), dtype=bool).reshape(-1)
+            chosen |= keep
+        picked = [r for r, ok in zip(records, chosen) if ok]
+        if col is None:  # DCOUNT/DCOUNTA without a field: the records
+            return float(len(picked))
+        values = [r[col] for r in picked if r[col] is not None]
+        if kind == "GET":
+            if not values:
+                return Error.errors["#VALUE!"]
+            if len(values) > 1:
+                return Error.errors["#NUM!"]
+            v = values[0]
+            return Error.errors.get(v[1], Error.errors["#VALUE!"]) if isinstance(v, tuple) else v
+        for v in values:
+            if isinstance(v, tuple):
+                return Error.errors.get(v[1], Error.errors["#VALUE!"])
+        if kind in ("MAX", "MIN", "PRODUCT", "SUM") and not any(
+            isinstance(v, float) for v in values
+        ):
+            return 0.0
+        return _aggregate_of(kind, values)
+
+    fn.__name__ = name
+    return fn
+
+
+def _reads_number(t: str) -> bool:
+    try:
+        float(t)
+    except ValueError:
+        return False
+    return True
 
 
 def _engine_value(v):
