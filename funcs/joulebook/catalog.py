@@ -1017,7 +1017,8 @@ _ERROR_TEXT = re.compile(r"^#(N/A|NULL!|DIV/0!|VALUE!|REF!|NAME\?|NUM!|GETTING_D
 
 
 def _is_missing(v) -> bool:
-    return v is None or (isinstance(v, str) and v == "") or (isinstance(v, float) and math.isnan(v))
+    """A blank cell: None or empty text.  NaN is no blank: it is refused as bad input."""
+    return v is None or (isinstance(v, str) and v == "")
 
 
 def _as_array(v):
@@ -1116,7 +1117,10 @@ def call(name: str, *values):
         v = values[i] if i < nv else None
         t = type(v)
         if (t is float or t is int or t is _F64) and typ == "number" and v - v == 0:
-            si.append(float(v) if qty is None else system.conv(qty).to_si(float(v)))
+            x = float(v) if qty is None else system.conv(qty).to_si(float(v))
+            if (x < 0.0 or (x == 0.0 and qty != "volume")) and qty in _ABSOLUTE:
+                return _call(f, values)  # refused there, with the argument named
+            si.append(x)
         elif t is str and typ == "text" and v and v[0] != "#":
             si.append(v)
         elif v is None and opt:
@@ -1192,8 +1196,43 @@ def _evaluate(f: Func, fargs, prepared, system):
         elif arg.quantity is None:
             si_args.append(x)
         else:
-            si_args.append(system.conv(arg.quantity).to_si(x))
+            conv = system.conv(arg.quantity)
+            y = conv.to_si(x)
+            if arg.quantity in _ABSOLUTE:
+                _above_zero(arg, x, y, conv)
+            si_args.append(y)
     return _run(f, si_args, system)
+
+
+#: quantities that are absolute amounts: zero or less is no state of matter
+_ABSOLUTE = {
+    "temperature": "an absolute temperature must be above 0 K",
+    "pressure": "an absolute pressure must be above 0",
+    "volume": "a volume must not be below 0",
+    "mass": "a mass must be above 0",
+}
+_GAUGE_HINT = " (a gauge pressure is written kPag, barg, psig)"
+
+
+def _above_zero(arg: Arg, given, si, conv) -> None:
+    """The one rule for absolute quantities (T, P, V, m): above zero, whatever the unit."""
+    a = np.asarray(si, dtype=float)
+    # a volume may be zero (a bag inflated from flat, a cylinder filled from empty)
+    bad = (a < 0.0 if arg.quantity == "volume" else ~(a > 0.0)) & ~np.isnan(a)
+    if not bad.any():
+        return
+    g = np.asarray(given, dtype=float)
+    idx = tuple(np.argwhere(bad)[0]) if a.ndim else ()
+    where = f" (item {','.join(str(i + 1) for i in idx)})" if idx else ""
+    unit = f" {conv.unit}" if conv.unit else ""
+    shown = f"{arg.name}{where} = {fmt_value(float(g[idx]))}{unit}"
+    rule = _ABSOLUTE[arg.quantity]
+    if conv.offset:  # degC, degF, gauge units: where zero lies in the unit given
+        zero = f"{fmt_value(conv.from_si(0.0))}{unit}"
+        edge = "absolute zero" if arg.quantity == "temperature" else "a perfect vacuum"
+        raise BadInput(f"{shown} is at or below {edge} ({zero}); {rule}")
+    hint = _GAUGE_HINT if arg.quantity == "pressure" else ""
+    raise BadInput(f"{shown}: {rule}{hint}")
 
 
 def _run(f: Func, si_args, system):

@@ -32,6 +32,8 @@ import threading
 from dataclasses import dataclass
 from functools import lru_cache
 
+import numpy as np
+
 from .errors import BadInput, OutOfRange, fmt_value
 
 __all__ = [
@@ -600,6 +602,20 @@ def convert(value, from_unit: str, to_unit: str):
             f"cannot convert {from_unit!r} ({KIND_WORDS.get(k1, k1)}) to {to_unit!r} "
             f"({KIND_WORDS.get(k2, k2)})"
         )
+    if k1 == "temperature" and any(
+        str(u).strip().lower().startswith("delta_") for u in (from_unit, to_unit)
+    ):
+        # a temperature difference: a factor, no offset (delta_degC to delta_degF is 1.8)
+        k1 = k2 = "temperature_difference"
     c1 = parse_unit(from_unit, k1)
     c2 = parse_unit(to_unit, k2)
-    return c2.from_si(c1.to_si(value))
+    si = c1.to_si(value)
+    if k1 in ("temperature", "pressure") and np.any(np.asarray(si) < 0.0):
+        edge = "absolute zero" if k1 == "temperature" else "a perfect vacuum"
+        what = "temperature difference (delta_degC, delta_degF)" if k1 == "temperature" else ""
+        tail = f"; convert a {what} instead" if what else ""
+        raise BadInput(
+            f"value = {value} {from_unit} is below {edge} ({c1.from_si(0.0):.6g} {from_unit})"
+            f": no absolute {KIND_WORDS.get(k1, k1)} is below zero{tail}"
+        )
+    return c2.from_si(si)

@@ -76,10 +76,14 @@ def parse_path(text: str, system: UnitSystem) -> Path:
         "constant-volume": "rigid",
         "isochoric": "rigid",
         "constant-pressure": "isobaric",
-        "adiabatic": "isentropic",
         "spring": "linear",
     }
     word = aliases.get(word, word)
+    if word == "adiabatic":
+        raise BadInput(
+            f"path {text!r}: write isentropic for a reversible adiabatic process; an "
+            "irreversible adiabatic one needs its work or its end state (Q = 0: W = -ΔU)"
+        )
     if word not in PATHS:
         raise BadInput(f"path {text!r}: use one of {', '.join(PATHS)}")
     params = {}
