@@ -341,7 +341,7 @@ def test_a_failed_flash_never_leaves_a_stale_state(call):
     import CoolProp.CoolProp as CP
 
     fresh = CP.AbstractState("HEOS", "Water")
-    for T, P in ((1500.0, 5e7), (293.15, 1e5), (600.0, 1e6)):
+    for T, P in ((1200.0, 5e7), (293.15, 1e5), (600.0, 1e6)):
         with pytest.raises(OutOfRange):
             call("JB_PROP", "water", "h", "v in m3/kg", 627.9693800927928, "x", 0.2180908190439687)
         fresh.update(CP.PT_INPUTS, P, T)

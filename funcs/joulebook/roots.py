@@ -7,7 +7,7 @@ from collections.abc import Callable, Sequence
 
 from .errors import NoConvergence
 
-__all__ = ["brent", "scan_roots"]
+__all__ = ["brent", "golden_min", "scan_roots"]
 
 
 def brent(
@@ -79,22 +79,71 @@ def scan_roots(
 ) -> list[float]:
     """All roots of *f* found by sign changes on *grid*, each polished with :func:`brent`.
 
-    Points where *f* fails (raises ``ValueError`` or returns NaN) are skipped.
+    Points where *f* fails (raises ``ValueError`` or returns NaN) are skipped.  Two roots
+    closer together than the grid's spacing leave no sign change; where three neighbouring
+    points have one sign and the middle one is nearest zero, the extremum between them is
+    found by golden-section search, and if *f* changes sign there both roots are kept.
     """
     roots: list[float] = []
+    pts: list[tuple[float, float] | None] = []
     prev_x = prev_f = None
     for x in grid:
         try:
             fx = f(x)
         except ValueError:
-            prev_x = prev_f = None
-            continue
+            fx = float("nan")
         if fx != fx:  # NaN
             prev_x = prev_f = None
+            pts.append(None)
             continue
+        pts.append((x, fx))
         if fx == 0.0:
             roots.append(x)
         elif prev_f is not None and prev_f != 0.0 and (prev_f > 0) != (fx > 0):
             roots.append(brent(f, prev_x, x, prev_f, fx, xtol=xtol, what=what))
         prev_x, prev_f = x, fx
-    return roots
+    for i in range(1, len(pts) - 1):
+        a, m, b = pts[i - 1], pts[i], pts[i + 1]
+        if a is None or m is None or b is None:
+            continue
+        if not ((a[1] > 0) == (m[1] > 0) == (b[1] > 0)) or abs(m[1]) >= min(abs(a[1]), abs(b[1])):
+            continue
+        sign = 1.0 if m[1] > 0 else -1.0
+        try:
+            xm, fm = golden_min(lambda t, sign=sign: sign * f(t), a[0], b[0], stop_below=0.0)
+        except ValueError:
+            continue
+        if fm == fm and sign * fm < 0:  # f crosses zero twice between a and b
+            fm = sign * fm
+            roots.append(brent(f, a[0], xm, a[1], fm, xtol=xtol, what=what))
+            roots.append(brent(f, xm, b[0], fm, b[1], xtol=xtol, what=what))
+    return sorted(roots)
+
+
+def golden_min(
+    g: Callable[[float], float],
+    a: float,
+    b: float,
+    iters: int = 60,
+    stop_below: float | None = None,
+):
+    """The minimum of *g* on [a, b] by golden-section search [1]_: (x, g(x)); with
+    *stop_below*, as soon as a value under it is found.
+
+    .. [1] J. Kiefer, "Sequential minimax search for a maximum", Proc. Amer. Math. Soc. 4
+       (1953) 502–506."""
+    r = (math.sqrt(5.0) - 1.0) / 2.0
+    c, d = b - r * (b - a), a + r * (b - a)
+    gc, gd = g(c), g(d)
+    for _ in range(iters):
+        if gc < gd:
+            b, d, gd = d, c, gc
+            c = b - r * (b - a)
+            gc = g(c)
+        else:
+            a, c, gc = c, d, gd
+            d = a + r * (b - a)
+            gd = g(d)
+        if stop_below is not None and min(gc, gd) < stop_below:
+            break
+    return (c, gc) if gc < gd else (d, gd)

@@ -31,7 +31,7 @@ from functools import cache, lru_cache
 import numpy as np
 
 from ..errors import BadInput, JoulebookError, OutOfRange, fmt_value
-from ..roots import scan_roots
+from ..roots import brent, golden_min, scan_roots
 
 __all__ = [
     "FluidInfo",
@@ -160,6 +160,22 @@ class FluidInfo:
     R: float  # J/(kg K)
     pure: bool
     eos: str
+    melts: bool = False  # the library has the fluid's melting line
+    T_melt_top: float = 0.0  # the melting temperature at P_max: no solid above it
+
+
+#: liquid is accepted down to the melting line less this much (K): the ice point engineers
+#: mean by "liquid water at 0 °C and 1 atm" lies 2.5 mK below the melting line
+#: (273.1525 K at 101.325 kPa, IAPWS R14-08), where the equation of state extrapolates smoothly
+MELT_TOL = 0.01
+
+#: validated ranges stated by an equation's own publication where they are narrower than the
+#: range the property library allows: (T_max in K, P_max in Pa)
+_VALIDATED = {
+    # IAPWS-95 (IAPWS R6-95(2018)): validated from the melting curve to 1273 K at pressures
+    # up to 1000 MPa; beyond, an extrapolation
+    "Water": (1273.0, 1.0e9),
+}
 
 
 @lru_cache(maxsize=1)
@@ -219,13 +235,21 @@ def fluid_info(name: str) -> FluidInfo:
     a = CP.AbstractState("HEOS", internal)
     aliases = tuple(sorted({k for k, v in alias_map.items() if v == internal}))
     bib = a.fluid_param_string("BibTeX-EOS")
+    T_max, P_max = _VALIDATED.get(internal, (a.Tmax(), a.pmax()))
+    melts = bool(a.has_melting_line())
+    T_melt_top = 0.0
+    if melts:
+        try:
+            T_melt_top = a.melting_line(CP.iT, CP.iP, P_max)
+        except ValueError:
+            melts = False
     return FluidInfo(
         name=display[internal],
         internal=internal,
         aliases=aliases,
-        T_min=a.Tmin(),
-        T_max=a.Tmax(),
-        P_max=a.pmax(),
+        T_min=round(a.Tmin() - (MELT_TOL if melts else 0.0), 9),
+        T_max=T_max,
+        P_max=P_max,
         T_crit=a.T_critical(),
         P_crit=a.p_critical(),
         rho_crit=a.rhomass_critical(),
@@ -237,6 +261,8 @@ def fluid_info(name: str) -> FluidInfo:
         eos=_EOS_TEXT.get(internal, f"reference equation of state {bib}")
         + " via "
         + coolprop_version(),
+        melts=melts,
+        T_melt_top=T_melt_top,
     )
 
 
@@ -301,6 +327,17 @@ class _Scratch:
 
 def _scratch(internal: str) -> _Scratch:
     return _Scratch(internal)
+
+
+def _scratch_dt(internal: str) -> _Scratch:
+    """One kept scratch state per fluid and thread for (ρ, T) re-evaluations."""
+    cache = getattr(_local, "dt", None)
+    if cache is None:
+        cache = _local.dt = {}
+    sc = cache.get(internal)
+    if sc is None:
+        sc = cache[internal] = _Scratch(internal)
+    return sc
 
 
 # ---------------------------------------------------------------------------------------
@@ -407,6 +444,30 @@ def _check_result(info: FluidInfo, st, shows) -> None:
             f"{info.name}: the state lies at {_show('P', P, shows)}, outside the model's "
             f"range 0–{fmt_value(info.P_max / 1e3)} kPa"
         )
+    if info.melts and T < info.T_melt_top + MELT_TOL:
+        _check_not_solid(info, T, P, shows)
+
+
+@lru_cache(maxsize=65536)
+def _melting_T(info: FluidInfo, P: float) -> float:
+    """The melting temperature at pressure *P* (the property library's melting line; for
+    water, IAPWS R14-08's equations for ices Ih, III, V, VI and VII)."""
+    return _state(info.internal, 2).melting_line(_coolprop().iT, _coolprop().iP, P)
+
+
+def _check_not_solid(info: FluidInfo, T: float, P: float, shows) -> None:
+    """Refuse a state on the solid side of the melting line (by more than MELT_TOL)."""
+    if P < info.P_triple:
+        return  # below the triple-point pressure: vapour or solid by sublimation, T ≥ T_min
+    try:
+        Tm = _melting_T(info, P)
+    except ValueError:
+        return
+    if T < Tm - MELT_TOL:
+        raise OutOfRange(
+            f"{info.name}: {_show('T', T, shows)} at {_show('P', P, shows)} is solid (it "
+            f"melts at {_show('T', Tm, shows).split('= ')[1]}); joulebook gives fluid states only"
+        )
 
 
 @cache
@@ -495,12 +556,22 @@ def _flash(info: FluidInfo, a: str, va: float, b: str, vb: float, shows=None):
             if {a, b} == {"T", "P"}:
                 T, P = (va, vb) if a == "T" else (vb, va)
                 _check_not_saturated(info, T, P, shows)
+                if info.melts and T < info.T_melt_top + MELT_TOL:
+                    _check_not_solid(info, T, P, shows)
+                    rho = _liquid_by_density(info, T, P)
+                    if rho is not None:
+                        st = _up(internal, 0, _coolprop().DmassT_INPUTS, rho, T)
+                        _check_result(info, st, shows)
+                        return st
             raise OutOfRange(
                 f"{info.name}: no state for {_show(a, va, shows)}, {_show(b, vb, shows)} "
                 "within the equation of state"
             ) from None
         if check_result:
             _check_result(info, st, shows)
+        if info.internal in _DENSITY_MAXIMUM and {a, b} == {"rho", "P"}:
+            rho, P = (va, vb) if a == "rho" else (vb, va)
+            _check_one_temperature(info, rho, P, st.T(), shows)
         return st
     elif mode == "solved":
         vals = {a: va, b: vb}
@@ -521,6 +592,86 @@ def _flash(info: FluidInfo, a: str, va: float, b: str, vb: float, shows=None):
         )
     _check_result(info, st, shows)
     return st
+
+
+#: liquids whose density has a maximum on an isobar (water near 4 °C at 1 atm): one
+#: pressure and density can fit two temperatures
+_DENSITY_MAXIMUM = {"Water": 40.0, "HeavyWater": 40.0}  # K above the melting line to search
+
+
+def _check_one_temperature(info: FluidInfo, rho: float, P: float, T: float, shows) -> None:
+    """Refuse a (P, ρ) pair of a liquid near its density maximum that fits two temperatures,
+    naming both (the library's flash returns one of them)."""
+    prof = _density_profile(info, P)
+    if prof is None:
+        return
+    T_lo, T_hi, t_max, rho_max, rho_low, rho_high = prof
+    if not (T < T_hi and rho_low <= rho < rho_max * (1 - 1e-12) and rho_high <= rho):
+        return
+    g = lambda t: _density_at(info, P, t) - rho  # noqa: E731
+    try:
+        t1 = brent(g, T_lo, t_max, what=f"{info.name} at P and rho")
+        t2 = brent(g, t_max, T_hi, what=f"{info.name} at P and rho")
+    except (ValueError, JoulebookError):
+        return
+    if t2 - t1 > 1e-6:
+        both = " and ".join(_show("T", t, shows).split("= ")[1] for t in (t1, t2))
+        raise BadInput(
+            f"{info.name}: {_show('P', P, shows)} and {_show('rho', rho, shows)} fit two states "
+            f"either side of the density maximum (T = {both}); give T instead"
+        )
+
+
+def _density_at(info: FluidInfo, P: float, t: float) -> float:
+    CP = _coolprop()
+    try:
+        return _scratch(info.internal).upd(CP.PT_INPUTS, P, t).rhomass()
+    except ValueError:
+        r = _liquid_by_density(info, t, P)
+        if r is None:
+            raise
+        return r
+
+
+@lru_cache(maxsize=1024)
+def _density_profile(info: FluidInfo, P: float):
+    """Along the isobar P, from the melting line up to _DENSITY_MAXIMUM kelvin above it:
+    (T_lo, T_hi, T of the density maximum, the maximum, ρ at T_lo, ρ at T_hi), or None."""
+    try:
+        T_lo = max(info.T_min, _melting_T(info, P) - MELT_TOL) if info.melts else info.T_min
+    except ValueError:
+        T_lo = info.T_min
+    T_hi = T_lo + _DENSITY_MAXIMUM[info.internal]
+    try:
+        t_max, neg = golden_min(lambda t: -_density_at(info, P, t), T_lo, T_hi)
+        return T_lo, T_hi, t_max, -neg, _density_at(info, P, T_lo), _density_at(info, P, T_hi)
+    except (ValueError, JoulebookError):
+        return None
+
+
+def _liquid_by_density(info: FluidInfo, T: float, P: float) -> float | None:
+    """The density of the liquid at (T, P) within MELT_TOL below the melting line, where the
+    library's (T, P) flash refuses: the density whose pressure is P at T, from the density
+    on the melting line at P (the equation of state is smooth across it); None if none."""
+    CP = _coolprop()
+    sc = _scratch(info.internal)
+    try:
+        Tm = _melting_T(info, P)
+        rho_m = sc.upd(CP.PT_INPUTS, P, Tm + 1e-6).rhomass()
+    except ValueError:
+        return None
+
+    def f(lnr: float) -> float:
+        return sc.upd(CP.DmassT_INPUTS, math.exp(lnr), T).p() - P
+
+    lo, hi = math.log(rho_m * 0.995), math.log(rho_m * 1.005)
+    try:
+        if f(lo) * f(hi) > 0:
+            return None
+        lnr = brent(f, lo, hi, what=f"{info.name} liquid at T and P", xtol=1e-14)
+    except (ValueError, JoulebookError):
+        return None
+    return math.exp(lnr)
 
 
 _GET = {"T": "T", "P": "p", "rho": "rhomass", "u": "umass", "h": "hmass", "s": "smass", "x": "Q"}
@@ -572,11 +723,7 @@ def _solve_T_y(info: FluidInfo, T: float, y_sym: str, y: float, shows):
         branches = [(None, None)]
     rho_lo = max(1e-3 * info.P_triple / (info.R * T), 1e-12) if info.P_triple > 0 else 1e-10
     rho_lo = max(rho_lo, 1e-10)
-    try:
-        st = sc.upd(CP.PT_INPUTS, info.P_max, T)
-        rho_hi = st.rhomass()
-    except ValueError:
-        rho_hi = info.rho_crit * 3.5
+    rho_hi = _densest(info, T)
 
     def f(lnr: float) -> float:
         st = sc.upd(CP.DmassT_INPUTS, math.exp(lnr), T)
@@ -605,13 +752,39 @@ def _solve_T_y(info: FluidInfo, T: float, y_sym: str, y: float, shows):
             f"and {_show(y_sym, y, shows)}"
         )
     if count > 1:
+        found = [
+            _show("P", sc.upd(CP.DmassT_INPUTS, math.exp(r), T).p(), shows).split("= ")[1]
+            for r in distinct
+        ]
+        if two_phase_x is not None:
+            found.insert(0, f"{_show('P', _psat(info, T), shows).split('= ')[1]} wet")
         raise BadInput(
             f"{info.name}: {_show('T', T, shows)} and {_show(y_sym, y, shows)} fit more than "
-            "one state; give P or v instead"
+            f"one state (P = {' and '.join(found[:3])}); give P or v instead"
         )
     if two_phase_x is not None:
         return _up(info.internal, 0, CP.QT_INPUTS, two_phase_x, T)
     return _up(info.internal, 0, CP.DmassT_INPUTS, math.exp(distinct[0]), T)
+
+
+@lru_cache(maxsize=4096)
+def _densest(info: FluidInfo, T: float) -> float:
+    """The highest fluid density at temperature *T*: at the model's pressure limit, or at the
+    melting pressure where the fluid freezes below that limit (compressed water at 10 °C
+    freezes to ice VI near 700 MPa, below the 1000 MPa limit)."""
+    CP = _coolprop()
+    sc = _scratch(info.internal)
+    P = info.P_max
+    if info.melts and T < info.T_melt_top:
+        try:
+            P = min(P, _state(info.internal, 2).melting_line(CP.iP, CP.iT, T) * (1 - 1e-9))
+        except ValueError:
+            pass
+    try:
+        return sc.upd(CP.PT_INPUTS, P, T).rhomass()
+    except ValueError:
+        r = _liquid_by_density(info, T, P) if info.melts else None
+        return r if r is not None else info.rho_crit * 3.5
 
 
 def _solve_rho_y(info: FluidInfo, fixed: str, fval: float, y_sym: str, y: float, shows):
@@ -731,7 +904,16 @@ def _read(info: FluidInfo, st, want: str, shows=None):
             raise OutOfRange(
                 f"{info.name}: {want} is not defined for a two-phase state (x = {fmt_value(st.Q())})"
             )
-        cp, cv = st.cpmass(), st.cvmass()
+        T, rho = st.T(), st.rhomass()
+        if abs(T / info.T_crit - 1) < 1e-6 and abs(rho / info.rho_crit - 1) < 1e-4:
+            raise OutOfRange(
+                f"{info.name}: {want} has no finite value at the critical point "
+                f"(T = {fmt_value(info.T_crit)} K, rho = {fmt_value(info.rho_crit)} kg/m3)"
+            )
+        # derivatives at the converged (T, ρ), whatever pair fixed the state: near the
+        # critical point the library's other flashes leave cp depending on the pair
+        d = _scratch_dt(info.internal).upd(_coolprop().DmassT_INPUTS, rho, T)
+        cp, cv = d.cpmass(), d.cvmass()
         val = cp if want == "cp" else cv if want == "cv" else cp / cv
         if not (math.isfinite(val) and val > 0):
             raise OutOfRange(f"{info.name}: {want} is not defined at this state (critical point?)")

@@ -184,7 +184,7 @@ MATERIALS: tuple[Material, ...] = (
         ("liquid water", "H2O liquid"),
         "table",
         (
-            (273.16, 4219.4),
+            (273.15, 4219.4),
             (275.0, 4213.5),
             (280.0, 4200.9),
             (285.0, 4192.4),
@@ -207,10 +207,11 @@ MATERIALS: tuple[Material, ...] = (
             (370.0, 4212.1),
             (373.12, 4215.6),
         ),
-        273.16,
+        273.15,
         373.12,
         "liquid water at 101.325 kPa: c_p tabulated from IAPWS-95 (CoolProp 8.0.0) every 5 K, "
-        "rounded to 0.1 J/(kg K); interpolation error < 0.05 %",
+        "rounded to 0.1 J/(kg K); interpolation error < 0.05 %; from the ice point at 1 atm "
+        "(0 °C, 2.5 mK below the melting line, where IAPWS-95 extrapolates smoothly)",
     ),
     Material(
         "engine oil",
