@@ -77,3 +77,31 @@ def test_near_critical_cp_does_not_depend_on_the_input_pair():
     assert by_tp == pytest.approx(3672.6003, rel=1e-6)
     with pytest.raises(OutOfRange, match="critical point"):  # cp has no finite value there
         call("JB_PROP", "water", "cp", "T in K", 647.096, "rho in kg/m3", 322)
+
+
+def test_u_and_s_find_high_pressure_liquid():
+    # round trip over 30 compressed-liquid states from 396 to 1000 MPa (the library's own
+    # (T, P) flash is the reference: u and s from it must lead back to its pressure)
+    import random
+
+    rng = random.Random(3)
+    for _ in range(30):
+        P, T = rng.uniform(396, 1000), rng.uniform(310, 600)
+        u = call("JB_PROP", "water", "u", "T in K", T, "P in MPa", P)
+        s = call("JB_PROP", "water", "s", "T in K", T, "P in MPa", P)
+        assert call("JB_PROP", "water", "P in MPa", "u", u, "s", s) == pytest.approx(P, rel=1e-6)
+
+
+@pytest.mark.parametrize("T", [280.0, 300.0, 500.0, 646.0])
+def test_t_with_exactly_psat_is_refused_at_every_temperature(T):
+    # common practice: T and P on the saturation line fix no state (x is free); one rule
+    # whichever phase the library's flash would pick; a hair off the line is single-phase
+    ps = call("JB_PROP", "water", "P in Pa", "T in K", T, "x", 0)
+    with pytest.raises(BadInput, match="saturation line"):
+        call("JB_PROP", "water", "h", "T in K", T, "P in Pa", ps)
+    assert call("JB_PROP", "water", "phase", "T in K", T, "P in Pa", ps * 1.0001) == (
+        "compressed liquid"
+    )
+    assert call("JB_PROP", "water", "phase", "T in K", T, "P in Pa", ps * 0.9999) == (
+        "superheated vapor"
+    )

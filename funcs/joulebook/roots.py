@@ -87,11 +87,32 @@ def scan_roots(
     roots: list[float] = []
     pts: list[tuple[float, float] | None] = []
     prev_x = prev_f = None
-    for x in grid:
+
+    def value(t: float) -> float:
         try:
-            fx = f(x)
+            return f(t)
         except ValueError:
-            fx = float("nan")
+            return float("nan")
+
+    last = None  # the last point, valid or not
+    for x in grid:
+        fx = value(x)
+        if (fx != fx) != (last is None or last[1] != last[1]) and last is not None:
+            # the edge of where f is defined lies between the last point and this one: a
+            # root may sit between the last valid point and that edge
+            good, bad = (last, (x, fx)) if fx != fx else ((x, fx), last)
+            lo, hi = good[0], bad[0]
+            for _ in range(40):
+                mid = 0.5 * (lo + hi)
+                fm = value(mid)
+                if fm != fm:
+                    hi = mid
+                else:
+                    lo, fl = mid, fm
+                    if (fl > 0) != (good[1] > 0) and good[1] != 0.0:
+                        roots.append(brent(f, good[0], mid, good[1], fl, xtol=xtol, what=what))
+                        break
+        last = (x, fx)
         if fx != fx:  # NaN
             prev_x = prev_f = None
             pts.append(None)

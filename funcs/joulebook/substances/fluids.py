@@ -569,6 +569,15 @@ def _flash(info: FluidInfo, a: str, va: float, b: str, vb: float, shows=None):
             ) from None
         if check_result:
             _check_result(info, st, shows)
+        elif info.pure and info.T_triple <= (va if a == "T" else vb) < info.T_crit:
+            # T and P on the saturation line fix no state: one rule, whichever phase the
+            # library's flash would pick (the ancillary equation screens cheaply first)
+            T, P = (va, vb) if a == "T" else (vb, va)
+            anc = _state(info.internal, 2).saturation_ancillary(
+                _coolprop().iP, 0, _coolprop().iT, T
+            )
+            if abs(P - anc) <= 1e-3 * anc:
+                _check_not_saturated(info, T, P, shows)
         if info.internal in _DENSITY_MAXIMUM and {a, b} == {"rho", "P"}:
             rho, P = (va, vb) if a == "rho" else (vb, va)
             _check_one_temperature(info, rho, P, st.T(), shows)
@@ -801,13 +810,19 @@ def _solve_rho_y(info: FluidInfo, fixed: str, fval: float, y_sym: str, y: float,
             return float("nan")
         return getattr(st, name)() - y
 
-    try:
-        st = sc.upd(CP.PT_INPUTS, info.P_max, max(info.T_min, info.T_triple) * 1.001)
-        rho_hi = st.rhomass()
-    except ValueError:
-        rho_hi = info.rho_crit * 3.5
-    grid = np.linspace(math.log(1e-6), math.log(rho_hi), 160)
+    # the densest fluid: at the pressure limit and the lowest temperature the fluid has
+    # there (the melting temperature at P_max for a fluid that freezes under pressure)
+    cold = max(info.T_min, info.T_triple) * 1.001
+    if info.melts:
+        cold = max(cold, info.T_melt_top + 1e-6)
+    rho_hi = max(_densest(info, cold), _densest(info, max(info.T_min, info.T_triple) * 1.001))
+    grid = np.linspace(math.log(1e-6), math.log(rho_hi * 1.0001), 160)
     roots = scan_roots(f, grid, what=f"{info.name} state at {fixed} and {y_sym}", xtol=1e-14)
+    if not roots:
+        # dense liquid: the coarse grid's neighbours there may lie outside the model (below
+        # the melting line), hiding the sign change; a fine grid over the liquid densities
+        fine = np.linspace(math.log(info.rho_crit), math.log(rho_hi * 1.0001), 400)
+        roots = scan_roots(f, fine, what=f"{info.name} state at {fixed} and {y_sym}", xtol=1e-14)
     if not roots:
         raise OutOfRange(
             f"{info.name}: no state within the model has {_show(fixed, fval, shows)} and "
