@@ -64,3 +64,32 @@ def test_adiabatic_is_not_silently_isentropic():
     with pytest.raises(BadInput) as e:
         call("JB_PROCESS", s1, "adiabatic", "P2 in kPa", 500, "T2 in K")
     assert "isentropic" in str(e.value) and "irreversible" in str(e.value)
+
+
+@pytest.mark.parametrize(
+    "args, words",
+    [
+        (("JB_GAS_CP", "air | M = 0", 300), ["M = 0", "above 0"]),
+        (("JB_WORK_POLYTROPIC_N", 200, 0.1, 0.01, 1000), ["n = 1000", "−50…50"]),
+        (("JB_WORK_POLYTROPIC_N", 200, 0.1, 1e-300, 45), ["beyond any finite number"]),
+        (("JB_STORED_ISENTROPIC", "CO2 | P = 30 bar | T = 20 degC", 1), ["triple-point", "solid"]),
+    ],
+)
+def test_messages_name_the_argument_not_an_exception_class(args, words):
+    from joulebook.errors import JoulebookError
+
+    with pytest.raises(JoulebookError) as e:
+        call(*args)
+    msg = str(e.value)
+    for w in words:
+        assert w in msg, (w, msg)
+    assert "Error)" not in msg and len(msg) < 200
+
+
+def test_end_spec_without_the_2_means_the_end_state():
+    s1 = call("JB_STATE", "air (ideal gas)", "T in K", 300, "P in kPa", 100)
+    for short, full, value in (("T in degC", "T2 in degC", 100), ("P in kPa", "P2 in kPa", 500)):
+        path = "isobaric" if short.startswith("T") else "isentropic"
+        assert call("JB_PROCESS", s1, path, short, value, "W") == call(
+            "JB_PROCESS", s1, path, full, value, "W"
+        )

@@ -426,6 +426,8 @@ def _proc_phrase(text: str, arg: str, allowed: tuple, system: UnitSystem):
         raise BadInput(f"{arg} must be text such as 'T2 in degC' (got {text!r})")
     m = _PROC_PHRASE.match(text)
     sym = _PROC_ALIAS.get(m.group("sym"), m.group("sym")) if m else None
+    if arg == "end_spec" and sym in ("V", "v", "P", "T", "x"):
+        sym += "2"  # the end spec can only mean the end state: "T in degC" is T2
     if sym not in allowed:
         raise BadInput(f"{arg} {text!r}: use one of {' '.join(allowed)}, optionally 'in unit'")
     kind = _PROC_KIND[sym]

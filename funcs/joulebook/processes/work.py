@@ -67,8 +67,22 @@ def polytropic_n(P1: float, V1: float, V2: float, n: float) -> float:
     _positive("V_2", V2)
     if not math.isfinite(n):
         raise BadInput(f"n = {n} is not a finite number")
+    if abs(n) > 50:
+        raise OutOfRange(
+            f"polytropic n = {fmt_value(n)} is outside −50…50 (real processes lie between 0 "
+            "and about 1.7; a constant-volume process does no boundary work)"
+        )
     lnr = math.log(V2 / V1)
-    return P1 * V1 * lnr * phi((1.0 - n) * lnr)
+    try:
+        w = P1 * V1 * lnr * phi((1.0 - n) * lnr)
+    except OverflowError:
+        w = math.inf
+    if not math.isfinite(w):
+        raise OutOfRange(
+            f"n = {fmt_value(n)} with V_2/V_1 = {fmt_value(V2 / V1)}: the end pressure "
+            "P_1·(V_1/V_2)^n is beyond any finite number"
+        )
+    return w
 
 
 def polytropic_states(P1: float, V1: float, P2: float, V2: float) -> float:

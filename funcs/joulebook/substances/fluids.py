@@ -563,6 +563,14 @@ def _flash(info: FluidInfo, a: str, va: float, b: str, vb: float, shows=None):
                         st = _up(internal, 0, _coolprop().DmassT_INPUTS, rho, T)
                         _check_result(info, st, shows)
                         return st
+            P = va if a == "P" else vb if b == "P" else None
+            if P is not None and info.pure and 0 < P < info.P_triple:
+                raise OutOfRange(
+                    f"{info.name}: no fluid state has {_show(a, va, shows)}, "
+                    f"{_show(b, vb, shows)}: below the triple-point pressure "
+                    f"({_show('P', info.P_triple, shows).split('= ')[1]}) it would be solid or "
+                    "solid and vapour (sublimation), which joulebook does not model"
+                ) from None
             raise OutOfRange(
                 f"{info.name}: no state for {_show(a, va, shows)}, {_show(b, vb, shows)} "
                 "within the equation of state"

@@ -88,6 +88,11 @@ def gas_model(text: str, system: UnitSystem | None = None) -> GasModel:
             v = _num_with_unit(val, "specific_entropy", system, key)
         elif key == "M":
             v = _num_with_unit(val, "molar_mass", system, key)
+            if not v > 0:
+                raise BadInput(
+                    f"gas model {text!r}: M = {val} must be above 0 (the molar mass, e.g. "
+                    "M = 28.97 kg/kmol)"
+                )
         else:
             raise BadInput(f"gas model {text!r}: unknown key {key!r}; use cp, cv, k, R or M")
         consts[key] = v
