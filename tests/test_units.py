@@ -166,3 +166,92 @@ def test_convert_function(call):
     with pytest.raises(BadInput, match="cannot convert"):
         call("JB_CONVERT", 1, "kPa", "K")
     assert math.isclose(joulebook.call("JB_CONVERT", 300.15, "K", "degC"), 27.0, abs_tol=1e-12)
+
+
+_SYSTEMS = ["K-kPa-kJ", "K-Pa-J", "degC-bar-kJ", "degF-psia-Btu", "R-psia-Btu"]
+
+
+def test_every_quantity_has_its_unit_in_every_named_system_as_documented():
+    # docs/units.md states the unit of each quantity in each named system; the table must
+    # be what the systems do
+    from pathlib import Path
+
+    from joulebook.units import KIND_WORDS, KINDS, unit_system
+
+    doc = (Path(__file__).resolve().parents[1] / "docs" / "units.md").read_text()
+    for kind in KINDS:
+        if kind == "dimensionless":
+            continue
+        row = f"| {KIND_WORDS[kind]} | " + " | ".join(
+            f"`{unit_system(s).unit(kind)}`" for s in _SYSTEMS
+        )
+        assert row in doc, row
+
+
+@pytest.mark.parametrize("system", ["degF-psia-Btu", "R-psia-Btu"])
+def test_english_systems_leave_no_catalog_argument_in_si_units(system):
+    # every numeric argument of every catalog entry reads English units in an English
+    # system (a speed in ft/s, a torque in lbf·ft), except the electrical ones and time
+    from joulebook.catalog import CATALOG
+    from joulebook.units import unit_system
+
+    us = unit_system(system)
+    for f in CATALOG:
+        for a in f.args:
+            if a.quantity in (None, "voltage", "current", "time"):
+                continue
+            unit = us.unit(a.quantity)
+            assert not any(t in unit for t in ("kg", "m3", "m/s", "N*m", "kJ", "kPa")), (
+                f.name,
+                a.name,
+                unit,
+            )
+            assert unit not in ("m", "J", "Pa", "K"), (f.name, a.name, unit)
+
+
+def test_kinetic_energy_in_english_units():
+    # hand: ΔKE = ½·1200 lbm·(25 ft/s)² = 375,000 lbm·ft²/s² = 14.978 Btu
+    # (1 Btu = 25,037 lbm·ft²/s², from Btu_IT = 1055.05585262 J and the lbm and ft definitions)
+    from joulebook import call
+
+    assert call("JB_BALANCE_DELTA_KE", 1200, 0, 25, "degF-psia-Btu") == pytest.approx(
+        14.9779191745, rel=1e-9
+    )
+
+
+@pytest.mark.parametrize(
+    "value, unit, to, expected",
+    [
+        (100, "PSIG", "psig", 100),  # common practice: spellings without regard to case
+        (1, "KPA", "Pa", 1000),
+        (2, "barA", "kPa", 200),
+        (2, "bar(g)", "kPa", 301.325),  # absolute = gauge + 101.325 kPa
+        (2, "bar(a)", "kPa", 200),
+        (760, "Torr", "kPa", 101.325),  # NIST SP 811: 1 atm = 760 Torr
+        (1, "inH2O", "Pa", 249.08891),  # NIST SP 811: conventional inch of water
+        (1, "inHg", "Pa", 3386.389),  # NIST SP 811: conventional inch of mercury
+        (100, "celsius", "fahrenheit", 212),
+        (1, "MMBtu", "Btu", 1e6),
+        (1, "TR", "Btu/hour", 12000),  # ton of refrigeration
+        (1, "kcal", "J", 4186.8),  # International Table calorie (NIST SP 811)
+        (1, "kcal_th", "J", 4184),  # thermochemical calorie
+        (1, "oil_bbl", "m3", 0.158987294928),  # 42 US gal
+        (1, "liquid_bbl", "m3", 0.119240471196),  # 31.5 US gal
+        (1, "scf", "mol", 1.19528694),  # hand: 101325 Pa·0.0283168 m³/(R·288.7056 K)
+        (1, "Nm3", "mol", 44.615033),  # hand: 101325 Pa·1 m³/(R·273.15 K)
+        (1000, "scf", "Nm3", 26.7911),  # common practice: about 37.3 scf per Nm³
+    ],
+)
+def test_spellings_convert_to_their_stated_values(value, unit, to, expected):
+    assert convert(value, unit, to) == pytest.approx(expected, rel=1e-6)
+
+
+def test_barrel_is_ambiguous():
+    with pytest.raises(BadInput, match="oil_bbl .*liquid_bbl"):
+        convert(1, "bbl", "m3")
+
+
+def test_factors_carry_no_last_bit_noise():
+    # the foot is 0.3048 m by definition; pint's arithmetic gives 0.30479999999999996
+    assert parse_unit("ft/s", "speed").factor == 0.3048
+    assert parse_unit("lbm", "mass").factor == 0.45359237

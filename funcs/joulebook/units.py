@@ -27,6 +27,7 @@ Units*, Appendix B (factors for psi, Btu_IT, lbm, °F, °R).
 
 from __future__ import annotations
 
+import math
 import re
 import threading
 from dataclasses import dataclass
@@ -96,6 +97,7 @@ KINDS: dict[str, tuple[str, str]] = {
     "voltage": ("V", "V"),
     "current": ("A", "A"),
     "torque": ("N*m", "N*m"),
+    "amount": ("mol", "mol"),
     "dimensionless": ("", ""),
 }
 
@@ -120,6 +122,7 @@ KIND_WORDS = {
     "voltage": "voltage",
     "current": "current",
     "torque": "torque",
+    "amount": "amount of gas",
     "dimensionless": "dimensionless number",
 }
 
@@ -172,8 +175,56 @@ def _ureg():
             if _UREG is None:
                 import pint
 
-                _UREG = pint.UnitRegistry()
+                ureg = pint.UnitRegistry()
+                for line in _DEFINITIONS:
+                    ureg.define(line)
+                _UREG = ureg
     return _UREG
+
+
+#: units engineers use that pint lacks or spells otherwise [1]_ [2]_ [3]_
+#:
+#: .. [1] NIST SP 811 (2008), Appendix B: conventional inch of water (4 °C) 249.0889 Pa,
+#:    Btu_IT, ton of refrigeration = 12,000 Btu_IT/h.
+#: .. [2] ISO 13443:1996 (natural gas standard reference conditions: 15 °C, 101.325 kPa);
+#:    DIN 1343 (normal conditions: 0 °C, 101.325 kPa).
+#: .. [3] US gas industry standard cubic foot: 60 °F and 14.696 psia (101.325 kPa).
+_DEFINITIONS = (
+    "inch_water = 0.0254 * meter * 1000 * kilogram / meter ** 3 * 9.80665 * meter / second ** 2",
+    "MMBtu = 1e6 * Btu_it",
+    "TR = 12000 * Btu_it / hour",
+    # amounts of gas given as volumes at stated reference conditions (ideal gas)
+    "scf = 101325 * pascal * foot ** 3 / (molar_gas_constant * 288.7055555555556 * kelvin)",
+    "normal_cubic_meter = 101325 * pascal * meter ** 3 / (molar_gas_constant * 273.15 * kelvin)",
+    "standard_cubic_meter = 101325 * pascal * meter ** 3 / (molar_gas_constant * 288.15 * kelvin)",
+    "lbmol = 453.59237 * mol",
+)
+
+#: whole-unit spellings engineers type, matched without regard to case (a pressure's gauge or
+#: absolute mark in brackets included)
+_SPELLINGS = {
+    "psi": "psi", "psia": "psia", "psig": "psig", "psi(a)": "psia", "psi(g)": "psig",
+    "pa": "Pa", "pag": "Pag", "kpa": "kPa", "kpaa": "kPa", "kpag": "kPag", "kpa(a)": "kPa",
+    "kpa(g)": "kPag", "mpa": "MPa", "mpaa": "MPa", "mpag": "MPag", "mpa(a)": "MPa",
+    "mpa(g)": "MPag", "bar": "bar", "bara": "bar", "barg": "barg", "bar(a)": "bar",
+    "bar(g)": "barg", "mbar": "mbar", "mbarg": "mbarg", "torr": "torr", "inh2o": "inch_water",
+    "inhg": "inHg", "mmhg": "mmHg", "atm": "atm", "celsius": "degC", "fahrenheit": "degF",
+    "kelvin": "K", "rankine": "degR", "mmbtu": "MMBtu", "tr": "TR", "scf": "scf",
+}  # fmt: skip
+#: spellings kept as typed (case matters: nm3 is cubic nanometres)
+_EXACT_SPELLINGS = {"Nm3": "normal_cubic_meter", "Sm3": "standard_cubic_meter"}
+_AMBIGUOUS = {
+    "bbl": "bbl is ambiguous (31.5 or 42 US gallons): write oil_bbl (42 US gal) or "
+    "liquid_bbl (31.5 US gal)",
+}
+
+
+def _spelled(raw: str) -> str:
+    """An engineer's whole-unit spelling in the form the parser reads (PSIG → psig,
+    bar(g) → barg, celsius → degC); any other text unchanged."""
+    if raw in _EXACT_SPELLINGS:
+        return _EXACT_SPELLINGS[raw]
+    return _SPELLINGS.get(raw.replace(" ", "").lower(), raw)
 
 
 # identifiers engineers type -> pint's spelling
@@ -195,6 +246,10 @@ _WORDS = {
     "hr": "hour",
     "cc": "cm**3",
     "Nm": "N*m",
+    "cal": "cal_it",  # the International Table calorie, as Btu is (cal_th when written)
+    "kcal": "kcal_it",
+    "oil_bbl": "oil_barrel",
+    "liquid_bbl": "barrel",
 }
 _GAUGE = {"Pag": "Pa", "kPag": "kPa", "MPag": "MPa", "barg": "bar", "mbarg": "mbar", "psig": "psi"}
 _ABS_TEMPS = {"K": "K", "degC": "degC", "degF": "degF", "degR": "degR", "kelvin": "K"}
@@ -279,6 +334,10 @@ def parse_unit(text: str, kind: str) -> Conv:
             return Conv(1.0, 0.0, "")
         raise BadInput(f"empty unit for {KIND_WORDS[kind]}")
 
+    raw = _spelled(raw)
+    for word in _IDENT.findall(raw):
+        if word in _AMBIGUOUS:
+            raise BadInput(f"unit {text!r}: {_AMBIGUOUS[word]}")
     # gauge pressure, optionally with its atmospheric reference
     atm = STANDARD_ATMOSPHERE
     m = _ATM.match(raw)
@@ -340,7 +399,15 @@ def parse_unit(text: str, kind: str) -> Conv:
         raise
     except Exception:
         raise BadInput(f"unit {raw!r} cannot be converted to {si_text}") from None
-    return Conv(float(f), 0.0, raw)
+    return Conv(_exact(float(f)), 0.0, raw)
+
+
+def _exact(f: float) -> float:
+    """A conversion factor with the last-bit noise of its arithmetic removed: a factor within
+    4 units in the last place of a 12-digit decimal is that decimal (pint's 0.30479999999999996
+    is the defined 0.3048 m/ft); any other factor (5/9) is kept as computed."""
+    short = float(f"{f:.12g}")
+    return short if abs(short - f) <= 4 * math.ulp(f) else f
 
 
 _EXAMPLE_UNITS = {
@@ -363,13 +430,17 @@ _EXAMPLE_UNITS = {
     "voltage": "V",
     "current": "A",
     "torque": "N*m, lbf*ft",
+    "amount": "mol, kmol, lbmol, scf, Nm3, Sm3",
     "dimensionless": "no unit or %",
 }
 
 
 def kind_of_unit(text: str, _quiet: bool = False) -> str | None:
     """The quantity kind a unit string belongs to (temperature wins over difference)."""
-    raw = str(text).strip()
+    raw = _spelled(str(text).strip())
+    for word in _IDENT.findall(raw):
+        if word in _AMBIGUOUS and not _quiet:
+            raise BadInput(f"unit {text!r}: {_AMBIGUOUS[word]}")
     base = _ATM.match(raw).group("unit").strip() if _ATM.match(raw) else raw
     if base in _GAUGE:
         return "pressure"
@@ -438,6 +509,7 @@ _SI_DEFAULTS = {
     "voltage": "V",
     "current": "A",
     "torque": "N*m",
+    "amount": "mol",
     "dimensionless": "",
 }
 
@@ -447,7 +519,10 @@ _DELTA_OF = {"K": "K", "kelvin": "K", "degC": "K", "degF": "R", "degR": "R"}
 def _energy_family(energy_unit: str) -> dict[str, str]:
     """Mass-based units that go with an energy unit."""
     if energy_unit.lower() in ("btu", "btu_it"):
-        return {"mass": "lbm", "volume": "ft3", "length": "ft", "time": "s"}
+        return {
+            "mass": "lbm", "volume": "ft3", "length": "ft", "time": "s", "speed": "ft/s",
+            "acceleration": "ft/s2", "torque": "lbf*ft",
+        }  # fmt: skip
     return {"mass": "kg", "volume": "m3", "length": "m", "time": "s"}
 
 
@@ -504,6 +579,7 @@ def unit_system(text: str | None = None) -> UnitSystem:
             "specific_energy": f"{e_unit}/{m_unit}",
             "specific_entropy": f"{e_unit}/({m_unit}*{d_unit})",
             "length": fam["length"],
+            **{k: fam[k] for k in ("speed", "acceleration", "torque") if k in fam},
         }
     )
     if e_unit.lower() in ("btu", "btu_it"):
