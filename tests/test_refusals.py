@@ -93,3 +93,13 @@ def test_end_spec_without_the_2_means_the_end_state():
         assert call("JB_PROCESS", s1, path, short, value, "W") == call(
             "JB_PROCESS", s1, path, full, value, "W"
         )
+
+
+def test_an_input_read_back_equals_the_input():
+    # common practice: 1 bar absolute is −0.01325 barg exactly (101.325 kPa atmosphere)
+    assert call("JB_PROP", "water | T = 25 degC | P = 1 bar", "P in barg") == -0.01325
+    assert call("JB_PROP", "water", "T in degC", "T in degC", 25, "P in bar", 1) == 25.0
+    s1 = call("JB_STATE", "air (ideal gas)", "T in K", 300, "P in kPa", 100)
+    table = {row[0]: row[1] for row in call("JB_PROCESS_TABLE", s1, "isobaric", "Q in kJ", 500)}
+    assert table["Q"] == 500.0
+    assert call("JB_PROCESS", s1, "isobaric", "Q in kJ", 500, "Q in J") == 500000.0

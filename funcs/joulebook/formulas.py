@@ -89,6 +89,8 @@ def _prop_value(plan, va: float, vb: float):
         val = read(info, fluids._flash(info, a, va, b, vb, shows), shows)
     else:
         val = med.read(sym, a, va, b, vb, shows)
+    if sym == a or sym == b:  # an input read back is the input, to its last digit
+        val = va if sym == a else vb
     return val if out is None or type(val) is str else out.from_si(val)
 
 
@@ -479,9 +481,23 @@ def _proc_value(res, sym: str):
     }[sym]
 
 
+def _given(end_spec, end_value, sym: str, conv, system):
+    """The end value as given when *sym* (read in *conv*) is the end spec itself: an input
+    read back equals the input to its last digit (None otherwise)."""
+    end, end_conv = _proc_phrase(end_spec, "end_spec", solve.END_SPECS, system)
+    if end != sym or conv is None or end_conv is None:
+        return None
+    if (end_conv.factor, end_conv.offset) == (conv.factor, conv.offset):
+        return float(end_value)
+    return conv.from_si(end_conv.to_si(float(end_value)))
+
+
 def process(state1, path, end_spec, end_value, want, mass, *, system):
     med, res = _solved(state1, path, end_spec, end_value, mass, system)
     sym, conv = _proc_phrase(want, "want", _WANT_SYMS, system)
+    given = _given(end_spec, end_value, sym, conv, system)
+    if given is not None:
+        return given
     val = _proc_value(res, sym)
     return val if conv is None else conv.from_si(val)
 
@@ -504,7 +520,9 @@ def process_table(state1, path, end_spec, end_value, mass, *, system):
         if kind == "text":
             rows.append([sym, val, ""])
         else:
-            rows.append([sym, system.conv(kind).from_si(val), system.unit(kind)])
+            given = _given(end_spec, end_value, sym, system.conv(kind), system)
+            shown = given if given is not None else system.conv(kind).from_si(val)
+            rows.append([sym, shown, system.unit(kind)])
     return rows
 
 
