@@ -37,3 +37,22 @@ def test_help_does_not_import_the_property_library():
 def test_function_reference_is_fresh():
     committed = (ROOT / "docs" / "functions.md").read_text(encoding="utf-8")
     assert committed == functions_markdown(), "docs/functions.md is stale: run `joulebook docs`"
+
+
+def test_result_labels_come_from_the_quantity_table_for_every_entry():
+    from pathlib import Path
+
+    from joulebook.catalog import CATALOG
+    from joulebook.units import KIND_WORDS
+
+    doc = (Path(__file__).resolve().parents[1] / "docs" / "functions.md").read_text()
+    for f in CATALOG:
+        assert f.result in KIND_WORDS or f.result in ("text", "asked", "number"), f.name
+        section = doc.split(f"`{f.name}(", 1)[1].split("\n## ", 1)[0].split("\n### ", 1)[0]
+        if f.result in KIND_WORDS:
+            assert f"- **Result:** {KIND_WORDS[f.result]}," in section, f.name
+        if f.result == "asked" and not any(a.name == "want" for a in f.args):
+            assert "`want`" not in section, f.name
+    # the specific heats are labelled as such, not as an entropy
+    for name in ("JB_GAS_CP", "JB_GAS_CV", "JB_GAS_R", "JB_SOLID_C", "JB_SOLID_C_MEAN"):
+        assert next(f for f in CATALOG if f.name == name).result == "specific_heat"

@@ -77,10 +77,10 @@ def blocked_in_line(wb) -> None:
         "Inputs",
         [
             ("Line fill temperature", 15, "degC"),
-            ("Line pressure when blocked in", 4, "bar"),
+            ("Line pressure when blocked in (absolute)", 4, "bar"),
             ("Pipe-wall temperature in the afternoon sun", 45, "degC"),
             ("Water mass in the segment", 312, "kg"),
-            ("Design pressure of the segment", 16, "bar"),
+            ("Design pressure of the segment (gauge)", 16, "barg"),
         ],
     )
     _rows(
@@ -91,7 +91,7 @@ def blocked_in_line(wb) -> None:
             ("Initial state", '=JB_STATE("water","T in degC",B10,"P in bar",B11)', "state"),
             ("Phase at fill", "=JB_PHASE(B17)", ""),
             (
-                "Pressure after warming",
+                "Pressure after warming (absolute)",
                 '=JB_PROCESS(B17,"rigid","T2 in degC",B12,"P2 in bar",B13)',
                 "bar",
             ),
@@ -102,7 +102,12 @@ def blocked_in_line(wb) -> None:
                 "kJ",
             ),
             ("Check: pressure rise per kelvin", "=(B19-B11)/(B12-B10)", "bar/K"),
-            ("Check: exceeds design pressure?", '=IF(B19>B14,"YES - relieve the line","no")', ""),
+            (
+                "Pressure after warming (gauge)",
+                '=JB_PROCESS(B17,"rigid","T2 in degC",B12,"P2 in barg",B13)',
+                "barg",
+            ),
+            ("Check: exceeds design pressure?", '=IF(B23>B14,"YES - relieve the line","no")', ""),
         ],
     )
 

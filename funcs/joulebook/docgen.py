@@ -5,7 +5,7 @@ from __future__ import annotations
 from pathlib import Path
 
 from .catalog import CATALOG, FAMILIES, Func
-from .units import DEFAULT_SYSTEM, unit_system
+from .units import DEFAULT_SYSTEM, KIND_WORDS, unit_system
 
 CAUTION = (
     "> **Caution.** Results are engineering estimates. Pressure equipment, trapped liquid and "
@@ -15,12 +15,14 @@ CAUTION = (
 
 
 def _result_unit(f: Func) -> str:
-    if f.result == "asked":
+    if f.result == "asked" and any(a.name == "want" for a in f.args):
         return "the unit written in the formula (`want`), else the default of the unit system"
+    if f.result == "asked":
+        return "a spilled table; each quantity in the unit system's unit, named beside it"
     if f.result in ("text", "number"):
         return f.result
     unit = unit_system(None).unit(f.result)
-    return f"{f.result.replace('_', ' ')}, default `{unit or '—'}`"
+    return f"{KIND_WORDS[f.result]}, default `{unit or '—'}`"
 
 
 def _example_text(f: Func) -> str:
@@ -45,9 +47,12 @@ def functions_markdown() -> str:
         "Generated from `funcs/joulebook/catalog.py` by `joulebook docs`; do not edit by hand.",
         "",
         f"Numbers without a written unit use the unit system in force: the optional last argument "
-        f"`units` (default `{DEFAULT_SYSTEM}`). Every scalar argument also accepts a range; the "
-        "result then spills, one value per cell. Signs follow docs/sign-convention.md: heat into "
-        "the system is positive, work done by the system is positive.",
+        f"`units` (default `{DEFAULT_SYSTEM}`). A scalar argument also accepts a range and the "
+        "result then spills, one value per cell, in every function except these, whose "
+        "scalar arguments take single cells: "
+        + ", ".join(f"`{f.name}`" for f in CATALOG if not f.elementwise)
+        + ". Signs follow docs/sign-convention.md: heat into the system is positive, work done "
+        "by the system is positive.",
         "",
         CAUTION,
         "",

@@ -10,6 +10,8 @@ Each material carries one of two c(T) forms, integrated exactly:
   Σ aᵢ Tⁱ⁻³ (9-term), R = 8.314462618 J/(mol·K).
 * ``table``: c at tabulated temperatures, linear between them (so ∫c dT is the trapezoid
   rule, exact for the interpolant).
+* ``en1993``: the equation for carbon steel of EN 1993-1-2:2005, §3.4.1.2, eq. (3.2),
+  piecewise in temperature and integrated in closed form.
 
 Values outside a material's range are refused, never extrapolated.
 """
@@ -32,7 +34,7 @@ R_UNIVERSAL = 8.314462618  # J/(mol K), CODATA 2018 (exact)
 class Material:
     name: str
     aliases: tuple[str, ...]
-    form: str  # "nasa7", "nasa9" or "table"
+    form: str  # "nasa7", "nasa9", "table" or "en1993" (the Eurocode equation for steel)
     data: tuple  # see module docstring
     T_min: float
     T_max: float
@@ -98,13 +100,15 @@ MATERIALS: tuple[Material, ...] = (
     ),
     Material(
         "carbon steel",
-        ("steel", "mild steel", "plain carbon steel", "AISI 1010"),
-        "table",
-        ((300.0, 434.0), (400.0, 487.0), (600.0, 559.0), (800.0, 685.0)),
+        ("steel", "mild steel", "plain carbon steel", "AISI 1010", "structural steel"),
+        "en1993",
+        (),
         250.0,
-        800.0,
-        f"plain-carbon steel (about 0.1 % C), {_MEMORY}; ±5 %",
-        note="below 300 K the 300 K value is held (c changes < 5 % from 250 K)",
+        1473.15,
+        "carbon steel, EN 1993-1-2:2005 (Eurocode 3, structural fire design) §3.4.1.2, "
+        "eq. (3.2), for 20–1200 °C, including the peak of the α–γ transformation at 735 °C "
+        "(the equation transcribed from memory; check it against the standard)",
+        note="below 20 °C the cubic of the first range is continued (406 J/(kg·K) at 250 K)",
     ),
     Material(
         "stainless steel",
@@ -303,9 +307,47 @@ def _nasa_int_R(form: str, a, T: float) -> float:
     )
 
 
+def _en1993_c(T: float) -> float:
+    """c of carbon steel, EN 1993-1-2 eq. (3.2), θ in °C: a cubic to 600 °C, a rise to the
+    transformation peak of 5000 J/(kg·K) at 735 °C, a fall to 900 °C, then constant."""
+    t = T - 273.15
+    if t < 600.0:
+        return 425.0 + 7.73e-1 * t - 1.69e-3 * t**2 + 2.22e-6 * t**3
+    if t < 735.0:
+        return 666.0 + 13002.0 / (738.0 - t)
+    if t < 900.0:
+        return 545.0 + 17820.0 / (t - 731.0)
+    return 650.0
+
+
+def _en1993_int(T: float) -> float:
+    """∫ c dT of eq. (3.2) from 0 °C to T, piece by piece in closed form (J/kg)."""
+
+    def cubic(t: float) -> float:
+        return 425.0 * t + 7.73e-1 * t**2 / 2 - 1.69e-3 * t**3 / 3 + 2.22e-6 * t**4 / 4
+
+    def rise(t: float) -> float:
+        return 666.0 * t - 13002.0 * math.log(738.0 - t)
+
+    def fall(t: float) -> float:
+        return 545.0 * t + 17820.0 * math.log(t - 731.0)
+
+    t = T - 273.15
+    total = cubic(min(t, 600.0))
+    if t > 600.0:
+        total += rise(min(t, 735.0)) - rise(600.0)
+    if t > 735.0:
+        total += fall(min(t, 900.0)) - fall(735.0)
+    if t > 900.0:
+        total += 650.0 * (t - 900.0)
+    return total
+
+
 def c(m: Material, T: float) -> float:
     """Specific heat c(T), J/(kg·K)."""
     _check(m, T, "T")
+    if m.form == "en1993":
+        return _en1993_c(T)
     if m.form == "table":
         return _table_c(m.data, _clamp_low(m, T))
     _, _, a = _poly_piece(m, T)
@@ -332,6 +374,8 @@ def _table_int(data, T: float) -> float:
 
 
 def _antiderivative(m: Material, T: float) -> float:
+    if m.form == "en1993":
+        return _en1993_int(T)
     if m.form == "table":
         first_T, first_c = m.data[0]
         if T < first_T:  # held constant below the first point
