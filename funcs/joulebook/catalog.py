@@ -202,8 +202,9 @@ CATALOG: tuple[Func, ...] = (
     Func(
         "JB_PROP",
         "state",
-        "Property of a real fluid (T P v rho u h s cp cv k x Z Tsat Psat) at a state fixed by two "
-        'properties, each with its unit: JB_PROP("water","h in kJ/kg","T in degC",25,"P in kPa",101.325).',
+        "Property of a fluid (T P v rho u h s cp cv k x Z Tsat Psat beta kappa w mu_JT) at a state "
+        "fixed by two properties, each with its unit: "
+        'JB_PROP("water","h in kJ/kg","T in degC",25,"P in kPa",101.325).',
         (
             _SUB,
             Arg(
@@ -223,7 +224,10 @@ CATALOG: tuple[Func, ...] = (
         Example(
             ("water", "h in kJ/kg", "T in degC", 25, "P in kPa", 101.325), 104.92011980935509, 1e-9
         ),
-        notes="Two-phase states: give x with T or P, or v with T or P; T and P alone cannot fix one.",
+        notes="Two-phase states: give x with T or P, or v with T or P; T and P alone cannot fix one. "
+        "beta = (1/v)(∂v/∂T)_P (isobaric expansion), kappa = −(1/v)(∂v/∂P)_T (isothermal "
+        "compressibility), w (speed of sound) and mu_JT = (∂T/∂P)_h (Joule–Thomson) come from "
+        "the equation of state, single-phase states only; for an ideal gas 1/T, 1/P, √(k·R·T), 0.",
         column="prop_column",
     ),
     Func(

@@ -229,6 +229,15 @@ class IdealMedium:
             return simple[want]
         if want in ("cp", "cv", "k"):
             return {"cp": gases.cp, "cv": gases.cv, "k": gases.k}[want](self.g, p.T)
+        # ideal gas, P·v = R·T: β = 1/T, κ = 1/P, w = √(k·R·T), μ_JT = 0 (h depends on T alone)
+        if want == "beta":
+            return 1.0 / p.T
+        if want == "kappa":
+            return 1.0 / p.P
+        if want == "w":
+            return math.sqrt(gases.k(self.g, p.T) * self.R * p.T)
+        if want == "mu_JT":
+            return 0.0
         raise OutOfRange(f"{self.name} is modelled as an ideal gas: {want} is not defined")
 
 

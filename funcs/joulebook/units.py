@@ -99,6 +99,12 @@ KINDS: dict[str, tuple[str, str]] = {
     "current": ("A", "A"),
     "torque": ("N*m", "N*m"),
     "amount": ("mol", "mol"),
+    "expansion_coefficient": ("1/K", "1/K"),
+    "compressibility": ("1/Pa", "1/Pa"),
+    "joule_thomson": ("K/Pa", "K/Pa"),
+    "heat_flux": ("W/m**2", "W/m**2"),
+    "area": ("m**2", "m**2"),
+    "heat_transfer_coefficient": ("W/K", "W/K"),
     "dimensionless": ("", ""),
 }
 
@@ -125,6 +131,12 @@ KIND_WORDS = {
     "current": "current",
     "torque": "torque",
     "amount": "amount of gas",
+    "expansion_coefficient": "expansion coefficient",
+    "compressibility": "compressibility",
+    "joule_thomson": "Joule–Thomson coefficient",
+    "heat_flux": "heat flux",
+    "area": "area",
+    "heat_transfer_coefficient": "heat-transfer conductance UA",
     "dimensionless": "dimensionless number",
 }
 
@@ -161,6 +173,13 @@ SYMBOLS: dict[str, str] = {
     "vel": "speed",
     "g": "acceleration",
     "Pow": "power",
+    "beta": "expansion_coefficient",
+    "kappa": "compressibility",
+    "w": "speed",
+    "mu_JT": "joule_thomson",
+    "q": "heat_flux",
+    "A": "area",
+    "UA": "heat_transfer_coefficient",
 }
 
 # ---------------------------------------------------------------------------------------
@@ -434,6 +453,12 @@ _EXAMPLE_UNITS = {
     "current": "A",
     "torque": "N*m, lbf*ft",
     "amount": "mol, kmol, lbmol, scf, Nm3, Sm3",
+    "expansion_coefficient": "1/K, 1/degF",
+    "compressibility": "1/Pa, 1/kPa, 1/bar, 1/psi",
+    "joule_thomson": "K/kPa, K/bar, degF/psi",
+    "heat_flux": "W/m2, kW/m2, Btu/(h*ft2)",
+    "area": "m2, ft2",
+    "heat_transfer_coefficient": "W/K, kW/K, Btu/(h*degF)",
     "dimensionless": "no unit or %",
 }
 
@@ -514,6 +539,12 @@ _SI_DEFAULTS = {
     "current": "A",
     "torque": "N*m",
     "amount": "mol",
+    "expansion_coefficient": "1/K",
+    "compressibility": "1/Pa",
+    "joule_thomson": "K/Pa",
+    "heat_flux": "W/m2",
+    "area": "m2",
+    "heat_transfer_coefficient": "W/K",
     "dimensionless": "",
 }
 
@@ -525,7 +556,7 @@ def _energy_family(energy_unit: str) -> dict[str, str]:
     if energy_unit.lower() in ("btu", "btu_it"):
         return {
             "mass": "lbm", "volume": "ft3", "length": "ft", "time": "s", "speed": "ft/s",
-            "acceleration": "ft/s2", "torque": "lbf*ft",
+            "acceleration": "ft/s2", "torque": "lbf*ft", "area": "ft2",
         }  # fmt: skip
     return {"mass": "kg", "volume": "m3", "length": "m", "time": "s"}
 
@@ -584,13 +615,20 @@ def unit_system(text: str | None = None) -> UnitSystem:
             "specific_entropy": f"{e_unit}/({m_unit}*{d_unit})",
             "specific_heat": f"{e_unit}/({m_unit}*{d_unit})",
             "length": fam["length"],
-            **{k: fam[k] for k in ("speed", "acceleration", "torque") if k in fam},
+            **{k: fam[k] for k in ("speed", "acceleration", "torque", "area") if k in fam},
+            "expansion_coefficient": f"1/{d_unit}",
+            "compressibility": f"1/{_GAUGE.get(p_unit, p_unit)}",
+            "joule_thomson": f"{d_unit}/{_GAUGE.get(p_unit, p_unit)}",
         }
     )
     if e_unit.lower() in ("btu", "btu_it"):
         units["power"] = "Btu/hour"
+        units["heat_flux"] = "Btu/(hour*ft2)"
+        units["heat_transfer_coefficient"] = "Btu/(hour*R)"
     elif e_unit in ("kJ", "MJ"):
         units["power"] = "kW"
+        units["heat_flux"] = "kW/m2"
+        units["heat_transfer_coefficient"] = "kW/K"
     for ov in overrides:
         sym, _, unit = (s.strip() for s in ov.partition("="))
         if sym not in SYMBOLS:

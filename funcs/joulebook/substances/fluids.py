@@ -51,7 +51,10 @@ __all__ = [
 #: symbols that may fix a state
 INPUTS = ("T", "P", "v", "rho", "u", "h", "s", "x")
 #: symbols a state can report
-OUTPUTS = ("T", "P", "v", "rho", "u", "h", "s", "cp", "cv", "k", "x", "Z", "Tsat", "Psat", "phase")
+OUTPUTS = (
+    "T", "P", "v", "rho", "u", "h", "s", "cp", "cv", "k", "x", "Z", "Tsat", "Psat", "phase",
+    "beta", "kappa", "w", "mu_JT",
+)  # fmt: skip
 
 _CP = None
 
@@ -941,6 +944,8 @@ def _read(info: FluidInfo, st, want: str, shows=None):
         if not (math.isfinite(val) and val > 0):
             raise OutOfRange(f"{info.name}: {want} is not defined at this state (critical point?)")
         return val
+    if want in ("beta", "kappa", "w", "mu_JT"):
+        return _derivative(info, st, want)
     if want == "x":
         if _is_two_phase(st):
             return st.Q()
@@ -965,6 +970,43 @@ def _read(info: FluidInfo, st, want: str, shows=None):
             )
         return _psat(info, T)
     raise BadInput(f"unknown output {want!r}; use one of {' '.join(OUTPUTS)}")
+
+
+_DERIVATIVE_WORDS = {
+    "beta": "isobaric expansion coefficient beta",
+    "kappa": "isothermal compressibility kappa",
+    "w": "speed of sound w",
+    "mu_JT": "Joule–Thomson coefficient mu_JT",
+}
+
+
+def _derivative(info: FluidInfo, st, want: str) -> float:
+    """β = (1/v)(∂v/∂T)_P, κ = −(1/v)(∂v/∂P)_T, w (speed of sound), μ_JT = (∂T/∂P)_h, from
+    the equation of state at the converged (T, ρ) [1]_; single-phase states only.
+
+    .. [1] IAPWS R6-95(2018), Table 3 (relations of these properties to the Helmholtz
+       energy); the property library evaluates them from each fluid's reference equation."""
+    if _is_two_phase(st):
+        raise OutOfRange(
+            f"{info.name}: the {_DERIVATIVE_WORDS[want]} is not defined for a two-phase state "
+            f"(x = {fmt_value(st.Q())})"
+        )
+    T, rho = st.T(), st.rhomass()
+    if abs(T / info.T_crit - 1) < 1e-6 and abs(rho / info.rho_crit - 1) < 1e-4:
+        raise OutOfRange(f"{info.name}: the {_DERIVATIVE_WORDS[want]} has no finite value at the critical point")
+    CP = _coolprop()
+    d = _scratch_dt(info.internal).upd(CP.DmassT_INPUTS, rho, T)
+    if want == "beta":
+        val = d.isobaric_expansion_coefficient()
+    elif want == "kappa":
+        val = d.isothermal_compressibility()
+    elif want == "w":
+        val = d.speed_sound()
+    else:
+        val = d.first_partial_deriv(CP.iT, CP.iP, CP.iHmass)
+    if not math.isfinite(val):
+        raise OutOfRange(f"{info.name}: the {_DERIVATIVE_WORDS[want]} is not defined at this state")
+    return val
 
 
 _FAST_READ = {"T": "T", "P": "p", "rho": "rhomass", "u": "umass", "h": "hmass", "s": "smass"}
