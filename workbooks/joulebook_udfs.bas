@@ -66,6 +66,19 @@ failed:
     JB_BALANCE_HEAT = Err.Description
 End Function
 
+Function JB_BLOCKED_IN_P2(state1, T_2, Optional shape, Optional D, Optional wall, Optional E, Optional nu, Optional alpha_wall, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_BLOCKED_IN_P2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BLOCKED_IN_P2", Array(state1, T_2, shape, D, wall, E, nu, alpha_wall, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_BLOCKED_IN_P2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BLOCKED_IN_P2", Array(state1, T_2, shape, D, wall, E, nu, alpha_wall, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_BLOCKED_IN_P2 = Err.Description
+End Function
+
 Function JB_CONVERT(value, from_unit, to_unit)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
@@ -418,6 +431,19 @@ Function JB_PROP_SAT(substance, want, given, value, Optional units)
     #End If
 failed:
     JB_PROP_SAT = Err.Description
+End Function
+
+Function JB_RELIEF_THERMAL_FLOW(state, Q_dot, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_RELIEF_THERMAL_FLOW = XLPy.CallUDF("joulebook.sheet.udfs", "JB_RELIEF_THERMAL_FLOW", Array(state, Q_dot, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_RELIEF_THERMAL_FLOW = XLPy.CallUDF("joulebook.sheet.udfs", "JB_RELIEF_THERMAL_FLOW", Array(state, Q_dot, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_RELIEF_THERMAL_FLOW = Err.Description
 End Function
 
 Function JB_SOLID_C(material, T, Optional units)

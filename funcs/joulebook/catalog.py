@@ -98,6 +98,7 @@ FAMILIES = {
     "process": "End states of processes",
     "cycle": "Cycles",
     "stored": "Stored expansion energy",
+    "blocked": "Blocked-in liquid and thermal relief",
     "util": "Units and information",
 }
 
@@ -171,6 +172,14 @@ _REF_STORED = (
     "isentropic expansion energy of a compressed gas (common practice; see docs for the caution)"
 )
 
+_REF_THIN_WALL = (
+    "Young & Budynas, Roark's Formulas for Stress and Strain, 7th ed. (2002), Table 13.1: "
+    "thin-walled pressure vessels; volumetric strain from Hooke's law"
+)
+_REF_API521 = (
+    "API Std 521, Pressure-relieving and Depressuring Systems, 4.4.12 hydraulic expansion "
+    "(from memory): gpm = β·H/(500·G·c), here q = β·Q/(ρ·cp) without unit constants"
+)
 _REF_COOLPROP = "Bell, Wronski, Quoilin, Lemort, Ind. Eng. Chem. Res. 53 (2014) 2498 (CoolProp)"
 _REF_IAPWS = (
     "IAPWS R6-95(2018): IAPWS-95 formulation for water (Wagner & Pruss, JPCRD 31, 387, 2002)"
@@ -932,6 +941,69 @@ CATALOG: tuple[Func, ...] = (
         "E = (P − P_amb)·V/(k − 1)",
         (_REF_STORED,),
         Example((3000, 2.5, 1.4), 18116.718750000004),
+        caution=True,
+    ),
+    # ------------------------------------------------------------------ blocked-in liquid
+    Func(
+        "JB_BLOCKED_IN_P2",
+        "blocked",
+        "Pressure after heating a blocked-in, liquid-full pipe or vessel to T_2: shape rigid "
+        "(upper bound), cylinder or sphere (thin wall that stretches with P and T), solved on the "
+        "equation of state. An estimate: relief is governed by the codes.",
+        (
+            Arg("state1", "liquid state text when blocked in, from JB_STATE", type="text"),
+            Arg("T_2", "temperature after heating", quantity="temperature"),
+            Arg(
+                "shape",
+                "rigid (default), cylinder (closed ends) or sphere",
+                type="text",
+                optional=True,
+            ),
+            Arg("D", "mean diameter of the wall", quantity="length", optional=True),
+            Arg("wall", "wall thickness (below D/2)", quantity="length", optional=True),
+            Arg(
+                "E",
+                "Young's modulus of the wall (steel about 200 GPa)",
+                quantity="modulus",
+                optional=True,
+            ),
+            Arg("nu", "Poisson's ratio of the wall, 0 to 0.5 (steel 0.3)", optional=True),
+            Arg(
+                "alpha_wall",
+                "linear expansion coefficient of the wall (steel 1.2e-5 1/K)",
+                quantity="expansion_coefficient",
+                optional=True,
+                default=0.0,
+            ),
+        ),
+        "pressure",
+        "blocked_in_p2",
+        "v(T2, P2) = v1·(1 + α·ΔT)³·(1 + c·(P2 − P1)); c = D(5 − 4ν)/(4tE) closed cylinder, "
+        "3D(1 − ν)/(4tE) sphere, 0 rigid",
+        (_REF_COOLPROP, _REF_IAPWS, _REF_THIN_WALL),
+        Example(("water | T = 15 degC | P = 4 bar", 318.15), 21229.822209007747, 1e-6),
+        caution=True,
+        notes="The rigid result is the upper bound; a steel pipe (D = 100 mm, wall 5 mm) gives "
+        "about 150 bar where the rigid bound gives 212 bar for water blocked in at 15 °C, 4 bar "
+        "and warmed to 45 °C.",
+    ),
+    Func(
+        "JB_RELIEF_THERMAL_FLOW",
+        "blocked",
+        "Thermal-relief volume flow of a blocked-in liquid under a heat input: q = β·Q_dot/(ρ·cp) "
+        "at the relief state (API 521 hydraulic expansion). An estimate: relief sizing is "
+        "governed by the codes.",
+        (
+            Arg(
+                "state", "liquid state text at the relief set pressure, from JB_STATE", type="text"
+            ),
+            Arg("Q_dot", "heat input to the liquid (sun, tracing, process)", quantity="power"),
+        ),
+        "volume_flow",
+        "relief_thermal_flow",
+        "q = β·Q_dot/(ρ·cp)",
+        (_REF_COOLPROP, _REF_API521),
+        Example(("water | T = 45 degC | P = 20 bar", 10), 0.003677730090279406, 1e-6),
         caution=True,
     ),
     # ------------------------------------------------------------------ utilities

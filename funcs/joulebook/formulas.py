@@ -17,7 +17,7 @@ import numpy as np
 from . import __version__, firstlaw, states
 from .errors import BadInput, JoulebookError, OutOfRange, message_in
 from .media import medium
-from .processes import cycles, polytropic, solve, stored, work
+from .processes import blockedin, cycles, polytropic, solve, stored, work
 from .substances import fluids, gases, solids
 from .units import UnitSystem, convert, parse_phrase, parse_unit
 
@@ -578,3 +578,45 @@ def stored_ideal_isentropic(P, V, k, P_amb, *, system):
 
 def stored_isochoric(P, V, k, P_amb, *, system):
     return stored.isochoric(P, V, k, stored.STANDARD_ATMOSPHERE if P_amb is None else P_amb)
+
+
+# ---------------------------------------------------------------------------------------
+# blocked-in liquid
+
+
+def _liquid_state(text, arg: str):
+    if not states.is_state_text(text):
+        raise BadInput(f"{arg} must be a state text from JB_STATE (got {str(text)[:50]!r})")
+    st = states.parse_state(text)
+    med = st.medium
+    a, va, b, vb = st.si()
+    return med, med.point(a, va, b, vb, st.shows()), st.shows()
+
+
+def blocked_in_p2(state1, T_2, shape, D, wall, E, nu, alpha_wall, *, system):
+    med, p1, shows = _liquid_state(state1, "state1")
+    word = "rigid" if shape is None else str(shape).strip().lower()
+    if word == "rigid":
+        given = [n for n, v in (("D", D), ("wall", wall), ("E", E), ("nu", nu)) if v is not None]
+        if given:
+            raise BadInput(
+                f"shape rigid takes no wall data ({', '.join(given)} given): write cylinder or "
+                "sphere for a wall that stretches"
+            )
+        c = 0.0
+    else:
+        missing = [n for n, v in (("D", D), ("wall", wall), ("E", E), ("nu", nu)) if v is None]
+        if missing:
+            raise BadInput(f"shape {word} needs {', '.join(missing)} (the wall's data)")
+        c = blockedin.compliance(word, D, wall, E, nu)
+    return blockedin.elastic_p2(med, p1, T_2, c, alpha_wall or 0.0, shows)
+
+
+def relief_thermal_flow(state, Q_dot, *, system):
+    med, p1, shows = _liquid_state(state, "state")
+    if p1.x is not None or "liquid" not in p1.phase:
+        raise BadInput(f"state is {p1.phase}: the thermal-relief flow is for a liquid")
+    T, P = p1.T, p1.P
+    beta = med.read("beta", "T", T, "P", P, shows)
+    cp = med.read("cp", "T", T, "P", P, shows)
+    return blockedin.relief_flow(beta, Q_dot, 1.0 / p1.v, cp)

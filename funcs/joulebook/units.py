@@ -105,6 +105,8 @@ KINDS: dict[str, tuple[str, str]] = {
     "heat_flux": ("W/m**2", "W/m**2"),
     "area": ("m**2", "m**2"),
     "heat_transfer_coefficient": ("W/K", "W/K"),
+    "modulus": ("Pa", "Pa"),
+    "volume_flow": ("m**3/s", "m**3/s"),
     "dimensionless": ("", ""),
 }
 
@@ -137,6 +139,8 @@ KIND_WORDS = {
     "heat_flux": "heat flux",
     "area": "area",
     "heat_transfer_coefficient": "heat-transfer conductance UA",
+    "modulus": "elastic modulus",
+    "volume_flow": "volume flow",
     "dimensionless": "dimensionless number",
 }
 
@@ -180,6 +184,8 @@ SYMBOLS: dict[str, str] = {
     "q": "heat_flux",
     "A": "area",
     "UA": "heat_transfer_coefficient",
+    "E_mod": "modulus",
+    "q_v": "volume_flow",
 }
 
 # ---------------------------------------------------------------------------------------
@@ -459,6 +465,8 @@ _EXAMPLE_UNITS = {
     "heat_flux": "W/m2, kW/m2, Btu/(h*ft2)",
     "area": "m2, ft2",
     "heat_transfer_coefficient": "W/K, kW/K, Btu/(h*degF)",
+    "modulus": "GPa, MPa, psi",
+    "volume_flow": "m3/s, m3/h, L/min, gal/min",
     "dimensionless": "no unit or %",
 }
 
@@ -545,6 +553,8 @@ _SI_DEFAULTS = {
     "heat_flux": "W/m2",
     "area": "m2",
     "heat_transfer_coefficient": "W/K",
+    "modulus": "Pa",
+    "volume_flow": "m3/s",
     "dimensionless": "",
 }
 
@@ -625,10 +635,14 @@ def unit_system(text: str | None = None) -> UnitSystem:
         units["power"] = "Btu/hour"
         units["heat_flux"] = "Btu/(hour*ft2)"
         units["heat_transfer_coefficient"] = "Btu/(hour*R)"
+        units["modulus"] = "psi"
+        units["volume_flow"] = "gal/min"
     elif e_unit in ("kJ", "MJ"):
         units["power"] = "kW"
         units["heat_flux"] = "kW/m2"
         units["heat_transfer_coefficient"] = "kW/K"
+        units["modulus"] = "GPa"
+        units["volume_flow"] = "m3/h"
     for ov in overrides:
         sym, _, unit = (s.strip() for s in ov.partition("="))
         if sym not in SYMBOLS:

@@ -14,7 +14,7 @@ from joulebook.sheet.cells import why as _why
 
 
 
-__all__ = ['JB_STATE', 'JB_PROP', 'JB_PHASE', 'JB_PROP_SAT', 'JB_GAS_CP', 'JB_GAS_CV', 'JB_GAS_K', 'JB_GAS_R', 'JB_GAS_MOLAR_MASS', 'JB_GAS_DELTA_H', 'JB_GAS_DELTA_U', 'JB_GAS_CP_MEAN', 'JB_GAS_DELTA_S', 'JB_SOLID_C', 'JB_SOLID_C_MEAN', 'JB_SOLID_DELTA_U', 'JB_SOLID_HEAT', 'JB_WORK_ISOBARIC', 'JB_WORK_ISOTHERMAL', 'JB_WORK_ISOTHERMAL_MASS', 'JB_WORK_POLYTROPIC', 'JB_WORK_POLYTROPIC_N', 'JB_WORK_LINEAR', 'JB_WORK_PV', 'JB_WORK_PATH', 'JB_WORK_ELECTRIC_IN', 'JB_WORK_SHAFT_IN', 'JB_POLY_EXPONENT', 'JB_POLY_FIT', 'JB_POLY_P2', 'JB_POLY_V2', 'JB_POLY_T2_FROM_V', 'JB_POLY_T2_FROM_P', 'JB_BALANCE_HEAT', 'JB_BALANCE_GAP', 'JB_BALANCE_DELTA_KE', 'JB_BALANCE_DELTA_PE', 'JB_HEAT_ISOBARIC_GAS', 'JB_HEAT_RIGID_GAS', 'JB_PROCESS', 'JB_PROCESS_TABLE', 'JB_PROCESS_PATH', 'JB_CYCLE_NET', 'JB_CYCLE_GAP', 'JB_CYCLE_EFFICIENCY', 'JB_STORED_ISENTROPIC', 'JB_STORED_IDEAL_ISENTROPIC', 'JB_STORED_ISOCHORIC', 'JB_CONVERT', 'JB_WHY', 'JB_ABOUT']
+__all__ = ['JB_STATE', 'JB_PROP', 'JB_PHASE', 'JB_PROP_SAT', 'JB_GAS_CP', 'JB_GAS_CV', 'JB_GAS_K', 'JB_GAS_R', 'JB_GAS_MOLAR_MASS', 'JB_GAS_DELTA_H', 'JB_GAS_DELTA_U', 'JB_GAS_CP_MEAN', 'JB_GAS_DELTA_S', 'JB_SOLID_C', 'JB_SOLID_C_MEAN', 'JB_SOLID_DELTA_U', 'JB_SOLID_HEAT', 'JB_WORK_ISOBARIC', 'JB_WORK_ISOTHERMAL', 'JB_WORK_ISOTHERMAL_MASS', 'JB_WORK_POLYTROPIC', 'JB_WORK_POLYTROPIC_N', 'JB_WORK_LINEAR', 'JB_WORK_PV', 'JB_WORK_PATH', 'JB_WORK_ELECTRIC_IN', 'JB_WORK_SHAFT_IN', 'JB_POLY_EXPONENT', 'JB_POLY_FIT', 'JB_POLY_P2', 'JB_POLY_V2', 'JB_POLY_T2_FROM_V', 'JB_POLY_T2_FROM_P', 'JB_BALANCE_HEAT', 'JB_BALANCE_GAP', 'JB_BALANCE_DELTA_KE', 'JB_BALANCE_DELTA_PE', 'JB_HEAT_ISOBARIC_GAS', 'JB_HEAT_RIGID_GAS', 'JB_PROCESS', 'JB_PROCESS_TABLE', 'JB_PROCESS_PATH', 'JB_CYCLE_NET', 'JB_CYCLE_GAP', 'JB_CYCLE_EFFICIENCY', 'JB_STORED_ISENTROPIC', 'JB_STORED_IDEAL_ISENTROPIC', 'JB_STORED_ISOCHORIC', 'JB_BLOCKED_IN_P2', 'JB_RELIEF_THERMAL_FLOW', 'JB_CONVERT', 'JB_WHY', 'JB_ABOUT']
 
 
 @_xw.func(category='joulebook · States and real-fluid properties')
@@ -38,7 +38,7 @@ def JB_STATE(substance, spec1=None, value1=None, spec2=None, value2=None, units=
 @_xw.arg('value2', ndim=2, err_to_str=True, doc="value of the second property, in the phrase's unit (optional) [number or range]")
 @_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
 def JB_PROP(substance, want, spec1=None, value1=None, spec2=None, value2=None, units=None, caller=None):
-    'Property of a real fluid (T P v rho u h s cp cv k x Z Tsat Psat) at a state fixed by two properties, each with its unit: JB_PROP("water","h in kJ/kg","T in degC",25,"P in kPa",101.325).'
+    'Property of a fluid (T P v rho u h s cp cv k x Z Tsat Psat beta kappa w mu_JT) at a state fixed by two properties, each with its unit: JB_PROP("water","h in kJ/kg","T in degC",25,"P in kPa",101.325).'
     return _cell('JB_PROP', substance, want, spec1, value1, spec2, value2, units, caller=caller)
 
 
@@ -525,6 +525,30 @@ def JB_STORED_IDEAL_ISENTROPIC(P, V, k, P_amb=None, units=None, caller=None):
 def JB_STORED_ISOCHORIC(P, V, k, P_amb=None, units=None, caller=None):
     'Stored energy as a constant-volume release, (P − P_amb)·V/(k − 1): the largest of the usual estimates. An estimate: pressure tests are governed by the codes and a competent engineer.'
     return _cell('JB_STORED_ISOCHORIC', P, V, k, P_amb, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Blocked-in liquid and thermal relief')
+@_xw.arg('state1', ndim=2, err_to_str=True, doc='liquid state text when blocked in, from JB_STATE [text]')
+@_xw.arg('T_2', ndim=2, err_to_str=True, doc="temperature after heating [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('shape', ndim=2, err_to_str=True, doc='rigid (default), cylinder (closed ends) or sphere (optional) [text]')
+@_xw.arg('D', ndim=2, err_to_str=True, doc="mean diameter of the wall (optional) [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('wall', ndim=2, err_to_str=True, doc="wall thickness (below D/2) (optional) [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('E', ndim=2, err_to_str=True, doc="Young's modulus of the wall (steel about 200 GPa) (optional) [number or range; modulus in the units argument's unit (GPa by default)]")
+@_xw.arg('nu', ndim=2, err_to_str=True, doc="Poisson's ratio of the wall, 0 to 0.5 (steel 0.3) (optional) [number or range]")
+@_xw.arg('alpha_wall', ndim=2, err_to_str=True, doc="linear expansion coefficient of the wall (steel 1.2e-5 1/K) (optional) [number or range; expansion coefficient in the units argument's unit (1/K by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_BLOCKED_IN_P2(state1, T_2, shape=None, D=None, wall=None, E=None, nu=None, alpha_wall=None, units=None, caller=None):
+    'Pressure after heating a blocked-in, liquid-full pipe or vessel to T_2: shape rigid (upper bound), cylinder or sphere (thin wall that stretches with P and T), solved on the equation of state. An estimate: relief is governed by the codes.'
+    return _cell('JB_BLOCKED_IN_P2', state1, T_2, shape, D, wall, E, nu, alpha_wall, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Blocked-in liquid and thermal relief')
+@_xw.arg('state', ndim=2, err_to_str=True, doc='liquid state text at the relief set pressure, from JB_STATE [text]')
+@_xw.arg('Q_dot', ndim=2, err_to_str=True, doc="heat input to the liquid (sun, tracing, process) [number or range; power in the units argument's unit (kW by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_RELIEF_THERMAL_FLOW(state, Q_dot, units=None, caller=None):
+    'Thermal-relief volume flow of a blocked-in liquid under a heat input: q = β·Q_dot/(ρ·cp) at the relief state (API 521 hydraulic expansion). An estimate: relief sizing is governed by the codes.'
+    return _cell('JB_RELIEF_THERMAL_FLOW', state, Q_dot, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Units and information')

@@ -993,7 +993,9 @@ def _derivative(info: FluidInfo, st, want: str) -> float:
         )
     T, rho = st.T(), st.rhomass()
     if abs(T / info.T_crit - 1) < 1e-6 and abs(rho / info.rho_crit - 1) < 1e-4:
-        raise OutOfRange(f"{info.name}: the {_DERIVATIVE_WORDS[want]} has no finite value at the critical point")
+        raise OutOfRange(
+            f"{info.name}: the {_DERIVATIVE_WORDS[want]} has no finite value at the critical point"
+        )
     CP = _coolprop()
     d = _scratch_dt(info.internal).upd(CP.DmassT_INPUTS, rho, T)
     if want == "beta":
