@@ -94,3 +94,108 @@ def test_thermal_relief_flow():
           conditions="water 45 °C, 20 bar, 10 kW", source=IAPWS)  # fmt: skip
     with pytest.raises(BadInput, match="above 0"):
         call("JB_RELIEF_THERMAL_FLOW", "water | T = 45 degC | P = 20 bar", 0)
+
+
+def test_rigid_vessel_at_a_constant_heat_rate_matches_the_closed_form():
+    # hand: t = m·(u2 − u1)/Q with m = V/v1, u from iapws 1.5.5 along v = v1
+    from iapws import IAPWS95
+
+    w1 = IAPWS95(T=293.15, P=0.101325)
+    w2 = IAPWS95(T=333.15, rho=w1.rho)
+    t = call("JB_TIME_HEATING", "water | T = 20 degC | P = 1 atm", 1, "T in K", 333.15, 10)
+    check(t, w1.rho * (w2.u - w1.u) / 10, rtol=1e-6, quantity="t [s]",
+          conditions="1 m3 liquid-full rigid vessel, 20→60 °C at 10 kW", source=IAPWS)  # fmt: skip
+
+
+def test_heating_through_ua_against_an_independent_integration():
+    # t = m·∫ du/(UA·(Ts − T)) along the isochore, by a fine trapezoid over iapws 1.5.5 states
+    import numpy as np
+    from iapws import IAPWS95
+
+    rho = IAPWS95(T=293.15, P=0.101325).rho
+    T = np.linspace(293.15, 333.15, 801)
+    u = np.array([IAPWS95(T=t, rho=rho).u for t in T]) * 1e3
+    ref = rho * 1.0 * np.trapezoid(1.0 / (500.0 * (353.15 - T)), u)
+    t = call("JB_TIME_HEATING", "water | T = 20 degC | P = 1 atm", 1, "T in K", 333.15,
+             None, 0.5, 353.15)  # fmt: skip
+    check(t, ref, rtol=2e-5, quantity="t [s]",
+          conditions="1 m3 liquid-full rigid vessel, 20→60 °C, UA 500 W/K from 80 °C",
+          source=IAPWS + ", trapezoid over 801 states")  # fmt: skip
+
+
+def test_heating_table_ends_at_the_time_and_the_target():
+    rows = call("JB_TIME_HEATING_TABLE", "water | T = 20 degC | P = 1 atm", 1, "T in K", 333.15,
+                10, None, None, 5)  # fmt: skip
+    assert rows[0] == ["t in s", "T in K", "P in kPa", "x", "Q in kJ"]
+    t_end = call("JB_TIME_HEATING", "water | T = 20 degC | P = 1 atm", 1, "T in K", 333.15, 10)
+    assert rows[-1][0] == pytest.approx(t_end) and rows[-1][1] == pytest.approx(333.15)
+    times = [r[0] for r in rows[1:]]
+    assert times == sorted(times) and rows[1][0] == 0.0
+    # hand: Q = Q_dot·t at a constant rate
+    assert all(r[4] == pytest.approx(10 * r[0], rel=1e-9, abs=1e-9) for r in rows[1:])
+
+
+def test_fire_heat_and_wetted_area():
+    # API 521 (from memory): Q = 43,200·F·A^0.82 W; hand: 43,200·10^0.82
+    assert call("JB_FIRE_HEAT", 10) == pytest.approx(43.2 * 10**0.82, rel=1e-12)
+    assert call("JB_FIRE_HEAT", 10, 0.5, "inadequate") == pytest.approx(70.9 * 0.5 * 10**0.82)
+    # hand geometry: vertical π·D·h + π·D²/4; horizontal half full: L·D·π/2 + 2·π·D²/8
+    assert call("JB_WETTED_AREA", "vertical", 2, 5, 1) == pytest.approx(3 * math.pi)
+    assert call("JB_WETTED_AREA", "horizontal", 2, 6, 1) == pytest.approx(6 * math.pi + math.pi)
+    with pytest.raises(BadInput, match="level = 2.5"):
+        call("JB_WETTED_AREA", "horizontal", 2, 6, 2.5)
+
+
+def test_fire_on_a_liquid_full_vessel_matches_the_closed_form():
+    # liquid-full all the way: the wetted area is the whole vessel, so Q is constant and
+    # t = m·(u2 − u1)/Q (hand; u from iapws 1.5.5 along the isochore)
+    from iapws import IAPWS95
+
+    D, L = 1.0, 3.0
+    A = math.pi * D * L + 2 * math.pi * D * D / 4
+    Q = 43200 * A**0.82
+    w1 = IAPWS95(T=293.15, P=0.101325)
+    w2 = IAPWS95(T=303.15, rho=w1.rho)
+    m = w1.rho * math.pi * D * D / 4 * L
+    t = call(
+        "JB_TIME_FIRE", "water | T = 20 degC | P = 1 atm", "horizontal", D, L, "T in K", 303.15
+    )
+    check(t, m * (w2.u - w1.u) * 1e3 / Q, rtol=1e-6, quantity="t [s]",
+          conditions="liquid-full horizontal vessel D 1 m, L 3 m, fire, 20→30 °C",
+          source=IAPWS + "; API 521 fire law (from memory)")  # fmt: skip
+
+
+def test_fire_reaches_the_set_pressure_of_a_part_full_vessel():
+    # a horizontal drum of water at 2 bar, heated by fire to 10 bar: the time is the sum of
+    # the table's steps, and it grows when the environment factor shrinks (F = 0.5)
+    s1 = "water | P = 2 bar | x = 0.0005"
+    t = call("JB_TIME_FIRE", s1, "horizontal", 2, 6, "P in bar", 10, None, None, "degC-bar-kJ")
+    half = call("JB_TIME_FIRE", s1, "horizontal", 2, 6, "P in bar", 10, 0.5, None, "degC-bar-kJ")
+    assert 60 < t / 60 < 120 and half == pytest.approx(2 * t, rel=1e-9)  # hand: Q ∝ F
+
+
+def test_batch_heating_against_the_exponential_closed_form():
+    # hand: constant c gives t = (m·c/UA)·ln((Ts − T1)/(Ts − T2)); water's c(T) varies by
+    # 0.1 % over 20–60 °C, so the result lies within that of the closed form at its mean c
+    c_mean = call("JB_SOLID_C_MEAN", "water", 293.15, 333.15, "K-Pa-J")
+    t = call("JB_TIME_BATCH", "water", 100, 293.15, 333.15, 0.5, 353.15)
+    assert t == pytest.approx(100 * c_mean / 500 * math.log(60 / 20), rel=2e-3)
+    with pytest.raises(OutOfRange, match="never passes"):
+        call("JB_TIME_BATCH", "water", 100, 293.15, 363.15, 0.5, 353.15)
+
+
+@pytest.mark.parametrize(
+    "args, words",
+    [
+        ((1, "T in K", 333.15, 0), ["infinite"]),
+        ((1, "T in K", 333.15), ["infinite"]),
+        ((1, "T in K", 283.15, 10), ["never reached"]),  # the target is already passed
+        ((1, "T in K", 333.15, None, 0.5, 313.15), ["never reached"]),  # source too cold
+        ((1, "T in K", 333.15, None, 0.5), ["without T_source"]),
+    ],
+)
+def test_heating_time_bad_input(args, words):
+    with pytest.raises((BadInput, OutOfRange)) as e:
+        call("JB_TIME_HEATING", "water | T = 20 degC | P = 1 atm", *args)
+    for w in words:
+        assert w in str(e.value), str(e.value)

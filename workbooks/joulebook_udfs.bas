@@ -66,6 +66,19 @@ failed:
     JB_BALANCE_HEAT = Err.Description
 End Function
 
+Function JB_BALANCE_RATE(Q_dot, Optional W_dot, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_BALANCE_RATE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_RATE", Array(Q_dot, W_dot, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_BALANCE_RATE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_RATE", Array(Q_dot, W_dot, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_BALANCE_RATE = Err.Description
+End Function
+
 Function JB_BLOCKED_IN_P2(state1, T_2, Optional shape, Optional D, Optional wall, Optional E, Optional nu, Optional alpha_wall, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
@@ -129,6 +142,19 @@ Function JB_CYCLE_NET(values, Optional units)
     #End If
 failed:
     JB_CYCLE_NET = Err.Description
+End Function
+
+Function JB_FIRE_HEAT(A_wet, Optional F, Optional drainage, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_FIRE_HEAT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_FIRE_HEAT", Array(A_wet, F, drainage, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_FIRE_HEAT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_FIRE_HEAT", Array(A_wet, F, drainage, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_FIRE_HEAT = Err.Description
 End Function
 
 Function JB_GAS_CP(gas, T, Optional units)
@@ -551,6 +577,84 @@ Function JB_STORED_ISOCHORIC(P, V, k, Optional P_amb, Optional units)
     #End If
 failed:
     JB_STORED_ISOCHORIC = Err.Description
+End Function
+
+Function JB_TIME_BATCH(material, m, T_1, T_2, UA, T_source, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_TIME_BATCH = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_BATCH", Array(material, m, T_1, T_2, UA, T_source, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_TIME_BATCH = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_BATCH", Array(material, m, T_1, T_2, UA, T_source, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_TIME_BATCH = Err.Description
+End Function
+
+Function JB_TIME_FIRE(state1, shape, D, L, target, target_value, Optional F, Optional drainage, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_TIME_FIRE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_FIRE", Array(state1, shape, D, L, target, target_value, F, drainage, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_TIME_FIRE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_FIRE", Array(state1, shape, D, L, target, target_value, F, drainage, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_TIME_FIRE = Err.Description
+End Function
+
+Function JB_TIME_FIRE_TABLE(state1, shape, D, L, target, target_value, Optional F, Optional drainage, Optional points, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_TIME_FIRE_TABLE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_FIRE_TABLE", Array(state1, shape, D, L, target, target_value, F, drainage, points, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_TIME_FIRE_TABLE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_FIRE_TABLE", Array(state1, shape, D, L, target, target_value, F, drainage, points, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_TIME_FIRE_TABLE = Err.Description
+End Function
+
+Function JB_TIME_HEATING(state1, V, target, target_value, Optional Q_dot, Optional UA, Optional T_source, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_TIME_HEATING = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_HEATING", Array(state1, V, target, target_value, Q_dot, UA, T_source, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_TIME_HEATING = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_HEATING", Array(state1, V, target, target_value, Q_dot, UA, T_source, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_TIME_HEATING = Err.Description
+End Function
+
+Function JB_TIME_HEATING_TABLE(state1, V, target, target_value, Optional Q_dot, Optional UA, Optional T_source, Optional points, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_TIME_HEATING_TABLE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_HEATING_TABLE", Array(state1, V, target, target_value, Q_dot, UA, T_source, points, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_TIME_HEATING_TABLE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_HEATING_TABLE", Array(state1, V, target, target_value, Q_dot, UA, T_source, points, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_TIME_HEATING_TABLE = Err.Description
+End Function
+
+Function JB_WETTED_AREA(shape, D, L, level, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_WETTED_AREA = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WETTED_AREA", Array(shape, D, L, level, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_WETTED_AREA = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WETTED_AREA", Array(shape, D, L, level, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_WETTED_AREA = Err.Description
 End Function
 
 Function JB_WHY(cell)

@@ -99,6 +99,7 @@ FAMILIES = {
     "cycle": "Cycles",
     "stored": "Stored expansion energy",
     "blocked": "Blocked-in liquid and thermal relief",
+    "time": "Heating with time and fire exposure",
     "util": "Units and information",
 }
 
@@ -179,6 +180,14 @@ _REF_THIN_WALL = (
 _REF_API521 = (
     "API Std 521, Pressure-relieving and Depressuring Systems, 4.4.12 hydraulic expansion "
     "(from memory): gpm = β·H/(500·G·c), here q = β·Q/(ρ·cp) without unit constants"
+)
+_REF_FIRE = (
+    "API Std 521, Pressure-relieving and Depressuring Systems, 4.4.13.2 fire exposure "
+    "(from memory): Q = C·F·A^0.82, C = 43,200 W/m^1.64 (adequate drainage), 70,900 without"
+)
+_REF_TIME = (
+    "first law per unit time of a rigid closed system, m·du/dt = Q_dot(state), separated and "
+    "integrated by Gauss–Legendre quadrature on the equation of state (common practice)"
 )
 _REF_COOLPROP = "Bell, Wronski, Quoilin, Lemort, Ind. Eng. Chem. Res. 53 (2014) 2498 (CoolProp)"
 _REF_IAPWS = (
@@ -1005,6 +1014,217 @@ CATALOG: tuple[Func, ...] = (
         (_REF_COOLPROP, _REF_API521),
         Example(("water | T = 45 degC | P = 20 bar", 10), 0.003677730090279406, 1e-6),
         caution=True,
+    ),
+    # ------------------------------------------------------------------ time
+    Func(
+        "JB_TIME_HEATING",
+        "time",
+        "Time for a rigid vessel (state1, volume V) to reach a target T, P or x under a heat rate "
+        "Q_dot and/or UA·(T_source − T), integrated on the equation of state.",
+        (
+            Arg("state1", "initial state text of the contents, from JB_STATE", type="text"),
+            Arg("V", "vessel volume", quantity="volume"),
+            Arg("target", "target with unit: 'P in bar', 'T in degC' or 'x'", type="text"),
+            Arg("target_value", "value of the target, in its unit"),
+            Arg(
+                "Q_dot",
+                "constant heat rate into the contents (optional)",
+                quantity="power",
+                optional=True,
+            ),
+            Arg(
+                "UA",
+                "conductance to a medium at T_source (optional)",
+                quantity="heat_transfer_coefficient",
+                optional=True,
+            ),
+            Arg(
+                "T_source",
+                "temperature of the medium (with UA)",
+                quantity="temperature",
+                optional=True,
+            ),
+        ),
+        "time",
+        "time_heating",
+        "t = m·∫ du/Q_dot(u) along v = V/m, Q_dot = Q0 + UA·(T_source − T)",
+        (_REF_TIME, _REF_COOLPROP),
+        Example(
+            ("water | T = 20 degC | P = 1 atm", 1, "T in K", 333.15, 10), 16103.012867656853, 1e-8
+        ),
+        caution=True,
+    ),
+    Func(
+        "JB_TIME_HEATING_TABLE",
+        "time",
+        "The heating of JB_TIME_HEATING as a spilled table of t, T, P, x, Q at points states from "
+        "state1 to the target.",
+        (
+            Arg("state1", "initial state text of the contents, from JB_STATE", type="text"),
+            Arg("V", "vessel volume", quantity="volume"),
+            Arg("target", "target with unit: 'P in bar', 'T in degC' or 'x'", type="text"),
+            Arg("target_value", "value of the target, in its unit"),
+            Arg(
+                "Q_dot",
+                "constant heat rate into the contents (optional)",
+                quantity="power",
+                optional=True,
+            ),
+            Arg(
+                "UA",
+                "conductance to a medium at T_source (optional)",
+                quantity="heat_transfer_coefficient",
+                optional=True,
+            ),
+            Arg(
+                "T_source",
+                "temperature of the medium (with UA)",
+                quantity="temperature",
+                optional=True,
+            ),
+            Arg("points", "number of rows, 2 to 1000 (default 11)", optional=True),
+        ),
+        "asked",
+        "time_heating_table",
+        "t_i = m·∫ du/Q_dot(u) from u1 to u_i",
+        (_REF_TIME, _REF_COOLPROP),
+        Example(
+            ("water | T = 20 degC | P = 1 atm", 1, "T in K", 333.15, 10, None, None, 2),
+            [
+                ["t in s", "T in K", "P in kPa", "x", "Q in kJ"],
+                [0.0, 293.15, 101.325, "", 0.0],
+                [16103.012867656853, 333.15, 35814.50965623428, "", 161030.1286765685],
+            ],
+        ),
+        elementwise=False,
+        caution=True,
+    ),
+    Func(
+        "JB_FIRE_HEAT",
+        "time",
+        "Heat input of a pool fire to a vessel by its wetted area (API 521): Q = C·F·A^0.82, C = "
+        "43,200 W/m^1.64 with adequate drainage, 70,900 without. An estimate: fire cases follow "
+        "the codes.",
+        (
+            Arg("A_wet", "wetted area (the part the code counts)", quantity="area"),
+            Arg("F", "environment factor, 0 < F ≤ 1 (1 bare vessel)", optional=True),
+            Arg("drainage", "adequate (default) or inadequate", type="text", optional=True),
+        ),
+        "power",
+        "fire_heat",
+        "Q = C·F·A^0.82",
+        (_REF_FIRE,),
+        Example((10,), 285.41956953928144, 1e-9),
+        caution=True,
+    ),
+    Func(
+        "JB_WETTED_AREA",
+        "time",
+        "Wetted area of a horizontal or vertical cylindrical vessel (flat ends) up to a liquid "
+        "level.",
+        (
+            Arg("shape", "horizontal or vertical", type="text"),
+            Arg("D", "diameter", quantity="length"),
+            Arg("L", "length between the ends (height when vertical)", quantity="length"),
+            Arg("level", "liquid level above the bottom", quantity="length"),
+        ),
+        "area",
+        "wetted_area",
+        "horizontal A = L·D·θ/2 + 2·(D²/8)(θ − sin θ), θ = 2·acos(1 − 2h/D); vertical π·D·h + π·D²/4",
+        ("plane and cylinder geometry (common practice)",),
+        Example(("vertical", 2, 5, 1), 9.42477796076938, 1e-12),
+    ),
+    Func(
+        "JB_TIME_FIRE",
+        "time",
+        "Time for a fire-exposed cylindrical vessel to reach a target (e.g. its set pressure), the "
+        "wetted area following the liquid level, on the equation of state. An estimate: fire "
+        "cases follow the codes.",
+        (
+            Arg("state1", "initial state text of the contents, from JB_STATE", type="text"),
+            Arg("shape", "horizontal or vertical", type="text"),
+            Arg("D", "diameter", quantity="length"),
+            Arg("L", "length between the ends (height when vertical)", quantity="length"),
+            Arg("target", "target with unit: 'P in bar', 'T in degC' or 'x'", type="text"),
+            Arg("target_value", "value of the target, in its unit"),
+            Arg("F", "environment factor, 0 < F ≤ 1 (default 1)", optional=True),
+            Arg("drainage", "adequate (default) or inadequate", type="text", optional=True),
+        ),
+        "time",
+        "time_fire",
+        "t = m·∫ du/Q_fire(A_wet(level(u))) along v = V/m",
+        (_REF_FIRE, _REF_TIME, _REF_COOLPROP),
+        Example(
+            ("water | P = 2 bar | x = 0.0005", "horizontal", 2, 6, "P in kPa", 1000),
+            4920.495040569851,
+            1e-6,
+        ),
+        caution=True,
+    ),
+    Func(
+        "JB_TIME_FIRE_TABLE",
+        "time",
+        "The fire exposure of JB_TIME_FIRE as a spilled table of t, T, P, x, Q at points states.",
+        (
+            Arg("state1", "initial state text of the contents, from JB_STATE", type="text"),
+            Arg("shape", "horizontal or vertical", type="text"),
+            Arg("D", "diameter", quantity="length"),
+            Arg("L", "length between the ends (height when vertical)", quantity="length"),
+            Arg("target", "target with unit: 'P in bar', 'T in degC' or 'x'", type="text"),
+            Arg("target_value", "value of the target, in its unit"),
+            Arg("F", "environment factor, 0 < F ≤ 1 (default 1)", optional=True),
+            Arg("drainage", "adequate (default) or inadequate", type="text", optional=True),
+            Arg("points", "number of rows, 2 to 1000 (default 11)", optional=True),
+        ),
+        "asked",
+        "time_fire_table",
+        "t_i = m·∫ du/Q_fire(u) from u1 to u_i",
+        (_REF_FIRE, _REF_TIME, _REF_COOLPROP),
+        Example(
+            ("water | P = 2 bar | x = 0.0005", "horizontal", 2, 6, "P in kPa", 1000, None, None, 2),
+            [
+                ["t in s", "T in K", "P in kPa", "x", "Q in kJ"],
+                [0.0, 393.3600913279622, 200.0, 0.0005, 0.0],
+                [4920.495040569851, 453.0280078816743, 1000.0, 0.001943725146763347, 3253882.5294],
+            ],
+        ),
+        elementwise=False,
+        caution=True,
+    ),
+    Func(
+        "JB_TIME_BATCH",
+        "time",
+        "Time to heat or cool a batch of a solid or liquid (c(T) of JB_SOLID_C) from T_1 to T_2 "
+        "through UA from a medium at T_source: m·∫c dT/(UA·(T_source − T)).",
+        (
+            _MAT,
+            Arg("m", "mass of the batch", quantity="mass"),
+            _T1,
+            _T2,
+            Arg("UA", "conductance between batch and medium", quantity="heat_transfer_coefficient"),
+            Arg("T_source", "temperature of the medium", quantity="temperature"),
+        ),
+        "time",
+        "time_batch",
+        "t = m·∫ c(T) dT/(UA·(T_source − T)) = m·c/UA·ln((Ts − T1)/(Ts − T2)) for constant c",
+        (_REF_SOLIDS, "batch heating by a medium at constant temperature (common practice)"),
+        Example(("water", 100, 293.15, 333.15, 0.5, 353.15), 918.745656876649, 1e-6),
+    ),
+    Func(
+        "JB_BALANCE_RATE",
+        "balance",
+        "First law per unit time of a closed system: dE/dt = Q_dot − W_dot (heat in, work out).",
+        (
+            Arg("Q_dot", "heat rate into the system", quantity="power"),
+            Arg(
+                "W_dot", "power delivered by the system (optional)", quantity="power", optional=True
+            ),
+        ),
+        "power",
+        "balance_rate",
+        "dE/dt = Q_dot − W_dot",
+        (_REF_FIRSTLAW,),
+        Example((12, 5), 7.0),
     ),
     # ------------------------------------------------------------------ utilities
     Func(

@@ -17,7 +17,7 @@ import numpy as np
 from . import __version__, firstlaw, states
 from .errors import BadInput, JoulebookError, OutOfRange, message_in
 from .media import medium
-from .processes import blockedin, cycles, polytropic, solve, stored, work
+from .processes import blockedin, cycles, polytropic, solve, stored, timing, work
 from .substances import fluids, gases, solids
 from .units import UnitSystem, convert, parse_phrase, parse_unit
 
@@ -620,3 +620,133 @@ def relief_thermal_flow(state, Q_dot, *, system):
     beta = med.read("beta", "T", T, "P", P, shows)
     cp = med.read("cp", "T", T, "P", P, shows)
     return blockedin.relief_flow(beta, Q_dot, 1.0 / p1.v, cp)
+
+
+# ---------------------------------------------------------------------------------------
+# time
+
+
+def _target(spec, value, system):
+    if not isinstance(spec, str):
+        raise BadInput(f"target must be text such as 'P in bar' (got {spec!r})")
+    ph = parse_phrase(spec, system, ("T", "P", "x"))
+    return ph.symbol, ph.conv.to_si(float(value))
+
+
+def _heat_rate(Q_dot, UA, T_source):
+    if UA is None and T_source is not None:
+        raise BadInput("T_source is given without UA: give both, or neither")
+    if UA is not None and T_source is None:
+        raise BadInput("UA is given without T_source: give the source temperature too")
+    if UA is not None and not UA > 0:
+        raise BadInput(f"UA = {UA:g} W/K: the conductance must be above 0")
+    q0 = Q_dot or 0.0
+    if UA is None and q0 == 0.0:
+        raise BadInput("Q_dot = 0 and no UA: with no heat the time is infinite")
+    if UA is None:
+        return lambda p: q0
+    return lambda p: q0 + UA * (T_source - p.T)
+
+
+def _rigid_time(state1, V, target, target_value, rate, system, points=0):
+    med, p1, _ = _liquid_state(state1, "state1")
+    sym, value = _target(target, target_value, system)
+    return timing.rigid_heating(med, p1, V / p1.v, sym, value, rate, points)
+
+
+def _time_table(res, system):
+    t, rows = res
+    header = [
+        f"t in {system.unit('time')}",
+        f"T in {system.unit('temperature')}",
+        f"P in {system.unit('pressure')}",
+        "x",
+        f"Q in {system.unit('energy')}",
+    ]
+    out = [header]
+    for tt, p, q in rows:
+        out.append(
+            [
+                system.conv("time").from_si(tt),
+                system.conv("temperature").from_si(p.T),
+                system.conv("pressure").from_si(p.P),
+                "" if p.x is None else p.x,
+                system.conv("energy").from_si(q),
+            ]
+        )
+    return out
+
+
+def time_heating(state1, V, target, target_value, Q_dot, UA, T_source, *, system):
+    return _rigid_time(state1, V, target, target_value, _heat_rate(Q_dot, UA, T_source), system)
+
+
+def time_heating_table(state1, V, target, target_value, Q_dot, UA, T_source, points, *, system):
+    n = _points(points)
+    rate = _heat_rate(Q_dot, UA, T_source)
+    return _time_table(_rigid_time(state1, V, target, target_value, rate, system, n), system)
+
+
+def _points(points) -> int:
+    n = 11 if points is None else int(points)
+    if points is not None and n != points or not 2 <= n <= 1000:
+        raise BadInput(f"points = {points}: a whole number from 2 to 1000")
+    return n
+
+
+def _fire_rate(med, shape, D, L, F, drainage, m, V):
+    def rate(p) -> float:
+        if p.x is not None:
+            v_f = med.point("T", p.T, "x", 0.0).v
+            V_liq = m * (1.0 - p.x) * v_f
+        else:
+            V_liq = V if "liquid" in p.phase else 0.0
+        level = timing.liquid_level(shape, D, L, V_liq)
+        A = timing.wetted_area(shape, D, L, level)
+        if A <= 0:
+            raise OutOfRange(
+                "the vessel holds no liquid: the wetted-area fire law does not apply to a "
+                "vapour-filled vessel"
+            )
+        return timing.fire_heat(A, 1.0 if F is None else F, drainage)
+
+    return rate
+
+
+def _fire(state1, shape, D, L, target, target_value, F, drainage, system, points=0):
+    med, p1, _ = _liquid_state(state1, "state1")
+    V = timing.vessel_volume(shape, D, L)
+    m = V / p1.v
+    sym, value = _target(target, target_value, system)
+    rate = _fire_rate(med, str(shape).strip().lower(), D, L, F, drainage, m, V)
+    return timing.rigid_heating(med, p1, m, sym, value, rate, points)
+
+
+def time_fire(state1, shape, D, L, target, target_value, F, drainage, *, system):
+    return _fire(state1, shape, D, L, target, target_value, F, drainage, system)
+
+
+def time_fire_table(state1, shape, D, L, target, target_value, F, drainage, points, *, system):
+    return _time_table(
+        _fire(state1, shape, D, L, target, target_value, F, drainage, system, _points(points)),
+        system,
+    )
+
+
+def fire_heat(A_wet, F, drainage, *, system):
+    return timing.fire_heat(A_wet, 1.0 if F is None else F, drainage or "adequate")
+
+
+def wetted_area(shape, D, L, level, *, system):
+    return timing.wetted_area(shape, D, L, level)
+
+
+def time_batch(material, m, T_1, T_2, UA, T_source, *, system):
+    mat = _mat(material)
+    solids._check(mat, T_1, "T_1")
+    solids._check(mat, T_2, "T_2")
+    return timing.batch_time(lambda T: solids.c(mat, T), m, T_1, T_2, UA, T_source)
+
+
+def balance_rate(Q_dot, W_dot, *, system):
+    return (Q_dot or 0.0) - (W_dot or 0.0)

@@ -14,7 +14,7 @@ from joulebook.sheet.cells import why as _why
 
 
 
-__all__ = ['JB_STATE', 'JB_PROP', 'JB_PHASE', 'JB_PROP_SAT', 'JB_GAS_CP', 'JB_GAS_CV', 'JB_GAS_K', 'JB_GAS_R', 'JB_GAS_MOLAR_MASS', 'JB_GAS_DELTA_H', 'JB_GAS_DELTA_U', 'JB_GAS_CP_MEAN', 'JB_GAS_DELTA_S', 'JB_SOLID_C', 'JB_SOLID_C_MEAN', 'JB_SOLID_DELTA_U', 'JB_SOLID_HEAT', 'JB_WORK_ISOBARIC', 'JB_WORK_ISOTHERMAL', 'JB_WORK_ISOTHERMAL_MASS', 'JB_WORK_POLYTROPIC', 'JB_WORK_POLYTROPIC_N', 'JB_WORK_LINEAR', 'JB_WORK_PV', 'JB_WORK_PATH', 'JB_WORK_ELECTRIC_IN', 'JB_WORK_SHAFT_IN', 'JB_POLY_EXPONENT', 'JB_POLY_FIT', 'JB_POLY_P2', 'JB_POLY_V2', 'JB_POLY_T2_FROM_V', 'JB_POLY_T2_FROM_P', 'JB_BALANCE_HEAT', 'JB_BALANCE_GAP', 'JB_BALANCE_DELTA_KE', 'JB_BALANCE_DELTA_PE', 'JB_HEAT_ISOBARIC_GAS', 'JB_HEAT_RIGID_GAS', 'JB_PROCESS', 'JB_PROCESS_TABLE', 'JB_PROCESS_PATH', 'JB_CYCLE_NET', 'JB_CYCLE_GAP', 'JB_CYCLE_EFFICIENCY', 'JB_STORED_ISENTROPIC', 'JB_STORED_IDEAL_ISENTROPIC', 'JB_STORED_ISOCHORIC', 'JB_BLOCKED_IN_P2', 'JB_RELIEF_THERMAL_FLOW', 'JB_CONVERT', 'JB_WHY', 'JB_ABOUT']
+__all__ = ['JB_STATE', 'JB_PROP', 'JB_PHASE', 'JB_PROP_SAT', 'JB_GAS_CP', 'JB_GAS_CV', 'JB_GAS_K', 'JB_GAS_R', 'JB_GAS_MOLAR_MASS', 'JB_GAS_DELTA_H', 'JB_GAS_DELTA_U', 'JB_GAS_CP_MEAN', 'JB_GAS_DELTA_S', 'JB_SOLID_C', 'JB_SOLID_C_MEAN', 'JB_SOLID_DELTA_U', 'JB_SOLID_HEAT', 'JB_WORK_ISOBARIC', 'JB_WORK_ISOTHERMAL', 'JB_WORK_ISOTHERMAL_MASS', 'JB_WORK_POLYTROPIC', 'JB_WORK_POLYTROPIC_N', 'JB_WORK_LINEAR', 'JB_WORK_PV', 'JB_WORK_PATH', 'JB_WORK_ELECTRIC_IN', 'JB_WORK_SHAFT_IN', 'JB_POLY_EXPONENT', 'JB_POLY_FIT', 'JB_POLY_P2', 'JB_POLY_V2', 'JB_POLY_T2_FROM_V', 'JB_POLY_T2_FROM_P', 'JB_BALANCE_HEAT', 'JB_BALANCE_GAP', 'JB_BALANCE_DELTA_KE', 'JB_BALANCE_DELTA_PE', 'JB_HEAT_ISOBARIC_GAS', 'JB_HEAT_RIGID_GAS', 'JB_PROCESS', 'JB_PROCESS_TABLE', 'JB_PROCESS_PATH', 'JB_CYCLE_NET', 'JB_CYCLE_GAP', 'JB_CYCLE_EFFICIENCY', 'JB_STORED_ISENTROPIC', 'JB_STORED_IDEAL_ISENTROPIC', 'JB_STORED_ISOCHORIC', 'JB_BLOCKED_IN_P2', 'JB_RELIEF_THERMAL_FLOW', 'JB_TIME_HEATING', 'JB_TIME_HEATING_TABLE', 'JB_FIRE_HEAT', 'JB_WETTED_AREA', 'JB_TIME_FIRE', 'JB_TIME_FIRE_TABLE', 'JB_TIME_BATCH', 'JB_BALANCE_RATE', 'JB_CONVERT', 'JB_WHY', 'JB_ABOUT']
 
 
 @_xw.func(category='joulebook · States and real-fluid properties')
@@ -549,6 +549,109 @@ def JB_BLOCKED_IN_P2(state1, T_2, shape=None, D=None, wall=None, E=None, nu=None
 def JB_RELIEF_THERMAL_FLOW(state, Q_dot, units=None, caller=None):
     'Thermal-relief volume flow of a blocked-in liquid under a heat input: q = β·Q_dot/(ρ·cp) at the relief state (API 521 hydraulic expansion). An estimate: relief sizing is governed by the codes.'
     return _cell('JB_RELIEF_THERMAL_FLOW', state, Q_dot, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Heating with time and fire exposure')
+@_xw.arg('state1', ndim=2, err_to_str=True, doc='initial state text of the contents, from JB_STATE [text]')
+@_xw.arg('V', ndim=2, err_to_str=True, doc="vessel volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('target', ndim=2, err_to_str=True, doc="target with unit: 'P in bar', 'T in degC' or 'x' [text]")
+@_xw.arg('target_value', ndim=2, err_to_str=True, doc='value of the target, in its unit [number or range]')
+@_xw.arg('Q_dot', ndim=2, err_to_str=True, doc="constant heat rate into the contents (optional) (optional) [number or range; power in the units argument's unit (kW by default)]")
+@_xw.arg('UA', ndim=2, err_to_str=True, doc="conductance to a medium at T_source (optional) (optional) [number or range; heat transfer coefficient in the units argument's unit (kW/K by default)]")
+@_xw.arg('T_source', ndim=2, err_to_str=True, doc="temperature of the medium (with UA) (optional) [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_TIME_HEATING(state1, V, target, target_value, Q_dot=None, UA=None, T_source=None, units=None, caller=None):
+    'Time for a rigid vessel (state1, volume V) to reach a target T, P or x under a heat rate Q_dot and/or UA·(T_source − T), integrated on the equation of state.'
+    return _cell('JB_TIME_HEATING', state1, V, target, target_value, Q_dot, UA, T_source, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Heating with time and fire exposure')
+@_xw.arg('state1', ndim=2, err_to_str=True, doc='initial state text of the contents, from JB_STATE [text]')
+@_xw.arg('V', ndim=2, err_to_str=True, doc="vessel volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('target', ndim=2, err_to_str=True, doc="target with unit: 'P in bar', 'T in degC' or 'x' [text]")
+@_xw.arg('target_value', ndim=2, err_to_str=True, doc='value of the target, in its unit [number or range]')
+@_xw.arg('Q_dot', ndim=2, err_to_str=True, doc="constant heat rate into the contents (optional) (optional) [number or range; power in the units argument's unit (kW by default)]")
+@_xw.arg('UA', ndim=2, err_to_str=True, doc="conductance to a medium at T_source (optional) (optional) [number or range; heat transfer coefficient in the units argument's unit (kW/K by default)]")
+@_xw.arg('T_source', ndim=2, err_to_str=True, doc="temperature of the medium (with UA) (optional) [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('points', ndim=2, err_to_str=True, doc='number of rows, 2 to 1000 (default 11) (optional) [number or range]')
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_TIME_HEATING_TABLE(state1, V, target, target_value, Q_dot=None, UA=None, T_source=None, points=None, units=None, caller=None):
+    'The heating of JB_TIME_HEATING as a spilled table of t, T, P, x, Q at points states from state1 to the target.'
+    return _cell('JB_TIME_HEATING_TABLE', state1, V, target, target_value, Q_dot, UA, T_source, points, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Heating with time and fire exposure')
+@_xw.arg('A_wet', ndim=2, err_to_str=True, doc="wetted area (the part the code counts) [number or range; area in the units argument's unit (m2 by default)]")
+@_xw.arg('F', ndim=2, err_to_str=True, doc='environment factor, 0 < F ≤ 1 (1 bare vessel) (optional) [number or range]')
+@_xw.arg('drainage', ndim=2, err_to_str=True, doc='adequate (default) or inadequate (optional) [text]')
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_FIRE_HEAT(A_wet, F=None, drainage=None, units=None, caller=None):
+    'Heat input of a pool fire to a vessel by its wetted area (API 521): Q = C·F·A^0.82, C = 43,200 W/m^1.64 with adequate drainage, 70,900 without. An estimate: fire cases follow the codes.'
+    return _cell('JB_FIRE_HEAT', A_wet, F, drainage, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Heating with time and fire exposure')
+@_xw.arg('shape', ndim=2, err_to_str=True, doc='horizontal or vertical [text]')
+@_xw.arg('D', ndim=2, err_to_str=True, doc="diameter [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('L', ndim=2, err_to_str=True, doc="length between the ends (height when vertical) [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('level', ndim=2, err_to_str=True, doc="liquid level above the bottom [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_WETTED_AREA(shape, D, L, level, units=None, caller=None):
+    'Wetted area of a horizontal or vertical cylindrical vessel (flat ends) up to a liquid level.'
+    return _cell('JB_WETTED_AREA', shape, D, L, level, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Heating with time and fire exposure')
+@_xw.arg('state1', ndim=2, err_to_str=True, doc='initial state text of the contents, from JB_STATE [text]')
+@_xw.arg('shape', ndim=2, err_to_str=True, doc='horizontal or vertical [text]')
+@_xw.arg('D', ndim=2, err_to_str=True, doc="diameter [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('L', ndim=2, err_to_str=True, doc="length between the ends (height when vertical) [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('target', ndim=2, err_to_str=True, doc="target with unit: 'P in bar', 'T in degC' or 'x' [text]")
+@_xw.arg('target_value', ndim=2, err_to_str=True, doc='value of the target, in its unit [number or range]')
+@_xw.arg('F', ndim=2, err_to_str=True, doc='environment factor, 0 < F ≤ 1 (default 1) (optional) [number or range]')
+@_xw.arg('drainage', ndim=2, err_to_str=True, doc='adequate (default) or inadequate (optional) [text]')
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_TIME_FIRE(state1, shape, D, L, target, target_value, F=None, drainage=None, units=None, caller=None):
+    'Time for a fire-exposed cylindrical vessel to reach a target (e.g. its set pressure), the wetted area following the liquid level, on the equation of state. An estimate: fire cases follow the codes.'
+    return _cell('JB_TIME_FIRE', state1, shape, D, L, target, target_value, F, drainage, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Heating with time and fire exposure')
+@_xw.arg('state1', ndim=2, err_to_str=True, doc='initial state text of the contents, from JB_STATE [text]')
+@_xw.arg('shape', ndim=2, err_to_str=True, doc='horizontal or vertical [text]')
+@_xw.arg('D', ndim=2, err_to_str=True, doc="diameter [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('L', ndim=2, err_to_str=True, doc="length between the ends (height when vertical) [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('target', ndim=2, err_to_str=True, doc="target with unit: 'P in bar', 'T in degC' or 'x' [text]")
+@_xw.arg('target_value', ndim=2, err_to_str=True, doc='value of the target, in its unit [number or range]')
+@_xw.arg('F', ndim=2, err_to_str=True, doc='environment factor, 0 < F ≤ 1 (default 1) (optional) [number or range]')
+@_xw.arg('drainage', ndim=2, err_to_str=True, doc='adequate (default) or inadequate (optional) [text]')
+@_xw.arg('points', ndim=2, err_to_str=True, doc='number of rows, 2 to 1000 (default 11) (optional) [number or range]')
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_TIME_FIRE_TABLE(state1, shape, D, L, target, target_value, F=None, drainage=None, points=None, units=None, caller=None):
+    'The fire exposure of JB_TIME_FIRE as a spilled table of t, T, P, x, Q at points states.'
+    return _cell('JB_TIME_FIRE_TABLE', state1, shape, D, L, target, target_value, F, drainage, points, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Heating with time and fire exposure')
+@_xw.arg('material', ndim=2, err_to_str=True, doc='material name (carbon steel, copper, concrete, water …) [text]')
+@_xw.arg('m', ndim=2, err_to_str=True, doc="mass of the batch [number or range; mass in the units argument's unit (kg by default)]")
+@_xw.arg('T_1', ndim=2, err_to_str=True, doc="initial absolute temperature [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('T_2', ndim=2, err_to_str=True, doc="final absolute temperature [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('UA', ndim=2, err_to_str=True, doc="conductance between batch and medium [number or range; heat transfer coefficient in the units argument's unit (kW/K by default)]")
+@_xw.arg('T_source', ndim=2, err_to_str=True, doc="temperature of the medium [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_TIME_BATCH(material, m, T_1, T_2, UA, T_source, units=None, caller=None):
+    'Time to heat or cool a batch of a solid or liquid (c(T) of JB_SOLID_C) from T_1 to T_2 through UA from a medium at T_source: m·∫c dT/(UA·(T_source − T)).'
+    return _cell('JB_TIME_BATCH', material, m, T_1, T_2, UA, T_source, units, caller=caller)
+
+
+@_xw.func(category='joulebook · First law of a closed system')
+@_xw.arg('Q_dot', ndim=2, err_to_str=True, doc="heat rate into the system [number or range; power in the units argument's unit (kW by default)]")
+@_xw.arg('W_dot', ndim=2, err_to_str=True, doc="power delivered by the system (optional) (optional) [number or range; power in the units argument's unit (kW by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_BALANCE_RATE(Q_dot, W_dot=None, units=None, caller=None):
+    'First law per unit time of a closed system: dE/dt = Q_dot − W_dot (heat in, work out).'
+    return _cell('JB_BALANCE_RATE', Q_dot, W_dot, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Units and information')
