@@ -199,3 +199,69 @@ def test_heating_time_bad_input(args, words):
         call("JB_TIME_HEATING", "water | T = 20 degC | P = 1 atm", *args)
     for w in words:
         assert w in str(e.value), str(e.value)
+
+
+def test_pneumatic_test_energy_is_the_ideal_isentropic_energy_of_air():
+    # ASME PCC-2 (from memory): E = 2.5·P·V·[1 − (Pa/P)^0.286] is P·V/(k − 1)·[1 −
+    # (Pa/P)^((k−1)/k)] for k = 1.4 with the exponent rounded; hand: within 0.1 %
+    code = call("JB_TEST_PNEUMATIC_ENERGY", 1200, 2)
+    assert code == pytest.approx(2.5 * 1200 * 2 * (1 - (101.325 / 1200) ** 0.286), rel=1e-12)
+    ideal = call("JB_STORED_IDEAL_ISENTROPIC", 1200, 2, 1.4)
+    assert code == pytest.approx(ideal, rel=1e-3)
+    # gauge written as gauge: 11 barg is 12.01325 bar absolute
+    assert call("JB_TEST_PNEUMATIC_ENERGY", 11, 2, None, "degC-barg-kJ") == pytest.approx(
+        call("JB_TEST_PNEUMATIC_ENERGY", 1201.325, 2), rel=1e-12
+    )
+
+
+def test_hydrostatic_test_stores_far_less_than_pneumatic():
+    # hand: the liquid's expansion work ≈ κ·V·(P1² − P2²)/2 with κ of water at 20 °C from
+    # iapws 1.5.5; the wall adds ½·c·V·ΔP² (thin wall, closed cylinder)
+    from iapws import IAPWS95
+
+    kappa = IAPWS95(T=293.15, P=1.2).kappa / 1e6  # 1/Pa
+    liquid = call("JB_TEST_HYDRO_ENERGY", "water | T = 20 degC | P = 12 bar", 2)
+    check(liquid * 1e3, kappa * 2 * (1.2e6**2 - 101325.0**2) / 2, rtol=2e-2,
+          quantity="E_liquid [J]", conditions="2 m3 water at 12 bar, 20 °C", source=IAPWS)  # fmt: skip
+    c = 1.0 * (5 - 4 * 0.3) / (4 * 0.01 * 200e9)
+    both = call("JB_TEST_HYDRO_ENERGY", "water | T = 20 degC | P = 12 bar", 2, "cylinder", 1,
+                0.01, 200, 0.3, None, "K-kPa-kJ")  # fmt: skip
+    assert both - liquid == pytest.approx(0.5 * c * 2 * (1.2e6 - 101325.0) ** 2 / 1e3, rel=1e-9)
+    assert call("JB_TEST_PNEUMATIC_ENERGY", 1200, 2) > 1000 * both
+
+
+def test_tnt_and_distance():
+    # the conventional basis: 1 kg TNT = 4.184 MJ (NIST SP 811); cube-root scaling (hand)
+    assert call("JB_TEST_TNT", 4184) == pytest.approx(1.0)
+    assert call("JB_TEST_TNT", 4184, 4500) == pytest.approx(4184 / 4500)
+    assert call("JB_TEST_DISTANCE", 8, 10) == pytest.approx(20.0)
+    with pytest.raises(BadInput, match="scaled distance"):
+        call("JB_TEST_DISTANCE", 8, 0)
+
+
+def test_slider_crank_volume_power_and_mep():
+    # hand (Heywood §2.2): at 90° the piston has moved a + l − √(l² − a²) from TDC
+    B, S, l, Vc = 0.1, 0.1, 0.2, 1e-4
+    a = S / 2
+    want = Vc + math.pi * B**2 / 4 * (l + a - math.sqrt(l * l - a * a))
+    assert call("JB_ENGINE_VOLUME", 90, B, S, l, Vc) == pytest.approx(want, rel=1e-12)
+    assert call("JB_ENGINE_VOLUME", 180, B, S, l, Vc) == pytest.approx(Vc + math.pi * B**2 / 4 * S)
+    # hand: 0.5 kJ per cycle, 3000 rev/min, 4 cylinders, four-stroke: 0.5·50·4/2 = 50 kW
+    assert call("JB_ENGINE_POWER", 0.5, 3000, 4, 2) == pytest.approx(50.0)
+    assert call("JB_ENGINE_MEP", 0.5, 0.0005) == pytest.approx(1000.0)  # kPa
+    with pytest.raises(BadInput, match="longer than the crank"):
+        call("JB_ENGINE_VOLUME", 90, B, S, 0.04, Vc)
+
+
+def test_compressor_volumetric_efficiency_and_branch_fits():
+    # hand: 1 + 0.05 − 0.05·4^(1/1.3)
+    assert call("JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY", 0.05, 100, 400, 1.3) == pytest.approx(
+        1.05 - 0.05 * 4 ** (1 / 1.3), rel=1e-12
+    )
+    # a loop made of two exact polytropes: compression n = 1.3, expansion n = 1.15 (hand)
+    Vc = [0.5, 0.4, 0.3, 0.2, 0.1]
+    Ve = [0.1, 0.15, 0.25, 0.35, 0.5]
+    P = [100 * (0.5 / v) ** 1.3 for v in Vc] + [2000 * (0.1 / v) ** 1.15 for v in Ve]
+    n = call("JB_POLY_FIT_BRANCHES", [[p] for p in P], [[v] for v in Vc + Ve])
+    assert n[0][0] == pytest.approx(1.3, rel=1e-9)
+    assert n[0][1] == pytest.approx(1.15, rel=1e-9)

@@ -92,6 +92,19 @@ failed:
     JB_BLOCKED_IN_P2 = Err.Description
 End Function
 
+Function JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY(clearance, P_suction, P_discharge, n, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY", Array(clearance, P_suction, P_discharge, n, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY", Array(clearance, P_suction, P_discharge, n, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY = Err.Description
+End Function
+
 Function JB_CONVERT(value, from_unit, to_unit)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
@@ -142,6 +155,45 @@ Function JB_CYCLE_NET(values, Optional units)
     #End If
 failed:
     JB_CYCLE_NET = Err.Description
+End Function
+
+Function JB_ENGINE_MEP(W_cycle, V_d, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_ENGINE_MEP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_ENGINE_MEP", Array(W_cycle, V_d, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_ENGINE_MEP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_ENGINE_MEP", Array(W_cycle, V_d, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_ENGINE_MEP = Err.Description
+End Function
+
+Function JB_ENGINE_POWER(W_cycle, speed, cylinders, revs_per_cycle, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_ENGINE_POWER = XLPy.CallUDF("joulebook.sheet.udfs", "JB_ENGINE_POWER", Array(W_cycle, speed, cylinders, revs_per_cycle, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_ENGINE_POWER = XLPy.CallUDF("joulebook.sheet.udfs", "JB_ENGINE_POWER", Array(W_cycle, speed, cylinders, revs_per_cycle, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_ENGINE_POWER = Err.Description
+End Function
+
+Function JB_ENGINE_VOLUME(crank_angle, bore, stroke, rod, V_c, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_ENGINE_VOLUME = XLPy.CallUDF("joulebook.sheet.udfs", "JB_ENGINE_VOLUME", Array(crank_angle, bore, stroke, rod, V_c, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_ENGINE_VOLUME = XLPy.CallUDF("joulebook.sheet.udfs", "JB_ENGINE_VOLUME", Array(crank_angle, bore, stroke, rod, V_c, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_ENGINE_VOLUME = Err.Description
 End Function
 
 Function JB_FIRE_HEAT(A_wet, Optional F, Optional drainage, Optional units)
@@ -337,6 +389,19 @@ Function JB_POLY_FIT(P_values, V_values, Optional show, Optional units)
     #End If
 failed:
     JB_POLY_FIT = Err.Description
+End Function
+
+Function JB_POLY_FIT_BRANCHES(P_values, V_values, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_POLY_FIT_BRANCHES = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_FIT_BRANCHES", Array(P_values, V_values, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_POLY_FIT_BRANCHES = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_FIT_BRANCHES", Array(P_values, V_values, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_POLY_FIT_BRANCHES = Err.Description
 End Function
 
 Function JB_POLY_P2(P_1, V_1, V_2, n, Optional units)
@@ -577,6 +642,58 @@ Function JB_STORED_ISOCHORIC(P, V, k, Optional P_amb, Optional units)
     #End If
 failed:
     JB_STORED_ISOCHORIC = Err.Description
+End Function
+
+Function JB_TEST_DISTANCE(W_TNT, Z, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_TEST_DISTANCE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TEST_DISTANCE", Array(W_TNT, Z, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_TEST_DISTANCE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TEST_DISTANCE", Array(W_TNT, Z, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_TEST_DISTANCE = Err.Description
+End Function
+
+Function JB_TEST_HYDRO_ENERGY(state, V, Optional shape, Optional D, Optional wall, Optional E, Optional nu, Optional P_amb, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_TEST_HYDRO_ENERGY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TEST_HYDRO_ENERGY", Array(state, V, shape, D, wall, E, nu, P_amb, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_TEST_HYDRO_ENERGY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TEST_HYDRO_ENERGY", Array(state, V, shape, D, wall, E, nu, P_amb, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_TEST_HYDRO_ENERGY = Err.Description
+End Function
+
+Function JB_TEST_PNEUMATIC_ENERGY(P_test, V, Optional P_amb, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_TEST_PNEUMATIC_ENERGY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TEST_PNEUMATIC_ENERGY", Array(P_test, V, P_amb, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_TEST_PNEUMATIC_ENERGY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TEST_PNEUMATIC_ENERGY", Array(P_test, V, P_amb, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_TEST_PNEUMATIC_ENERGY = Err.Description
+End Function
+
+Function JB_TEST_TNT(E, Optional basis, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_TEST_TNT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TEST_TNT", Array(E, basis, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_TEST_TNT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TEST_TNT", Array(E, basis, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_TEST_TNT = Err.Description
 End Function
 
 Function JB_TIME_BATCH(material, m, T_1, T_2, UA, T_source, Optional units)

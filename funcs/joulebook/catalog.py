@@ -100,6 +100,8 @@ FAMILIES = {
     "stored": "Stored expansion energy",
     "blocked": "Blocked-in liquid and thermal relief",
     "time": "Heating with time and fire exposure",
+    "test": "Pressure tests",
+    "engine": "Indicator diagrams, engines and compressors",
     "util": "Units and information",
 }
 
@@ -188,6 +190,16 @@ _REF_FIRE = (
 _REF_TIME = (
     "first law per unit time of a rigid closed system, m·du/dt = Q_dot(state), separated and "
     "integrated by Gauss–Legendre quadrature on the equation of state (common practice)"
+)
+_REF_PCC2 = (
+    "ASME PCC-2, Article 501 (pressure testing), stored-energy appendix (from memory): "
+    "E = 2.5·P·V·[1 − (P_amb/P)^0.286]"
+)
+_REF_TNT = "ton of TNT = 4.184e9 J by convention (NIST SP 811, Appendix B)"
+_REF_SCALING = "Kinney & Graham, Explosive Shocks in Air, 2nd ed. (1985), ch. 5: cube-root scaling"
+_REF_HEYWOOD = (
+    "Heywood, Internal Combustion Engine Fundamentals (1988), §2.2–2.4: slider-crank volume, "
+    "indicated work and power, mean effective pressure"
 )
 _REF_COOLPROP = "Bell, Wronski, Quoilin, Lemort, Ind. Eng. Chem. Res. 53 (2014) 2498 (CoolProp)"
 _REF_IAPWS = (
@@ -1225,6 +1237,186 @@ CATALOG: tuple[Func, ...] = (
         "dE/dt = Q_dot − W_dot",
         (_REF_FIRSTLAW,),
         Example((12, 5), 7.0),
+    ),
+    # ------------------------------------------------------------------ pressure tests
+    Func(
+        "JB_TEST_PNEUMATIC_ENERGY",
+        "test",
+        "Stored energy of a pneumatic test by the common code formula, E = 2.5·P·V·[1 − "
+        "(P_amb/P)^0.286] (P absolute). An estimate: pressure tests are governed by the codes.",
+        (
+            Arg(
+                "P_test", "absolute test pressure (write psig/barg for gauge)", quantity="pressure"
+            ),
+            Arg("V", "volume under test", quantity="volume"),
+            _PAMB,
+        ),
+        "energy",
+        "pneumatic_test_energy",
+        "E = 2.5·P·V·[1 − (P_amb/P)^0.286]",
+        (_REF_PCC2,),
+        Example((1200, 2), 3041.0313412154287, 1e-9),
+        caution=True,
+    ),
+    Func(
+        "JB_TEST_HYDRO_ENERGY",
+        "test",
+        "Stored energy of a hydrostatic test: the liquid's isentropic expansion on its equation "
+        "of state plus the stretched wall's elastic energy (cylinder or sphere). An estimate: "
+        "tests are governed by the codes.",
+        (
+            Arg("state", "liquid state text at the test pressure, from JB_STATE", type="text"),
+            Arg("V", "volume under test", quantity="volume"),
+            Arg(
+                "shape",
+                "rigid (default, liquid only), cylinder or sphere",
+                type="text",
+                optional=True,
+            ),
+            Arg("D", "mean diameter of the wall", quantity="length", optional=True),
+            Arg("wall", "wall thickness", quantity="length", optional=True),
+            Arg("E", "Young's modulus of the wall", quantity="modulus", optional=True),
+            Arg("nu", "Poisson's ratio of the wall", optional=True),
+            _PAMB,
+        ),
+        "energy",
+        "hydro_test_energy",
+        "E = m·(u1 − u2s) + ½·c·V·(P − P_amb)²",
+        (_REF_COOLPROP, _REF_IAPWS, _REF_THIN_WALL),
+        Example(("water | T = 20 degC | P = 12 bar", 2), 0.6507293801249098, 1e-6),
+        caution=True,
+    ),
+    Func(
+        "JB_TEST_TNT",
+        "test",
+        "TNT equivalent of a stored energy, W = E/e_TNT, on the conventional basis e_TNT = "
+        "4.184 MJ/kg unless another basis is given.",
+        (
+            Arg("E", "stored energy", quantity="energy"),
+            Arg(
+                "basis",
+                "energy per mass of TNT (default 4.184 MJ/kg)",
+                quantity="specific_energy",
+                optional=True,
+            ),
+        ),
+        "mass",
+        "tnt_equivalent",
+        "W = E/e_TNT",
+        (_REF_TNT,),
+        Example((4184,), 1.0, 1e-12),
+        caution=True,
+    ),
+    Func(
+        "JB_TEST_DISTANCE",
+        "test",
+        "Distance by cube-root (Hopkinson–Cranz) scaling, R = Z·W^(1/3), with the scaled distance "
+        "Z your code sets for the overpressure it limits. Exclusion zones follow the codes.",
+        (
+            Arg("W_TNT", "TNT-equivalent mass", quantity="mass"),
+            Arg("Z", "scaled distance from the applicable code, m/kg^(1/3)"),
+        ),
+        "length",
+        "blast_distance",
+        "R = Z·W^(1/3)",
+        (_REF_SCALING,),
+        Example((8, 10), 20.0, 1e-12),
+        caution=True,
+    ),
+    # ------------------------------------------------------------------ engines
+    Func(
+        "JB_ENGINE_VOLUME",
+        "engine",
+        "Cylinder volume at a crank angle (degrees from top dead centre) of a slider-crank: "
+        "V = V_c + π·B²/4·(l + a − a·cos θ − √(l² − a²·sin²θ)), a = S/2.",
+        (
+            Arg("crank_angle", "crank angle in degrees from top dead centre"),
+            Arg("bore", "cylinder bore", quantity="length"),
+            Arg("stroke", "piston stroke", quantity="length"),
+            Arg("rod", "connecting-rod length (centre to centre)", quantity="length"),
+            Arg("V_c", "clearance volume", quantity="volume"),
+        ),
+        "volume",
+        "engine_volume",
+        "V = V_c + π·B²/4·(l + a − a·cos θ − √(l² − a²·sin²θ))",
+        (_REF_HEYWOOD,),
+        Example((90, 0.1, 0.1, 0.2, 0.0001), 0.0005425784050035163, 1e-12),
+    ),
+    Func(
+        "JB_ENGINE_POWER",
+        "engine",
+        "Indicated power from the net work of one cycle of one cylinder: W·N·z/n_R (N in rev/min, "
+        "n_R = 2 four-stroke, 1 two-stroke or compressor).",
+        (
+            Arg("W_cycle", "net work of one cycle of one cylinder (∮P dV)", quantity="energy"),
+            Arg("speed", "shaft speed in rev/min"),
+            Arg("cylinders", "number of cylinders"),
+            Arg("revs_per_cycle", "2 four-stroke, 1 two-stroke or compressor"),
+        ),
+        "power",
+        "engine_power",
+        "P_i = W_cycle·(N/60)·z/n_R",
+        (_REF_HEYWOOD,),
+        Example((0.5, 3000, 4, 2), 50.0, 1e-12),
+    ),
+    Func(
+        "JB_ENGINE_MEP",
+        "engine",
+        "Mean effective pressure of a cycle: MEP = W_cycle/V_d (V_d the swept volume).",
+        (
+            Arg("W_cycle", "net work of one cycle of one cylinder", quantity="energy"),
+            Arg("V_d", "swept volume π·B²/4·S", quantity="volume"),
+        ),
+        "pressure",
+        "engine_mep",
+        "MEP = W_cycle/V_d",
+        (_REF_HEYWOOD,),
+        Example((0.5, 0.0005), 1000.0, 1e-12),
+    ),
+    Func(
+        "JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY",
+        "engine",
+        "Clearance volumetric efficiency of a reciprocating compressor: 1 + c − c·(P_d/P_s)^(1/n), "
+        "c = V_c/V_d.",
+        (
+            Arg("clearance", "clearance ratio V_c/V_d, 0 to 1"),
+            Arg("P_suction", "absolute suction pressure", quantity="pressure"),
+            Arg("P_discharge", "absolute discharge pressure", quantity="pressure"),
+            Arg("n", "polytropic exponent of the re-expansion, 1 to 1.7"),
+        ),
+        "number",
+        "compressor_efficiency",
+        "η_v = 1 + c − c·(P_d/P_s)^(1/n)",
+        ("reciprocating-compressor clearance re-expansion (common practice)",),
+        Example((0.05, 100, 400, 1.3), 0.9047577143885676, 1e-12),
+    ),
+    Func(
+        "JB_POLY_FIT_BRANCHES",
+        "engine",
+        "Polytropic exponents of the compression and the expansion branch of a measured closed "
+        "loop, fitted apart: a row (n compression, n expansion).",
+        (
+            Arg(
+                "P_values",
+                "absolute pressures around the loop, in order",
+                type="range",
+                quantity="pressure",
+            ),
+            Arg("V_values", "volumes in the same order", type="range", quantity="volume"),
+        ),
+        "number",
+        "poly_fit_branches",
+        "ln P = ln C − n·ln V on each branch between the largest and smallest volume",
+        (_REF_WORK, _REF_HEYWOOD),
+        Example(
+            (
+                [[100], [180], [330], [700], [500], [280], [160], [110]],
+                [[0.5], [0.33], [0.2], [0.1], [0.13], [0.22], [0.36], [0.48]],
+            ),
+            [[1.2009119087686027, 1.1814538008646367]],
+            1e-6,
+        ),
+        elementwise=False,
     ),
     # ------------------------------------------------------------------ utilities
     Func(

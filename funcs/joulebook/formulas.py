@@ -17,7 +17,17 @@ import numpy as np
 from . import __version__, firstlaw, states
 from .errors import BadInput, JoulebookError, OutOfRange, message_in
 from .media import medium
-from .processes import blockedin, cycles, polytropic, solve, stored, timing, work
+from .processes import (
+    blockedin,
+    cycles,
+    engines,
+    polytropic,
+    pressuretests,
+    solve,
+    stored,
+    timing,
+    work,
+)
 from .substances import fluids, gases, solids
 from .units import UnitSystem, convert, parse_phrase, parse_unit
 
@@ -750,3 +760,59 @@ def time_batch(material, m, T_1, T_2, UA, T_source, *, system):
 
 def balance_rate(Q_dot, W_dot, *, system):
     return (Q_dot or 0.0) - (W_dot or 0.0)
+
+
+# ---------------------------------------------------------------------------------------
+# pressure tests
+
+
+def pneumatic_test_energy(P_test, V, P_amb, *, system):
+    return pressuretests.pneumatic_energy(P_test, V, P_amb or stored.STANDARD_ATMOSPHERE)
+
+
+def hydro_test_energy(state, V, shape, D, wall, E, nu, P_amb, *, system):
+    med, p1, shows = _liquid_state(state, "state")
+    if p1.x is not None or "liquid" not in p1.phase:
+        raise BadInput(f"state is {p1.phase}: a hydrostatic test holds liquid")
+    P_amb = P_amb or stored.STANDARD_ATMOSPHERE
+    liquid = stored.isentropic(med, p1, V, P_amb, shows)
+    word = "rigid" if shape is None else str(shape).strip().lower()
+    if word == "rigid":
+        return liquid
+    missing = [n for n, v in (("D", D), ("wall", wall), ("E", E), ("nu", nu)) if v is None]
+    if missing:
+        raise BadInput(f"shape {word} needs {', '.join(missing)} (the wall's data)")
+    c = blockedin.compliance(word, D, wall, E, nu)
+    return liquid + pressuretests.container_energy(c, V, p1.P - P_amb)
+
+
+def tnt_equivalent(E, basis, *, system):
+    return pressuretests.tnt_equivalent(E, pressuretests.E_TNT if basis is None else basis)
+
+
+def blast_distance(W_TNT, Z, *, system):
+    return pressuretests.scaled_distance(W_TNT, Z)
+
+
+# ---------------------------------------------------------------------------------------
+# engines and compressors
+
+
+def engine_volume(crank_angle, bore, stroke, rod, V_c, *, system):
+    return engines.volume(crank_angle, bore, stroke, rod, V_c)
+
+
+def engine_power(W_cycle, speed, cylinders, revs_per_cycle, *, system):
+    return engines.indicated_power(W_cycle, speed / 60.0, cylinders, revs_per_cycle)
+
+
+def engine_mep(W_cycle, V_d, *, system):
+    return engines.mep(W_cycle, V_d)
+
+
+def compressor_efficiency(clearance, P_suction, P_discharge, n, *, system):
+    return engines.volumetric_efficiency(clearance, P_suction, P_discharge, n)
+
+
+def poly_fit_branches(P_values, V_values, *, system):
+    return [list(engines.branch_fits(P_values, V_values))]

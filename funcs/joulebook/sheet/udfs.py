@@ -14,7 +14,7 @@ from joulebook.sheet.cells import why as _why
 
 
 
-__all__ = ['JB_STATE', 'JB_PROP', 'JB_PHASE', 'JB_PROP_SAT', 'JB_GAS_CP', 'JB_GAS_CV', 'JB_GAS_K', 'JB_GAS_R', 'JB_GAS_MOLAR_MASS', 'JB_GAS_DELTA_H', 'JB_GAS_DELTA_U', 'JB_GAS_CP_MEAN', 'JB_GAS_DELTA_S', 'JB_SOLID_C', 'JB_SOLID_C_MEAN', 'JB_SOLID_DELTA_U', 'JB_SOLID_HEAT', 'JB_WORK_ISOBARIC', 'JB_WORK_ISOTHERMAL', 'JB_WORK_ISOTHERMAL_MASS', 'JB_WORK_POLYTROPIC', 'JB_WORK_POLYTROPIC_N', 'JB_WORK_LINEAR', 'JB_WORK_PV', 'JB_WORK_PATH', 'JB_WORK_ELECTRIC_IN', 'JB_WORK_SHAFT_IN', 'JB_POLY_EXPONENT', 'JB_POLY_FIT', 'JB_POLY_P2', 'JB_POLY_V2', 'JB_POLY_T2_FROM_V', 'JB_POLY_T2_FROM_P', 'JB_BALANCE_HEAT', 'JB_BALANCE_GAP', 'JB_BALANCE_DELTA_KE', 'JB_BALANCE_DELTA_PE', 'JB_HEAT_ISOBARIC_GAS', 'JB_HEAT_RIGID_GAS', 'JB_PROCESS', 'JB_PROCESS_TABLE', 'JB_PROCESS_PATH', 'JB_CYCLE_NET', 'JB_CYCLE_GAP', 'JB_CYCLE_EFFICIENCY', 'JB_STORED_ISENTROPIC', 'JB_STORED_IDEAL_ISENTROPIC', 'JB_STORED_ISOCHORIC', 'JB_BLOCKED_IN_P2', 'JB_RELIEF_THERMAL_FLOW', 'JB_TIME_HEATING', 'JB_TIME_HEATING_TABLE', 'JB_FIRE_HEAT', 'JB_WETTED_AREA', 'JB_TIME_FIRE', 'JB_TIME_FIRE_TABLE', 'JB_TIME_BATCH', 'JB_BALANCE_RATE', 'JB_CONVERT', 'JB_WHY', 'JB_ABOUT']
+__all__ = ['JB_STATE', 'JB_PROP', 'JB_PHASE', 'JB_PROP_SAT', 'JB_GAS_CP', 'JB_GAS_CV', 'JB_GAS_K', 'JB_GAS_R', 'JB_GAS_MOLAR_MASS', 'JB_GAS_DELTA_H', 'JB_GAS_DELTA_U', 'JB_GAS_CP_MEAN', 'JB_GAS_DELTA_S', 'JB_SOLID_C', 'JB_SOLID_C_MEAN', 'JB_SOLID_DELTA_U', 'JB_SOLID_HEAT', 'JB_WORK_ISOBARIC', 'JB_WORK_ISOTHERMAL', 'JB_WORK_ISOTHERMAL_MASS', 'JB_WORK_POLYTROPIC', 'JB_WORK_POLYTROPIC_N', 'JB_WORK_LINEAR', 'JB_WORK_PV', 'JB_WORK_PATH', 'JB_WORK_ELECTRIC_IN', 'JB_WORK_SHAFT_IN', 'JB_POLY_EXPONENT', 'JB_POLY_FIT', 'JB_POLY_P2', 'JB_POLY_V2', 'JB_POLY_T2_FROM_V', 'JB_POLY_T2_FROM_P', 'JB_BALANCE_HEAT', 'JB_BALANCE_GAP', 'JB_BALANCE_DELTA_KE', 'JB_BALANCE_DELTA_PE', 'JB_HEAT_ISOBARIC_GAS', 'JB_HEAT_RIGID_GAS', 'JB_PROCESS', 'JB_PROCESS_TABLE', 'JB_PROCESS_PATH', 'JB_CYCLE_NET', 'JB_CYCLE_GAP', 'JB_CYCLE_EFFICIENCY', 'JB_STORED_ISENTROPIC', 'JB_STORED_IDEAL_ISENTROPIC', 'JB_STORED_ISOCHORIC', 'JB_BLOCKED_IN_P2', 'JB_RELIEF_THERMAL_FLOW', 'JB_TIME_HEATING', 'JB_TIME_HEATING_TABLE', 'JB_FIRE_HEAT', 'JB_WETTED_AREA', 'JB_TIME_FIRE', 'JB_TIME_FIRE_TABLE', 'JB_TIME_BATCH', 'JB_BALANCE_RATE', 'JB_TEST_PNEUMATIC_ENERGY', 'JB_TEST_HYDRO_ENERGY', 'JB_TEST_TNT', 'JB_TEST_DISTANCE', 'JB_ENGINE_VOLUME', 'JB_ENGINE_POWER', 'JB_ENGINE_MEP', 'JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY', 'JB_POLY_FIT_BRANCHES', 'JB_CONVERT', 'JB_WHY', 'JB_ABOUT']
 
 
 @_xw.func(category='joulebook · States and real-fluid properties')
@@ -652,6 +652,101 @@ def JB_TIME_BATCH(material, m, T_1, T_2, UA, T_source, units=None, caller=None):
 def JB_BALANCE_RATE(Q_dot, W_dot=None, units=None, caller=None):
     'First law per unit time of a closed system: dE/dt = Q_dot − W_dot (heat in, work out).'
     return _cell('JB_BALANCE_RATE', Q_dot, W_dot, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Pressure tests')
+@_xw.arg('P_test', ndim=2, err_to_str=True, doc="absolute test pressure (write psig/barg for gauge) [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('V', ndim=2, err_to_str=True, doc="volume under test [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('P_amb', ndim=2, err_to_str=True, doc="absolute ambient pressure (default 101.325 kPa) (optional) [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_TEST_PNEUMATIC_ENERGY(P_test, V, P_amb=None, units=None, caller=None):
+    'Stored energy of a pneumatic test by the common code formula, E = 2.5·P·V·[1 − (P_amb/P)^0.286] (P absolute). An estimate: pressure tests are governed by the codes.'
+    return _cell('JB_TEST_PNEUMATIC_ENERGY', P_test, V, P_amb, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Pressure tests')
+@_xw.arg('state', ndim=2, err_to_str=True, doc='liquid state text at the test pressure, from JB_STATE [text]')
+@_xw.arg('V', ndim=2, err_to_str=True, doc="volume under test [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('shape', ndim=2, err_to_str=True, doc='rigid (default, liquid only), cylinder or sphere (optional) [text]')
+@_xw.arg('D', ndim=2, err_to_str=True, doc="mean diameter of the wall (optional) [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('wall', ndim=2, err_to_str=True, doc="wall thickness (optional) [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('E', ndim=2, err_to_str=True, doc="Young's modulus of the wall (optional) [number or range; modulus in the units argument's unit (GPa by default)]")
+@_xw.arg('nu', ndim=2, err_to_str=True, doc="Poisson's ratio of the wall (optional) [number or range]")
+@_xw.arg('P_amb', ndim=2, err_to_str=True, doc="absolute ambient pressure (default 101.325 kPa) (optional) [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_TEST_HYDRO_ENERGY(state, V, shape=None, D=None, wall=None, E=None, nu=None, P_amb=None, units=None, caller=None):
+    "Stored energy of a hydrostatic test: the liquid's isentropic expansion on its equation of state plus the stretched wall's elastic energy (cylinder or sphere). An estimate: tests are governed by the codes."
+    return _cell('JB_TEST_HYDRO_ENERGY', state, V, shape, D, wall, E, nu, P_amb, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Pressure tests')
+@_xw.arg('E', ndim=2, err_to_str=True, doc="stored energy [number or range; energy in the units argument's unit (kJ by default)]")
+@_xw.arg('basis', ndim=2, err_to_str=True, doc="energy per mass of TNT (default 4.184 MJ/kg) (optional) [number or range; specific energy in the units argument's unit (kJ/kg by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_TEST_TNT(E, basis=None, units=None, caller=None):
+    'TNT equivalent of a stored energy, W = E/e_TNT, on the conventional basis e_TNT = 4.184 MJ/kg unless another basis is given.'
+    return _cell('JB_TEST_TNT', E, basis, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Pressure tests')
+@_xw.arg('W_TNT', ndim=2, err_to_str=True, doc="TNT-equivalent mass [number or range; mass in the units argument's unit (kg by default)]")
+@_xw.arg('Z', ndim=2, err_to_str=True, doc='scaled distance from the applicable code, m/kg^(1/3) [number or range]')
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_TEST_DISTANCE(W_TNT, Z, units=None, caller=None):
+    'Distance by cube-root (Hopkinson–Cranz) scaling, R = Z·W^(1/3), with the scaled distance Z your code sets for the overpressure it limits. Exclusion zones follow the codes.'
+    return _cell('JB_TEST_DISTANCE', W_TNT, Z, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Indicator diagrams, engines and compressors')
+@_xw.arg('crank_angle', ndim=2, err_to_str=True, doc='crank angle in degrees from top dead centre [number or range]')
+@_xw.arg('bore', ndim=2, err_to_str=True, doc="cylinder bore [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('stroke', ndim=2, err_to_str=True, doc="piston stroke [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('rod', ndim=2, err_to_str=True, doc="connecting-rod length (centre to centre) [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('V_c', ndim=2, err_to_str=True, doc="clearance volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_ENGINE_VOLUME(crank_angle, bore, stroke, rod, V_c, units=None, caller=None):
+    'Cylinder volume at a crank angle (degrees from top dead centre) of a slider-crank: V = V_c + π·B²/4·(l + a − a·cos θ − √(l² − a²·sin²θ)), a = S/2.'
+    return _cell('JB_ENGINE_VOLUME', crank_angle, bore, stroke, rod, V_c, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Indicator diagrams, engines and compressors')
+@_xw.arg('W_cycle', ndim=2, err_to_str=True, doc="net work of one cycle of one cylinder (∮P dV) [number or range; energy in the units argument's unit (kJ by default)]")
+@_xw.arg('speed', ndim=2, err_to_str=True, doc='shaft speed in rev/min [number or range]')
+@_xw.arg('cylinders', ndim=2, err_to_str=True, doc='number of cylinders [number or range]')
+@_xw.arg('revs_per_cycle', ndim=2, err_to_str=True, doc='2 four-stroke, 1 two-stroke or compressor [number or range]')
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_ENGINE_POWER(W_cycle, speed, cylinders, revs_per_cycle, units=None, caller=None):
+    'Indicated power from the net work of one cycle of one cylinder: W·N·z/n_R (N in rev/min, n_R = 2 four-stroke, 1 two-stroke or compressor).'
+    return _cell('JB_ENGINE_POWER', W_cycle, speed, cylinders, revs_per_cycle, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Indicator diagrams, engines and compressors')
+@_xw.arg('W_cycle', ndim=2, err_to_str=True, doc="net work of one cycle of one cylinder [number or range; energy in the units argument's unit (kJ by default)]")
+@_xw.arg('V_d', ndim=2, err_to_str=True, doc="swept volume π·B²/4·S [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_ENGINE_MEP(W_cycle, V_d, units=None, caller=None):
+    'Mean effective pressure of a cycle: MEP = W_cycle/V_d (V_d the swept volume).'
+    return _cell('JB_ENGINE_MEP', W_cycle, V_d, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Indicator diagrams, engines and compressors')
+@_xw.arg('clearance', ndim=2, err_to_str=True, doc='clearance ratio V_c/V_d, 0 to 1 [number or range]')
+@_xw.arg('P_suction', ndim=2, err_to_str=True, doc="absolute suction pressure [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('P_discharge', ndim=2, err_to_str=True, doc="absolute discharge pressure [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('n', ndim=2, err_to_str=True, doc='polytropic exponent of the re-expansion, 1 to 1.7 [number or range]')
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY(clearance, P_suction, P_discharge, n, units=None, caller=None):
+    'Clearance volumetric efficiency of a reciprocating compressor: 1 + c − c·(P_d/P_s)^(1/n), c = V_c/V_d.'
+    return _cell('JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY', clearance, P_suction, P_discharge, n, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Indicator diagrams, engines and compressors')
+@_xw.arg('P_values', ndim=2, err_to_str=True, doc="absolute pressures around the loop, in order [range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('V_values', ndim=2, err_to_str=True, doc="volumes in the same order [range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_POLY_FIT_BRANCHES(P_values, V_values, units=None, caller=None):
+    'Polytropic exponents of the compression and the expansion branch of a measured closed loop, fitted apart: a row (n compression, n expansion).'
+    return _cell('JB_POLY_FIT_BRANCHES', P_values, V_values, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Units and information')

@@ -1,0 +1,143 @@
+"""Indicator diagrams of engines and reciprocating compressors.
+
+**Cylinder volume from the crank angle** (slider-crank) [1]_: with bore B, stroke S (crank
+radius a = S/2), connecting-rod length l and clearance volume V_c,
+
+    V(θ) = V_c + (π·B²/4)·(l + a − a·cos θ − √(l² − a²·sin² θ)),
+
+θ = 0 at top dead centre.
+
+**Indicated power**: P_i = W_cycle·N·z / n_R, with W_cycle the net work of one cycle of one
+cylinder (∮P dV), N the shaft speed (rev/s), z the number of cylinders and n_R the
+revolutions per cycle (2 for a four-stroke engine, 1 for a two-stroke engine or a
+reciprocating compressor).  **Mean effective pressure**: MEP = W_cycle/V_d, V_d the swept
+volume π·B²/4·S.
+
+**Clearance volumetric efficiency** of a reciprocating compressor [2]_:
+η_v = 1 + c − c·(P_d/P_s)^(1/n), c = V_c/V_d, n the polytropic exponent of the re-expansion.
+
+**Separate polytropic fits** of a measured closed loop: the compression branch (volume
+falling from its largest to its smallest value) and the expansion branch (rising back) are
+fitted in ln P – ln V apart, since their exponents differ (heat transfer, leakage).
+
+References
+----------
+.. [1] J. B. Heywood, *Internal Combustion Engine Fundamentals*, McGraw-Hill, 1988, §2.2
+   (cylinder volume, eq. 2.4 and 2.5) and §2.4 (indicated work, mean effective pressure).
+.. [2] Reciprocating-compressor volumetric efficiency from the clearance re-expansion
+   (common practice; textbooks of compressor engineering).
+"""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+
+from ..errors import BadInput, OutOfRange, fmt_value
+from .polytropic import fit
+
+__all__ = ["volume", "indicated_power", "mep", "volumetric_efficiency", "branch_fits"]
+
+
+def volume(theta_deg: float, bore: float, stroke: float, rod: float, V_c: float) -> float:
+    """V(θ) of the slider-crank (m³); θ in degrees from top dead centre.
+
+    Examples
+    --------
+    >>> B, S = 0.1, 0.1
+    >>> Vd = math.pi * B**2 / 4 * S
+    >>> round((volume(180, B, S, 0.2, 1e-4) - volume(0, B, S, 0.2, 1e-4)) / Vd, 12)
+    1.0
+    """
+    for name, v in (("bore", bore), ("stroke", stroke), ("rod", rod)):
+        if not v > 0:
+            raise BadInput(f"{name} = {fmt_value(v)} m must be above 0")
+    if not rod > stroke / 2:
+        raise BadInput(
+            f"rod = {fmt_value(rod)} m: the connecting rod must be longer than the crank "
+            f"radius {fmt_value(stroke / 2)} m"
+        )
+    if not V_c >= 0:
+        raise BadInput(f"V_c = {fmt_value(V_c)} m3: the clearance volume must not be negative")
+    if not math.isfinite(theta_deg):
+        raise BadInput("crank_angle is not a finite number")
+    a, th = stroke / 2, math.radians(theta_deg)
+    return V_c + math.pi * bore**2 / 4 * (
+        rod + a - a * math.cos(th) - math.sqrt(rod * rod - (a * math.sin(th)) ** 2)
+    )
+
+
+def indicated_power(W_cycle: float, speed: float, cylinders: float, revs_per_cycle: float) -> float:
+    """P_i = W_cycle·N·z/n_R (W); W_cycle (J), N (rev/s).
+
+    Examples
+    --------
+    >>> indicated_power(500.0, 50.0, 4, 2)
+    50000.0
+    """
+    if not speed > 0:
+        raise BadInput(f"speed = {fmt_value(speed)} rev/s must be above 0")
+    if not (cylinders >= 1 and float(cylinders).is_integer()):
+        raise BadInput(f"cylinders = {fmt_value(cylinders)}: a whole number, 1 or more")
+    if revs_per_cycle not in (1, 2):
+        raise BadInput(
+            f"revs_per_cycle = {fmt_value(revs_per_cycle)}: 2 for a four-stroke engine, 1 for a "
+            "two-stroke engine or a compressor"
+        )
+    return W_cycle * speed * cylinders / revs_per_cycle
+
+
+def mep(W_cycle: float, V_d: float) -> float:
+    """MEP = W_cycle/V_d (Pa)."""
+    if not V_d > 0:
+        raise BadInput(f"V_d = {fmt_value(V_d)} m3: the swept volume must be above 0")
+    return W_cycle / V_d
+
+
+def volumetric_efficiency(c: float, P_s: float, P_d: float, n: float) -> float:
+    """η_v = 1 + c − c·(P_d/P_s)^(1/n).
+
+    Examples
+    --------
+    >>> round(volumetric_efficiency(0.05, 1e5, 4e5, 1.3), 6)
+    0.904758
+    """
+    if not 0 <= c < 1:
+        raise BadInput(f"clearance = {fmt_value(c)}: the clearance ratio V_c/V_d lies in 0 to 1")
+    if not (P_s > 0 and P_d > 0):
+        raise BadInput("P_suction and P_discharge are absolute and must be above 0")
+    if not 1 <= n <= 1.7:
+        raise BadInput(f"n = {fmt_value(n)}: the re-expansion exponent lies in 1 to 1.7")
+    eta = 1 + c - c * (P_d / P_s) ** (1 / n)
+    if eta <= 0:
+        raise OutOfRange(
+            f"the clearance gas re-expands to fill the whole stroke (η_v = {fmt_value(eta)}): "
+            "no gas is drawn in at this pressure ratio"
+        )
+    return eta
+
+
+def branch_fits(P, V) -> tuple[float, float]:
+    """(n of the compression branch, n of the expansion branch) of a closed loop given in
+    path order: the points of the segments along which the volume falls form the compression
+    branch, those along which it rises the expansion branch (segments at constant volume, such
+    as combustion or blow-down, belong to neither).  For a compressor card, give only the
+    compression and re-expansion portions: its suction and discharge lines would join them."""
+    P = np.asarray(P, dtype=float).ravel()
+    V = np.asarray(V, dtype=float).ravel()
+    keep = ~(np.isnan(P) | np.isnan(V))
+    P, V = P[keep], V[keep]
+    if P.size < 6:
+        raise BadInput(f"a closed loop needs at least 6 points (got {P.size})")
+    n = P.size
+    falling: list[int] = []
+    rising: list[int] = []
+    for i in range(n if (P[0], V[0]) != (P[-1], V[-1]) else n - 1):
+        j = (i + 1) % n
+        side = falling if V[j] < V[i] else rising if V[j] > V[i] else None
+        if side is not None:
+            side.extend(k for k in (i, j) if k not in side)
+    if len(falling) < 3 or len(rising) < 3:
+        raise BadInput("each branch of the loop needs at least 3 points")
+    return fit(P[falling], V[falling])[0], fit(P[rising], V[rising])[0]

@@ -1,0 +1,107 @@
+"""Pressure tests: the stored energy of a pneumatic and of a hydrostatic test, its TNT
+equivalent, and cube-root distance scaling.
+
+**Pneumatic test** (the common code formula [1]_): the energy an isentropic expansion of the
+test gas from the absolute test pressure P to the atmosphere would release,
+
+    E = 2.5·P·V·[1 − (P_amb/P)^0.286],
+
+the ideal-gas result P·V/(k − 1)·[1 − (P_amb/P)^((k−1)/k)] for k = 1.4 with its exponent
+rounded (0.2857 → 0.286).  In US units the same law reads E = 360·P·V·[…] ft·lbf with P in
+psia and V in ft³ (the 144 in²/ft² folded into the 2.5).
+
+**Hydrostatic test**: the liquid's own expansion energy on its equation of state,
+m·(u1 − u2s) to the atmosphere at constant entropy, plus the elastic energy of the stretched
+container, ½·c·V·(P − P_amb)² (c its volumetric compliance, see blockedin.compliance).
+Both are orders of magnitude below the pneumatic energy at the same pressure: that is why a
+hydrostatic test is preferred wherever it is possible.
+
+**TNT equivalent**: W = E / e_TNT with e_TNT = 4.184 MJ/kg, the conventional basis (one tonne
+of TNT is defined as 4.184 GJ) [2]_.  **Distance**: Hopkinson–Cranz cube-root scaling
+R = Z·W^(1/3) [3]_, with the scaled distance Z (m/kg^(1/3)) taken from the applicable code for
+the overpressure it limits; joulebook does not choose Z.
+
+Caution: these are estimates for planning a pressure test.  Pressure tests, their exclusion
+zones and their procedures are governed by the applicable codes and standards and by a
+competent, licensed engineer.
+
+References
+----------
+.. [1] ASME PCC-2, Repair of Pressure Equipment and Piping, Article 501 (pressure testing),
+   mandatory appendix on stored energy; recalled from memory.
+.. [2] The convention of the "ton of TNT" as 4.184 × 10⁹ J (NIST SP 811, Appendix B, note on
+   the ton of TNT).
+.. [3] G. F. Kinney, K. J. Graham, *Explosive Shocks in Air*, 2nd ed., Springer, 1985, ch. 5
+   (cube-root scaling of blast parameters).
+"""
+
+from __future__ import annotations
+
+import math
+
+from ..errors import BadInput, OutOfRange, fmt_value
+
+__all__ = ["pneumatic_energy", "container_energy", "tnt_equivalent", "scaled_distance", "E_TNT"]
+
+E_TNT = 4.184e6  # J per kg of TNT, the conventional basis
+
+
+def pneumatic_energy(P: float, V: float, P_amb: float = 101_325.0) -> float:
+    """E = 2.5·P·V·[1 − (P_amb/P)^0.286] (J), P and P_amb absolute (Pa), V (m³).
+
+    Examples
+    --------
+    >>> round(pneumatic_energy(1.2e6, 2.0) / 1e6, 4)
+    3.041
+    """
+    if not V > 0:
+        raise BadInput(f"V = {fmt_value(V)} m3: the test volume must be above 0")
+    if not P_amb > 0:
+        raise BadInput(f"P_amb = {fmt_value(P_amb)} Pa: the ambient pressure must be above 0")
+    if not P > P_amb:
+        raise OutOfRange(
+            f"P = {fmt_value(P / 1e3)} kPa is not above ambient {fmt_value(P_amb / 1e3)} kPa: "
+            "nothing is stored (the test pressure is absolute here; check gauge vs absolute)"
+        )
+    return 2.5 * P * V * (1.0 - (P_amb / P) ** 0.286)
+
+
+def container_energy(c: float, V: float, dP: float) -> float:
+    """Elastic energy ½·c·V·ΔP² (J) of a wall of volumetric compliance *c* (1/Pa) holding *V*
+    (m³) at *dP* (Pa) above ambient."""
+    if not c >= 0:
+        raise BadInput(f"the wall compliance {fmt_value(c)} 1/Pa must not be negative")
+    return 0.5 * c * V * dP * dP
+
+
+def tnt_equivalent(E: float, basis: float = E_TNT) -> float:
+    """W = E/e_TNT (kg).
+
+    Examples
+    --------
+    >>> round(tnt_equivalent(4.184e6), 12)
+    1.0
+    """
+    if not E >= 0 or not math.isfinite(E):
+        raise BadInput(f"E = {fmt_value(E)} J: the stored energy must be 0 or above")
+    if not basis > 0:
+        raise BadInput(f"basis = {fmt_value(basis)} J/kg: the TNT energy must be above 0")
+    return E / basis
+
+
+def scaled_distance(W: float, Z: float) -> float:
+    """R = Z·W^(1/3) (m), W in kg of TNT, Z in m/kg^(1/3).
+
+    Examples
+    --------
+    >>> round(scaled_distance(8.0, 10.0), 9)
+    20.0
+    """
+    if not W >= 0:
+        raise BadInput(f"W = {fmt_value(W)} kg: the TNT mass must be 0 or above")
+    if not Z > 0:
+        raise BadInput(
+            f"Z = {fmt_value(Z)} m/kg^(1/3): give the scaled distance the applicable code sets "
+            "for the overpressure it limits (above 0)"
+        )
+    return Z * W ** (1.0 / 3.0)
