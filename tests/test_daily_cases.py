@@ -241,11 +241,13 @@ def test_tnt_and_distance():
 
 def test_slider_crank_volume_power_and_mep():
     # hand (Heywood §2.2): at 90° the piston has moved a + l − √(l² − a²) from TDC
-    B, S, l, Vc = 0.1, 0.1, 0.2, 1e-4
+    B, S, rod, Vc = 0.1, 0.1, 0.2, 1e-4
     a = S / 2
-    want = Vc + math.pi * B**2 / 4 * (l + a - math.sqrt(l * l - a * a))
-    assert call("JB_ENGINE_VOLUME", 90, B, S, l, Vc) == pytest.approx(want, rel=1e-12)
-    assert call("JB_ENGINE_VOLUME", 180, B, S, l, Vc) == pytest.approx(Vc + math.pi * B**2 / 4 * S)
+    want = Vc + math.pi * B**2 / 4 * (rod + a - math.sqrt(rod * rod - a * a))
+    assert call("JB_ENGINE_VOLUME", 90, B, S, rod, Vc) == pytest.approx(want, rel=1e-12)
+    assert call("JB_ENGINE_VOLUME", 180, B, S, rod, Vc) == pytest.approx(
+        Vc + math.pi * B**2 / 4 * S
+    )
     # hand: 0.5 kJ per cycle, 3000 rev/min, 4 cylinders, four-stroke: 0.5·50·4/2 = 50 kW
     assert call("JB_ENGINE_POWER", 0.5, 3000, 4, 2) == pytest.approx(50.0)
     assert call("JB_ENGINE_MEP", 0.5, 0.0005) == pytest.approx(1000.0)  # kPa

@@ -32,10 +32,9 @@ from __future__ import annotations
 
 import math
 
-import numpy as np
-
 from ..errors import BadInput, OutOfRange, fmt_value
 from .polytropic import fit
+from .work import _clean_pairs
 
 __all__ = ["volume", "indicated_power", "mep", "volumetric_efficiency", "branch_fits"]
 
@@ -124,10 +123,7 @@ def branch_fits(P, V) -> tuple[float, float]:
     branch, those along which it rises the expansion branch (segments at constant volume, such
     as combustion or blow-down, belong to neither).  For a compressor card, give only the
     compression and re-expansion portions: its suction and discharge lines would join them."""
-    P = np.asarray(P, dtype=float).ravel()
-    V = np.asarray(V, dtype=float).ravel()
-    keep = ~(np.isnan(P) | np.isnan(V))
-    P, V = P[keep], V[keep]
+    P, V = _clean_pairs(P, V)
     if P.size < 6:
         raise BadInput(f"a closed loop needs at least 6 points (got {P.size})")
     n = P.size
