@@ -672,3 +672,22 @@ def test_data_table_sweeps_a_joulebook_formula(tmp_path):
     got = [out[f"S!B{r}"].value for r in (3, 4, 5)]
     assert got == pytest.approx([20.0, 40.0, 70.0], rel=1e-12)  # hand
     assert out["S!B2"].value == pytest.approx(100.0)  # the input's own value: 500 kPa
+
+
+def test_an_omitted_argument_of_our_function_is_missing_not_zero(tmp_path):
+    """JB_X(a,,b) hands the sheet face None for the omitted argument (xlwings); headless the
+    formula library would hand over 0 (a P_amb of 0 kPa, a wall of 0 m).  Source: the sheet
+    face's own rule (tests/test_sheet.py), common practice for spreadsheet add-ins."""
+    from joulebook import call
+    from wbtools import build, outcomes
+
+    cells = {
+        "S!A1": "water | T = 15 degC | P = 4 bar",
+        "S!B1": '=JB_BLOCKED_IN_P2(A1,318.15,"rigid",,,,,,"K-kPa-kJ")',
+        "S!B2": "=JB_TEST_PNEUMATIC_ENERGY(1200,2,)",
+        "S!B3": "=JB_TEST_PNEUMATIC_ENERGY(1200, 2, )",
+    }
+    out = outcomes(build(tmp_path / "o.xlsx", cells))
+    assert out["S!B1"].value == call("JB_BLOCKED_IN_P2", "water | T = 15 degC | P = 4 bar", 318.15)
+    assert out["S!B2"].value == call("JB_TEST_PNEUMATIC_ENERGY", 1200, 2)
+    assert out["S!B3"].value == out["S!B2"].value

@@ -110,6 +110,52 @@ def blocked_in_line(wb) -> None:
             ("Check: exceeds design pressure?", '=IF(B23>B14,"YES - relieve the line","no")', ""),
         ],
     )
+    r = _rows(
+        ws,
+        26,
+        "The real pipe: its steel wall stretches with pressure and temperature",
+        [
+            ("Pipe mean diameter", 0.1063, "m"),
+            ("Pipe wall thickness", 0.006, "m"),
+            ("Young's modulus of the steel", 200, "GPa"),
+            ("Poisson's ratio of the steel", 0.3, "-"),
+            ("Linear expansion coefficient of the steel", 1.2e-5, "1/K"),
+            ("Sun's heat input to the segment", 1.5, "kW"),
+        ],
+    )
+    _rows(
+        ws,
+        r,
+        "Rigid bound and elastic pipe side by side",
+        [
+            (
+                "Pressure after warming, rigid pipe (absolute)",
+                '=JB_BLOCKED_IN_P2(B17,B12,"rigid",,,,,,"degC-bar-kJ")',
+                "bar",
+            ),
+            (
+                "Pressure after warming, elastic steel pipe (absolute)",
+                '=JB_BLOCKED_IN_P2(B17,B12,"cylinder",B27,B28,B29,B30,B31,"degC-bar-kJ")',
+                "bar",
+            ),
+            ("Check: elastic rise over rigid rise", "=(B36-B11)/(B35-B11)", "-"),
+            (
+                "Relief state (design pressure, 45 degC)",
+                '=JB_STATE("water","T in degC",B12,"P in barg",B14)',
+                "state",
+            ),
+            (
+                "Thermal-relief flow needed for the sun's heat",
+                '=JB_RELIEF_THERMAL_FLOW(B38,B32,"degC-bar-kJ, q_v=L/h")',
+                "L/h",
+            ),
+            (
+                "Check: elastic pipe exceeds design pressure?",
+                '=IF(JB_CONVERT(B36,"bar","barg")>B14,"YES - relieve the line","no")',
+                "",
+            ),
+        ],
+    )
 
 
 def wet_steam_vessel(wb) -> None:
@@ -206,6 +252,28 @@ def receiver_test(wb) -> None:
             ("Check: real vs ideal (ratio)", "=B18/B19", "-"),
         ],
     )
+    _rows(
+        ws,
+        26,
+        "Pneumatic or hydrostatic? The same test both ways",
+        [
+            ("Stored energy, code formula (pneumatic)", "=JB_TEST_PNEUMATIC_ENERGY(B16,B12)", "kJ"),
+            ("TNT equivalent (4.184 MJ/kg basis)", "=JB_TEST_TNT(B27)", "kg"),
+            ("Scaled distance from the applicable code (input)", 20, "m/kg^(1/3)"),
+            ("Distance by cube-root scaling", "=JB_TEST_DISTANCE(B28,B29)", "m"),
+            (
+                "Water at the test pressure",
+                '=JB_STATE("water","P in kPa",B16,"T in degC",B11)',
+                "state",
+            ),
+            (
+                "Stored energy, hydrostatic (water and shell)",
+                '=JB_TEST_HYDRO_ENERGY(B31,B12,"cylinder",1.2,0.01,200,0.3,,"K-kPa-kJ, E_mod=GPa")',
+                "kJ",
+            ),
+            ("Check: pneumatic over hydrostatic (ratio)", "=B27/B32", "-"),
+        ],
+    )
 
 
 def indicator_record(wb) -> None:
@@ -274,6 +342,37 @@ def indicator_record(wb) -> None:
     ws.cell(row=r + 8, column=1, value="Check: fit statistics n, C, R2 (kPa, L)")
     ws[f"B{r + 8}"] = ArrayFormula(
         f"B{r + 8}:D{r + 8}", '=JB_POLY_FIT(B11:B19,C11:C19,"all","P=kPa, V=L")'
+    )
+    q = r + 10
+    _rows(
+        ws,
+        q,
+        "Power and efficiency",
+        [
+            ("Shaft speed", 720, "rev/min"),
+            ("Number of cylinders", 2, "-"),
+            (
+                "Indicated power (negative: the pistons do work on the gas)",
+                f'=JB_ENGINE_POWER(B{r + 3},B{q + 1},B{q + 2},1,"K-Pa-J, Pow=kW")',
+                "kW",
+            ),
+            (
+                "Mean effective pressure (negative for a compressor)",
+                f'=JB_ENGINE_MEP(B{r + 3},8,"K-kPa-J, V=L")',
+                "kPa",
+            ),
+            ("Clearance ratio (0.8 L over 8 L swept)", 0.1, "-"),
+            (
+                "Clearance volumetric efficiency",
+                f"=JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY(B{q + 5},101,420,B{r + 1})",
+                "-",
+            ),
+            (
+                "Check: re-expansion exponent (fit of points 14-17)",
+                '=JB_POLY_FIT(B24:B27,C24:C27,"n","P=kPa, V=L")',
+                "-",
+            ),
+        ],
     )
 
 
@@ -407,6 +506,64 @@ def air_cycle(wb) -> None:
     )
 
 
+def fire_drum(wb) -> None:
+    ws = _sheet(
+        wb,
+        "Fire",
+        "Propane storage drum engulfed by a pool fire: time to the relief set pressure",
+        "Ashby Moor LPG depot, drum D-3 (invented)",
+    )
+    r = _rows(
+        ws,
+        9,
+        "Inputs",
+        [
+            ("Drum diameter", 2.4, "m"),
+            ("Drum length between the ends", 8.0, "m"),
+            ("Propane held", 12000, "kg"),
+            ("Temperature before the fire", 20, "degC"),
+            ("Relief valve set pressure (gauge)", 17.2, "barg"),
+            ("Environment factor F (bare drum)", 1.0, "-"),
+            ("Drainage and fire-fighting", "adequate", ""),
+        ],
+    )
+    _rows(
+        ws,
+        r,
+        "Calculation (rigid drum; the wetted area follows the liquid level)",
+        [
+            ("Drum volume (flat ends)", "=PI()*B10^2/4*B11", "m3"),
+            (
+                "Contents before the fire",
+                '=JB_STATE("propane","T in degC",B13,"v in m3/kg",B19/B12)',
+                "state",
+            ),
+            ("Pressure before the fire (gauge)", '=JB_PROP(B20,"P in barg")', "barg"),
+            ("Vapour mass fraction before the fire", '=JB_PROP(B20,"x")', "-"),
+            (
+                "Fire heat on the fully wetted drum",
+                '=JB_FIRE_HEAT(JB_WETTED_AREA("horizontal",B10,B11,B10),B15,B16)',
+                "kW",
+            ),
+            (
+                "Time to reach the set pressure",
+                '=JB_TIME_FIRE(B20,"horizontal",B10,B11,"P in barg",B14,B15,B16,"degC-bar-kJ, t=min")',
+                "min",
+            ),
+            (
+                "Check: set pressure above the starting pressure?",
+                '=IF(B14>B21,"yes","NO - check the inputs")',
+                "",
+            ),
+        ],
+    )
+    ws["A28"] = "The heating, step by step (t, T, P absolute, x, heat taken in)"
+    ws["A29"] = ArrayFormula(
+        "A29:E35",
+        '=JB_TIME_FIRE_TABLE(B20,"horizontal",B10,B11,"P in barg",B14,B15,B16,6,"degC-bar-kJ, t=min")',
+    )
+
+
 WORKBOOKS = {
     "blocked_in_line.xlsx": blocked_in_line,
     "wet_steam_vessel.xlsx": wet_steam_vessel,
@@ -414,6 +571,7 @@ WORKBOOKS = {
     "compressor_indicator_record.xlsx": indicator_record,
     "piston_on_stops.xlsx": piston_stops,
     "air_standard_cycle.xlsx": air_cycle,
+    "fire_exposed_drum.xlsx": fire_drum,
 }
 
 

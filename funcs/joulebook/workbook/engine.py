@@ -1326,6 +1326,8 @@ class Engine:
                 stack.append(name)
                 argpos.append(0)
                 out.append(name + "(")
+                if name in _OURS and _next_is(toks, i, ("SEP",)):
+                    out.append(_MISSING)  # JB_X(,b): the first argument omitted
             elif ttype == "FUNC" and sub == "CLOSE":
                 stack.pop() if stack else None
                 argpos.pop() if argpos else None
@@ -1360,6 +1362,11 @@ class Engine:
                 if argpos:
                     argpos[-1] += 1
                 out.append(value)
+                if stack and stack[-1] in _OURS and _next_is(toks, i, ("SEP", "FUNC")):
+                    # an omitted argument of our function reaches it as missing, as the
+                    # sheet face receives it (empty text is a blank to the catalog); the
+                    # library would hand over the number 0
+                    out.append(_MISSING)
             elif ttype == "SEP" and sub == "ROW":
                 out.append(";")
             elif ttype == "ARRAY":
@@ -2156,6 +2163,19 @@ def _table_parts(t, key) -> tuple:
         formula = (sheet, r, c1 - 1)
         subs = (((sheet, *t.row_input), (sheet, r1 - 1, c)),)
     return formula, subs
+
+
+_MISSING = '""'  # stands for an omitted argument of one of our functions (a blank to them)
+
+
+def _next_is(toks, i: int, types: tuple) -> bool:
+    """Is the next token after *i* that is not blank space a separator or a closing bracket
+    of a function (for types ("SEP", "FUNC")) — i.e. is the argument after *i* empty?"""
+    for _v, t, sub in toks[i + 1 :]:
+        if t == "WHITE-SPACE":
+            continue
+        return t in types and (t == "SEP" and sub == "ARG" or t == "FUNC" and sub == "CLOSE")
+    return False
 
 
 def _refuse_lambda(formula: str) -> None:
