@@ -255,3 +255,12 @@ def test_factors_carry_no_last_bit_noise():
     # the foot is 0.3048 m by definition; pint's arithmetic gives 0.30479999999999996
     assert parse_unit("ft/s", "speed").factor == 0.3048
     assert parse_unit("lbm", "mass").factor == 0.45359237
+
+
+def test_rates_and_heat_flux_units():
+    # NIST SP 811: 1 Btu_IT/h = 0.29307107 W; 1 Btu_IT/(h·ft²) = 3.1545907 W/m²
+    assert convert(1, "Btu/(h*ft2)", "W/m2") == pytest.approx(3.1545907, rel=1e-7)
+    assert convert(1, "kW", "Btu/h") == pytest.approx(1000 / 0.29307107, rel=1e-7)
+    assert convert(2, "kW/m2", "W/m2") == 2000.0
+    # the first law per unit time: dE/dt = Q_dot − W_dot (hand)
+    assert joulebook.call("JB_BALANCE_RATE", 12, 5) == 7.0
