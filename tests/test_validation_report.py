@@ -11,6 +11,8 @@ REFERENCE_TESTS = [
     "tests/test_gases_reference.py",
     "tests/test_solids_reference.py",
     "tests/test_processes_reference.py",
+    "tests/test_daily_cases.py",
+    "tests/test_fluid_transport.py",
 ]
 
 

@@ -232,7 +232,8 @@ CATALOG: tuple[Func, ...] = (
     Func(
         "JB_PROP",
         "state",
-        "Property of a fluid (T P v rho u h s cp cv k x Z Tsat Psat beta kappa w mu_JT) at a state "
+        "Property of a fluid (T P v rho u h s cp cv k x Z Tsat Psat beta kappa w mu_JT mu nu lambda "
+        "Pr sigma) at a state "
         "fixed by two properties, each with its unit: "
         'JB_PROP("water","h in kJ/kg","T in degC",25,"P in kPa",101.325).',
         (
@@ -257,7 +258,10 @@ CATALOG: tuple[Func, ...] = (
         notes="Two-phase states: give x with T or P, or v with T or P; T and P alone cannot fix one. "
         "beta = (1/v)(∂v/∂T)_P (isobaric expansion), kappa = −(1/v)(∂v/∂P)_T (isothermal "
         "compressibility), w (speed of sound) and mu_JT = (∂T/∂P)_h (Joule–Thomson) come from "
-        "the equation of state, single-phase states only; for an ideal gas 1/T, 1/P, √(k·R·T), 0.",
+        "the equation of state, single-phase states only; for an ideal gas 1/T, 1/P, √(k·R·T), 0. "
+        "mu (dynamic viscosity), nu = mu/rho, lambda (thermal conductivity) and Pr = mu·cp/lambda "
+        "come from the property library's transport correlation for the fluid (water: IAPWS "
+        "2008 and 2011), single-phase; sigma (surface tension) on the saturation line only.",
         column="prop_column",
     ),
     Func(

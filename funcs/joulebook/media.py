@@ -238,6 +238,11 @@ class IdealMedium:
             return math.sqrt(gases.k(self.g, p.T) * self.R * p.T)
         if want == "mu_JT":
             return 0.0
+        if want in ("mu", "nu", "lambda", "Pr", "sigma"):
+            raise OutOfRange(
+                f"{self.name} is modelled as an ideal gas, which has no transport properties: "
+                f"give the real fluid's name (without '{IDEAL_TAG}') for {want}"
+            )
         raise OutOfRange(f"{self.name} is modelled as an ideal gas: {want} is not defined")
 
 

@@ -106,6 +106,10 @@ KINDS: dict[str, tuple[str, str]] = {
     "area": ("m**2", "m**2"),
     "heat_transfer_coefficient": ("W/K", "W/K"),
     "modulus": ("Pa", "Pa"),
+    "dynamic_viscosity": ("Pa*s", "Pa*s"),
+    "kinematic_viscosity": ("m**2/s", "m**2/s"),
+    "thermal_conductivity": ("W/(m*K)", "W/(m*K)"),
+    "surface_tension": ("N/m", "N/m"),
     "volume_flow": ("m**3/s", "m**3/s"),
     "dimensionless": ("", ""),
 }
@@ -140,6 +144,10 @@ KIND_WORDS = {
     "area": "area",
     "heat_transfer_coefficient": "heat-transfer conductance UA",
     "modulus": "elastic modulus",
+    "dynamic_viscosity": "dynamic viscosity",
+    "kinematic_viscosity": "kinematic viscosity",
+    "thermal_conductivity": "thermal conductivity",
+    "surface_tension": "surface tension",
     "volume_flow": "volume flow",
     "dimensionless": "dimensionless number",
 }
@@ -186,6 +194,11 @@ SYMBOLS: dict[str, str] = {
     "UA": "heat_transfer_coefficient",
     "E_mod": "modulus",
     "q_v": "volume_flow",
+    "mu": "dynamic_viscosity",
+    "nu": "kinematic_viscosity",
+    "lambda": "thermal_conductivity",
+    "Pr": "dimensionless",
+    "sigma": "surface_tension",
 }
 
 # ---------------------------------------------------------------------------------------
@@ -466,6 +479,10 @@ _EXAMPLE_UNITS = {
     "area": "m2, ft2",
     "heat_transfer_coefficient": "W/K, kW/K, Btu/(h*degF)",
     "modulus": "GPa, MPa, psi",
+    "dynamic_viscosity": "Pa*s, mPa*s, cP, lbm/(ft*s)",
+    "kinematic_viscosity": "m2/s, mm2/s, cSt, ft2/s",
+    "thermal_conductivity": "W/(m*K), Btu/(h*ft*degF)",
+    "surface_tension": "N/m, mN/m, lbf/ft",
     "volume_flow": "m3/s, m3/h, L/min, gal/min",
     "dimensionless": "no unit or %",
 }
@@ -555,6 +572,10 @@ _SI_DEFAULTS = {
     "heat_transfer_coefficient": "W/K",
     "modulus": "Pa",
     "volume_flow": "m3/s",
+    "dynamic_viscosity": "Pa*s",
+    "kinematic_viscosity": "m2/s",
+    "thermal_conductivity": "W/(m*K)",
+    "surface_tension": "N/m",
     "dimensionless": "",
 }
 
@@ -637,6 +658,10 @@ def unit_system(text: str | None = None) -> UnitSystem:
         units["heat_transfer_coefficient"] = "Btu/(hour*R)"
         units["modulus"] = "psi"
         units["volume_flow"] = "gal/min"
+        units["dynamic_viscosity"] = "lbm/(ft*s)"
+        units["kinematic_viscosity"] = "ft2/s"
+        units["thermal_conductivity"] = "Btu/(hour*ft*R)"
+        units["surface_tension"] = "lbf/ft"
     elif e_unit in ("kJ", "MJ"):
         units["power"] = "kW"
         units["heat_flux"] = "kW/m2"

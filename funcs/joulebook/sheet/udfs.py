@@ -38,7 +38,7 @@ def JB_STATE(substance, spec1=None, value1=None, spec2=None, value2=None, units=
 @_xw.arg('value2', ndim=2, err_to_str=True, doc="value of the second property, in the phrase's unit (optional) [number or range]")
 @_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
 def JB_PROP(substance, want, spec1=None, value1=None, spec2=None, value2=None, units=None, caller=None):
-    'Property of a fluid (T P v rho u h s cp cv k x Z Tsat Psat beta kappa w mu_JT) at a state fixed by two properties, each with its unit: JB_PROP("water","h in kJ/kg","T in degC",25,"P in kPa",101.325).'
+    'Property of a fluid (T P v rho u h s cp cv k x Z Tsat Psat beta kappa w mu_JT mu nu lambda Pr sigma) at a state fixed by two properties, each with its unit: JB_PROP("water","h in kJ/kg","T in degC",25,"P in kPa",101.325).'
     return _cell('JB_PROP', substance, want, spec1, value1, spec2, value2, units, caller=caller)
 
 

@@ -53,7 +53,7 @@ INPUTS = ("T", "P", "v", "rho", "u", "h", "s", "x")
 #: symbols a state can report
 OUTPUTS = (
     "T", "P", "v", "rho", "u", "h", "s", "cp", "cv", "k", "x", "Z", "Tsat", "Psat", "phase",
-    "beta", "kappa", "w", "mu_JT",
+    "beta", "kappa", "w", "mu_JT", "mu", "nu", "lambda", "Pr", "sigma",
 )  # fmt: skip
 
 _CP = None
@@ -106,7 +106,7 @@ _EXTRA_ALIASES = {
     "n-Propane": ["R290", "C3H8"],
     "IsoButane": ["R600a", "i-butane"],
     "n-Butane": ["R600"],
-    "Methane": ["CH4", "R50", "natural gas (as methane)"],
+    "Methane": ["CH4", "R50"],
     "Ethane": ["R170"],
     "Propylene": ["R1270", "propene"],
     "Nitrogen": ["N2", "R728"],
@@ -135,13 +135,28 @@ def _key(name: str) -> str:
     return re.sub(r"[\s\-_]", "", str(name)).lower()
 
 
+_REFRIGERANT = re.compile(r"^(R|RC)(\d+)([A-Za-z]*)((?:\([EZ]\))?)$")
+
+
 def _display_name(cp_name: str) -> str:
+    """Our display name for a property-library fluid: common words in lower case, joined as
+    chemists write them (cyclohexane, isobutene, parahydrogen); refrigerant numbers as
+    ASHRAE Standard 34 writes them: isomer letters lower case (R152a, R236fa, R1224yd(Z)),
+    the letter of a 400- or 500-series blend upper case (R410A)."""
     if cp_name in _DISPLAY:
         return _DISPLAY[cp_name]
+    m = _REFRIGERANT.match(cp_name)
+    if m:
+        prefix, number, letters, isomer = m.groups()
+        if len(number) == 3 and number[0] in "45":
+            return cp_name  # a blend: R404A, R407C, R410A, R507A
+        if letters.upper().endswith(("E", "Z")) and not isomer and letters.upper() == "YDZ":
+            letters, isomer = "yd", "(Z)"
+        return f"{prefix}{number}{letters.lower()}{isomer}"
     if re.search(r"\d|\(", cp_name) or cp_name.isupper():
         return cp_name
-    words = re.sub(r"(?<=[a-z])(?=[A-Z])", " ", cp_name)
-    return words.lower()
+    words = re.sub(r"(?<=[a-z])(?=[A-Z])", " ", cp_name).lower()
+    return re.sub(r"\b(cyclo|iso|ortho|para) ", r"\1", words)
 
 
 @dataclass(frozen=True)
@@ -203,8 +218,8 @@ def _registry() -> tuple[dict[str, str], dict[str, str]]:
             cands.append(cas)
         for c in cands:
             k = _key(c)
-            if not k:
-                continue
+            if len(k) < 2:
+                continue  # the library's one-letter keys (D, K) are no names
             if k in claimed and claimed[k] != n:
                 continue  # first owner keeps an ambiguous alias
             claimed[k] = n
@@ -946,6 +961,8 @@ def _read(info: FluidInfo, st, want: str, shows=None):
         return val
     if want in ("beta", "kappa", "w", "mu_JT"):
         return _derivative(info, st, want)
+    if want in ("mu", "nu", "lambda", "Pr", "sigma"):
+        return _transport(info, st, want)
     if want == "x":
         if _is_two_phase(st):
             return st.Q()
@@ -1008,6 +1025,54 @@ def _derivative(info: FluidInfo, st, want: str) -> float:
         val = d.first_partial_deriv(CP.iT, CP.iP, CP.iHmass)
     if not math.isfinite(val):
         raise OutOfRange(f"{info.name}: the {_DERIVATIVE_WORDS[want]} is not defined at this state")
+    return val
+
+
+_TRANSPORT_WORDS = {
+    "mu": "dynamic viscosity mu",
+    "nu": "kinematic viscosity nu",
+    "lambda": "thermal conductivity lambda",
+    "Pr": "Prandtl number Pr",
+    "sigma": "surface tension sigma",
+}
+
+
+def _transport(info: FluidInfo, st, want: str) -> float:
+    """Transport properties from the property library's correlation for the fluid (for
+    water the IAPWS 2008 viscosity and 2011 thermal-conductivity formulations; the model of
+    each fluid is named in docs/functions.md); single-phase states, except the surface
+    tension, which exists only on the saturation line."""
+    word = _TRANSPORT_WORDS[want]
+    two = _is_two_phase(st)
+    if want == "sigma":
+        if not two:
+            raise OutOfRange(
+                f"{info.name}: the {word} is defined on the saturation line only (give x "
+                "with T or P); this state is " + phase_word(info, st)
+            )
+    elif two:
+        raise OutOfRange(
+            f"{info.name}: the {word} is not defined for a two-phase state "
+            f"(x = {fmt_value(st.Q())}); give the liquid (x = 0) or the vapour (x = 1)"
+        )
+    try:
+        if want == "sigma":
+            val = st.surface_tension()
+        else:
+            d = _scratch_dt(info.internal).upd(_coolprop().DmassT_INPUTS, st.rhomass(), st.T())
+            mu = d.viscosity() if want in ("mu", "nu", "Pr") else 0.0
+            val = {
+                "mu": lambda: mu,
+                "nu": lambda: mu / d.rhomass(),
+                "lambda": d.conductivity,
+                "Pr": lambda: mu * d.cpmass() / d.conductivity(),
+            }[want]()
+    except ValueError:
+        raise OutOfRange(
+            f"{info.name}: the property library has no {word} model for this fluid or state"
+        ) from None
+    if not (math.isfinite(val) and val > 0):
+        raise OutOfRange(f"{info.name}: the {word} is not defined at this state")
     return val
 
 
