@@ -44,7 +44,10 @@ def test_macro_enabled_copy_carries_the_vba_wrappers():
         "xlwings.bas",
         "xlwings_udfs.bas",
     }
-    assert modules["xlwings_udfs.bas"].replace("\r\n", "\n") == vba_source()
+    # the module may end in blank lines: the writer pads a source whose last 4096-byte
+    # chunk would not fit literal tokens (sheet/vbaproject.py, MS-OVBA 2.4.1)
+    got = modules["xlwings_udfs.bas"].replace("\r\n", "\n")
+    assert got.rstrip("\n") == vba_source().rstrip("\n")
     assert modules["xlwings.bas"].startswith('Attribute VB_Name = "xlwings"')
     wb = openpyxl.load_workbook(path, keep_vba=True)
     assert wb["xlwings.conf"]["B1"].value == "joulebook.sheet.udfs"

@@ -58,3 +58,41 @@ def test_fluid_names_read_naturally_and_library_keys_stay_internal():
     for key in ("D", "K", "natural gas (as methane)"):
         with pytest.raises(BadInput, match="unknown fluid"):
             call("JB_PROP", key, "h", "T in K", 300, "P in kPa", 100)
+
+
+PSYCHRO = (
+    "psychrolib 2.5.0 (PyPI), ASHRAE Handbook Fundamentals 2017 ch. 1 (ideal-gas mixture, "
+    "no enhancement factor: HR differs from the real-gas model by about 0.5 %)"
+)
+
+
+@pytest.mark.parametrize("T, RH", [(25.0, 0.5), (5.0, 0.9), (40.0, 0.3)])
+def test_humid_air_against_an_independent_psychrometric_library(T, RH):
+    import psychrolib as p
+
+    p.SetUnitSystem(p.SI)
+    cond = f"humid air at 101.325 kPa, T = {T} degC, RH = {RH}"
+    args = (101.325, "T in degC", T, "RH", RH)
+    hr = p.GetHumRatioFromRelHum(T, RH, 101325.0)
+    check(call("JB_HUMID_AIR", "HR", *args), hr, rtol=8e-3, quantity="HR [kg/kg]",
+          conditions=cond, source=PSYCHRO)  # fmt: skip
+    check(call("JB_HUMID_AIR", "Tdp in degC", *args), p.GetTDewPointFromRelHum(T, RH),
+          rtol=2e-3, quantity="Tdp [degC]", conditions=cond, source=PSYCHRO)  # fmt: skip
+    # and the round trip: RH back from T and the dew point
+    tdp = call("JB_HUMID_AIR", "Tdp in degC", *args)
+    assert call("JB_HUMID_AIR", "RH", 101.325, "T in degC", T, "Tdp in degC", tdp) == (
+        pytest.approx(RH, rel=1e-8)
+    )
+
+
+def test_receiver_condensate_by_hand():
+    # hand: m = V/v_sat2·(HR1 − HR_sat2) with the model's own HR and v; 1 m³ receiver at
+    # 9 bar(g) and 35 °C fed with air at 30 °C, 70 % RH
+    hr1 = call("JB_HUMID_AIR", "HR", 101.325, "T in K", 303.15, "RH", 0.7)
+    hr2 = call("JB_HUMID_AIR", "HR", 901.325, "T in K", 308.15, "RH", 1.0)
+    v2 = call("JB_HUMID_AIR", "v in m3/kg", 901.325, "T in K", 308.15, "RH", 1.0)
+    m = call("JB_HUMID_CONDENSATE", 101.325, 303.15, 0.7, 901.325, 308.15, 1)
+    assert m == pytest.approx((hr1 - hr2) / v2, rel=1e-12)
+    assert 0.14 < m < 0.16  # about 150 g per cubic metre of receiver
+    with pytest.raises(OutOfRange, match="supersaturated|RH"):
+        call("JB_HUMID_AIR", "HR", 101.325, "T in degC", 25, "RH", 1.2)

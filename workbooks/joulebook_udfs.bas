@@ -352,6 +352,32 @@ failed:
     JB_HEAT_RIGID_GAS = Err.Description
 End Function
 
+Function JB_HUMID_AIR(want, P, spec1, value1, spec2, value2, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_HUMID_AIR = XLPy.CallUDF("joulebook.sheet.udfs", "JB_HUMID_AIR", Array(want, P, spec1, value1, spec2, value2, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_HUMID_AIR = XLPy.CallUDF("joulebook.sheet.udfs", "JB_HUMID_AIR", Array(want, P, spec1, value1, spec2, value2, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_HUMID_AIR = Err.Description
+End Function
+
+Function JB_HUMID_CONDENSATE(P_1, T_1, RH_1, P_2, T_2, V_2, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_HUMID_CONDENSATE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_HUMID_CONDENSATE", Array(P_1, T_1, RH_1, P_2, T_2, V_2, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_HUMID_CONDENSATE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_HUMID_CONDENSATE", Array(P_1, T_1, RH_1, P_2, T_2, V_2, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_HUMID_CONDENSATE = Err.Description
+End Function
+
 Function JB_PHASE(substance, Optional spec1, Optional value1, Optional spec2, Optional value2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed

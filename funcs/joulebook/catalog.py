@@ -102,6 +102,7 @@ FAMILIES = {
     "time": "Heating with time and fire exposure",
     "test": "Pressure tests",
     "engine": "Indicator diagrams, engines and compressors",
+    "humid": "Humid air",
     "util": "Units and information",
 }
 
@@ -200,6 +201,10 @@ _REF_SCALING = "Kinney & Graham, Explosive Shocks in Air, 2nd ed. (1985), ch. 5:
 _REF_HEYWOOD = (
     "Heywood, Internal Combustion Engine Fundamentals (1988), §2.2–2.4: slider-crank volume, "
     "indicated work and power, mean effective pressure"
+)
+_REF_HUMID = (
+    "Herrmann, Kretzschmar & Gatley, ASHRAE RP-1485, HVAC&R Research 15 (2009) 961: real "
+    "humid air (the property library's humid-air functions)"
 )
 _REF_COOLPROP = "Bell, Wronski, Quoilin, Lemort, Ind. Eng. Chem. Res. 53 (2014) 2498 (CoolProp)"
 _REF_IAPWS = (
@@ -1421,6 +1426,51 @@ CATALOG: tuple[Func, ...] = (
             1e-6,
         ),
         elementwise=False,
+    ),
+    # ------------------------------------------------------------------ humid air
+    Func(
+        "JB_HUMID_AIR",
+        "humid",
+        "Property of humid air (T RH HR Tdp Twb h v; h and v per kg dry air) at total pressure P "
+        "fixed by two of T RH HR Tdp Twb h, each with its unit: real humid air, ASHRAE RP-1485.",
+        (
+            Arg(
+                "want",
+                "wanted property with unit, e.g. 'HR in kg/kg', 'Tdp in degC', 'RH in %'",
+                type="text",
+            ),
+            Arg("P", "total (absolute) pressure", quantity="pressure"),
+            Arg("spec1", "first property phrase, e.g. 'T in degC'", type="text"),
+            Arg("value1", "value of the first property"),
+            Arg("spec2", "second property phrase, e.g. 'RH' (0 to 1) or 'RH in %'", type="text"),
+            Arg("value2", "value of the second property"),
+        ),
+        "asked",
+        "humid_air",
+        "real-gas mixture of dry air and water vapour with enhancement factor (RP-1485)",
+        (_REF_HUMID,),
+        Example(("Tdp in degC", 101.325, "T in degC", 25, "RH", 0.5), 13.866886648880495, 1e-6),
+        notes="RH is a fraction from 0 to 1 ('RH in %' for percent); HR is kg water per kg dry "
+        "air. Supersaturated air (RH > 1) is refused.",
+    ),
+    Func(
+        "JB_HUMID_CONDENSATE",
+        "humid",
+        "Water condensed in a compressed-air receiver of volume V_2 at (P_2, T_2) from air taken "
+        "in at (P_1, T_1, RH_1): m_da·max(0, HR1 − HR_sat2), real humid air (RP-1485).",
+        (
+            Arg("P_1", "absolute pressure of the intake air", quantity="pressure"),
+            Arg("T_1", "temperature of the intake air", quantity="temperature"),
+            Arg("RH_1", "relative humidity of the intake air, 0 to 1"),
+            Arg("P_2", "absolute pressure in the receiver", quantity="pressure"),
+            Arg("T_2", "temperature in the receiver", quantity="temperature"),
+            Arg("V_2", "receiver volume", quantity="volume"),
+        ),
+        "mass",
+        "humid_condensate",
+        "m_water = V2/v_sat(P2, T2)·max(0, HR(P1, T1, RH1) − HR_sat(P2, T2))",
+        (_REF_HUMID,),
+        Example((101.325, 303.15, 0.7, 901.325, 308.15, 1), 0.15089700274430073, 1e-6),
     ),
     # ------------------------------------------------------------------ utilities
     Func(

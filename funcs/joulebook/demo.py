@@ -274,6 +274,27 @@ def receiver_test(wb) -> None:
             ("Check: pneumatic over hydrostatic (ratio)", "=B27/B32", "-"),
         ],
     )
+    _rows(
+        ws,
+        35,
+        "In service: water the receiver condenses (real humid air)",
+        [
+            ("Intake air temperature", 30, "degC"),
+            ("Intake air relative humidity", 0.7, "-"),
+            ("Working pressure (gauge)", 8, "barg"),
+            ("Receiver temperature", 35, "degC"),
+            (
+                "Intake dew point",
+                '=JB_HUMID_AIR("Tdp in degC",101.325,"T in degC",B36,"RH",B37)',
+                "degC",
+            ),
+            (
+                "Water condensed per receiver volume of air",
+                '=JB_HUMID_CONDENSATE(101.325,B36,B37,JB_CONVERT(B38,"barg","kPa"),B39,B12,"degC-kPa-kJ")',
+                "kg",
+            ),
+        ],
+    )
 
 
 def indicator_record(wb) -> None:

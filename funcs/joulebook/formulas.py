@@ -28,7 +28,7 @@ from .processes import (
     timing,
     work,
 )
-from .substances import fluids, gases, solids
+from .substances import fluids, gases, humidair, solids
 from .units import UnitSystem, convert, parse_phrase, parse_unit
 
 # ---------------------------------------------------------------------------------------
@@ -816,3 +816,23 @@ def compressor_efficiency(clearance, P_suction, P_discharge, n, *, system):
 
 def poly_fit_branches(P_values, V_values, *, system):
     return [list(engines.branch_fits(P_values, V_values))]
+
+
+# ---------------------------------------------------------------------------------------
+# humid air
+
+
+def humid_air(want, P, spec1, value1, spec2, value2, *, system):
+    if value1 is None or value2 is None:
+        raise BadInput("give two properties with their values, e.g. 'T in degC', 25, 'RH', 0.5")
+    w = parse_phrase(want, system, humidair.OUTPUTS)
+    a = parse_phrase(spec1, system, humidair.INPUTS)
+    b = parse_phrase(spec2, system, humidair.INPUTS)
+    val = humidair.prop(
+        w.symbol, P, a.symbol, a.conv.to_si(float(value1)), b.symbol, b.conv.to_si(float(value2))
+    )
+    return w.conv.from_si(val)
+
+
+def humid_condensate(P_1, T_1, RH_1, P_2, T_2, V_2, *, system):
+    return humidair.condensate(P_1, T_1, RH_1, P_2, T_2, V_2)

@@ -199,6 +199,10 @@ SYMBOLS: dict[str, str] = {
     "lambda": "thermal_conductivity",
     "Pr": "dimensionless",
     "sigma": "surface_tension",
+    "RH": "dimensionless",
+    "HR": "dimensionless",
+    "Tdp": "temperature",
+    "Twb": "temperature",
 }
 
 # ---------------------------------------------------------------------------------------

@@ -14,7 +14,7 @@ from joulebook.sheet.cells import why as _why
 
 
 
-__all__ = ['JB_STATE', 'JB_PROP', 'JB_PHASE', 'JB_PROP_SAT', 'JB_GAS_CP', 'JB_GAS_CV', 'JB_GAS_K', 'JB_GAS_R', 'JB_GAS_MOLAR_MASS', 'JB_GAS_DELTA_H', 'JB_GAS_DELTA_U', 'JB_GAS_CP_MEAN', 'JB_GAS_DELTA_S', 'JB_SOLID_C', 'JB_SOLID_C_MEAN', 'JB_SOLID_DELTA_U', 'JB_SOLID_HEAT', 'JB_WORK_ISOBARIC', 'JB_WORK_ISOTHERMAL', 'JB_WORK_ISOTHERMAL_MASS', 'JB_WORK_POLYTROPIC', 'JB_WORK_POLYTROPIC_N', 'JB_WORK_LINEAR', 'JB_WORK_PV', 'JB_WORK_PATH', 'JB_WORK_ELECTRIC_IN', 'JB_WORK_SHAFT_IN', 'JB_POLY_EXPONENT', 'JB_POLY_FIT', 'JB_POLY_P2', 'JB_POLY_V2', 'JB_POLY_T2_FROM_V', 'JB_POLY_T2_FROM_P', 'JB_BALANCE_HEAT', 'JB_BALANCE_GAP', 'JB_BALANCE_DELTA_KE', 'JB_BALANCE_DELTA_PE', 'JB_HEAT_ISOBARIC_GAS', 'JB_HEAT_RIGID_GAS', 'JB_PROCESS', 'JB_PROCESS_TABLE', 'JB_PROCESS_PATH', 'JB_CYCLE_NET', 'JB_CYCLE_GAP', 'JB_CYCLE_EFFICIENCY', 'JB_STORED_ISENTROPIC', 'JB_STORED_IDEAL_ISENTROPIC', 'JB_STORED_ISOCHORIC', 'JB_BLOCKED_IN_P2', 'JB_RELIEF_THERMAL_FLOW', 'JB_TIME_HEATING', 'JB_TIME_HEATING_TABLE', 'JB_FIRE_HEAT', 'JB_WETTED_AREA', 'JB_TIME_FIRE', 'JB_TIME_FIRE_TABLE', 'JB_TIME_BATCH', 'JB_BALANCE_RATE', 'JB_TEST_PNEUMATIC_ENERGY', 'JB_TEST_HYDRO_ENERGY', 'JB_TEST_TNT', 'JB_TEST_DISTANCE', 'JB_ENGINE_VOLUME', 'JB_ENGINE_POWER', 'JB_ENGINE_MEP', 'JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY', 'JB_POLY_FIT_BRANCHES', 'JB_CONVERT', 'JB_WHY', 'JB_ABOUT']
+__all__ = ['JB_STATE', 'JB_PROP', 'JB_PHASE', 'JB_PROP_SAT', 'JB_GAS_CP', 'JB_GAS_CV', 'JB_GAS_K', 'JB_GAS_R', 'JB_GAS_MOLAR_MASS', 'JB_GAS_DELTA_H', 'JB_GAS_DELTA_U', 'JB_GAS_CP_MEAN', 'JB_GAS_DELTA_S', 'JB_SOLID_C', 'JB_SOLID_C_MEAN', 'JB_SOLID_DELTA_U', 'JB_SOLID_HEAT', 'JB_WORK_ISOBARIC', 'JB_WORK_ISOTHERMAL', 'JB_WORK_ISOTHERMAL_MASS', 'JB_WORK_POLYTROPIC', 'JB_WORK_POLYTROPIC_N', 'JB_WORK_LINEAR', 'JB_WORK_PV', 'JB_WORK_PATH', 'JB_WORK_ELECTRIC_IN', 'JB_WORK_SHAFT_IN', 'JB_POLY_EXPONENT', 'JB_POLY_FIT', 'JB_POLY_P2', 'JB_POLY_V2', 'JB_POLY_T2_FROM_V', 'JB_POLY_T2_FROM_P', 'JB_BALANCE_HEAT', 'JB_BALANCE_GAP', 'JB_BALANCE_DELTA_KE', 'JB_BALANCE_DELTA_PE', 'JB_HEAT_ISOBARIC_GAS', 'JB_HEAT_RIGID_GAS', 'JB_PROCESS', 'JB_PROCESS_TABLE', 'JB_PROCESS_PATH', 'JB_CYCLE_NET', 'JB_CYCLE_GAP', 'JB_CYCLE_EFFICIENCY', 'JB_STORED_ISENTROPIC', 'JB_STORED_IDEAL_ISENTROPIC', 'JB_STORED_ISOCHORIC', 'JB_BLOCKED_IN_P2', 'JB_RELIEF_THERMAL_FLOW', 'JB_TIME_HEATING', 'JB_TIME_HEATING_TABLE', 'JB_FIRE_HEAT', 'JB_WETTED_AREA', 'JB_TIME_FIRE', 'JB_TIME_FIRE_TABLE', 'JB_TIME_BATCH', 'JB_BALANCE_RATE', 'JB_TEST_PNEUMATIC_ENERGY', 'JB_TEST_HYDRO_ENERGY', 'JB_TEST_TNT', 'JB_TEST_DISTANCE', 'JB_ENGINE_VOLUME', 'JB_ENGINE_POWER', 'JB_ENGINE_MEP', 'JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY', 'JB_POLY_FIT_BRANCHES', 'JB_HUMID_AIR', 'JB_HUMID_CONDENSATE', 'JB_CONVERT', 'JB_WHY', 'JB_ABOUT']
 
 
 @_xw.func(category='joulebook · States and real-fluid properties')
@@ -747,6 +747,32 @@ def JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY(clearance, P_suction, P_discharge, n, un
 def JB_POLY_FIT_BRANCHES(P_values, V_values, units=None, caller=None):
     'Polytropic exponents of the compression and the expansion branch of a measured closed loop, fitted apart: a row (n compression, n expansion).'
     return _cell('JB_POLY_FIT_BRANCHES', P_values, V_values, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Humid air')
+@_xw.arg('want', ndim=2, err_to_str=True, doc="wanted property with unit, e.g. 'HR in kg/kg', 'Tdp in degC', 'RH in %' [text]")
+@_xw.arg('P', ndim=2, err_to_str=True, doc="total (absolute) pressure [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('spec1', ndim=2, err_to_str=True, doc="first property phrase, e.g. 'T in degC' [text]")
+@_xw.arg('value1', ndim=2, err_to_str=True, doc='value of the first property [number or range]')
+@_xw.arg('spec2', ndim=2, err_to_str=True, doc="second property phrase, e.g. 'RH' (0 to 1) or 'RH in %' [text]")
+@_xw.arg('value2', ndim=2, err_to_str=True, doc='value of the second property [number or range]')
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_HUMID_AIR(want, P, spec1, value1, spec2, value2, units=None, caller=None):
+    'Property of humid air (T RH HR Tdp Twb h v; h and v per kg dry air) at total pressure P fixed by two of T RH HR Tdp Twb h, each with its unit: real humid air, ASHRAE RP-1485.'
+    return _cell('JB_HUMID_AIR', want, P, spec1, value1, spec2, value2, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Humid air')
+@_xw.arg('P_1', ndim=2, err_to_str=True, doc="absolute pressure of the intake air [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('T_1', ndim=2, err_to_str=True, doc="temperature of the intake air [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('RH_1', ndim=2, err_to_str=True, doc='relative humidity of the intake air, 0 to 1 [number or range]')
+@_xw.arg('P_2', ndim=2, err_to_str=True, doc="absolute pressure in the receiver [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('T_2', ndim=2, err_to_str=True, doc="temperature in the receiver [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('V_2', ndim=2, err_to_str=True, doc="receiver volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_HUMID_CONDENSATE(P_1, T_1, RH_1, P_2, T_2, V_2, units=None, caller=None):
+    'Water condensed in a compressed-air receiver of volume V_2 at (P_2, T_2) from air taken in at (P_1, T_1, RH_1): m_da·max(0, HR1 − HR_sat2), real humid air (RP-1485).'
+    return _cell('JB_HUMID_CONDENSATE', P_1, T_1, RH_1, P_2, T_2, V_2, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Units and information')
