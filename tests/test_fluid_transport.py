@@ -96,3 +96,29 @@ def test_receiver_condensate_by_hand():
     assert 0.14 < m < 0.16  # about 150 g per cubic metre of receiver
     with pytest.raises(OutOfRange, match="supersaturated|RH"):
         call("JB_HUMID_AIR", "HR", 101.325, "T in degC", 25, "RH", 1.2)
+
+
+def test_chart_tables_for_native_charts():
+    # the dome's points are saturation states (iapws 1.5.5 for one of them); an isoline's
+    # points are the states (fixed, x) read back by JB_PROP (the same model, a consistency
+    # check of the table's assembly)
+    from iapws import IAPWS95
+
+    dome = call("JB_CHART_DOME", "water", "T-s", 11, "degC-bar-kJ")
+    assert dome[0] == ["s in kJ/(kg*K)", "T in degC"] and len(dome) == 1 + 22
+    ts = [r[1] for r in dome[1:]]
+    assert ts[:11] == sorted(ts[:11]) and ts[11:] == sorted(ts[11:], reverse=True)
+    for row, x in ((dome[4], 0), (dome[19], 1)):
+        check(row[0], IAPWS95(T=row[1] + 273.15, x=x).s, rtol=1e-6,
+              quantity="s_f [kJ/(kg K)]" if x == 0 else "s_g [kJ/(kg K)]",
+              conditions=f"water, saturated at {row[1]:.4f} degC (a point of the dome table)",
+              source="iapws 1.5.5 (PyPI), independent IAPWS-95 implementation")  # fmt: skip
+    line = call("JB_CHART_ISOLINE", "water", "P-h", "T in degC", 150, 500, 3000, 6)
+    assert line[0] == ["h in kJ/kg", "P in kPa"]
+    for h, P in line[1:]:
+        if isinstance(P, float):
+            assert call("JB_PROP", "water", "T in degC", "h in kJ/kg", h, "P in kPa", P) == (
+                pytest.approx(150, abs=1e-6)
+            )
+    with pytest.raises(BadInput, match="axis"):
+        call("JB_CHART_ISOLINE", "water", "T-s", "T in K", 300, 1, 2)

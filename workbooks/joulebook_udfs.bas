@@ -92,6 +92,32 @@ failed:
     JB_BLOCKED_IN_P2 = Err.Description
 End Function
 
+Function JB_CHART_DOME(substance, coordinates, Optional points, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_CHART_DOME = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CHART_DOME", Array(substance, coordinates, points, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_CHART_DOME = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CHART_DOME", Array(substance, coordinates, points, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_CHART_DOME = Err.Description
+End Function
+
+Function JB_CHART_ISOLINE(substance, coordinates, fixed, fixed_value, x_from, x_to, Optional points, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_CHART_ISOLINE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CHART_ISOLINE", Array(substance, coordinates, fixed, fixed_value, x_from, x_to, points, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_CHART_ISOLINE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CHART_ISOLINE", Array(substance, coordinates, fixed, fixed_value, x_from, x_to, points, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_CHART_ISOLINE = Err.Description
+End Function
+
 Function JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY(clearance, P_suction, P_discharge, n, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed

@@ -1472,6 +1472,59 @@ CATALOG: tuple[Func, ...] = (
         (_REF_HUMID,),
         Example((101.325, 303.15, 0.7, 901.325, 308.15, 1), 0.15089700274430073, 1e-6),
     ),
+    # ------------------------------------------------------------------ chart tables
+    Func(
+        "JB_CHART_DOME",
+        "state",
+        "The saturation dome of a real fluid as a spilled two-column table for a native chart: "
+        "T-s, P-v, P-h or h-s, up the liquid line to the critical point and down the vapour line.",
+        (
+            _SUB,
+            Arg("coordinates", "T-s, P-v, P-h or h-s (y–x)", type="text"),
+            Arg("points", "points on each side, 2 to 1000 (default 11)", optional=True),
+        ),
+        "asked",
+        "chart_dome",
+        "saturated liquid (x = 0) and vapour (x = 1) from the triple to the critical point",
+        (_REF_COOLPROP,),
+        Example(
+            ("water", "T-s", 2),
+            [
+                ["s in kJ/(kg*K)", "T in K"],
+                [0.0, 273.16],
+                [4.396234406227893, 647.0953529039873],
+                [4.417943113172108, 647.0953529039873],
+                [9.15549340929812, 273.16],
+            ],
+            1e-6,
+        ),
+        elementwise=False,
+    ),
+    Func(
+        "JB_CHART_ISOLINE",
+        "state",
+        "A line of constant T, P, v, h or s across a T-s, P-v, P-h or h-s chart as a spilled "
+        "table, the chart's x quantity running from x_from to x_to.",
+        (
+            _SUB,
+            Arg("coordinates", "T-s, P-v, P-h or h-s (y–x)", type="text"),
+            Arg("fixed", "the constant property with unit, e.g. 'P in bar'", type="text"),
+            Arg("fixed_value", "its value"),
+            Arg("x_from", "first value of the chart's x quantity (unit-system unit)"),
+            Arg("x_to", "last value of the chart's x quantity"),
+            Arg("points", "number of points, 2 to 1000 (default 11)", optional=True),
+        ),
+        "asked",
+        "chart_isoline",
+        "state (fixed, x) for x from x_from to x_to; y read from it",
+        (_REF_COOLPROP,),
+        Example(
+            ("water", "T-s", "P in bar", 10, 2, 7, 2),
+            [["s in kJ/(kg*K)", "T in K"], [2, 438.9628308222241], [7, 540.9859097141951]],
+            1e-6,
+        ),
+        elementwise=False,
+    ),
     # ------------------------------------------------------------------ utilities
     Func(
         "JB_CONVERT",

@@ -210,6 +210,12 @@ def wet_steam_vessel(wb) -> None:
     ws.cell(row=r, column=1, value="Full end state (spilled table)")
     ref = f"A{r + 1}:C{r + 13}"
     ws[f"A{r + 1}"] = ArrayFormula(ref, '=JB_PROCESS_TABLE(B16,"rigid","P2 in bar",B13,B18)')
+    ws["E9"] = "Saturation dome for a T-s chart of the process (spilled table)"
+    ws["E10"] = ArrayFormula("E10:F32", '=JB_CHART_DOME("water","T-s",11,"degC-bar-kJ")')
+    ws["H9"] = "Isobar at the final pressure across the chart"
+    ws["H10"] = ArrayFormula(
+        "H10:I21", '=JB_CHART_ISOLINE("water","T-s","P in bar",B13,1,8,11,"degC-bar-kJ")'
+    )
 
 
 def receiver_test(wb) -> None:

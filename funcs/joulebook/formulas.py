@@ -836,3 +836,77 @@ def humid_air(want, P, spec1, value1, spec2, value2, *, system):
 
 def humid_condensate(P_1, T_1, RH_1, P_2, T_2, V_2, *, system):
     return humidair.condensate(P_1, T_1, RH_1, P_2, T_2, V_2)
+
+
+# ---------------------------------------------------------------------------------------
+# property charts as tables
+
+
+_CHARTS = {"T-s": ("s", "T"), "P-v": ("v", "P"), "P-h": ("h", "P"), "h-s": ("s", "h")}
+_CHART_KIND = {
+    "s": "specific_entropy", "T": "temperature", "v": "specific_volume", "P": "pressure",
+    "h": "specific_energy",
+}  # fmt: skip
+
+
+def _chart(coordinates) -> tuple[str, str]:
+    key = str(coordinates).strip().replace("–", "-").replace(" ", "")
+    for name, axes in _CHARTS.items():
+        if key.lower() == name.lower():
+            return axes
+    raise BadInput(f"coordinates {coordinates!r}: use one of {', '.join(_CHARTS)}")
+
+
+def _header(x: str, y: str, system) -> list[str]:
+    return [f"{sym} in {system.unit(_CHART_KIND[sym])}" for sym in (x, y)]
+
+
+def _xy(p, sym: str) -> float:
+    return {"s": p.s, "T": p.T, "v": p.v, "P": p.P, "h": p.h}[sym]
+
+
+def chart_dome(substance, coordinates, points, *, system):
+    """The saturation dome as one line: up the liquid side from the triple point to the
+    critical point and down the vapour side."""
+    x, y = _chart(coordinates)
+    med = medium(substance, system)
+    if med.ideal:
+        raise BadInput(f"{med.name} is modelled as an ideal gas: it has no saturation dome")
+    info = med.info
+    if not info.pure:
+        raise BadInput(f"{info.name} is a pseudo-pure mixture without a single saturation line")
+    n = _points(points)
+    T_lo, T_hi = info.T_triple, info.T_crit * (1 - 1e-6)
+    temps = [T_lo + (T_hi - T_lo) * (1 - (1 - i / (n - 1)) ** 2) for i in range(n)]
+    rows = []
+    for q, seq in ((0.0, temps), (1.0, temps[::-1])):
+        for T in seq:
+            p = med.point("T", T, "x", q)
+            rows.append([system.conv(_CHART_KIND[x]).from_si(_xy(p, x)),
+                         system.conv(_CHART_KIND[y]).from_si(_xy(p, y))])  # fmt: skip
+    return [_header(x, y, system), *rows]
+
+
+def chart_isoline(substance, coordinates, fixed, fixed_value, x_from, x_to, points, *, system):
+    """A line of constant *fixed* (e.g. 'P in bar') across the chart, the chart's x quantity
+    running from x_from to x_to (in the unit system's unit)."""
+    x, y = _chart(coordinates)
+    med = medium(substance, system)
+    ph = parse_phrase(fixed, system, ("T", "P", "v", "h", "s"))
+    if ph.symbol in (x, y):
+        raise BadInput(
+            f"fixed {fixed!r}: a line of constant {ph.symbol} is an axis of {coordinates}"
+        )
+    n = _points(points)
+    cx = system.conv(_CHART_KIND[x])
+    cy = system.conv(_CHART_KIND[y])
+    fv = ph.conv.to_si(float(fixed_value))
+    rows = []
+    for i in range(n):
+        xv = x_from + (x_to - x_from) * i / (n - 1)
+        try:
+            p = med.point(ph.symbol, fv, x, cx.to_si(xv))
+            rows.append([xv, cy.from_si(_xy(p, y))])
+        except JoulebookError as e:
+            rows.append([xv, e.cell_text()])
+    return [_header(x, y, system), *rows]

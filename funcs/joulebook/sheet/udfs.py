@@ -14,7 +14,7 @@ from joulebook.sheet.cells import why as _why
 
 
 
-__all__ = ['JB_STATE', 'JB_PROP', 'JB_PHASE', 'JB_PROP_SAT', 'JB_GAS_CP', 'JB_GAS_CV', 'JB_GAS_K', 'JB_GAS_R', 'JB_GAS_MOLAR_MASS', 'JB_GAS_DELTA_H', 'JB_GAS_DELTA_U', 'JB_GAS_CP_MEAN', 'JB_GAS_DELTA_S', 'JB_SOLID_C', 'JB_SOLID_C_MEAN', 'JB_SOLID_DELTA_U', 'JB_SOLID_HEAT', 'JB_WORK_ISOBARIC', 'JB_WORK_ISOTHERMAL', 'JB_WORK_ISOTHERMAL_MASS', 'JB_WORK_POLYTROPIC', 'JB_WORK_POLYTROPIC_N', 'JB_WORK_LINEAR', 'JB_WORK_PV', 'JB_WORK_PATH', 'JB_WORK_ELECTRIC_IN', 'JB_WORK_SHAFT_IN', 'JB_POLY_EXPONENT', 'JB_POLY_FIT', 'JB_POLY_P2', 'JB_POLY_V2', 'JB_POLY_T2_FROM_V', 'JB_POLY_T2_FROM_P', 'JB_BALANCE_HEAT', 'JB_BALANCE_GAP', 'JB_BALANCE_DELTA_KE', 'JB_BALANCE_DELTA_PE', 'JB_HEAT_ISOBARIC_GAS', 'JB_HEAT_RIGID_GAS', 'JB_PROCESS', 'JB_PROCESS_TABLE', 'JB_PROCESS_PATH', 'JB_CYCLE_NET', 'JB_CYCLE_GAP', 'JB_CYCLE_EFFICIENCY', 'JB_STORED_ISENTROPIC', 'JB_STORED_IDEAL_ISENTROPIC', 'JB_STORED_ISOCHORIC', 'JB_BLOCKED_IN_P2', 'JB_RELIEF_THERMAL_FLOW', 'JB_TIME_HEATING', 'JB_TIME_HEATING_TABLE', 'JB_FIRE_HEAT', 'JB_WETTED_AREA', 'JB_TIME_FIRE', 'JB_TIME_FIRE_TABLE', 'JB_TIME_BATCH', 'JB_BALANCE_RATE', 'JB_TEST_PNEUMATIC_ENERGY', 'JB_TEST_HYDRO_ENERGY', 'JB_TEST_TNT', 'JB_TEST_DISTANCE', 'JB_ENGINE_VOLUME', 'JB_ENGINE_POWER', 'JB_ENGINE_MEP', 'JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY', 'JB_POLY_FIT_BRANCHES', 'JB_HUMID_AIR', 'JB_HUMID_CONDENSATE', 'JB_CONVERT', 'JB_WHY', 'JB_ABOUT']
+__all__ = ['JB_STATE', 'JB_PROP', 'JB_PHASE', 'JB_PROP_SAT', 'JB_GAS_CP', 'JB_GAS_CV', 'JB_GAS_K', 'JB_GAS_R', 'JB_GAS_MOLAR_MASS', 'JB_GAS_DELTA_H', 'JB_GAS_DELTA_U', 'JB_GAS_CP_MEAN', 'JB_GAS_DELTA_S', 'JB_SOLID_C', 'JB_SOLID_C_MEAN', 'JB_SOLID_DELTA_U', 'JB_SOLID_HEAT', 'JB_WORK_ISOBARIC', 'JB_WORK_ISOTHERMAL', 'JB_WORK_ISOTHERMAL_MASS', 'JB_WORK_POLYTROPIC', 'JB_WORK_POLYTROPIC_N', 'JB_WORK_LINEAR', 'JB_WORK_PV', 'JB_WORK_PATH', 'JB_WORK_ELECTRIC_IN', 'JB_WORK_SHAFT_IN', 'JB_POLY_EXPONENT', 'JB_POLY_FIT', 'JB_POLY_P2', 'JB_POLY_V2', 'JB_POLY_T2_FROM_V', 'JB_POLY_T2_FROM_P', 'JB_BALANCE_HEAT', 'JB_BALANCE_GAP', 'JB_BALANCE_DELTA_KE', 'JB_BALANCE_DELTA_PE', 'JB_HEAT_ISOBARIC_GAS', 'JB_HEAT_RIGID_GAS', 'JB_PROCESS', 'JB_PROCESS_TABLE', 'JB_PROCESS_PATH', 'JB_CYCLE_NET', 'JB_CYCLE_GAP', 'JB_CYCLE_EFFICIENCY', 'JB_STORED_ISENTROPIC', 'JB_STORED_IDEAL_ISENTROPIC', 'JB_STORED_ISOCHORIC', 'JB_BLOCKED_IN_P2', 'JB_RELIEF_THERMAL_FLOW', 'JB_TIME_HEATING', 'JB_TIME_HEATING_TABLE', 'JB_FIRE_HEAT', 'JB_WETTED_AREA', 'JB_TIME_FIRE', 'JB_TIME_FIRE_TABLE', 'JB_TIME_BATCH', 'JB_BALANCE_RATE', 'JB_TEST_PNEUMATIC_ENERGY', 'JB_TEST_HYDRO_ENERGY', 'JB_TEST_TNT', 'JB_TEST_DISTANCE', 'JB_ENGINE_VOLUME', 'JB_ENGINE_POWER', 'JB_ENGINE_MEP', 'JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY', 'JB_POLY_FIT_BRANCHES', 'JB_HUMID_AIR', 'JB_HUMID_CONDENSATE', 'JB_CHART_DOME', 'JB_CHART_ISOLINE', 'JB_CONVERT', 'JB_WHY', 'JB_ABOUT']
 
 
 @_xw.func(category='joulebook · States and real-fluid properties')
@@ -773,6 +773,30 @@ def JB_HUMID_AIR(want, P, spec1, value1, spec2, value2, units=None, caller=None)
 def JB_HUMID_CONDENSATE(P_1, T_1, RH_1, P_2, T_2, V_2, units=None, caller=None):
     'Water condensed in a compressed-air receiver of volume V_2 at (P_2, T_2) from air taken in at (P_1, T_1, RH_1): m_da·max(0, HR1 − HR_sat2), real humid air (RP-1485).'
     return _cell('JB_HUMID_CONDENSATE', P_1, T_1, RH_1, P_2, T_2, V_2, units, caller=caller)
+
+
+@_xw.func(category='joulebook · States and real-fluid properties')
+@_xw.arg('substance', ndim=2, err_to_str=True, doc='fluid name (water, air, R134a, CO2 …) or a state text from JB_STATE [text]')
+@_xw.arg('coordinates', ndim=2, err_to_str=True, doc='T-s, P-v, P-h or h-s (y–x) [text]')
+@_xw.arg('points', ndim=2, err_to_str=True, doc='points on each side, 2 to 1000 (default 11) (optional) [number or range]')
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_CHART_DOME(substance, coordinates, points=None, units=None, caller=None):
+    'The saturation dome of a real fluid as a spilled two-column table for a native chart: T-s, P-v, P-h or h-s, up the liquid line to the critical point and down the vapour line.'
+    return _cell('JB_CHART_DOME', substance, coordinates, points, units, caller=caller)
+
+
+@_xw.func(category='joulebook · States and real-fluid properties')
+@_xw.arg('substance', ndim=2, err_to_str=True, doc='fluid name (water, air, R134a, CO2 …) or a state text from JB_STATE [text]')
+@_xw.arg('coordinates', ndim=2, err_to_str=True, doc='T-s, P-v, P-h or h-s (y–x) [text]')
+@_xw.arg('fixed', ndim=2, err_to_str=True, doc="the constant property with unit, e.g. 'P in bar' [text]")
+@_xw.arg('fixed_value', ndim=2, err_to_str=True, doc='its value [number or range]')
+@_xw.arg('x_from', ndim=2, err_to_str=True, doc="first value of the chart's x quantity (unit-system unit) [number or range]")
+@_xw.arg('x_to', ndim=2, err_to_str=True, doc="last value of the chart's x quantity [number or range]")
+@_xw.arg('points', ndim=2, err_to_str=True, doc='number of points, 2 to 1000 (default 11) (optional) [number or range]')
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_CHART_ISOLINE(substance, coordinates, fixed, fixed_value, x_from, x_to, points=None, units=None, caller=None):
+    "A line of constant T, P, v, h or s across a T-s, P-v, P-h or h-s chart as a spilled table, the chart's x quantity running from x_from to x_to."
+    return _cell('JB_CHART_ISOLINE', substance, coordinates, fixed, fixed_value, x_from, x_to, points, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Units and information')
