@@ -214,6 +214,41 @@ _REF_SOLIDS = (
     "per material: NASA TM-4513 (1993) for Al, Cu, Fe; others as listed in docs/functions.md"
 )
 
+_HEATING_ARGS = (
+    Arg("state1", "initial state text of the contents, from JB_STATE", type="text"),
+    Arg("V", "vessel volume", quantity="volume"),
+    Arg("target", "target with unit: 'P in bar', 'T in degC' or 'x'", type="text"),
+    Arg("target_value", "value of the target, in its unit"),
+    Arg(
+        "Q_dot",
+        "constant heat rate into the contents (optional)",
+        quantity="power",
+        optional=True,
+    ),
+    Arg(
+        "UA",
+        "conductance to a medium at T_source (optional)",
+        quantity="heat_transfer_coefficient",
+        optional=True,
+    ),
+    Arg(
+        "T_source",
+        "temperature of the medium (with UA)",
+        quantity="temperature",
+        optional=True,
+    ),
+)
+_FIRE_ARGS = (
+    Arg("state1", "initial state text of the contents, from JB_STATE", type="text"),
+    Arg("shape", "horizontal or vertical", type="text"),
+    Arg("D", "diameter", quantity="length"),
+    Arg("L", "length between the ends (height when vertical)", quantity="length"),
+    Arg("target", "target with unit: 'P in bar', 'T in degC' or 'x'", type="text"),
+    Arg("target_value", "value of the target, in its unit"),
+    Arg("F", "environment factor, 0 < F ≤ 1 (default 1)", optional=True),
+    Arg("drainage", "adequate (default) or inadequate", type="text", optional=True),
+)
+
 CATALOG: tuple[Func, ...] = (
     # ------------------------------------------------------------------ states
     Func(
@@ -1042,30 +1077,7 @@ CATALOG: tuple[Func, ...] = (
         "time",
         "Time for a rigid vessel (state1, volume V) to reach a target T, P or x under a heat rate "
         "Q_dot and/or UA·(T_source − T), integrated on the equation of state.",
-        (
-            Arg("state1", "initial state text of the contents, from JB_STATE", type="text"),
-            Arg("V", "vessel volume", quantity="volume"),
-            Arg("target", "target with unit: 'P in bar', 'T in degC' or 'x'", type="text"),
-            Arg("target_value", "value of the target, in its unit"),
-            Arg(
-                "Q_dot",
-                "constant heat rate into the contents (optional)",
-                quantity="power",
-                optional=True,
-            ),
-            Arg(
-                "UA",
-                "conductance to a medium at T_source (optional)",
-                quantity="heat_transfer_coefficient",
-                optional=True,
-            ),
-            Arg(
-                "T_source",
-                "temperature of the medium (with UA)",
-                quantity="temperature",
-                optional=True,
-            ),
-        ),
+        (*_HEATING_ARGS,),
         "time",
         "time_heating",
         "t = m·∫ du/Q_dot(u) along v = V/m, Q_dot = Q0 + UA·(T_source − T)",
@@ -1081,28 +1093,7 @@ CATALOG: tuple[Func, ...] = (
         "The heating of JB_TIME_HEATING as a spilled table of t, T, P, x, Q at points states from "
         "state1 to the target.",
         (
-            Arg("state1", "initial state text of the contents, from JB_STATE", type="text"),
-            Arg("V", "vessel volume", quantity="volume"),
-            Arg("target", "target with unit: 'P in bar', 'T in degC' or 'x'", type="text"),
-            Arg("target_value", "value of the target, in its unit"),
-            Arg(
-                "Q_dot",
-                "constant heat rate into the contents (optional)",
-                quantity="power",
-                optional=True,
-            ),
-            Arg(
-                "UA",
-                "conductance to a medium at T_source (optional)",
-                quantity="heat_transfer_coefficient",
-                optional=True,
-            ),
-            Arg(
-                "T_source",
-                "temperature of the medium (with UA)",
-                quantity="temperature",
-                optional=True,
-            ),
+            *_HEATING_ARGS,
             Arg("points", "number of rows, 2 to 1000 (default 11)", optional=True),
         ),
         "asked",
@@ -1161,16 +1152,7 @@ CATALOG: tuple[Func, ...] = (
         "Time for a fire-exposed cylindrical vessel to reach a target (e.g. its set pressure), the "
         "wetted area following the liquid level, on the equation of state. An estimate: fire "
         "cases follow the codes.",
-        (
-            Arg("state1", "initial state text of the contents, from JB_STATE", type="text"),
-            Arg("shape", "horizontal or vertical", type="text"),
-            Arg("D", "diameter", quantity="length"),
-            Arg("L", "length between the ends (height when vertical)", quantity="length"),
-            Arg("target", "target with unit: 'P in bar', 'T in degC' or 'x'", type="text"),
-            Arg("target_value", "value of the target, in its unit"),
-            Arg("F", "environment factor, 0 < F ≤ 1 (default 1)", optional=True),
-            Arg("drainage", "adequate (default) or inadequate", type="text", optional=True),
-        ),
+        (*_FIRE_ARGS,),
         "time",
         "time_fire",
         "t = m·∫ du/Q_fire(A_wet(level(u))) along v = V/m",
@@ -1187,14 +1169,7 @@ CATALOG: tuple[Func, ...] = (
         "time",
         "The fire exposure of JB_TIME_FIRE as a spilled table of t, T, P, x, Q at points states.",
         (
-            Arg("state1", "initial state text of the contents, from JB_STATE", type="text"),
-            Arg("shape", "horizontal or vertical", type="text"),
-            Arg("D", "diameter", quantity="length"),
-            Arg("L", "length between the ends (height when vertical)", quantity="length"),
-            Arg("target", "target with unit: 'P in bar', 'T in degC' or 'x'", type="text"),
-            Arg("target_value", "value of the target, in its unit"),
-            Arg("F", "environment factor, 0 < F ≤ 1 (default 1)", optional=True),
-            Arg("drainage", "adequate (default) or inadequate", type="text", optional=True),
+            *_FIRE_ARGS,
             Arg("points", "number of rows, 2 to 1000 (default 11)", optional=True),
         ),
         "asked",

@@ -39,7 +39,8 @@ from __future__ import annotations
 
 import math
 
-from ..errors import BadInput, OutOfRange, fmt_value
+from ..errors import BadInput, fmt_value
+from .stored import _check
 
 __all__ = ["pneumatic_energy", "container_energy", "tnt_equivalent", "scaled_distance", "E_TNT"]
 
@@ -54,15 +55,7 @@ def pneumatic_energy(P: float, V: float, P_amb: float = 101_325.0) -> float:
     >>> round(pneumatic_energy(1.2e6, 2.0) / 1e6, 4)
     3.041
     """
-    if not V > 0:
-        raise BadInput(f"V = {fmt_value(V)} m3: the test volume must be above 0")
-    if not P_amb > 0:
-        raise BadInput(f"P_amb = {fmt_value(P_amb)} Pa: the ambient pressure must be above 0")
-    if not P > P_amb:
-        raise OutOfRange(
-            f"P = {fmt_value(P / 1e3)} kPa is not above ambient {fmt_value(P_amb / 1e3)} kPa: "
-            "nothing is stored (the test pressure is absolute here; check gauge vs absolute)"
-        )
+    _check(P, V, P_amb)  # the stored-energy estimates' own rule
     return 2.5 * P * V * (1.0 - (P_amb / P) ** 0.286)
 
 
