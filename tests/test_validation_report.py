@@ -13,6 +13,7 @@ REFERENCE_TESTS = [
     "tests/test_processes_reference.py",
     "tests/test_daily_cases.py",
     "tests/test_fluid_transport.py",
+    "tests/test_if97.py",
 ]
 
 

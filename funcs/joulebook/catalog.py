@@ -107,7 +107,10 @@ FAMILIES = {
 }
 
 _SUB = Arg(
-    "substance", "fluid name (water, air, R134a, CO2 …) or a state text from JB_STATE", type="text"
+    "substance",
+    "fluid name (water, air, R134a, CO2 …; 'water (IF97)' for the industrial formulation) or a "
+    "state text from JB_STATE",
+    type="text",
 )
 _SPEC1 = Arg(
     "spec1",

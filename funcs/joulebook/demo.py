@@ -212,6 +212,10 @@ def wet_steam_vessel(wb) -> None:
     ws[f"A{r + 1}"] = ArrayFormula(ref, '=JB_PROCESS_TABLE(B16,"rigid","P2 in bar",B13,B18)')
     ws["E9"] = "Saturation dome for a T-s chart of the process (spilled table)"
     ws["E10"] = ArrayFormula("E10:F32", '=JB_CHART_DOME("water","T-s",11,"degC-bar-kJ")')
+    ws["K9"] = "Plant-table check: final enthalpy of the saturated vapour by IF97 and IAPWS-95"
+    ws["K10"] = '=JB_PROP("water (IF97)","h in kJ/kg","P in bar",B13,"x",1)'
+    ws["K11"] = '=JB_PROP("water","h in kJ/kg","P in bar",B13,"x",1)'
+    ws["K12"] = "=K10/K11-1"
     ws["H9"] = "Isobar at the final pressure across the chart"
     ws["H10"] = ArrayFormula(
         "H10:I21", '=JB_CHART_ISOLINE("water","T-s","P in bar",B13,1,8,11,"degC-bar-kJ")'

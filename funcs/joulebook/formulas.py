@@ -16,7 +16,7 @@ import numpy as np
 
 from . import __version__, firstlaw, states
 from .errors import BadInput, JoulebookError, OutOfRange, message_in
-from .media import medium
+from .media import RealMedium, medium
 from .processes import (
     blockedin,
     cycles,
@@ -88,7 +88,7 @@ def _prop_plan(substance: str, want: str, spec1: str, spec2: str, system: UnitSy
         except BadInput as e:
             raise BadInput(f"want: {e.message}") from None
         out, sym = wp.conv, wp.symbol
-    read = None if med.ideal else fluids.reader(sym)
+    read = fluids.reader(sym) if isinstance(med, RealMedium) else None
     return med, p1.symbol, p1.conv, p2.symbol, p2.conv, sym, out, shows, read
 
 

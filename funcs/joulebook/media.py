@@ -247,6 +247,69 @@ class IdealMedium:
 
 
 _IDEAL_RE = re.compile(r"^(?P<name>.*?)\s*\(\s*ideal\s+gas\s*\)\s*$", re.IGNORECASE)
+_IF97_RE = re.compile(r"^\s*(water|steam|H2O)\s*\(\s*IF97\s*\)\s*$", re.IGNORECASE)
+
+
+class IF97Medium:
+    """Water by the industrial formulation IAPWS-IF97 (substances/if97.py)."""
+
+    ideal = False
+
+    def __init__(self):
+        from .substances import if97
+
+        self._if97 = if97
+        self.name = if97.NAME
+        self.model = if97.model_text()
+        self.info = fluids.fluid_info("water")  # constants and the dome for the audit's charts
+        self.R = self.info.R
+
+    def text(self) -> str:
+        return self.name
+
+    def point(self, a: str, va: float, b: str, vb: float, shows=None) -> Point:
+        T, P, v, u, h, s, x = self._if97.flash(a, va, b, vb)
+        if x is not None:
+            phase = (
+                "saturated liquid"
+                if x == 0
+                else "saturated vapor"
+                if x == 1
+                else "saturated mixture"
+            )
+        elif T >= self._if97.T_CRIT and P >= self._if97.P_CRIT:
+            phase = "supercritical fluid"
+        elif T >= self._if97.T_CRIT:
+            phase = "gas above the critical temperature"
+        elif P >= self._if97.psat(T):
+            phase = "compressed liquid"
+        else:
+            phase = "superheated vapor"
+        return Point(T, P, v, u, h, s, x, phase)
+
+    def read(self, want: str, a: str, va: float, b: str, vb: float, shows=None):
+        p = self.point(a, va, b, vb, shows)
+        simple = {
+            "T": p.T, "P": p.P, "v": p.v, "rho": 1.0 / p.v, "u": p.u, "h": p.h, "s": p.s,
+            "Z": p.P * p.v / (self.R * p.T), "phase": p.phase,
+        }  # fmt: skip
+        if want in simple:
+            return simple[want]
+        if want == "x":
+            if p.x is None:
+                raise OutOfRange(f"{self.name}: quality x is defined only for saturated states")
+            return p.x
+        if want in ("cp", "cv", "k", "w"):
+            if p.x is not None:
+                raise OutOfRange(f"{self.name}: {want} is not defined for a two-phase state")
+            return self._if97.derivative(p.T, p.P, want)
+        if want == "Tsat":
+            return self._if97.sat("P", p.P, 0.0)[0]
+        if want == "Psat":
+            return self._if97.sat("T", p.T, 0.0)[1]
+        raise OutOfRange(
+            f"{self.name}: {want} is not offered with IF97; write water (IAPWS-95) for it"
+        )
 
 
 _CONST_KIND = {
@@ -270,6 +333,8 @@ def medium(text: str, system: UnitSystem | None = None):
     """The medium named by substance text (state-spec parts, if any, are ignored here)."""
     system = system or unit_system(None)
     name, consts, _specs = split_substance(text)
+    if _IF97_RE.match(name) and not consts:
+        return IF97Medium()
     m = _IDEAL_RE.match(name)
     if m or consts:
         gname = m.group("name") if m else name

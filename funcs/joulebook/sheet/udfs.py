@@ -30,7 +30,7 @@ def JB_STATE(substance, spec1=None, value1=None, spec2=None, value2=None, units=
 
 
 @_xw.func(category='joulebook · States and real-fluid properties')
-@_xw.arg('substance', ndim=2, err_to_str=True, doc='fluid name (water, air, R134a, CO2 …) or a state text from JB_STATE [text]')
+@_xw.arg('substance', ndim=2, err_to_str=True, doc="fluid name (water, air, R134a, CO2 …; 'water (IF97)' for the industrial formulation) or a state text from JB_STATE [text]")
 @_xw.arg('want', ndim=2, err_to_str=True, doc="wanted property with unit, e.g. 'h in kJ/kg' (bare symbol: default unit) [text]")
 @_xw.arg('spec1', ndim=2, err_to_str=True, doc="first property phrase, e.g. 'T in degC' (T P v rho u h s x) (optional) [text]")
 @_xw.arg('value1', ndim=2, err_to_str=True, doc="value of the first property, in the phrase's unit (optional) [number or range]")
@@ -43,7 +43,7 @@ def JB_PROP(substance, want, spec1=None, value1=None, spec2=None, value2=None, u
 
 
 @_xw.func(category='joulebook · States and real-fluid properties')
-@_xw.arg('substance', ndim=2, err_to_str=True, doc='fluid name (water, air, R134a, CO2 …) or a state text from JB_STATE [text]')
+@_xw.arg('substance', ndim=2, err_to_str=True, doc="fluid name (water, air, R134a, CO2 …; 'water (IF97)' for the industrial formulation) or a state text from JB_STATE [text]")
 @_xw.arg('spec1', ndim=2, err_to_str=True, doc="first property phrase, e.g. 'T in degC' (T P v rho u h s x) (optional) [text]")
 @_xw.arg('value1', ndim=2, err_to_str=True, doc="value of the first property, in the phrase's unit (optional) [number or range]")
 @_xw.arg('spec2', ndim=2, err_to_str=True, doc="second property phrase, e.g. 'P in kPa' (optional) [text]")
@@ -776,7 +776,7 @@ def JB_HUMID_CONDENSATE(P_1, T_1, RH_1, P_2, T_2, V_2, units=None, caller=None):
 
 
 @_xw.func(category='joulebook · States and real-fluid properties')
-@_xw.arg('substance', ndim=2, err_to_str=True, doc='fluid name (water, air, R134a, CO2 …) or a state text from JB_STATE [text]')
+@_xw.arg('substance', ndim=2, err_to_str=True, doc="fluid name (water, air, R134a, CO2 …; 'water (IF97)' for the industrial formulation) or a state text from JB_STATE [text]")
 @_xw.arg('coordinates', ndim=2, err_to_str=True, doc='T-s, P-v, P-h or h-s (y–x) [text]')
 @_xw.arg('points', ndim=2, err_to_str=True, doc='points on each side, 2 to 1000 (default 11) (optional) [number or range]')
 @_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
@@ -786,7 +786,7 @@ def JB_CHART_DOME(substance, coordinates, points=None, units=None, caller=None):
 
 
 @_xw.func(category='joulebook · States and real-fluid properties')
-@_xw.arg('substance', ndim=2, err_to_str=True, doc='fluid name (water, air, R134a, CO2 …) or a state text from JB_STATE [text]')
+@_xw.arg('substance', ndim=2, err_to_str=True, doc="fluid name (water, air, R134a, CO2 …; 'water (IF97)' for the industrial formulation) or a state text from JB_STATE [text]")
 @_xw.arg('coordinates', ndim=2, err_to_str=True, doc='T-s, P-v, P-h or h-s (y–x) [text]')
 @_xw.arg('fixed', ndim=2, err_to_str=True, doc="the constant property with unit, e.g. 'P in bar' [text]")
 @_xw.arg('fixed_value', ndim=2, err_to_str=True, doc='its value [number or range]')

@@ -1,0 +1,223 @@
+"""Water by the industrial formulation IAPWS-IF97, for plant work and acceptance tests whose
+steam tables are IF97's.
+
+IF97 [1]_ is a set of fast equations, each valid in a region of the (T, P) plane, fitted to
+IAPWS-95; it departs from IAPWS-95 by up to about 1e-3 relative (more near the critical
+point), which is why a checker comparing with plant tables needs the same formulation.  The
+property library's IF97 backend gives states from (T, P), (P, x) and (T, x) by the forward
+equations; joulebook finds T or P with v, u, h or s by bracketed searches on those (so an
+input read back is the input: the backward equations of IF97 would leave h off by up to
+their permitted 25 mK), and refuses a pair that fits two states.
+
+Validity: 273.15 K ≤ T ≤ 1073.15 K at P ≤ 100 MPa (regions 1 to 4); region 5 (to 2273.15 K)
+is not offered by the property library's backend and is refused.
+
+References
+----------
+.. [1] IAPWS R7-97(2012), "Revised Release on the IAPWS Industrial Formulation 1997 for the
+   Thermodynamic Properties of Water and Steam"; W. Wagner et al., J. Eng. Gas Turbines
+   Power 122 (2000) 150–182.
+"""
+
+from __future__ import annotations
+
+import math
+import threading
+
+import numpy as np
+
+from ..errors import BadInput, OutOfRange, fmt_value
+from ..roots import scan_roots
+
+__all__ = ["NAME", "MODEL", "flash", "T_MIN", "T_MAX", "P_MAX", "T_CRIT", "P_CRIT"]
+
+NAME = "water (IF97)"
+T_MIN, T_MAX, P_MAX = 273.15, 1073.15, 100e6
+T_CRIT, P_CRIT = 647.096, 22.064e6
+P_TRIPLE = 611.212677
+_local = threading.local()
+
+
+def model_text() -> str:
+    import CoolProp
+
+    return f"IAPWS-IF97 (IAPWS R7-97(2012), industrial formulation) via CoolProp {CoolProp.__version__}"
+
+
+MODEL = "IAPWS-IF97 (IAPWS R7-97(2012), industrial formulation)"
+
+
+def _state():
+    st = getattr(_local, "st", None)
+    if st is None:
+        from CoolProp.CoolProp import AbstractState
+
+        st = _local.st = AbstractState("IF97", "Water")
+    return st
+
+
+def _cp():
+    import CoolProp.CoolProp as CP
+
+    return CP
+
+
+def _check_T(T: float) -> None:
+    if not (T_MIN <= T <= T_MAX):
+        raise OutOfRange(
+            f"{NAME}: T = {fmt_value(T)} K is outside IF97's range here, 273.15–1073.15 K "
+            "(region 5 above 1073.15 K is not offered)"
+        )
+
+
+def _check_P(P: float) -> None:
+    if not (0 < P <= P_MAX):
+        raise OutOfRange(f"{NAME}: P = {fmt_value(P / 1e3)} kPa is outside IF97's range 0–100 MPa")
+
+
+def _read(st, two_phase: bool):
+    """(T, P, v, u, h, s, x) of the current state."""
+    T, P = st.T(), st.p()
+    v = 1.0 / st.rhomass()
+    x = st.Q() if two_phase else None
+    return T, P, v, st.umass(), st.hmass(), st.smass(), x
+
+
+def _update(key, a: float, b: float, two_phase: bool = False):
+    st = _state()
+    try:
+        st.update(key, a, b)
+        return _read(st, two_phase)  # the backend evaluates lazily: reading can fail too
+    except (ValueError, IndexError) as e:  # the backend signals its range with either
+        raise OutOfRange(f"{NAME}: no state for these inputs ({str(e)[:80]})") from None
+
+
+def at_TP(T: float, P: float):
+    _check_T(T)
+    _check_P(P)
+    if T < T_CRIT and abs(P - psat(T)) <= 1e-5 * P:
+        raise BadInput(
+            f"{NAME}: T = {fmt_value(T)} K and P = {fmt_value(P / 1e3)} kPa lie on the saturation "
+            "line; give x or v"
+        )
+    return _update(_cp().PT_INPUTS, P, T)
+
+
+def psat(T: float) -> float:
+    return _update(_cp().QT_INPUTS, 0.0, T, True)[1]
+
+
+def sat(by: str, value: float, x: float):
+    CP = _cp()
+    if by == "T":
+        _check_T(value)
+        if value >= T_CRIT:
+            raise OutOfRange(f"{NAME}: no saturation above the critical temperature 647.096 K")
+        return _update(CP.QT_INPUTS, x, value, True)
+    _check_P(value)
+    if not P_TRIPLE <= value < P_CRIT:
+        raise OutOfRange(f"{NAME}: saturation needs 0.611 kPa ≤ P < 22064 kPa")
+    return _update(CP.PQ_INPUTS, value, x, True)
+
+
+_IDX = {"T": 0, "P": 1, "v": 2, "u": 3, "h": 4, "s": 5}
+
+
+def _two_phase(by: str, value: float, sym: str, target: float):
+    """The wet state at T or P whose *sym* is *target*, or None when it lies outside."""
+    if (by == "T" and value >= T_CRIT) or (by == "P" and not P_TRIPLE <= value < P_CRIT):
+        return None
+    f, g = sat(by, value, 0.0), sat(by, value, 1.0)
+    lo, hi = f[_IDX[sym]], g[_IDX[sym]]
+    if not lo <= target <= hi:
+        return None
+    x = (target - lo) / (hi - lo)
+    return sat(by, value, x)
+
+
+def _single(solve_over: str, fixed: float, sym: str, target: float):
+    """Single-phase states with *sym* = *target* on an isotherm (solve over ln P) or an isobar
+    (solve over T)."""
+
+    def f(z: float) -> float:
+        try:
+            st = at_TP(fixed, math.exp(z)) if solve_over == "P" else at_TP(z, fixed)
+        except (OutOfRange, BadInput):
+            return float("nan")
+        return st[_IDX[sym]] - target
+
+    if solve_over == "P":
+        grid = np.linspace(math.log(P_TRIPLE / 100), math.log(P_MAX), 160)
+        zs = scan_roots(f, grid, what=f"{NAME} state", xtol=1e-13)
+        states = [(fixed, math.exp(z)) for z in zs]
+    else:
+        grid = np.linspace(T_MIN, T_MAX, 200)
+        states = [(T, fixed) for T in scan_roots(f, grid, what=f"{NAME} state", xtol=1e-9)]
+    out = []
+    for T, P in states:
+        # a "root" where the property jumps across the saturation line is none
+        try:
+            st = at_TP(T, P)
+        except (OutOfRange, BadInput):
+            continue
+        if abs(st[_IDX[sym]] - target) <= 1e-7 * abs(target) + 1e-9:
+            out.append(st)
+    return out
+
+
+def flash(a: str, va: float, b: str, vb: float):
+    """(T, P, v, u, h, s, x) of water by IF97 at the pair (a, b), SI."""
+    _cp()
+    pair = {a: va, b: vb}
+    if a == b:
+        raise BadInput(f"{NAME}: the two state properties must differ (both are {a})")
+    if "rho" in pair:
+        pair["v"] = 1.0 / pair.pop("rho")
+    keys = set(pair)
+    for k, v in pair.items():
+        if not math.isfinite(v):
+            raise BadInput(f"{NAME}: {k} is not a finite number")
+    if keys == {"T", "P"}:
+        return at_TP(pair["T"], pair["P"])
+    if keys == {"P", "x"} or keys == {"T", "x"}:
+        by = "T" if "T" in keys else "P"
+        if not 0 <= pair["x"] <= 1:
+            raise OutOfRange(f"{NAME}: quality x = {fmt_value(pair['x'])} is outside 0 to 1")
+        return sat(by, pair[by], pair["x"])
+    for by in ("T", "P"):
+        if by in keys:
+            other = next(iter(keys - {by}))
+            if other not in ("v", "u", "h", "s"):
+                break
+            fixed, target = pair[by], pair[other]
+            (_check_T if by == "T" else _check_P)(fixed)
+            found = _single("P" if by == "T" else "T", fixed, other, target)
+            wet = _two_phase(by, fixed, other, target)
+            if wet is not None:
+                found = [s for s in found if abs(s[_IDX[other]] - target) > 0] + [wet]
+            if not found:
+                raise OutOfRange(
+                    f"{NAME}: no state has {by} = {fmt_value(fixed)} and {other} = "
+                    f"{fmt_value(target)} within IF97's range"
+                )
+            if len(found) > 1:
+                raise BadInput(
+                    f"{NAME}: {by} and {other} fit {len(found)} states here; give another pair"
+                )
+            return found[0]
+    raise BadInput(
+        f"{NAME}: the pair {a}, {b} is not offered for IF97; use T–P, P–x, T–x, or T or P with "
+        "v, u, h or s"
+    )
+
+
+def derivative(T: float, P: float, want: str) -> float:
+    """cp, cv, k or w of a single-phase state (T, P)."""
+    st = _state()
+    try:
+        st.update(_cp().PT_INPUTS, P, T)
+        cp, cv = st.cpmass(), st.cvmass()
+        val = {"cp": cp, "cv": cv, "k": cp / cv, "w": st.speed_sound()}[want]
+    except (ValueError, IndexError):
+        raise OutOfRange(f"{NAME}: {want} is not defined at this state") from None
+    return val
