@@ -122,3 +122,41 @@ def test_chart_tables_for_native_charts():
             )
     with pytest.raises(BadInput, match="axis"):
         call("JB_CHART_ISOLINE", "water", "T-s", "T in K", 300, 1, 2)
+
+
+def test_mixtures_by_composition_and_blends_by_name():
+    # R410A is R32/R125 50/50 by mass (ASHRAE 34, from memory); its bubble pressure at 25 °C
+    # is about 1.65 MPa with a glide under 0.5 K (from memory, refrigerant tables)
+    pb = call("JB_PROP_SAT", "R410A", "Pbubble in kPa", "T in degC", 25)
+    pd = call("JB_PROP_SAT", "R410A", "Pdew in kPa", "T in degC", 25)
+    assert 1630 < pb < 1670 and 0 < pb - pd < 20
+    by_mass = call("JB_PROP", "R32 0.5, R125 0.5 (mass)", "P in kPa", "T in degC", 25, "x", 0)
+    assert by_mass == pytest.approx(pb, rel=1e-12)  # the name is its composition
+    # R407C glides about 5–7 K at 1 MPa (from memory)
+    glide = call("JB_PROP_SAT", "R407C", "Tdew in K", "P in kPa", 1000) - call(
+        "JB_PROP_SAT", "R407C", "Tbubble in K", "P in kPa", 1000
+    )
+    assert 4 < glide < 8
+    with pytest.raises(BadInput, match="boils over a range"):
+        call("JB_PROP_SAT", "R407C", "Tsat", "P in kPa", 1000)
+
+
+def test_natural_gas_mixture_states():
+    ng = "methane 0.9, ethane 0.06, nitrogen 0.03, CO2 0.01"
+    # hand: at 1 bar and 300 K the gas is nearly ideal, ρ ≈ P·M/(R·T) (within 0.5 %)
+    M = 0.9 * 16.0428 + 0.06 * 30.069 + 0.03 * 28.0134 + 0.01 * 44.0095  # g/mol (from memory)
+    rho = call("JB_PROP", ng, "rho in kg/m3", "T in K", 300, "P in bar", 1)
+    assert rho == pytest.approx(1e5 * M / 1000 / (8.314462618 * 300), rel=5e-3)
+    tb = call("JB_PROP", ng, "T in K", "P in bar", 20, "x", 0)
+    td = call("JB_PROP", ng, "T in K", "P in bar", 20, "x", 1)
+    assert tb < td  # bubble below dew
+    s = call("JB_STATE", ng, "T in degC", 25, "P in bar", 50)
+    assert call("JB_PROP", s, "Z") == pytest.approx(
+        call("JB_PROP", ng, "Z", "T in degC", 25, "P in bar", 50), rel=1e-12
+    )
+    with pytest.raises(BadInput, match="two phases"):
+        call("JB_PROP", ng, "h", "T in K", (tb + td) / 2, "P in bar", 20)
+    with pytest.raises(BadInput, match="add up to 1"):
+        call("JB_PROP", "methane 0.9, ethane 0.2", "h", "T in K", 300, "P in bar", 1)
+    with pytest.raises(BadInput, match="T–P"):
+        call("JB_PROP", ng, "h", "T in K", 300, "h in kJ/kg", 1)

@@ -322,10 +322,14 @@ CATALOG: tuple[Func, ...] = (
     Func(
         "JB_PROP_SAT",
         "state",
-        "Saturation property of a real fluid at a given T or P: Tsat, Psat, vf vg vfg, uf ug ufg, "
-        'hf hg hfg, sf sg sfg (f liquid, g vapor, fg = g − f), e.g. JB_PROP_SAT("water","hfg in kJ/kg","P in kPa",101.325).',
+        "Saturation property at a given T or P: Tsat, Psat (Tbubble Tdew Pbubble Pdew of a mixture "
+        "or blend), vf vg vfg, uf ug ufg, hf hg hfg, sf sg sfg (f liquid or bubble, g vapor or dew).",
         (
-            Arg("substance", "fluid name", type="text"),
+            Arg(
+                "substance",
+                "fluid name, blend (R410A …) or mixture ('propane 0.7, butane 0.3')",
+                type="text",
+            ),
             Arg(
                 "want",
                 "saturation property with unit, e.g. 'hfg in kJ/kg' or 'Tsat in degC'",
@@ -1830,6 +1834,11 @@ def _result(f: Func, value, system):
         return out
     if isinstance(value, (np.floating, int)) and not isinstance(value, bool):
         return _result(f, float(value), system)
+    if isinstance(value, list):  # a table: no cell of it may hold NaN or inf either
+        for row in value:
+            for x in row if isinstance(row, list) else [row]:
+                if isinstance(x, float) and x - x != 0.0:
+                    raise OutOfRange(f"{f.name}: a value of the table is not a finite number")
     return value
 
 

@@ -588,6 +588,11 @@ def fire_drum(wb) -> None:
             ),
         ],
     )
+    ws["D18"] = "If the drum held commercial LPG (propane 0.7, butane 0.3 by mole):"
+    ws["D19"] = "Bubble pressure at the starting temperature (gauge)"
+    ws["E19"] = '=JB_PROP_SAT("propane 0.7, butane 0.3","Pbubble in barg","T in degC",B13)'
+    ws["D20"] = "Dew pressure at the starting temperature (gauge)"
+    ws["E20"] = '=JB_PROP_SAT("propane 0.7, butane 0.3","Pdew in barg","T in degC",B13)'
     ws["A28"] = "The heating, step by step (t, T, P absolute, x, heat taken in)"
     ws["A29"] = ArrayFormula(
         "A29:E35",

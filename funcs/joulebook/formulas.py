@@ -159,7 +159,10 @@ def phase(substance, spec1, value1, spec2, value2, *, system: UnitSystem) -> str
     return prop(substance, "phase", spec1, value1, spec2, value2, system=system)
 
 
-_SAT = re.compile(r"^\s*(?P<sym>Tsat|Psat|(?:v|u|h|s)(?:fg|f|g))\s*(?:in\s+(?P<unit>.+?))?\s*$")
+_SAT = re.compile(
+    r"^\s*(?P<sym>Tsat|Psat|Tbubble|Tdew|Pbubble|Pdew|(?:v|u|h|s)(?:fg|f|g))\s*"
+    r"(?:in\s+(?P<unit>.+?))?\s*$"
+)
 _SAT_KIND = {
     "T": "temperature",
     "P": "pressure",
@@ -176,8 +179,8 @@ def saturation(substance, want, given, value, *, system: UnitSystem):
     m = _SAT.match(want)
     if not m:
         raise BadInput(
-            f"want {want!r}: use Tsat, Psat, vf, vg, vfg, uf, ug, ufg, hf, hg, hfg, sf, sg, sfg "
-            "with an optional 'in unit'"
+            f"want {want!r}: use Tsat, Psat, Tbubble, Tdew, Pbubble, Pdew, vf, vg, vfg, uf, ug, "
+            "ufg, hf, hg, hfg, sf, sg, sfg with an optional 'in unit'"
         )
     sym = m.group("sym")
     kind = _SAT_KIND[sym[0]]
@@ -185,11 +188,40 @@ def saturation(substance, want, given, value, *, system: UnitSystem):
     gp = states.spec_phrase(given, "given", system)
     if gp.symbol not in ("T", "P"):
         raise BadInput(f"given must be 'T in …' or 'P in …' (got {given!r})")
+    from .substances import mixtures
+
+    text = mixtures.BLENDS.get(str(substance).strip().upper(), substance)
+    if mixtures.is_mixture_text(text):
+        return conv.from_si(_blend_saturation(text, gp.symbol, gp.conv.to_si(float(value)), sym))
+    if sym in ("Tbubble", "Tdew", "Pbubble", "Pdew"):
+        sym = sym[0] + "sat"  # a pure fluid's bubble and dew points are its saturation point
     info = fluids.fluid_info(substance)
     si = fluids.saturation(
         info.name, gp.symbol, gp.conv.to_si(float(value)), sym, shows={gp.symbol: gp.conv}
     )
     return conv.from_si(si)
+
+
+def _blend_saturation(text: str, by: str, value: float, sym: str) -> float:
+    """Bubble (liquid, f) and dew (vapour, g) points of a mixture or named blend."""
+    from .substances import mixtures
+
+    mix = mixtures.parse(text)
+    if sym in ("Tsat", "Psat"):
+        raise BadInput(
+            f"{mix.text}: a mixture boils over a range; ask Tbubble and Tdew (or Pbubble, Pdew), "
+            "or the f (bubble) and g (dew) properties"
+        )
+    if sym in ("Tbubble", "Tdew", "Pbubble", "Pdew"):
+        if sym[0] == by:
+            raise BadInput(f"{sym} at given {by}: give the other of T and P")
+        T, P, *_ = mixtures.saturation(mix, by, value, 0.0 if "bubble" in sym else 1.0)
+        return T if sym[0] == "T" else P
+    prop, side = sym[0], sym[1:]
+    idx = {"v": 2, "u": 3, "h": 4, "s": 5}[prop]
+    f = mixtures.saturation(mix, by, value, 0.0)[idx]
+    g = mixtures.saturation(mix, by, value, 1.0)[idx]
+    return f if side == "f" else g if side == "g" else g - f
 
 
 # ---------------------------------------------------------------------------------------

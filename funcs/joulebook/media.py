@@ -250,6 +250,58 @@ _IDEAL_RE = re.compile(r"^(?P<name>.*?)\s*\(\s*ideal\s+gas\s*\)\s*$", re.IGNOREC
 _IF97_RE = re.compile(r"^\s*(water|steam|H2O)\s*\(\s*IF97\s*\)\s*$", re.IGNORECASE)
 
 
+class MixtureMedium:
+    """A mixture by composition on the multi-fluid model (substances/mixtures.py)."""
+
+    ideal = False
+    info = None
+
+    def __init__(self, text: str):
+        from .substances import mixtures
+
+        self._mx = mixtures
+        self.mix = mixtures.parse(text)
+        self.name = self.mix.text
+        self.model = f"{mixtures.MODEL} via {fluids.coolprop_version()}"
+        self.R = 8.314462618 / mixtures.molar_mass(self.mix)
+
+    def text(self) -> str:
+        return self.name
+
+    def point(self, a: str, va: float, b: str, vb: float, shows=None) -> Point:
+        pair = {a: va, b: vb}
+        if set(pair) == {"T", "P"}:
+            T, P, v, u, h, s = self._mx.at_TP(self.mix, pair["T"], pair["P"])
+            return Point(T, P, v, u, h, s, None, "single phase (mixture)")
+        for by in ("T", "P"):
+            if set(pair) == {by, "x"}:
+                x = pair["x"]
+                T, P, v, u, h, s = self._mx.saturation(self.mix, by, pair[by], x)
+                word = "bubble point" if x == 0 else "dew point" if x == 1 else "two-phase mixture"
+                return Point(T, P, v, u, h, s, x, word)
+        raise BadInput(
+            f"{self.name}: a mixture takes T–P, or T or P with x (0 bubble point, 1 dew point)"
+        )
+
+    def read(self, want: str, a: str, va: float, b: str, vb: float, shows=None):
+        p = self.point(a, va, b, vb, shows)
+        simple = {
+            "T": p.T, "P": p.P, "v": p.v, "rho": 1.0 / p.v, "u": p.u, "h": p.h, "s": p.s,
+            "Z": p.P * p.v / (self.R * p.T), "phase": p.phase,
+        }  # fmt: skip
+        if want in simple:
+            return simple[want]
+        if want == "x":
+            if p.x is None:
+                raise OutOfRange(f"{self.name}: x is defined only for saturated states")
+            return p.x
+        if want in ("cp", "cv", "k", "w"):
+            if p.x is not None:
+                raise OutOfRange(f"{self.name}: {want} is not defined for a two-phase state")
+            return self._mx.derivative(self.mix, p.T, p.P, want)
+        raise OutOfRange(f"{self.name}: {want} is not offered for mixtures")
+
+
 class IF97Medium:
     """Water by the industrial formulation IAPWS-IF97 (substances/if97.py)."""
 
@@ -335,6 +387,10 @@ def medium(text: str, system: UnitSystem | None = None):
     name, consts, _specs = split_substance(text)
     if _IF97_RE.match(name) and not consts:
         return IF97Medium()
+    from .substances import mixtures
+
+    if not consts and mixtures.is_mixture_text(name):
+        return MixtureMedium(name)
     m = _IDEAL_RE.match(name)
     if m or consts:
         gname = m.group("name") if m else name

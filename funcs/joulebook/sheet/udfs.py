@@ -55,13 +55,13 @@ def JB_PHASE(substance, spec1=None, value1=None, spec2=None, value2=None, units=
 
 
 @_xw.func(category='joulebook · States and real-fluid properties')
-@_xw.arg('substance', ndim=2, err_to_str=True, doc='fluid name [text]')
+@_xw.arg('substance', ndim=2, err_to_str=True, doc="fluid name, blend (R410A …) or mixture ('propane 0.7, butane 0.3') [text]")
 @_xw.arg('want', ndim=2, err_to_str=True, doc="saturation property with unit, e.g. 'hfg in kJ/kg' or 'Tsat in degC' [text]")
 @_xw.arg('given', ndim=2, err_to_str=True, doc="'T in …' or 'P in …' [text]")
 @_xw.arg('value', ndim=2, err_to_str=True, doc='the given saturation temperature or pressure [number or range]')
 @_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
 def JB_PROP_SAT(substance, want, given, value, units=None, caller=None):
-    'Saturation property of a real fluid at a given T or P: Tsat, Psat, vf vg vfg, uf ug ufg, hf hg hfg, sf sg sfg (f liquid, g vapor, fg = g − f), e.g. JB_PROP_SAT("water","hfg in kJ/kg","P in kPa",101.325).'
+    'Saturation property at a given T or P: Tsat, Psat (Tbubble Tdew Pbubble Pdew of a mixture or blend), vf vg vfg, uf ug ufg, hf hg hfg, sf sg sfg (f liquid or bubble, g vapor or dew).'
     return _cell('JB_PROP_SAT', substance, want, given, value, units, caller=caller)
 
 
