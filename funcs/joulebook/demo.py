@@ -149,6 +149,7 @@ def blocked_in_line(wb) -> None:
                 '=JB_RELIEF_THERMAL_FLOW(B38,B32,"degC-bar-kJ, q_v=L/h")',
                 "L/h",
             ),
+            ("Water viscosity at fill (for a flow check)", '=JB_PROP(B17,"mu in mPa*s")', "mPa*s"),
             (
                 "Check: elastic pipe exceeds design pressure?",
                 '=IF(JB_CONVERT(B36,"bar","barg")>B14,"YES - relieve the line","no")',
