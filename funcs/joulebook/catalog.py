@@ -217,6 +217,14 @@ _REF_SOLIDS = (
     "per material: NASA TM-4513 (1993) for Al, Cu, Fe; others as listed in docs/functions.md"
 )
 
+_WALL = (
+    Arg("D", "mean diameter of the wall", quantity="length", optional=True),
+    Arg("wall", "wall thickness (below D/2)", quantity="length", optional=True),
+    Arg(
+        "E", "Young's modulus of the wall (steel about 200 GPa)", quantity="modulus", optional=True
+    ),
+    Arg("nu", "Poisson's ratio of the wall, 0 to 0.5 (steel 0.3)", optional=True),
+)
 _HEATING_ARGS = (
     Arg("state1", "initial state text of the contents, from JB_STATE", type="text"),
     Arg("V", "vessel volume", quantity="volume"),
@@ -1031,15 +1039,7 @@ CATALOG: tuple[Func, ...] = (
                 type="text",
                 optional=True,
             ),
-            Arg("D", "mean diameter of the wall", quantity="length", optional=True),
-            Arg("wall", "wall thickness (below D/2)", quantity="length", optional=True),
-            Arg(
-                "E",
-                "Young's modulus of the wall (steel about 200 GPa)",
-                quantity="modulus",
-                optional=True,
-            ),
-            Arg("nu", "Poisson's ratio of the wall, 0 to 0.5 (steel 0.3)", optional=True),
+            *_WALL,
             Arg(
                 "alpha_wall",
                 "linear expansion coefficient of the wall (steel 1.2e-5 1/K)",
@@ -1264,10 +1264,7 @@ CATALOG: tuple[Func, ...] = (
                 type="text",
                 optional=True,
             ),
-            Arg("D", "mean diameter of the wall", quantity="length", optional=True),
-            Arg("wall", "wall thickness", quantity="length", optional=True),
-            Arg("E", "Young's modulus of the wall", quantity="modulus", optional=True),
-            Arg("nu", "Poisson's ratio of the wall", optional=True),
+            *_WALL,
             _PAMB,
         ),
         "energy",

@@ -637,21 +637,26 @@ def _liquid_state(text, arg: str):
 
 def blocked_in_p2(state1, T_2, shape, D, wall, E, nu, alpha_wall, *, system):
     med, p1, shows = _liquid_state(state1, "state1")
+    c = _wall_compliance(shape, D, wall, E, nu)
+    return blockedin.elastic_p2(med, p1, T_2, c, alpha_wall or 0.0, shows)
+
+
+def _wall_compliance(shape, D, wall, E, nu) -> float:
+    """The volumetric compliance of the container (0 for a rigid one), its data checked."""
     word = "rigid" if shape is None else str(shape).strip().lower()
+    data = (("D", D), ("wall", wall), ("E", E), ("nu", nu))
     if word == "rigid":
-        given = [n for n, v in (("D", D), ("wall", wall), ("E", E), ("nu", nu)) if v is not None]
+        given = [n for n, v in data if v is not None]
         if given:
             raise BadInput(
                 f"shape rigid takes no wall data ({', '.join(given)} given): write cylinder or "
                 "sphere for a wall that stretches"
             )
-        c = 0.0
-    else:
-        missing = [n for n, v in (("D", D), ("wall", wall), ("E", E), ("nu", nu)) if v is None]
-        if missing:
-            raise BadInput(f"shape {word} needs {', '.join(missing)} (the wall's data)")
-        c = blockedin.compliance(word, D, wall, E, nu)
-    return blockedin.elastic_p2(med, p1, T_2, c, alpha_wall or 0.0, shows)
+        return 0.0
+    missing = [n for n, v in data if v is None]
+    if missing:
+        raise BadInput(f"shape {word} needs {', '.join(missing)} (the wall's data)")
+    return blockedin.compliance(word, D, wall, E, nu)
 
 
 def relief_thermal_flow(state, Q_dot, *, system):
@@ -808,13 +813,7 @@ def hydro_test_energy(state, V, shape, D, wall, E, nu, P_amb, *, system):
         raise BadInput(f"state is {p1.phase}: a hydrostatic test holds liquid")
     P_amb = P_amb or stored.STANDARD_ATMOSPHERE
     liquid = stored.isentropic(med, p1, V, P_amb, shows)
-    word = "rigid" if shape is None else str(shape).strip().lower()
-    if word == "rigid":
-        return liquid
-    missing = [n for n, v in (("D", D), ("wall", wall), ("E", E), ("nu", nu)) if v is None]
-    if missing:
-        raise BadInput(f"shape {word} needs {', '.join(missing)} (the wall's data)")
-    c = blockedin.compliance(word, D, wall, E, nu)
+    c = _wall_compliance(shape, D, wall, E, nu)
     return liquid + pressuretests.container_energy(c, V, p1.P - P_amb)
 
 

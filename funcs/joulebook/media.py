@@ -250,38 +250,18 @@ _IDEAL_RE = re.compile(r"^(?P<name>.*?)\s*\(\s*ideal\s+gas\s*\)\s*$", re.IGNOREC
 _IF97_RE = re.compile(r"^\s*(water|steam|H2O)\s*\(\s*IF97\s*\)\s*$", re.IGNORECASE)
 
 
-class MixtureMedium:
-    """A mixture by composition on the multi-fluid model (substances/mixtures.py)."""
+class _TabulatedMedium:
+    """What a medium without the real-fluid reader shares: the properties of a Point, x, the
+    derivatives from ``_derivative(T, P, want)`` and the saturation values ``_sat(want, p)``."""
 
     ideal = False
-    info = None
-
-    def __init__(self, text: str):
-        from .substances import mixtures
-
-        self._mx = mixtures
-        self.mix = mixtures.parse(text)
-        self.name = self.mix.text
-        self.model = f"{mixtures.MODEL} via {fluids.coolprop_version()}"
-        self.R = 8.314462618 / mixtures.molar_mass(self.mix)
+    _NOT_OFFERED = ""
 
     def text(self) -> str:
         return self.name
 
-    def point(self, a: str, va: float, b: str, vb: float, shows=None) -> Point:
-        pair = {a: va, b: vb}
-        if set(pair) == {"T", "P"}:
-            T, P, v, u, h, s = self._mx.at_TP(self.mix, pair["T"], pair["P"])
-            return Point(T, P, v, u, h, s, None, "single phase (mixture)")
-        for by in ("T", "P"):
-            if set(pair) == {by, "x"}:
-                x = pair["x"]
-                T, P, v, u, h, s = self._mx.saturation(self.mix, by, pair[by], x)
-                word = "bubble point" if x == 0 else "dew point" if x == 1 else "two-phase mixture"
-                return Point(T, P, v, u, h, s, x, word)
-        raise BadInput(
-            f"{self.name}: a mixture takes T–P, or T or P with x (0 bubble point, 1 dew point)"
-        )
+    def _sat(self, want: str, p: Point):
+        raise OutOfRange(f"{self.name}: {want} is not offered here")
 
     def read(self, want: str, a: str, va: float, b: str, vb: float, shows=None):
         p = self.point(a, va, b, vb, shows)
@@ -298,14 +278,50 @@ class MixtureMedium:
         if want in ("cp", "cv", "k", "w"):
             if p.x is not None:
                 raise OutOfRange(f"{self.name}: {want} is not defined for a two-phase state")
-            return self._mx.derivative(self.mix, p.T, p.P, want)
-        raise OutOfRange(f"{self.name}: {want} is not offered for mixtures")
+            return self._derivative(p.T, p.P, want)
+        if want in ("Tsat", "Psat"):
+            return self._sat(want, p)
+        raise OutOfRange(f"{self.name}: {want} is not offered{self._NOT_OFFERED}")
 
 
-class IF97Medium:
+class MixtureMedium(_TabulatedMedium):
+    """A mixture by composition on the multi-fluid model (substances/mixtures.py)."""
+
+    info = None
+    _NOT_OFFERED = " for mixtures"
+
+    def __init__(self, text: str):
+        from .substances import mixtures
+
+        self._mx = mixtures
+        self.mix = mixtures.parse(text)
+        self.name = self.mix.text
+        self.model = f"{mixtures.MODEL} via {fluids.coolprop_version()}"
+        self.R = 8.314462618 / mixtures.molar_mass(self.mix)
+
+    def point(self, a: str, va: float, b: str, vb: float, shows=None) -> Point:
+        pair = {a: va, b: vb}
+        if set(pair) == {"T", "P"}:
+            T, P, v, u, h, s = self._mx.at_TP(self.mix, pair["T"], pair["P"])
+            return Point(T, P, v, u, h, s, None, "single phase (mixture)")
+        for by in ("T", "P"):
+            if set(pair) == {by, "x"}:
+                x = pair["x"]
+                T, P, v, u, h, s = self._mx.saturation(self.mix, by, pair[by], x)
+                word = "bubble point" if x == 0 else "dew point" if x == 1 else "two-phase mixture"
+                return Point(T, P, v, u, h, s, x, word)
+        raise BadInput(
+            f"{self.name}: a mixture takes T–P, or T or P with x (0 bubble point, 1 dew point)"
+        )
+
+    def _derivative(self, T: float, P: float, want: str) -> float:
+        return self._mx.derivative(self.mix, T, P, want)
+
+
+class IF97Medium(_TabulatedMedium):
     """Water by the industrial formulation IAPWS-IF97 (substances/if97.py)."""
 
-    ideal = False
+    _NOT_OFFERED = " with IF97; write water (IAPWS-95) for it"
 
     def __init__(self):
         from .substances import if97
@@ -316,19 +332,11 @@ class IF97Medium:
         self.info = fluids.fluid_info("water")  # constants and the dome for the audit's charts
         self.R = self.info.R
 
-    def text(self) -> str:
-        return self.name
-
     def point(self, a: str, va: float, b: str, vb: float, shows=None) -> Point:
         T, P, v, u, h, s, x = self._if97.flash(a, va, b, vb)
         if x is not None:
-            phase = (
-                "saturated liquid"
-                if x == 0
-                else "saturated vapor"
-                if x == 1
-                else "saturated mixture"
-            )
+            words = {0.0: "saturated liquid", 1.0: "saturated vapor"}
+            phase = words.get(x, "saturated mixture")
         elif T >= self._if97.T_CRIT and P >= self._if97.P_CRIT:
             phase = "supercritical fluid"
         elif T >= self._if97.T_CRIT:
@@ -339,29 +347,13 @@ class IF97Medium:
             phase = "superheated vapor"
         return Point(T, P, v, u, h, s, x, phase)
 
-    def read(self, want: str, a: str, va: float, b: str, vb: float, shows=None):
-        p = self.point(a, va, b, vb, shows)
-        simple = {
-            "T": p.T, "P": p.P, "v": p.v, "rho": 1.0 / p.v, "u": p.u, "h": p.h, "s": p.s,
-            "Z": p.P * p.v / (self.R * p.T), "phase": p.phase,
-        }  # fmt: skip
-        if want in simple:
-            return simple[want]
-        if want == "x":
-            if p.x is None:
-                raise OutOfRange(f"{self.name}: quality x is defined only for saturated states")
-            return p.x
-        if want in ("cp", "cv", "k", "w"):
-            if p.x is not None:
-                raise OutOfRange(f"{self.name}: {want} is not defined for a two-phase state")
-            return self._if97.derivative(p.T, p.P, want)
+    def _derivative(self, T: float, P: float, want: str) -> float:
+        return self._if97.derivative(T, P, want)
+
+    def _sat(self, want: str, p: Point):
         if want == "Tsat":
             return self._if97.sat("P", p.P, 0.0)[0]
-        if want == "Psat":
-            return self._if97.sat("T", p.T, 0.0)[1]
-        raise OutOfRange(
-            f"{self.name}: {want} is not offered with IF97; write water (IAPWS-95) for it"
-        )
+        return self._if97.sat("T", p.T, 0.0)[1]
 
 
 _CONST_KIND = {

@@ -669,9 +669,9 @@ def JB_TEST_PNEUMATIC_ENERGY(P_test, V, P_amb=None, units=None, caller=None):
 @_xw.arg('V', ndim=2, err_to_str=True, doc="volume under test [number or range; volume in the units argument's unit (m3 by default)]")
 @_xw.arg('shape', ndim=2, err_to_str=True, doc='rigid (default, liquid only), cylinder or sphere (optional) [text]')
 @_xw.arg('D', ndim=2, err_to_str=True, doc="mean diameter of the wall (optional) [number or range; length in the units argument's unit (m by default)]")
-@_xw.arg('wall', ndim=2, err_to_str=True, doc="wall thickness (optional) [number or range; length in the units argument's unit (m by default)]")
-@_xw.arg('E', ndim=2, err_to_str=True, doc="Young's modulus of the wall (optional) [number or range; modulus in the units argument's unit (GPa by default)]")
-@_xw.arg('nu', ndim=2, err_to_str=True, doc="Poisson's ratio of the wall (optional) [number or range]")
+@_xw.arg('wall', ndim=2, err_to_str=True, doc="wall thickness (below D/2) (optional) [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('E', ndim=2, err_to_str=True, doc="Young's modulus of the wall (steel about 200 GPa) (optional) [number or range; modulus in the units argument's unit (GPa by default)]")
+@_xw.arg('nu', ndim=2, err_to_str=True, doc="Poisson's ratio of the wall, 0 to 0.5 (steel 0.3) (optional) [number or range]")
 @_xw.arg('P_amb', ndim=2, err_to_str=True, doc="absolute ambient pressure (default 101.325 kPa) (optional) [number or range; pressure in the units argument's unit (kPa by default)]")
 @_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
 def JB_TEST_HYDRO_ENERGY(state, V, shape=None, D=None, wall=None, E=None, nu=None, P_amb=None, units=None, caller=None):
