@@ -56,3 +56,13 @@ def test_result_labels_come_from_the_quantity_table_for_every_entry():
     # the specific heats are labelled as such, not as an entropy
     for name in ("JB_GAS_CP", "JB_GAS_CV", "JB_GAS_R", "JB_SOLID_C", "JB_SOLID_C_MEAN"):
         assert next(f for f in CATALOG if f.name == name).result == "specific_heat"
+
+
+def test_python_dash_m_joulebook_is_the_command():
+    import subprocess
+    import sys
+
+    out = subprocess.run(
+        [sys.executable, "-m", "joulebook", "--help"], capture_output=True, text=True, timeout=120
+    )
+    assert out.returncode == 0 and "check" in out.stdout and not out.stderr
