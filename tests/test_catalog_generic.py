@@ -260,3 +260,12 @@ def test_errors_are_project_types_only():
             joulebook.call(f.name, *([None] * len(f.all_args)))
         except JoulebookError:
             pass
+
+
+@pytest.mark.parametrize("f", CATALOG, ids=IDS)
+def test_entry_points_at_its_adapter_by_reference(f):
+    """An entry holds its adapter itself (a reader can follow it), not a name in a string."""
+    import joulebook.formulas as adapters
+
+    assert callable(f.impl) and getattr(adapters, f.impl.__name__) is f.impl
+    assert f.column is None or getattr(adapters, f.column.__name__) is f.column

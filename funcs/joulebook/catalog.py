@@ -13,14 +13,14 @@ converted back.  Ranges broadcast like numpy; one formula fills a column.
 
 from __future__ import annotations
 
-import importlib
 import math
 import re
+from collections.abc import Callable
 from dataclasses import dataclass
-from functools import cache
 
 import numpy as np
 
+from . import formulas
 from .errors import BadInput, BlankInput, JoulebookError, OutOfRange, cell_text, fmt_value
 from .units import DEFAULT_SYSTEM, unit_system
 
@@ -58,7 +58,7 @@ class Func:
     help: str  # one line, ≤ 255 characters (Excel's function wizard)
     args: tuple[Arg, ...]
     result: str  # a units kind, "text", "asked" (unit written in the formula) or "number"
-    impl: str  # attribute of joulebook.formulas
+    impl: Callable  # the adapter in joulebook.formulas (SI in, SI out)
     equation: str
     references: tuple[str, ...]
     example: Example
@@ -66,7 +66,9 @@ class Func:
     elementwise: bool = True  # ranges in scalar arguments broadcast and spill
     notes: str = ""
     caution: bool = False  # result concerns pressure / stored energy: docs carry the caution
-    column: str = ""  # optional adapter taking whole float columns of the numeric arguments
+    column: Callable | None = (
+        None  # optional adapter taking whole float columns of the numeric arguments
+    )
     # its one argument is a cell whose joulebook message the face hands over (JB_WHY): the
     # message behind an error value, or the cell's value when it holds a message as text
     reads_message: bool = False
@@ -275,7 +277,7 @@ CATALOG: tuple[Func, ...] = (
             _VAL2,
         ),
         "text",
-        "state_text",
+        formulas.state_text,
         "state = (fluid, two independent properties)",
         (_REF_COOLPROP,),
         Example(("water", "T in degC", 25, "P in kPa", 200), "water | T = 25 degC | P = 200 kPa"),
@@ -300,7 +302,7 @@ CATALOG: tuple[Func, ...] = (
             _VAL2,
         ),
         "asked",
-        "prop",
+        formulas.prop,
         "Helmholtz-energy equation of state a(T, rho) of the fluid; e.g. h = u + P·v, k = cp/cv, Z = P·v/(R·T)",
         (_REF_COOLPROP, _REF_IAPWS),
         Example(
@@ -313,7 +315,7 @@ CATALOG: tuple[Func, ...] = (
         "mu (dynamic viscosity), nu = mu/rho, lambda (thermal conductivity) and Pr = mu·cp/lambda "
         "come from the property library's transport correlation for the fluid (water: IAPWS "
         "2008 and 2011), single-phase; sigma (surface tension) on the saturation line only.",
-        column="prop_column",
+        column=formulas.prop_column,
     ),
     Func(
         "JB_PHASE",
@@ -322,7 +324,7 @@ CATALOG: tuple[Func, ...] = (
         "mixture, saturated vapor, superheated vapor, supercritical fluid …",
         (_SUB, _SPEC1, _VAL1, _SPEC2, _VAL2),
         "text",
-        "phase",
+        formulas.phase,
         "compare the state with the saturation line and the critical point",
         (_REF_COOLPROP,),
         Example(("water", "T in degC", 120, "P in kPa", 101.325), "superheated vapor"),
@@ -347,7 +349,7 @@ CATALOG: tuple[Func, ...] = (
             Arg("value", "the given saturation temperature or pressure"),
         ),
         "asked",
-        "saturation",
+        formulas.saturation,
         "phase equilibrium: equal P, T and Gibbs energy of liquid and vapor",
         (_REF_COOLPROP, _REF_IAPWS),
         Example(("water", "hfg in kJ/kg", "T in degC", 100), 2256.403721526573, 1e-9),
@@ -359,7 +361,7 @@ CATALOG: tuple[Func, ...] = (
         "Ideal-gas specific heat at constant pressure cp(T) of a gas.",
         (_GAS, _T),
         "specific_heat",
-        "gas_cp",
+        formulas.gas_cp,
         "cp0(T) of the ideal-gas part of the fluid's equation of state; constant model: cp",
         (
             "ideal-gas part of each fluid's reference equation of state (see JB_ABOUT fluids)",
@@ -373,7 +375,7 @@ CATALOG: tuple[Func, ...] = (
         "Ideal-gas specific heat at constant volume cv(T) = cp(T) − R.",
         (_GAS, _T),
         "specific_heat",
-        "gas_cv",
+        formulas.gas_cv,
         "cv0 = cp0 − R",
         (_REF_COOLPROP,),
         Example(("air", 300), 0.7177269645063663, 1e-9),
@@ -384,7 +386,7 @@ CATALOG: tuple[Func, ...] = (
         "Ideal-gas specific-heat ratio k(T) = cp/cv.",
         (_GAS, _T),
         "dimensionless",
-        "gas_k",
+        formulas.gas_k,
         "k = cp0 / (cp0 − R)",
         (_REF_COOLPROP,),
         Example(("air", 300), 1.3999419570156248, 1e-9),
@@ -395,7 +397,7 @@ CATALOG: tuple[Func, ...] = (
         "Specific gas constant R = R_u / M of a gas.",
         (_GAS,),
         "specific_heat",
-        "gas_R",
+        formulas.gas_R,
         "R = R_u / M",
         ("CODATA 2018 molar gas constant; molar masses of each fluid's equation of state",),
         Example(("air",), 0.2870491267875601, 1e-9),
@@ -406,7 +408,7 @@ CATALOG: tuple[Func, ...] = (
         "Molar mass M of a gas (default unit kg/kmol).",
         (_GAS,),
         "molar_mass",
-        "gas_molar_mass",
+        formulas.gas_molar_mass,
         "M",
         ("molar masses of each fluid's equation of state",),
         Example(("nitrogen",), 28.01348, 1e-9),
@@ -417,7 +419,7 @@ CATALOG: tuple[Func, ...] = (
         "Ideal-gas enthalpy change per unit mass from T1 to T2, integrating cp(T).",
         (_GAS, _T1, _T2),
         "specific_energy",
-        "gas_delta_h",
+        formulas.gas_delta_h,
         "Δh = ∫ cp0(T) dT from T1 to T2",
         (_REF_COOLPROP,),
         Example(("air", 300, 1000), 745.9324872635063, 1e-9),
@@ -428,7 +430,7 @@ CATALOG: tuple[Func, ...] = (
         "Ideal-gas internal-energy change per unit mass from T1 to T2, integrating cv(T).",
         (_GAS, _T1, _T2),
         "specific_energy",
-        "gas_delta_u",
+        formulas.gas_delta_u,
         "Δu = ∫ cv0(T) dT = Δh − R·(T2 − T1)",
         (_REF_COOLPROP,),
         Example(("air", 300, 1000), 544.9980985122141, 1e-9),
@@ -439,7 +441,7 @@ CATALOG: tuple[Func, ...] = (
         "Mean ideal-gas cp over T1..T2, so that Δh = cp_mean·(T2 − T1).",
         (_GAS, _T1, _T2),
         "specific_heat",
-        "gas_cp_mean",
+        formulas.gas_cp_mean,
         "cp_mean = Δh / (T2 − T1)",
         (_REF_COOLPROP,),
         Example(("air", 300, 1000), 1.0656178389478662, 1e-9),
@@ -457,7 +459,7 @@ CATALOG: tuple[Func, ...] = (
             Arg("P_2", "final absolute pressure (optional)", quantity="pressure", optional=True),
         ),
         "specific_entropy",
-        "gas_delta_s",
+        formulas.gas_delta_s,
         "Δs = ∫ cp0(T)/T dT − R·ln(P2/P1)",
         (_REF_COOLPROP,),
         Example(("air", 300, 600, 100, 500), 0.2452927443030884, 1e-9),
@@ -469,7 +471,7 @@ CATALOG: tuple[Func, ...] = (
         "Specific heat c(T) of an incompressible solid or liquid (cp = cv = c).",
         (_MAT, _T),
         "specific_heat",
-        "solid_c",
+        formulas.solid_c,
         "c(T) from the material's published fit or table",
         (_REF_SOLIDS,),
         Example(("copper", 300), 0.384981302755812, 1e-9),
@@ -480,7 +482,7 @@ CATALOG: tuple[Func, ...] = (
         "Mean specific heat of an incompressible solid or liquid over T1..T2.",
         (_MAT, _T1, _T2),
         "specific_heat",
-        "solid_c_mean",
+        formulas.solid_c_mean,
         "c_mean = ∫ c dT / (T2 − T1)",
         (_REF_SOLIDS,),
         Example(("aluminium", 300, 500), 0.9545622645934263, 1e-9),
@@ -491,7 +493,7 @@ CATALOG: tuple[Func, ...] = (
         "Internal-energy change per unit mass of an incompressible solid or liquid from T1 to T2.",
         (_MAT, _T1, _T2),
         "specific_energy",
-        "solid_delta_u",
+        formulas.solid_delta_u,
         "Δu = ∫ c(T) dT from T1 to T2",
         (_REF_SOLIDS,),
         Example(("aluminium", 300, 500), 190.91245291868526, 1e-9),
@@ -503,7 +505,7 @@ CATALOG: tuple[Func, ...] = (
         "(positive when heated).",
         (_MAT, Arg("m", "mass of the body", quantity="mass"), _T1, _T2),
         "energy",
-        "solid_heat",
+        formulas.solid_heat,
         "Q = m·∫ c(T) dT from T1 to T2",
         (_REF_SOLIDS,),
         Example(("carbon steel", 1000, 300, 400), 47444.98168616241, 1e-9),
@@ -516,7 +518,7 @@ CATALOG: tuple[Func, ...] = (
         "(work by the system), exactly 0 for a rigid (constant-volume) system.",
         (Arg("P", "absolute pressure of the process", quantity="pressure"), _V1, _V2),
         "energy",
-        "work_isobaric",
+        formulas.work_isobaric,
         "W = P·(V2 − V1)",
         (_REF_WORK,),
         Example((200, 0.05, 0.08), 6.0),
@@ -528,7 +530,7 @@ CATALOG: tuple[Func, ...] = (
         "when the system expands (work by the system).",
         (_P1, _V1, _V2),
         "energy",
-        "work_isothermal",
+        formulas.work_isothermal,
         "W = P1·V1·ln(V2/V1)",
         (_REF_WORK,),
         Example((500, 0.02, 0.1), 16.094379124341003),
@@ -540,7 +542,7 @@ CATALOG: tuple[Func, ...] = (
         "positive when the system expands (work by the system).",
         (_GAS, Arg("m", "mass of gas", quantity="mass"), _T, _V1, _V2),
         "energy",
-        "work_isothermal_mass",
+        formulas.work_isothermal_mass,
         "W = m·R·T·ln(V2/V1)",
         (_REF_WORK,),
         Example(("air", 0.5, 300, 0.1, 0.3), 47.30335472103956),
@@ -552,7 +554,7 @@ CATALOG: tuple[Func, ...] = (
         "states; continuous at n = 1; positive when the system expands (work by the system).",
         (_P1, _V1, _P2, _V2),
         "energy",
-        "work_polytropic",
+        formulas.work_polytropic,
         "W = (P2·V2 − P1·V1)/(1 − n) = P1·V1·ln(V2/V1)·φ(ln(P2·V2/(P1·V1))), φ(z) = (e^z − 1)/z",
         (_REF_WORK,),
         Example((100, 0.8, 900, 0.15), -175.95610217371583),
@@ -564,7 +566,7 @@ CATALOG: tuple[Func, ...] = (
         "result at n = 1; positive when the system expands (work by the system).",
         (_P1, _V1, _V2, _N),
         "energy",
-        "work_polytropic_n",
+        formulas.work_polytropic_n,
         "W = P1·V1·ln(r)·φ((1 − n)·ln r), r = V2/V1, φ(z) = (e^z − 1)/z",
         (_REF_WORK,),
         Example((100, 0.8, 0.15, 1.3), -173.95753822834706),
@@ -576,7 +578,7 @@ CATALOG: tuple[Func, ...] = (
         "W = (P1 + P2)/2·(V2 − V1); positive when the system expands (work by the system).",
         (_P1, _V1, _P2, _V2),
         "energy",
-        "work_linear",
+        formulas.work_linear,
         "W = (P1 + P2)/2·(V2 − V1)",
         (_REF_WORK,),
         Example((150, 0.05, 350, 0.09), 10.0),
@@ -602,7 +604,7 @@ CATALOG: tuple[Func, ...] = (
             ),
         ),
         "energy",
-        "work_pv",
+        formulas.work_pv,
         "W = Σ ∫P dV over segments: trapezoid (P1 + P2)/2·ΔV, or polytropic per segment",
         (_REF_WORK,),
         Example(([[100], [200], [200], [100], [100]], [[0.1], [0.1], [0.3], [0.3], [0.1]]), 20.0),
@@ -615,7 +617,7 @@ CATALOG: tuple[Func, ...] = (
         "polytropic …) on its equation of state, to an end condition; positive = work by the system.",
         (_STATE1, _PATH, _END_SPEC, _END_VALUE, _MASS),
         "energy",
-        "work_path",
+        formulas.work_path,
         "W = m·∫P dv along the path; isothermal W = m·[T·(s2 − s1) − (u2 − u1)], isentropic W = −m·(u2 − u1)",
         (_REF_COOLPROP, _REF_WORK),
         Example(("water | T = 200 degC | x = 0", "isothermal", "x2", 1, 2), 392.00926814312766),
@@ -632,7 +634,7 @@ CATALOG: tuple[Func, ...] = (
             Arg("duration", "time it runs", quantity="time"),
         ),
         "energy",
-        "work_electric_in",
+        formulas.work_electric_in,
         "W_in = V·I·Δt",
         (_REF_WORK,),
         Example((230, 4, 600), 552.0),
@@ -644,7 +646,7 @@ CATALOG: tuple[Func, ...] = (
         "system, so enter it in a balance as a negative W_other.",
         (Arg("torque", "shaft torque", quantity="torque"), Arg("revolutions", "number of turns")),
         "energy",
-        "work_shaft_in",
+        formulas.work_shaft_in,
         "W_in = 2π·N·τ",
         (_REF_WORK,),
         Example((12, 400), 30.159289474462014),
@@ -656,7 +658,7 @@ CATALOG: tuple[Func, ...] = (
         "Polytropic exponent n of the path P·V^n = C through two states.",
         (_P1, _V1, _P2, _V2),
         "dimensionless",
-        "poly_exponent",
+        formulas.poly_exponent,
         "n = ln(P2/P1) / ln(V1/V2)",
         (_REF_WORK,),
         Example((100, 0.8, 900, 0.15), 1.3125779630290983),
@@ -677,7 +679,7 @@ CATALOG: tuple[Func, ...] = (
             Arg("show", "n (default) or all", type="text", optional=True),
         ),
         "number",
-        "poly_fit",
+        formulas.poly_fit,
         "ln P = ln C − n·ln V, least squares in ln P",
         (_REF_WORK,),
         Example(([[100], [189.8], [378.7]], [[0.8], [0.5], [0.3]]), 1.3575233586851823, 1e-6),
@@ -689,7 +691,7 @@ CATALOG: tuple[Func, ...] = (
         "End pressure on P·V^n = C: P2 = P1·(V1/V2)^n.",
         (_P1, _V1, _V2, _N),
         "pressure",
-        "poly_p2",
+        formulas.poly_p2,
         "P2 = P1·(V1/V2)^n",
         (_REF_WORK,),
         Example((100, 0.8, 0.2, 1.3), 606.2866266041592),
@@ -700,7 +702,7 @@ CATALOG: tuple[Func, ...] = (
         "End volume on P·V^n = C: V2 = V1·(P1/P2)^(1/n).",
         (_P1, _V1, _P2, _N),
         "volume",
-        "poly_v2",
+        formulas.poly_v2,
         "V2 = V1·(P1/P2)^(1/n)",
         (_REF_WORK,),
         Example((100, 0.8, 600, 1.3), 0.20161001506742393),
@@ -711,7 +713,7 @@ CATALOG: tuple[Func, ...] = (
         "End temperature of an ideal gas on P·V^n = C from the volume ratio: T2 = T1·(V1/V2)^(n − 1).",
         (_T1, _V1, _V2, _N),
         "temperature",
-        "poly_t2_from_v",
+        formulas.poly_t2_from_v,
         "T2 = T1·(V1/V2)^(n − 1)",
         (_REF_WORK,),
         Example((300, 0.8, 0.2, 1.3), 454.71496995311946),
@@ -722,7 +724,7 @@ CATALOG: tuple[Func, ...] = (
         "End temperature of an ideal gas on P·V^n = C from the pressure ratio: T2 = T1·(P2/P1)^((n − 1)/n).",
         (_T1, _P1, _P2, _N),
         "temperature",
-        "poly_t2_from_p",
+        formulas.poly_t2_from_p,
         "T2 = T1·(P2/P1)^((n − 1)/n)",
         (_REF_WORK,),
         Example((300, 100, 600, 1.3), 453.6225339017037),
@@ -735,7 +737,7 @@ CATALOG: tuple[Func, ...] = (
         "the system +, work by the system + (work done on it is negative).",
         (Arg("dU", "internal-energy change ΔU", quantity="energy"), _WB, _WOTHER, _DKE, _DPE),
         "energy",
-        "balance_heat",
+        formulas.balance_heat,
         "Q = ΔU + ΔKE + ΔPE + W_b + W_other",
         (_REF_FIRSTLAW,),
         Example((120, 30, -25), 125.0),
@@ -754,7 +756,7 @@ CATALOG: tuple[Func, ...] = (
             _DPE,
         ),
         "energy",
-        "balance_gap",
+        formulas.balance_gap,
         "gap = Q − W_b − W_other − (ΔU + ΔKE + ΔPE)",
         (_REF_FIRSTLAW,),
         Example((125, 30, 120, -25), 0.0),
@@ -769,7 +771,7 @@ CATALOG: tuple[Func, ...] = (
             Arg("vel_2", "final speed", quantity="speed"),
         ),
         "energy",
-        "balance_delta_ke",
+        formulas.balance_delta_ke,
         "ΔKE = m·(V2² − V1²)/2",
         (_REF_FIRSTLAW,),
         Example((1200, 0, 25), 375.0),
@@ -786,7 +788,7 @@ CATALOG: tuple[Func, ...] = (
             Arg("g", "gravity (default 9.80665 m/s2)", quantity="acceleration", optional=True),
         ),
         "energy",
-        "balance_delta_pe",
+        formulas.balance_delta_pe,
         "ΔPE = m·g·(z2 − z1)",
         (_REF_FIRSTLAW, "standard gravity 9.80665 m/s² (3rd CGPM, 1901)"),
         Example((500, 0, 40), 196.133),
@@ -798,7 +800,7 @@ CATALOG: tuple[Func, ...] = (
         "heat into the system +, W_other by the system +.",
         (_GAS, Arg("m", "mass of gas", quantity="mass"), _T1, _T2, _WOTHER),
         "energy",
-        "heat_isobaric_gas",
+        formulas.heat_isobaric_gas,
         "Q = m·∫cp dT + W_other",
         (_REF_FIRSTLAW, _REF_COOLPROP),
         Example(("air", 2, 300, 500), 405.8402854863983),
@@ -810,7 +812,7 @@ CATALOG: tuple[Func, ...] = (
         "W_other by the system + (a stirrer or heater inside is negative).",
         (_GAS, Arg("m", "mass of gas", quantity="mass"), _T1, _T2, _WOTHER),
         "energy",
-        "heat_rigid_gas",
+        formulas.heat_rigid_gas,
         "Q = m·∫cv dT + W_other",
         (_REF_FIRSTLAW, _REF_COOLPROP),
         Example(("air", 2, 300, 500), 291.0206347713742),
@@ -835,7 +837,7 @@ CATALOG: tuple[Func, ...] = (
             _MASS,
         ),
         "asked",
-        "process",
+        formulas.process,
         "Q − W = m·(u2 − u1); W = m·∫P dv along the path; end state on the equation of state",
         (_REF_COOLPROP, _REF_IAPWS, _REF_FIRSTLAW),
         Example(
@@ -855,7 +857,7 @@ CATALOG: tuple[Func, ...] = (
         "P2 T2 v2 V2 x2 u2 h2 s2 phase2 W Q dU dH. Q in +, W out +.",
         (_STATE1, _PATH, _END_SPEC, _END_VALUE, _MASS),
         "asked",
-        "process_table",
+        formulas.process_table,
         "as JB_PROCESS",
         (_REF_COOLPROP, _REF_FIRSTLAW),
         Example(
@@ -894,7 +896,7 @@ CATALOG: tuple[Func, ...] = (
             _MASS,
         ),
         "asked",
-        "process_path",
+        formulas.process_path,
         "states at equal steps of the path variable (u, h or ln v)",
         (_REF_COOLPROP,),
         Example(
@@ -933,7 +935,7 @@ CATALOG: tuple[Func, ...] = (
             ),
         ),
         "energy",
-        "cycle_net",
+        formulas.cycle_net,
         "Q_net = Σ Q_i, W_net = Σ W_i",
         (_REF_FIRSTLAW,),
         Example(([[120], [-45], [0]],), 75.0),
@@ -946,7 +948,7 @@ CATALOG: tuple[Func, ...] = (
         "is 0). Heat in +, work by the system +.",
         (_QVALS, _WVALS),
         "energy",
-        "cycle_gap",
+        formulas.cycle_gap,
         "gap = Σ Q_i − Σ W_i  (= ΔE_cycle = 0)",
         (_REF_FIRSTLAW,),
         Example(([[100], [-60], [0]], [[0], [0], [40]]), 0.0),
@@ -959,7 +961,7 @@ CATALOG: tuple[Func, ...] = (
         "whose Q_net and W_net differ. Heat in +, work by the system +.",
         (_QVALS, _WVALS),
         "dimensionless",
-        "cycle_efficiency",
+        formulas.cycle_efficiency,
         "η = W_net / Q_in",
         (_REF_FIRSTLAW,),
         Example(([[100], [-60], [0]], [[0], [0], [40]]), 0.4),
@@ -981,7 +983,7 @@ CATALOG: tuple[Func, ...] = (
             _PAMB,
         ),
         "energy",
-        "stored_isentropic",
+        formulas.stored_isentropic,
         "E = m·(u1 − u2), s2 = s1, P2 = P_amb, m = V/v1",
         (_REF_COOLPROP, _REF_STORED),
         Example(("nitrogen | P = 30 bar | T = 20 degC", 2.5), 11310.71420636391, 1e-6),
@@ -999,7 +1001,7 @@ CATALOG: tuple[Func, ...] = (
             _PAMB,
         ),
         "energy",
-        "stored_ideal_isentropic",
+        formulas.stored_ideal_isentropic,
         "E = P·V/(k − 1)·[1 − (P_amb/P)^((k − 1)/k)]",
         (_REF_STORED,),
         Example((3000, 2.5, 1.4), 11628.033185742339),
@@ -1017,7 +1019,7 @@ CATALOG: tuple[Func, ...] = (
             _PAMB,
         ),
         "energy",
-        "stored_isochoric",
+        formulas.stored_isochoric,
         "E = (P − P_amb)·V/(k − 1)",
         (_REF_STORED,),
         Example((3000, 2.5, 1.4), 18116.718750000004),
@@ -1049,7 +1051,7 @@ CATALOG: tuple[Func, ...] = (
             ),
         ),
         "pressure",
-        "blocked_in_p2",
+        formulas.blocked_in_p2,
         "v(T2, P2) = v1·(1 + α·ΔT)³·(1 + c·(P2 − P1)); c = D(5 − 4ν)/(4tE) closed cylinder, "
         "3D(1 − ν)/(4tE) sphere, 0 rigid",
         (_REF_COOLPROP, _REF_IAPWS, _REF_THIN_WALL),
@@ -1072,7 +1074,7 @@ CATALOG: tuple[Func, ...] = (
             Arg("Q_dot", "heat input to the liquid (sun, tracing, process)", quantity="power"),
         ),
         "volume_flow",
-        "relief_thermal_flow",
+        formulas.relief_thermal_flow,
         "q = β·Q_dot/(ρ·cp)",
         (_REF_COOLPROP, _REF_API521),
         Example(("water | T = 45 degC | P = 20 bar", 10), 0.003677730090279406, 1e-6),
@@ -1086,7 +1088,7 @@ CATALOG: tuple[Func, ...] = (
         "Q_dot and/or UA·(T_source − T), integrated on the equation of state.",
         (*_HEATING_ARGS,),
         "time",
-        "time_heating",
+        formulas.time_heating,
         "t = m·∫ du/Q_dot(u) along v = V/m, Q_dot = Q0 + UA·(T_source − T)",
         (_REF_TIME, _REF_COOLPROP),
         Example(
@@ -1104,7 +1106,7 @@ CATALOG: tuple[Func, ...] = (
             Arg("points", "number of rows, 2 to 1000 (default 11)", optional=True),
         ),
         "asked",
-        "time_heating_table",
+        formulas.time_heating_table,
         "t_i = m·∫ du/Q_dot(u) from u1 to u_i",
         (_REF_TIME, _REF_COOLPROP),
         Example(
@@ -1130,7 +1132,7 @@ CATALOG: tuple[Func, ...] = (
             Arg("drainage", "adequate (default) or inadequate", type="text", optional=True),
         ),
         "power",
-        "fire_heat",
+        formulas.fire_heat,
         "Q = C·F·A^0.82",
         (_REF_FIRE,),
         Example((10,), 285.41956953928144, 1e-9),
@@ -1148,7 +1150,7 @@ CATALOG: tuple[Func, ...] = (
             Arg("level", "liquid level above the bottom", quantity="length"),
         ),
         "area",
-        "wetted_area",
+        formulas.wetted_area,
         "horizontal A = L·D·θ/2 + 2·(D²/8)(θ − sin θ), θ = 2·acos(1 − 2h/D); vertical π·D·h + π·D²/4",
         ("plane and cylinder geometry (common practice)",),
         Example(("vertical", 2, 5, 1), 9.42477796076938, 1e-12),
@@ -1161,7 +1163,7 @@ CATALOG: tuple[Func, ...] = (
         "cases follow the codes.",
         (*_FIRE_ARGS,),
         "time",
-        "time_fire",
+        formulas.time_fire,
         "t = m·∫ du/Q_fire(A_wet(level(u))) along v = V/m",
         (_REF_FIRE, _REF_TIME, _REF_COOLPROP),
         Example(
@@ -1180,7 +1182,7 @@ CATALOG: tuple[Func, ...] = (
             Arg("points", "number of rows, 2 to 1000 (default 11)", optional=True),
         ),
         "asked",
-        "time_fire_table",
+        formulas.time_fire_table,
         "t_i = m·∫ du/Q_fire(u) from u1 to u_i",
         (_REF_FIRE, _REF_TIME, _REF_COOLPROP),
         Example(
@@ -1208,7 +1210,7 @@ CATALOG: tuple[Func, ...] = (
             Arg("T_source", "temperature of the medium", quantity="temperature"),
         ),
         "time",
-        "time_batch",
+        formulas.time_batch,
         "t = m·∫ c(T) dT/(UA·(T_source − T)) = m·c/UA·ln((Ts − T1)/(Ts − T2)) for constant c",
         (_REF_SOLIDS, "batch heating by a medium at constant temperature (common practice)"),
         Example(("water", 100, 293.15, 333.15, 0.5, 353.15), 918.745656876649, 1e-6),
@@ -1224,7 +1226,7 @@ CATALOG: tuple[Func, ...] = (
             ),
         ),
         "power",
-        "balance_rate",
+        formulas.balance_rate,
         "dE/dt = Q_dot − W_dot",
         (_REF_FIRSTLAW,),
         Example((12, 5), 7.0),
@@ -1243,7 +1245,7 @@ CATALOG: tuple[Func, ...] = (
             _PAMB,
         ),
         "energy",
-        "pneumatic_test_energy",
+        formulas.pneumatic_test_energy,
         "E = 2.5·P·V·[1 − (P_amb/P)^0.286]",
         (_REF_PCC2,),
         Example((1200, 2), 3041.0313412154287, 1e-9),
@@ -1268,7 +1270,7 @@ CATALOG: tuple[Func, ...] = (
             _PAMB,
         ),
         "energy",
-        "hydro_test_energy",
+        formulas.hydro_test_energy,
         "E = m·(u1 − u2s) + ½·c·V·(P − P_amb)²",
         (_REF_COOLPROP, _REF_IAPWS, _REF_THIN_WALL),
         Example(("water | T = 20 degC | P = 12 bar", 2), 0.6507293801249098, 1e-6),
@@ -1289,7 +1291,7 @@ CATALOG: tuple[Func, ...] = (
             ),
         ),
         "mass",
-        "tnt_equivalent",
+        formulas.tnt_equivalent,
         "W = E/e_TNT",
         (_REF_TNT,),
         Example((4184,), 1.0, 1e-12),
@@ -1305,7 +1307,7 @@ CATALOG: tuple[Func, ...] = (
             Arg("Z", "scaled distance from the applicable code, m/kg^(1/3)"),
         ),
         "length",
-        "blast_distance",
+        formulas.blast_distance,
         "R = Z·W^(1/3)",
         (_REF_SCALING,),
         Example((8, 10), 20.0, 1e-12),
@@ -1325,7 +1327,7 @@ CATALOG: tuple[Func, ...] = (
             Arg("V_c", "clearance volume", quantity="volume"),
         ),
         "volume",
-        "engine_volume",
+        formulas.engine_volume,
         "V = V_c + π·B²/4·(l + a − a·cos θ − √(l² − a²·sin²θ))",
         (_REF_HEYWOOD,),
         Example((90, 0.1, 0.1, 0.2, 0.0001), 0.0005425784050035163, 1e-12),
@@ -1342,7 +1344,7 @@ CATALOG: tuple[Func, ...] = (
             Arg("revs_per_cycle", "2 four-stroke, 1 two-stroke or compressor"),
         ),
         "power",
-        "engine_power",
+        formulas.engine_power,
         "P_i = W_cycle·(N/60)·z/n_R",
         (_REF_HEYWOOD,),
         Example((0.5, 3000, 4, 2), 50.0, 1e-12),
@@ -1356,7 +1358,7 @@ CATALOG: tuple[Func, ...] = (
             Arg("V_d", "swept volume π·B²/4·S", quantity="volume"),
         ),
         "pressure",
-        "engine_mep",
+        formulas.engine_mep,
         "MEP = W_cycle/V_d",
         (_REF_HEYWOOD,),
         Example((0.5, 0.0005), 1000.0, 1e-12),
@@ -1373,7 +1375,7 @@ CATALOG: tuple[Func, ...] = (
             Arg("n", "polytropic exponent of the re-expansion, 1 to 1.7"),
         ),
         "number",
-        "compressor_efficiency",
+        formulas.compressor_efficiency,
         "η_v = 1 + c − c·(P_d/P_s)^(1/n)",
         ("reciprocating-compressor clearance re-expansion (common practice)",),
         Example((0.05, 100, 400, 1.3), 0.9047577143885676, 1e-12),
@@ -1393,7 +1395,7 @@ CATALOG: tuple[Func, ...] = (
             Arg("V_values", "volumes in the same order", type="range", quantity="volume"),
         ),
         "number",
-        "poly_fit_branches",
+        formulas.poly_fit_branches,
         "ln P = ln C − n·ln V on each branch between the largest and smallest volume",
         (_REF_WORK, _REF_HEYWOOD),
         Example(
@@ -1425,7 +1427,7 @@ CATALOG: tuple[Func, ...] = (
             Arg("value2", "value of the second property"),
         ),
         "asked",
-        "humid_air",
+        formulas.humid_air,
         "real-gas mixture of dry air and water vapour with enhancement factor (RP-1485)",
         (_REF_HUMID,),
         Example(("Tdp in degC", 101.325, "T in degC", 25, "RH", 0.5), 13.866886648880495, 1e-6),
@@ -1446,7 +1448,7 @@ CATALOG: tuple[Func, ...] = (
             Arg("V_2", "receiver volume", quantity="volume"),
         ),
         "mass",
-        "humid_condensate",
+        formulas.humid_condensate,
         "m_water = V2/v_sat(P2, T2)·max(0, HR(P1, T1, RH1) − HR_sat(P2, T2))",
         (_REF_HUMID,),
         Example((101.325, 303.15, 0.7, 901.325, 308.15, 1), 0.15089700274430073, 1e-6),
@@ -1463,7 +1465,7 @@ CATALOG: tuple[Func, ...] = (
             Arg("points", "points on each side, 2 to 1000 (default 11)", optional=True),
         ),
         "asked",
-        "chart_dome",
+        formulas.chart_dome,
         "saturated liquid (x = 0) and vapour (x = 1) from the triple to the critical point",
         (_REF_COOLPROP,),
         Example(
@@ -1494,7 +1496,7 @@ CATALOG: tuple[Func, ...] = (
             Arg("points", "number of points, 2 to 1000 (default 11)", optional=True),
         ),
         "asked",
-        "chart_isoline",
+        formulas.chart_isoline,
         "state (fixed, x) for x from x_from to x_to; y read from it",
         (_REF_COOLPROP,),
         Example(
@@ -1516,7 +1518,7 @@ CATALOG: tuple[Func, ...] = (
             Arg("to_unit", "wanted unit, e.g. kPa", type="text"),
         ),
         "number",
-        "unit_convert",
+        formulas.unit_convert,
         "value_SI = value·factor + offset; result = (value_SI − offset')/factor'",
         ("NIST SP 811 (2008), Appendix B",),
         Example((27, "degC", "K"), 300.15, 1e-12),
@@ -1535,7 +1537,7 @@ CATALOG: tuple[Func, ...] = (
             ),
         ),
         "text",
-        "why",
+        formulas.why,
         "—",
         ("common practice: a spreadsheet error value carries no message; the face keeps it",),
         Example(
@@ -1555,7 +1557,7 @@ CATALOG: tuple[Func, ...] = (
             ),
         ),
         "text",
-        "about",
+        formulas.about,
         "—",
         (_REF_COOLPROP,),
         Example((), "joulebook ", match="prefix"),
@@ -1578,11 +1580,6 @@ def lookup(name: str) -> Func:
     if f is None:
         raise BadInput(f"unknown joulebook function {name!r}")
     return f
-
-
-@cache
-def _impl(name: str):
-    return getattr(importlib.import_module("joulebook.formulas"), name)
 
 
 # ---------------------------------------------------------------------------------------
@@ -1812,7 +1809,7 @@ def _above_zero(arg: Arg, given, si, conv) -> None:
 
 def _run(f: Func, si_args, system):
     try:
-        result = _impl(f.impl)(*si_args, system=system)
+        result = f.impl(*si_args, system=system)
     except JoulebookError:
         raise
     except (ValueError, ArithmeticError) as e:
