@@ -23,6 +23,7 @@ import numpy as np
 from . import formulas
 from .errors import BadInput, BlankInput, JoulebookError, OutOfRange, cell_text, fmt_value
 from .units import DEFAULT_SYSTEM, unit_system
+from .working import Step, Working
 
 __all__ = ["Arg", "Example", "Func", "CATALOG", "FAMILIES", "lookup", "call", "UNITS_ARG"]
 
@@ -72,6 +73,8 @@ class Func:
     # its one argument is a cell whose joulebook message the face hands over (JB_WHY): the
     # message behind an error value, or the cell's value when it holds a message as text
     reads_message: bool = False
+    # how the result is worked out, in the entry's argument names (the audit and docs show it)
+    working: Working | None = None
 
     @property
     def all_args(self) -> tuple[Arg, ...]:
@@ -88,6 +91,24 @@ UNITS_ARG = Arg(
     "degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L'",
     type="text",
     optional=True,
+)
+
+_N_WHAT = "the usual 1–1.67 band of gas compression and expansion"
+_N_BAND = ("n", 1.0, 1.67, _N_WHAT)
+_ZERO_TERMS = (("W_other", 0.0), ("dKE", 0.0), ("dPE", 0.0))
+_PROCESS_STEPS = (
+    tuple(
+        Step(sym, f"JB_PROCESS(state1, path, end_spec, end_value, '{sym}2 in {unit}', mass)", kind)
+        for sym, unit, kind in (
+            ("P", "Pa", "pressure"),
+            ("T", "K", "temperature"),
+        )
+    )
+    + tuple(
+        Step(sym, f"JB_PROCESS(state1, path, end_spec, end_value, '{sym} in J', mass)", "energy")
+        for sym in ("W", "Q", "dU")
+    )
+    + (Step("phase2", "JB_PROCESS(state1, path, end_spec, end_value, 'phase2', mass)", "text"),)
 )
 
 FAMILIES = {
@@ -316,6 +337,9 @@ CATALOG: tuple[Func, ...] = (
         "come from the property library's transport correlation for the fluid (water: IAPWS "
         "2008 and 2011), single-phase; sigma (surface tension) on the saturation line only.",
         column=formulas.prop_column,
+        working=Working(
+            steps=(Step("phase", "JB_PHASE(substance, spec1, value1, spec2, value2)", "text"),)
+        ),
     ),
     Func(
         "JB_PHASE",
@@ -379,6 +403,14 @@ CATALOG: tuple[Func, ...] = (
         "cv0 = cp0 − R",
         (_REF_COOLPROP,),
         Example(("air", 300), 0.7177269645063663, 1e-9),
+        working=Working(
+            "cv",
+            "cp - R",
+            (
+                Step("cp", "JB_GAS_CP(gas, T)", "specific_heat"),
+                Step("R", "JB_GAS_R(gas)", "specific_heat"),
+            ),
+        ),
     ),
     Func(
         "JB_GAS_K",
@@ -390,6 +422,14 @@ CATALOG: tuple[Func, ...] = (
         "k = cp0 / (cp0 − R)",
         (_REF_COOLPROP,),
         Example(("air", 300), 1.3999419570156248, 1e-9),
+        working=Working(
+            "k",
+            "cp/(cp - R)",
+            (
+                Step("cp", "JB_GAS_CP(gas, T)", "specific_heat"),
+                Step("R", "JB_GAS_R(gas)", "specific_heat"),
+            ),
+        ),
     ),
     Func(
         "JB_GAS_R",
@@ -401,6 +441,7 @@ CATALOG: tuple[Func, ...] = (
         "R = R_u / M",
         ("CODATA 2018 molar gas constant; molar masses of each fluid's equation of state",),
         Example(("air",), 0.2870491267875601, 1e-9),
+        working=Working(steps=(Step("M", "JB_GAS_MOLAR_MASS(gas)", "molar_mass"),)),
     ),
     Func(
         "JB_GAS_MOLAR_MASS",
@@ -434,6 +475,14 @@ CATALOG: tuple[Func, ...] = (
         "Δu = ∫ cv0(T) dT = Δh − R·(T2 − T1)",
         (_REF_COOLPROP,),
         Example(("air", 300, 1000), 544.9980985122141, 1e-9),
+        working=Working(
+            "Δu",
+            "dh - R*(T_2 - T_1)",
+            (
+                Step("dh", "JB_GAS_DELTA_H(gas, T_1, T_2)", "specific_energy"),
+                Step("R", "JB_GAS_R(gas)", "specific_heat"),
+            ),
+        ),
     ),
     Func(
         "JB_GAS_CP_MEAN",
@@ -445,6 +494,11 @@ CATALOG: tuple[Func, ...] = (
         "cp_mean = Δh / (T2 − T1)",
         (_REF_COOLPROP,),
         Example(("air", 300, 1000), 1.0656178389478662, 1e-9),
+        working=Working(
+            "cp_mean",
+            "dh/(T_2 - T_1)",
+            (Step("dh", "JB_GAS_DELTA_H(gas, T_1, T_2)", "specific_energy"),),
+        ),
     ),
     Func(
         "JB_GAS_DELTA_S",
@@ -463,6 +517,12 @@ CATALOG: tuple[Func, ...] = (
         "Δs = ∫ cp0(T)/T dT − R·ln(P2/P1)",
         (_REF_COOLPROP,),
         Example(("air", 300, 600, 100, 500), 0.2452927443030884, 1e-9),
+        working=Working(
+            steps=(
+                Step("R", "JB_GAS_R(gas)", "specific_heat"),
+                Step("s_P", "-R*ln(P_2/P_1)", "specific_entropy"),
+            )
+        ),
     ),
     # ------------------------------------------------------------------ solids
     Func(
@@ -486,6 +546,11 @@ CATALOG: tuple[Func, ...] = (
         "c_mean = ∫ c dT / (T2 − T1)",
         (_REF_SOLIDS,),
         Example(("aluminium", 300, 500), 0.9545622645934263, 1e-9),
+        working=Working(
+            "c_mean",
+            "du/(T_2 - T_1)",
+            (Step("du", "JB_SOLID_DELTA_U(material, T_1, T_2)", "specific_energy"),),
+        ),
     ),
     Func(
         "JB_SOLID_DELTA_U",
@@ -509,6 +574,9 @@ CATALOG: tuple[Func, ...] = (
         "Q = m·∫ c(T) dT from T1 to T2",
         (_REF_SOLIDS,),
         Example(("carbon steel", 1000, 300, 400), 47444.98168616241, 1e-9),
+        working=Working(
+            "Q", "m*du", (Step("du", "JB_SOLID_DELTA_U(material, T_1, T_2)", "specific_energy"),)
+        ),
     ),
     # ------------------------------------------------------------------ boundary work
     Func(
@@ -522,6 +590,7 @@ CATALOG: tuple[Func, ...] = (
         "W = P·(V2 − V1)",
         (_REF_WORK,),
         Example((200, 0.05, 0.08), 6.0),
+        working=Working("W", "P*(V_2 - V_1)", curve="P"),
     ),
     Func(
         "JB_WORK_ISOTHERMAL",
@@ -534,6 +603,7 @@ CATALOG: tuple[Func, ...] = (
         "W = P1·V1·ln(V2/V1)",
         (_REF_WORK,),
         Example((500, 0.02, 0.1), 16.094379124341003),
+        working=Working("W", "P_1*V_1*ln(V_2/V_1)", curve="P_1*V_1/V"),
     ),
     Func(
         "JB_WORK_ISOTHERMAL_MASS",
@@ -546,6 +616,12 @@ CATALOG: tuple[Func, ...] = (
         "W = m·R·T·ln(V2/V1)",
         (_REF_WORK,),
         Example(("air", 0.5, 300, 0.1, 0.3), 47.30335472103956),
+        working=Working(
+            "W",
+            "m*R*T*ln(V_2/V_1)",
+            (Step("R", "JB_GAS_R(gas)", "specific_heat"),),
+            curve="m*R*T/V",
+        ),
     ),
     Func(
         "JB_WORK_POLYTROPIC",
@@ -558,6 +634,13 @@ CATALOG: tuple[Func, ...] = (
         "W = (P2·V2 − P1·V1)/(1 − n) = P1·V1·ln(V2/V1)·φ(ln(P2·V2/(P1·V1))), φ(z) = (e^z − 1)/z",
         (_REF_WORK,),
         Example((100, 0.8, 900, 0.15), -175.95610217371583),
+        working=Working(
+            "W",
+            "(P_2*V_2 - P_1*V_1)/(1 - n)",
+            (Step("n", "ln(P_2/P_1)/ln(V_1/V_2)"),),
+            band=_N_BAND,
+            curve="P_1*(V_1/V)**n",
+        ),
     ),
     Func(
         "JB_WORK_POLYTROPIC_N",
@@ -570,6 +653,13 @@ CATALOG: tuple[Func, ...] = (
         "W = P1·V1·ln(r)·φ((1 − n)·ln r), r = V2/V1, φ(z) = (e^z − 1)/z",
         (_REF_WORK,),
         Example((100, 0.8, 0.15, 1.3), -173.95753822834706),
+        working=Working(
+            "W",
+            "(P_2*V_2 - P_1*V_1)/(1 - n)",
+            (Step("P_2", "P_1*(V_1/V_2)**n", "pressure"),),
+            band=_N_BAND,
+            curve="P_1*(V_1/V)**n",
+        ),
     ),
     Func(
         "JB_WORK_LINEAR",
@@ -582,6 +672,9 @@ CATALOG: tuple[Func, ...] = (
         "W = (P1 + P2)/2·(V2 − V1)",
         (_REF_WORK,),
         Example((150, 0.05, 350, 0.09), 10.0),
+        working=Working(
+            "W", "(P_1 + P_2)/2*(V_2 - V_1)", curve="P_1 + (P_2 - P_1)*(V - V_1)/(V_2 - V_1)"
+        ),
     ),
     Func(
         "JB_WORK_PV",
@@ -609,6 +702,7 @@ CATALOG: tuple[Func, ...] = (
         (_REF_WORK,),
         Example(([[100], [200], [200], [100], [100]], [[0.1], [0.1], [0.3], [0.3], [0.1]]), 20.0),
         elementwise=False,
+        working=Working("W", figure="points"),
     ),
     Func(
         "JB_WORK_PATH",
@@ -622,6 +716,7 @@ CATALOG: tuple[Func, ...] = (
         (_REF_COOLPROP, _REF_WORK),
         Example(("water | T = 200 degC | x = 0", "isothermal", "x2", 1, 2), 392.00926814312766),
         caution=True,
+        working=Working("W", figure="path"),
     ),
     Func(
         "JB_WORK_ELECTRIC_IN",
@@ -638,6 +733,7 @@ CATALOG: tuple[Func, ...] = (
         "W_in = V·I·Δt",
         (_REF_WORK,),
         Example((230, 4, 600), 552.0),
+        working=Working("W_in", "voltage*current*duration"),
     ),
     Func(
         "JB_WORK_SHAFT_IN",
@@ -650,6 +746,7 @@ CATALOG: tuple[Func, ...] = (
         "W_in = 2π·N·τ",
         (_REF_WORK,),
         Example((12, 400), 30.159289474462014),
+        working=Working("W_in", "2*pi*revolutions*torque"),
     ),
     # ------------------------------------------------------------------ polytropic
     Func(
@@ -662,6 +759,12 @@ CATALOG: tuple[Func, ...] = (
         "n = ln(P2/P1) / ln(V1/V2)",
         (_REF_WORK,),
         Example((100, 0.8, 900, 0.15), 1.3125779630290983),
+        working=Working(
+            "n",
+            "ln(P_2/P_1)/ln(V_1/V_2)",
+            band=("=", 1.0, 1.67, _N_WHAT),
+            curve="P_1*(V_1/V)**(ln(P_2/P_1)/ln(V_1/V_2))",
+        ),
     ),
     Func(
         "JB_POLY_FIT",
@@ -684,6 +787,7 @@ CATALOG: tuple[Func, ...] = (
         (_REF_WORK,),
         Example(([[100], [189.8], [378.7]], [[0.8], [0.5], [0.3]]), 1.3575233586851823, 1e-6),
         elementwise=False,
+        working=Working("n", figure="points"),
     ),
     Func(
         "JB_POLY_P2",
@@ -695,6 +799,7 @@ CATALOG: tuple[Func, ...] = (
         "P2 = P1·(V1/V2)^n",
         (_REF_WORK,),
         Example((100, 0.8, 0.2, 1.3), 606.2866266041592),
+        working=Working("P2", "P_1*(V_1/V_2)**n", band=_N_BAND, curve="P_1*(V_1/V)**n"),
     ),
     Func(
         "JB_POLY_V2",
@@ -706,6 +811,7 @@ CATALOG: tuple[Func, ...] = (
         "V2 = V1·(P1/P2)^(1/n)",
         (_REF_WORK,),
         Example((100, 0.8, 600, 1.3), 0.20161001506742393),
+        working=Working("V2", "V_1*(P_1/P_2)**(1/n)", band=_N_BAND),
     ),
     Func(
         "JB_POLY_T2_FROM_V",
@@ -717,6 +823,7 @@ CATALOG: tuple[Func, ...] = (
         "T2 = T1·(V1/V2)^(n − 1)",
         (_REF_WORK,),
         Example((300, 0.8, 0.2, 1.3), 454.71496995311946),
+        working=Working("T2", "T_1*(V_1/V_2)**(n - 1)", band=_N_BAND),
     ),
     Func(
         "JB_POLY_T2_FROM_P",
@@ -728,6 +835,7 @@ CATALOG: tuple[Func, ...] = (
         "T2 = T1·(P2/P1)^((n − 1)/n)",
         (_REF_WORK,),
         Example((300, 100, 600, 1.3), 453.6225339017037),
+        working=Working("T2", "T_1*(P_2/P_1)**((n - 1)/n)", band=_N_BAND),
     ),
     # ------------------------------------------------------------------ first law
     Func(
@@ -741,6 +849,7 @@ CATALOG: tuple[Func, ...] = (
         "Q = ΔU + ΔKE + ΔPE + W_b + W_other",
         (_REF_FIRSTLAW,),
         Example((120, 30, -25), 125.0),
+        working=Working("Q", "dU + dKE + dPE + W_b + W_other", defaults=_ZERO_TERMS),
     ),
     Func(
         "JB_BALANCE_GAP",
@@ -760,6 +869,12 @@ CATALOG: tuple[Func, ...] = (
         "gap = Q − W_b − W_other − (ΔU + ΔKE + ΔPE)",
         (_REF_FIRSTLAW,),
         Example((125, 30, 120, -25), 0.0),
+        working=Working(
+            "gap",
+            "Q - W_b - W_other - (dU + dKE + dPE)",
+            defaults=_ZERO_TERMS,
+            zero=("Q", "W_b", "dU"),
+        ),
     ),
     Func(
         "JB_BALANCE_DELTA_KE",
@@ -775,6 +890,7 @@ CATALOG: tuple[Func, ...] = (
         "ΔKE = m·(V2² − V1²)/2",
         (_REF_FIRSTLAW,),
         Example((1200, 0, 25), 375.0),
+        working=Working("ΔKE", "m*(vel_2**2 - vel_1**2)/2"),
     ),
     Func(
         "JB_BALANCE_DELTA_PE",
@@ -792,6 +908,7 @@ CATALOG: tuple[Func, ...] = (
         "ΔPE = m·g·(z2 − z1)",
         (_REF_FIRSTLAW, "standard gravity 9.80665 m/s² (3rd CGPM, 1901)"),
         Example((500, 0, 40), 196.133),
+        working=Working("ΔPE", "m*g*(z_2 - z_1)", defaults=(("g", 9.80665),)),
     ),
     Func(
         "JB_HEAT_ISOBARIC_GAS",
@@ -804,6 +921,12 @@ CATALOG: tuple[Func, ...] = (
         "Q = m·∫cp dT + W_other",
         (_REF_FIRSTLAW, _REF_COOLPROP),
         Example(("air", 2, 300, 500), 405.8402854863983),
+        working=Working(
+            "Q",
+            "m*dh + W_other",
+            (Step("dh", "JB_GAS_DELTA_H(gas, T_1, T_2)", "specific_energy"),),
+            defaults=(("W_other", 0.0),),
+        ),
     ),
     Func(
         "JB_HEAT_RIGID_GAS",
@@ -817,6 +940,12 @@ CATALOG: tuple[Func, ...] = (
         (_REF_FIRSTLAW, _REF_COOLPROP),
         Example(("air", 2, 300, 500), 291.0206347713742),
         caution=True,
+        working=Working(
+            "Q",
+            "m*du + W_other",
+            (Step("du", "JB_GAS_DELTA_U(gas, T_1, T_2)", "specific_energy"),),
+            defaults=(("W_other", 0.0),),
+        ),
     ),
     # ------------------------------------------------------------------ processes
     Func(
@@ -849,6 +978,7 @@ CATALOG: tuple[Func, ...] = (
         notes="A blocked-in liquid heated at constant volume (the example) gains several bar per "
         "kelvin (water in a rigid container: about 4.7 bar/K from 20 °C, 10.5 bar/K from 50 °C): "
         "the pressure comes from the equation of state, never from a gas law.",
+        working=Working(steps=_PROCESS_STEPS, figure="path"),
     ),
     Func(
         "JB_PROCESS_TABLE",
@@ -881,6 +1011,7 @@ CATALOG: tuple[Func, ...] = (
         ),
         elementwise=False,
         caution=True,
+        working=Working(steps=_PROCESS_STEPS, figure="path"),
     ),
     Func(
         "JB_PROCESS_PATH",
@@ -923,6 +1054,7 @@ CATALOG: tuple[Func, ...] = (
             1e-6,
         ),
         elementwise=False,
+        working=Working(steps=_PROCESS_STEPS, figure="path"),
     ),
     # ------------------------------------------------------------------ cycles
     Func(
@@ -988,6 +1120,20 @@ CATALOG: tuple[Func, ...] = (
         (_REF_COOLPROP, _REF_STORED),
         Example(("nitrogen | P = 30 bar | T = 20 degC", 2.5), 11310.71420636391, 1e-6),
         caution=True,
+        working=Working(
+            "E",
+            "m*(u_1 - u_2)",
+            (
+                Step("m", "V*JB_PROP(state, 'rho in kg/m3')", "mass"),
+                Step("u_1", "JB_PROP(state, 'u in J/kg')", "specific_energy"),
+                Step(
+                    "u_2",
+                    "JB_PROCESS(state, 'isentropic', 'P2 in Pa', P_amb, 'u2 in J/kg')",
+                    "specific_energy",
+                ),
+            ),
+            defaults=(("P_amb", 101325.0),),
+        ),
     ),
     Func(
         "JB_STORED_IDEAL_ISENTROPIC",
@@ -1006,6 +1152,9 @@ CATALOG: tuple[Func, ...] = (
         (_REF_STORED,),
         Example((3000, 2.5, 1.4), 11628.033185742339),
         caution=True,
+        working=Working(
+            "E", "P*V/(k - 1)*(1 - (P_amb/P)**((k - 1)/k))", defaults=(("P_amb", 101325.0),)
+        ),
     ),
     Func(
         "JB_STORED_ISOCHORIC",
@@ -1024,6 +1173,7 @@ CATALOG: tuple[Func, ...] = (
         (_REF_STORED,),
         Example((3000, 2.5, 1.4), 18116.718750000004),
         caution=True,
+        working=Working("E", "(P - P_amb)*V/(k - 1)", defaults=(("P_amb", 101325.0),)),
     ),
     # ------------------------------------------------------------------ blocked-in liquid
     Func(
@@ -1060,6 +1210,12 @@ CATALOG: tuple[Func, ...] = (
         notes="The rigid result is the upper bound; a steel pipe (D = 100 mm, wall 5 mm) gives "
         "about 150 bar where the rigid bound gives 212 bar for water blocked in at 15 °C, 4 bar "
         "and warmed to 45 °C.",
+        working=Working(
+            steps=(
+                Step("beta", "JB_PROP(state1, 'beta in 1/K')", "expansion_coefficient"),
+                Step("kappa", "JB_PROP(state1, 'kappa in 1/Pa')", "compressibility"),
+            )
+        ),
     ),
     Func(
         "JB_RELIEF_THERMAL_FLOW",
@@ -1079,6 +1235,15 @@ CATALOG: tuple[Func, ...] = (
         (_REF_COOLPROP, _REF_API521),
         Example(("water | T = 45 degC | P = 20 bar", 10), 0.003677730090279406, 1e-6),
         caution=True,
+        working=Working(
+            "q",
+            "beta*Q_dot/(rho*cp)",
+            (
+                Step("beta", "JB_PROP(state, 'beta in 1/K')", "expansion_coefficient"),
+                Step("rho", "JB_PROP(state, 'rho in kg/m3')", "density"),
+                Step("cp", "JB_PROP(state, 'cp in J/(kg*K)')", "specific_heat"),
+            ),
+        ),
     ),
     # ------------------------------------------------------------------ time
     Func(
@@ -1230,6 +1395,7 @@ CATALOG: tuple[Func, ...] = (
         "dE/dt = Q_dot − W_dot",
         (_REF_FIRSTLAW,),
         Example((12, 5), 7.0),
+        working=Working("dE/dt", "Q_dot - W_dot"),
     ),
     # ------------------------------------------------------------------ pressure tests
     Func(
@@ -1250,6 +1416,9 @@ CATALOG: tuple[Func, ...] = (
         (_REF_PCC2,),
         Example((1200, 2), 3041.0313412154287, 1e-9),
         caution=True,
+        working=Working(
+            "E", "2.5*P_test*V*(1 - (P_amb/P_test)**0.286)", defaults=(("P_amb", 101325.0),)
+        ),
     ),
     Func(
         "JB_TEST_HYDRO_ENERGY",
@@ -1296,6 +1465,7 @@ CATALOG: tuple[Func, ...] = (
         (_REF_TNT,),
         Example((4184,), 1.0, 1e-12),
         caution=True,
+        working=Working("W_TNT", "E/basis", defaults=(("basis", 4.184e6),)),
     ),
     Func(
         "JB_TEST_DISTANCE",
@@ -1312,6 +1482,7 @@ CATALOG: tuple[Func, ...] = (
         (_REF_SCALING,),
         Example((8, 10), 20.0, 1e-12),
         caution=True,
+        working=Working("R", "Z*W_TNT**(1/3)"),
     ),
     # ------------------------------------------------------------------ engines
     Func(
@@ -1331,6 +1502,11 @@ CATALOG: tuple[Func, ...] = (
         "V = V_c + π·B²/4·(l + a − a·cos θ − √(l² − a²·sin²θ))",
         (_REF_HEYWOOD,),
         Example((90, 0.1, 0.1, 0.2, 0.0001), 0.0005425784050035163, 1e-12),
+        working=Working(
+            "V",
+            "V_c + pi*bore**2/4*(rod + a - a*cos(theta) - sqrt(rod**2 - a**2*sin(theta)**2))",
+            (Step("a", "stroke/2", "length"), Step("theta", "crank_angle*pi/180")),
+        ),
     ),
     Func(
         "JB_ENGINE_POWER",
@@ -1348,6 +1524,7 @@ CATALOG: tuple[Func, ...] = (
         "P_i = W_cycle·(N/60)·z/n_R",
         (_REF_HEYWOOD,),
         Example((0.5, 3000, 4, 2), 50.0, 1e-12),
+        working=Working("P_i", "W_cycle*speed/60*cylinders/revs_per_cycle"),
     ),
     Func(
         "JB_ENGINE_MEP",
@@ -1362,6 +1539,7 @@ CATALOG: tuple[Func, ...] = (
         "MEP = W_cycle/V_d",
         (_REF_HEYWOOD,),
         Example((0.5, 0.0005), 1000.0, 1e-12),
+        working=Working("MEP", "W_cycle/V_d"),
     ),
     Func(
         "JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY",
@@ -1379,6 +1557,11 @@ CATALOG: tuple[Func, ...] = (
         "η_v = 1 + c − c·(P_d/P_s)^(1/n)",
         ("reciprocating-compressor clearance re-expansion (common practice)",),
         Example((0.05, 100, 400, 1.3), 0.9047577143885676, 1e-12),
+        working=Working(
+            "η_v",
+            "1 + clearance - clearance*(P_discharge/P_suction)**(1/n)",
+            band=("n", 1.0, 1.67, _N_WHAT),
+        ),
     ),
     Func(
         "JB_POLY_FIT_BRANCHES",
@@ -1407,6 +1590,7 @@ CATALOG: tuple[Func, ...] = (
             1e-6,
         ),
         elementwise=False,
+        working=Working(figure="points"),
     ),
     # ------------------------------------------------------------------ humid air
     Func(
@@ -1661,6 +1845,29 @@ _FAST = {
     f.name: (f, tuple((a.type, a.quantity, a.optional, a.default) for a in f.args), len(f.all_args))
     for f in CATALOG
 }
+
+
+def working_call(units: str | None = None):
+    """``call(name, *si_args)`` for working expressions (:mod:`joulebook.working`): numbers
+    with a quantity arrive in SI and are handed to the cell path in the unit system *units*
+    (the calling cell's, so bare phrases mean what they meant there); the result returns in
+    SI.  Asked results are asked for in SI units by the templates themselves."""
+    system = unit_system(units if isinstance(units, str) and units.strip() else None)
+
+    def run(name: str, *args):
+        f = lookup(name)
+        vals = []
+        for a, v in zip(f.args, args):
+            if a.quantity and isinstance(v, float):
+                v = system.conv(a.quantity).from_si(v)
+            vals.append(v)
+        vals += [None] * (len(f.args) - len(vals))
+        out = call(f.name, *vals, units) if f.units and units else call(f.name, *vals)
+        if isinstance(out, float) and f.result not in _AS_IS:
+            out = system.conv(f.result).to_si(out)
+        return out
+
+    return run
 
 
 def call(name: str, *values):

@@ -77,6 +77,7 @@ def functions_markdown() -> str:
                 "",
                 f"- **Result:** {_result_unit(f)}",
                 f"- **Equation:** {f.equation}",
+                *_working_lines(f),
                 f"- **References:** {'; '.join(f.references)}",
                 f"- **Example:** {_example_text(f)}",
             ]
@@ -90,6 +91,25 @@ def functions_markdown() -> str:
             out.append("")
     out += _materials_section()
     return "\n".join(out).rstrip() + "\n"
+
+
+def _working_lines(f) -> list[str]:
+    """The entry's working as the audit shows it (steps, then the result), in its argument
+    names."""
+    from .working import show
+
+    w = f.working
+    if w is None or not (w.steps or w.result):
+        return []
+    parts = [f"{s.symbol} = {show(s.expr)}" for s in w.steps]
+    if w.result:
+        parts.append(f"{w.symbol} = {show(w.result)}")
+    out = ["- **Working (audit):** " + "; ".join(f"`{p}`" for p in parts)]
+    if w.band:
+        name, lo, hi, what = w.band
+        who = w.symbol if name == "=" else name
+        out.append(f"- **Flagged by the audit:** {who} outside {lo:g}–{hi:g} ({what})")
+    return out
 
 
 def _materials_section() -> list[str]:

@@ -1,0 +1,286 @@
+"""The working of a worksheet function: its equation in named arguments, evaluated and shown.
+
+A catalog entry carries a :class:`Working`: the result as an expression of the entry's own
+argument names (and of intermediate steps), the intermediate quantities a checker wants to
+see, a plausibility band and the P–V curve of a path.  The audit shows it with the numbers
+of a cell substituted, the docs print it, and a generic test evaluates it on every entry's
+example and requires the entry's own result — so the working cannot drift from the code.
+
+The expression language is a small, safe subset of Python's: numbers, quoted text, argument
+and step names, ``+ - * / **``, the functions of :data:`MATH`, and calls of other catalog
+functions by name (``JB_GAS_R(gas)``), evaluated in SI.  Expressions are parsed with
+:mod:`ast` (never ``eval``); anything else is refused when the catalog is tested.
+
+Examples
+--------
+>>> w = Working("W", "P_1*V_1*ln(V_2/V_1)")
+>>> show(w.result)
+'P1·V1·ln(V2/V1)'
+>>> evaluate(w.result, {"P_1": 1e5, "V_1": 1.0, "V_2": 2.0})
+69314.71805599453
+"""
+
+from __future__ import annotations
+
+import ast
+import math
+from collections.abc import Callable
+from dataclasses import dataclass
+from functools import lru_cache
+
+__all__ = ["Step", "Working", "Worked", "MATH", "evaluate", "show", "names_in", "work_out"]
+
+#: functions an expression may use (SI in, SI out)
+MATH: dict[str, Callable] = {
+    "ln": math.log,
+    "exp": math.exp,
+    "sqrt": math.sqrt,
+    "sin": math.sin,
+    "cos": math.cos,
+    "acos": math.acos,
+    "abs": abs,
+    "max": max,
+    "min": min,
+}
+_CONST = {"pi": math.pi}
+
+
+@dataclass(frozen=True)
+class Step:
+    """An intermediate quantity: ``symbol = expr``, shown in the unit of *kind*."""
+
+    symbol: str
+    expr: str
+    kind: str | None = None  # a units kind; None: a plain number; "text": a text result
+
+
+@dataclass(frozen=True)
+class Working:
+    """How the result of an entry is worked out, in the entry's own argument names.
+
+    Parameters
+    ----------
+    symbol : str
+        The result's symbol as the trade writes it (``W``, ``n``, ``Q``).
+    result : str
+        The result as an expression of arguments and steps (SI); empty where the result comes
+        from a property model or a solver and only the steps are shown.
+    steps : tuple of Step
+        Intermediate quantities, evaluated in order (a step may use earlier ones).
+    band : tuple (name, low, high, what), optional
+        A plausibility band of an argument, step or the result (``"="``): outside it the
+        audit raises a flag naming *what* the band is.
+    zero : tuple of str
+        Names whose magnitudes scale a result that must be zero (a balance that closes).
+    curve : str
+        Pressure as an expression of the volume ``V`` along the path from ``V_1`` to ``V_2``
+        (a P–V figure of the path).
+    figure : str
+        ``"path"`` for an end-state solver (P–V and T–s of the solved path), ``"points"``
+        for measured P–V points (arguments ``P_values``, ``V_values``).
+    defaults : tuple of (name, value)
+        The SI values the function takes for omitted optional arguments.
+    """
+
+    symbol: str = ""
+    result: str = ""
+    steps: tuple[Step, ...] = ()
+    band: tuple[str, float, float, str] | None = None
+    zero: tuple[str, ...] = ()
+    curve: str = ""
+    figure: str = ""
+    defaults: tuple[tuple[str, float], ...] = ()  # SI values of omitted optional arguments
+
+
+@lru_cache(maxsize=512)
+def _parse(expr: str) -> ast.expr:
+    tree = ast.parse(expr, mode="eval").body
+    for node in ast.walk(tree):
+        ok = isinstance(
+            node,
+            (
+                ast.BinOp,
+                ast.UnaryOp,
+                ast.Name,
+                ast.Constant,
+                ast.Call,
+                ast.Load,
+                ast.operator,
+                ast.unaryop,
+            ),
+        )
+        if isinstance(node, ast.Call) and (
+            node.keywords
+            or not isinstance(node.func, ast.Name)
+            or not (node.func.id in MATH or node.func.id.startswith("JB_"))
+        ):
+            ok = False
+        if isinstance(node, ast.BinOp) and not isinstance(
+            node.op, (ast.Add, ast.Sub, ast.Mult, ast.Div, ast.Pow)
+        ):
+            ok = False
+        if not ok:
+            raise ValueError(f"working expression {expr!r}: {type(node).__name__} not allowed")
+    return tree
+
+
+def names_in(expr: str) -> set[str]:
+    """The names an expression reads (arguments and steps; not functions or constants)."""
+    out = set()
+    for node in ast.walk(_parse(expr)):
+        if isinstance(node, ast.Name) and node.id not in _CONST:
+            out.add(node.id)
+    for node in ast.walk(_parse(expr)):
+        if isinstance(node, ast.Call):
+            out.discard(node.func.id)  # type: ignore[attr-defined]
+    return out
+
+
+def evaluate(expr: str, values: dict, call: Callable | None = None):
+    """The value of *expr* with *values* (SI); *call(name, *args)* runs catalog functions.
+
+    Raises KeyError for a name without a value and the exceptions of the functions it calls.
+    """
+
+    def ev(n):
+        if isinstance(n, ast.Constant):
+            return n.value
+        if isinstance(n, ast.Name):
+            if n.id in values:
+                v = values[n.id]
+                if v is None:
+                    raise KeyError(n.id)
+                return v
+            if n.id in _CONST:
+                return _CONST[n.id]
+            raise KeyError(n.id)
+        if isinstance(n, ast.UnaryOp):
+            v = ev(n.operand)
+            return -v if isinstance(n.op, ast.USub) else +v
+        if isinstance(n, ast.BinOp):
+            a, b = ev(n.left), ev(n.right)
+            op = n.op
+            if isinstance(op, ast.Add):
+                return a + b
+            if isinstance(op, ast.Sub):
+                return a - b
+            if isinstance(op, ast.Mult):
+                return a * b
+            if isinstance(op, ast.Div):
+                return a / b
+            return a**b
+        if isinstance(n, ast.Call):
+            name = n.func.id  # type: ignore[attr-defined]
+            args = [ev(a) for a in n.args]
+            if name in MATH:
+                return MATH[name](*args)
+            if call is None:
+                raise KeyError(name)
+            return call(name, *args)
+        raise ValueError(type(n).__name__)
+
+    return ev(_parse(expr))
+
+
+_PREC = {ast.Add: 1, ast.Sub: 1, ast.Mult: 2, ast.Div: 2, ast.Pow: 4}
+_SIGN = {ast.Add: " + ", ast.Sub: " − ", ast.Mult: "·", ast.Div: "/", ast.Pow: "^"}
+
+
+def _name(name: str) -> str:
+    """``P_1`` → ``P1`` (the trade's way of writing an initial or final value)."""
+    head, _, tail = name.rpartition("_")
+    return head + tail if head and tail.isdigit() else name
+
+
+def show(expr: str, subst: dict[str, str] | None = None) -> str:
+    """*expr* written as the trade writes it (``·``, ``−``, ``^``), names replaced by
+    *subst* (e.g. their values with units) where given.
+
+    >>> show("(P_2*V_2 - P_1*V_1)/(1 - n)")
+    '(P2·V2 − P1·V1)/(1 − n)'
+    >>> show("P*(V_2 - V_1)", {"P": "500 kPa", "V_1": "0.1 m³", "V_2": "0.3 m³"})
+    '500 kPa·(0.3 m³ − 0.1 m³)'
+    """
+    subst = subst or {}
+
+    def r(n, parent: int = 0, right: bool = False) -> str:
+        if isinstance(n, ast.Constant):
+            return repr(n.value) if isinstance(n.value, str) else _num(n.value)
+        if isinstance(n, ast.Name):
+            return subst.get(n.id, _name(n.id))
+        if isinstance(n, ast.UnaryOp):
+            inner = r(n.operand, 3)
+            text = ("−" if isinstance(n.op, ast.USub) else "+") + inner
+            return f"({text})" if parent >= 3 else text
+        if isinstance(n, ast.BinOp):
+            p = _PREC[type(n.op)]
+            left = r(n.left, p + (1 if isinstance(n.op, ast.Pow) else 0))
+            right_text = r(n.right, p + (0 if isinstance(n.op, ast.Pow) else 1), True)
+            text = left + _SIGN[type(n.op)] + right_text
+            return f"({text})" if p < parent else text
+        if isinstance(n, ast.Call):
+            fn = n.func.id  # type: ignore[attr-defined]
+            return f"{fn}({', '.join(r(a) for a in n.args)})"
+        raise ValueError(type(n).__name__)
+
+    return r(_parse(expr))
+
+
+def _num(v: float) -> str:
+    if isinstance(v, bool):
+        return str(v)
+    if isinstance(v, int):
+        return str(v)
+    return f"{v:.10g}"
+
+
+@dataclass
+class Worked:
+    """One line of a working: ``symbol = formula = substituted = value``."""
+
+    symbol: str
+    formula: str
+    substituted: str
+    value: object
+    kind: str | None
+    error: str = ""
+
+
+def work_out(
+    w: Working,
+    values: dict,
+    call: Callable,
+    display: Callable[[object, str | None], str],
+    kinds: dict | None = None,
+) -> tuple[list[Worked], Worked | None]:
+    """Evaluate the steps and the result of *w* with the arguments *values* (SI for numbers
+    with a quantity, as given otherwise; ``None`` for omitted ones, which take *w*'s
+    defaults).  *call(name, *args)* runs catalog functions; *display(value, kind)* writes a
+    value with its unit (*kinds*: the units kind of each argument).  A line that cannot be evaluated carries its error and stops the
+    lines after it from using it."""
+    vals = dict(values)
+    for name, v in w.defaults:
+        if vals.get(name) is None:
+            vals[name] = v
+    kinds = dict(kinds or {})
+    out: list[Worked] = []
+
+    def line(symbol: str, expr: str, kind: str | None) -> Worked:
+        subst = {}
+        for n in names_in(expr):
+            if vals.get(n) is not None:
+                subst[n] = display(vals[n], kinds.get(n))
+        try:
+            v = evaluate(expr, vals, call)
+            err = ""
+        except Exception as e:  # shown on the line: the working never breaks the audit
+            v, err = None, getattr(e, "message", None) or type(e).__name__
+        return Worked(_name(symbol), show(expr), show(expr, subst), v, kind, err)
+
+    for st in w.steps:
+        wk = line(st.symbol, st.expr, st.kind)
+        out.append(wk)
+        vals[st.symbol] = wk.value
+        kinds[st.symbol] = st.kind
+    res = line(w.symbol or "result", w.result, None) if w.result else None
+    return out, res
