@@ -25,11 +25,22 @@ def _clean(ws):
         "Stored energy",
         '=JB_STORED_ISENTROPIC(JB_STATE("nitrogen","P in bar",B3,"T in degC",B4),B5)',
     )
-    ws["A7"], ws["B7"] = "Compression work", "=JB_WORK_POLYTROPIC(100,0.8,900,0.15)"
+    ws["A7"], ws["B7"] = "Compression work", "=JB_WORK_POLYTROPIC(D3,D4,D5,D6)"
     ws["A8"], ws["B8"] = (
         "Water enthalpy",
-        '=JB_PROP("water","h in kJ/kg","T in degC",B4,"P in kPa",500)',
+        '=JB_PROP("water","h in kJ/kg","T in degC",B4,"P in kPa",D7)',
     )
+    for r, (lab, v) in enumerate(
+        [
+            ("P_1 (kPa)", 100),
+            ("V_1 (m3)", 0.8),
+            ("P_2 (kPa)", 900),
+            ("V_2 (m3)", 0.15),
+            ("Water pressure (kPa)", 500),
+        ],
+        start=3,
+    ):
+        ws[f"C{r}"], ws[f"D{r}"] = lab, v
     ws["A10"], ws["B10"] = "dU", 120.0
     ws["A11"], ws["B11"] = "W", 30.0
     ws["A12"], ws["B12"] = "Q", "=B10+B11"
@@ -59,7 +70,8 @@ def _recalc(src: Path, tmp: Path) -> Path:
 def test_clean_workbook_raises_no_flag(tmp_path):
     book = read_book(_recalc(_build(tmp_path / "clean.xlsx", False), tmp_path))
     a = build_audit(book, figures=False)
-    assert len(a.entries) == 4  # B6, B7, B8, B13 (B12 is plain arithmetic)
+    # every formula cell: B6, B7, B8, B13 and the plain arithmetic of B12
+    assert [e.cell for e in a.entries] == ["B6", "B7", "B8", "B12", "B13"]
     assert [f for e in a.entries for f in e.flags] == []
     assert all(e.row.status == "pass" for e in a.entries)
 
@@ -98,6 +110,7 @@ def test_html_is_self_contained_escaped_and_has_the_parts(tmp_path):
         "Span et al.",
         "<svg",
         "W = (P2·V2 − P1·V1)/(1 − n)",
+        'class="calcmap"',
     ):
         assert part in text, part
     assert main(["audit", str(src), "-o", str(out)]) == 2  # refuses to overwrite without --force
@@ -111,6 +124,9 @@ def test_report_lists_inputs_with_units_and_sources(tmp_path):
     assert "Vessel!B4 (Gas temperature)" in byname["value1"].source
     assert prop.result_unit == "kJ/kg" and "IAPWS-95" in prop.model
     assert render_html(a).count('class="entry"') == len(a.entries)
+    b12 = next(e for e in a.entries if e.cell == "B12")
+    assert b12.function == "" and b12.substituted == "=120+30"
+    assert [i.source for i in b12.inputs] == ["cell Vessel!B10 (dU)", "cell Vessel!B11 (W)"]
 
 
 @pytest.mark.client

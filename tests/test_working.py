@@ -10,7 +10,7 @@ import math
 
 import pytest
 
-from joulebook.catalog import CATALOG, UNITS_ARG, _AS_IS, call, working_call
+from joulebook.catalog import _AS_IS, CATALOG, UNITS_ARG, call, working_call
 from joulebook.units import unit_system
 from joulebook.working import Working, evaluate, names_in, show, work_out
 

@@ -787,7 +787,7 @@ CATALOG: tuple[Func, ...] = (
         (_REF_WORK,),
         Example(([[100], [189.8], [378.7]], [[0.8], [0.5], [0.3]]), 1.3575233586851823, 1e-6),
         elementwise=False,
-        working=Working("n", figure="points"),
+        working=Working("n", figure="points", columns=("n", "C", "R²")),
     ),
     Func(
         "JB_POLY_P2",

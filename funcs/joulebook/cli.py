@@ -593,6 +593,11 @@ def _audit(ns: argparse.Namespace) -> int:
         bar.close()
     text = render_html(report).encode("utf-8")
     atomic_write(out, lambda fh: fh.write(text))
+    if ns.json:
+        from .workbook.audit import to_json
+
+        data = to_json(report).encode("utf-8")
+        atomic_write(Path(ns.json), lambda fh: fh.write(data))
     if ns.xlsx:
         from .workbook.audit import audit_rows
         from .workbook.writer import add_sheet_copy
@@ -606,9 +611,13 @@ def _audit(ns: argparse.Namespace) -> int:
     s = report.summary
     print(
         f"wrote {out} ({len(text) // 1024} KiB, {time.perf_counter() - t0:.1f} s): "
-        f"{len(report.entries)} joulebook entries, {s.get('pass', 0)} passes, "
-        f"{s.get('differs', 0)} differences, {sum(len(e.flags) for e in report.entries)} flags"
+        f"{len(report.entries)} formula cells, {s.get('pass', 0)} passes, "
+        f"{s.get('differs', 0)} differences, {len(report.flags)} flags"
     )
+    if ns.fail_on_flags and report.flags:
+        for e, f in report.flags:
+            print(f"flag {e.sheet}!{e.cell}: {f}", file=sys.stderr)
+        return 1
     return 0
 
 
@@ -737,14 +746,21 @@ def build_parser() -> argparse.ArgumentParser:
 
     a = sub.add_parser(
         "audit",
-        help="write a checker's HTML report of every joulebook cell of a workbook",
-        description="Explain and re-derive every cell of BOOK that calls a joulebook function: "
-        "inputs with units and sources, model, equation with numbers, recomputed vs saved value, "
-        "flags, P–V / T–s diagrams. One self-contained HTML file.",
+        help="write a checker's HTML report of every formula cell of a workbook",
+        description="Explain and re-derive every formula cell of BOOK: inputs with units and "
+        "sources, the formula with numbers, each joulebook call with its model and working, "
+        "recomputed vs saved value with one status, flags a checker raises by eye, a "
+        "calculation map per sheet, P–V / T–s diagrams. One self-contained HTML file.",
     )
     a.add_argument("book", help="the .xlsx/.xlsm to audit")
     a.add_argument("-o", "--output", required=True, help="the HTML report to write")
     a.add_argument("--xlsx", help="also write a copy of the workbook with an added audit sheet")
+    a.add_argument("--json", help="also write every entry, flag and figure as JSON")
+    a.add_argument(
+        "--fail-on-flags",
+        action="store_true",
+        help="exit 1 when any flag is raised (the reports are written first)",
+    )
     a.add_argument("--force", action="store_true", help="replace existing outputs")
     a.set_defaults(run=_audit)
 

@@ -64,6 +64,14 @@ def _rows(ws, start: int, heading: str, rows: list[tuple]) -> int:
     return r + 1
 
 
+def _side(ws, start: int, rows: list[tuple]) -> None:
+    """Inputs beside a block (label in E, value in F, unit in G), where a block has no room."""
+    for i, (label, value, unit) in enumerate(rows):
+        ws.cell(row=start + i, column=5, value=label)
+        ws.cell(row=start + i, column=6, value=value).fill = ws._jb_fill
+        ws.cell(row=start + i, column=7, value=unit)
+
+
 def blocked_in_line(wb) -> None:
     ws = _sheet(
         wb,
@@ -279,10 +287,20 @@ def receiver_test(wb) -> None:
             ),
             (
                 "Stored energy, hydrostatic (water and shell)",
-                '=JB_TEST_HYDRO_ENERGY(B31,B12,"cylinder",1.2,0.01,200,0.3,,"K-kPa-kJ, E_mod=GPa")',
+                '=JB_TEST_HYDRO_ENERGY(B31,B12,"cylinder",F27,F28,F29,F30,,"K-kPa-kJ, E_mod=GPa")',
                 "kJ",
             ),
             ("Check: pneumatic over hydrostatic (ratio)", "=B27/B32", "-"),
+        ],
+    )
+    _side(
+        ws,
+        27,
+        [
+            ("Shell inside diameter", 1.2, "m"),
+            ("Shell wall thickness", 0.01, "m"),
+            ("Young's modulus of the shell steel", 200, "GPa"),
+            ("Poisson's ratio of the shell steel", 0.3, "-"),
         ],
     )
     _rows(
@@ -390,13 +408,13 @@ def indicator_record(wb) -> None:
             ),
             (
                 "Mean effective pressure (negative for a compressor)",
-                f'=JB_ENGINE_MEP(B{r + 3},8,"K-kPa-J, V=L")',
+                f'=JB_ENGINE_MEP(B{r + 3},F{q + 1},"K-kPa-J, V=L")',
                 "kPa",
             ),
             ("Clearance ratio (0.8 L over 8 L swept)", 0.1, "-"),
             (
                 "Clearance volumetric efficiency",
-                f"=JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY(B{q + 5},101,420,B{r + 1})",
+                f"=JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY(B{q + 5},F{q + 2},F{q + 3},B{r + 1})",
                 "-",
             ),
             (
@@ -404,6 +422,15 @@ def indicator_record(wb) -> None:
                 '=JB_POLY_FIT(B24:B27,C24:C27,"n","P=kPa, V=L")',
                 "-",
             ),
+        ],
+    )
+    _side(
+        ws,
+        q + 1,
+        [
+            ("Swept volume", 8, "L"),
+            ("Suction pressure (absolute)", 101, "kPa"),
+            ("Discharge pressure (absolute)", 420, "kPa"),
         ],
     )
 

@@ -80,6 +80,8 @@ class Working:
         for measured P–V points (arguments ``P_values``, ``V_values``).
     defaults : tuple of (name, value)
         The SI values the function takes for omitted optional arguments.
+    columns : tuple of str
+        Headings of a spilled result that carries none of its own (the audit's table).
     """
 
     symbol: str = ""
@@ -90,6 +92,7 @@ class Working:
     curve: str = ""
     figure: str = ""
     defaults: tuple[tuple[str, float], ...] = ()  # SI values of omitted optional arguments
+    columns: tuple[str, ...] = ()  # headings of a spilled row or table that has none
 
 
 @lru_cache(maxsize=512)
@@ -147,10 +150,7 @@ def evaluate(expr: str, values: dict, call: Callable | None = None):
             return n.value
         if isinstance(n, ast.Name):
             if n.id in values:
-                v = values[n.id]
-                if v is None:
-                    raise KeyError(n.id)
-                return v
+                return values[n.id]  # None: an omitted argument (a call takes its default)
             if n.id in _CONST:
                 return _CONST[n.id]
             raise KeyError(n.id)

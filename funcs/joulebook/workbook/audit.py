@@ -1,17 +1,24 @@
-"""The checker's audit: every joulebook cell of a workbook, explained and re-derived.
+"""The checker's audit: every formula cell of a workbook, explained and re-derived.
 
-For each cell that calls a joulebook function: where it is and what it is called (the
-nearest label, defined names), its formula, every input resolved to its value with its unit
-and where it came from, the result with its unit, the model behind it, the equation with the
-numbers substituted, the recomputed and the saved value, and the flags a checker cares about.
-Rendered as one self-contained HTML file (no network, everything from the workbook escaped).
+Every formula cell gets an entry: where it is and what it is called (the nearest label,
+defined names), its formula, its inputs resolved (value, unit where the label or the formula
+says it, source cell and its label), the formula with the numbers substituted, the recomputed
+and the saved value with one truthful status, spilled results in full, and the flags a
+checker raises by eye.  Each joulebook call in it — the whole formula or nested inside an
+ordinary one — is explained as a sub-call: its arguments with units, the model behind it and
+the working of its catalog entry (:mod:`joulebook.working`) with the numbers substituted.
+The audit holds no per-function code: what a function reads, returns and how it is worked out
+comes from its catalog entry.
+
+Rendered as one self-contained HTML file from a Jinja2 template with autoescaping, and as JSON
+for CI (``joulebook audit --json``, ``--fail-on-flags``).
 """
 
 from __future__ import annotations
 
 import datetime as _dt
-import html
-import io
+import hashlib
+import json
 import math
 import re
 from dataclasses import dataclass, field
@@ -19,21 +26,27 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from .. import __version__
-from ..catalog import Func, lookup
+from ..catalog import Func, lookup, working_call
 from ..errors import JoulebookError
-from ..units import parse_phrase, parse_unit, unit_system
+from ..units import parse_phrase, unit_system
+from ..working import work_out
+from . import auditflags as eye
+from .auditfig import figure, pretty_unit
+from .calcmap import Node, calc_map
 from .check import Row, compare, fmt, summary
 from .engine import Engine
 from .reader import Book, Cell, col_letters
-from .refs import calls_ours, cell_refs, col_number, our_name, parse_ref, texts, tokens
+from .refs import cell_refs, our_name, parse_ref, texts, tokens
 
-__all__ = ["Entry", "Audit", "build_audit", "render_html", "CAUTION"]
+__all__ = ["Input", "Line", "SubCall", "Entry", "Audit", "build_audit", "render_html", "to_json"]
 
 CAUTION = (
     "Results are engineering estimates. Pressure equipment, trapped liquid and stored energy "
     "are governed by the applicable codes and standards and by the judgement of a competent, "
     "licensed engineer; this report supports a check, it does not replace one."
 )
+#: the units the working is written in: coherent (kPa·m³ = kJ), so every line can be checked
+WORKING_SYSTEM = "K-kPa-kJ"
 
 
 @dataclass
@@ -45,12 +58,40 @@ class Input:
 
 
 @dataclass
+class Line:
+    """One line of a working: ``symbol = formula = substituted = value``."""
+
+    symbol: str
+    formula: str
+    substituted: str
+    value: str
+    error: str = ""
+    call: bool = False  # the line is one call of another catalog function
+
+
+@dataclass
+class SubCall:
+    """One joulebook call in a cell: the whole formula, or nested inside it."""
+
+    function: str
+    text: str
+    inputs: list[Input]
+    result: object
+    result_unit: str
+    model: str
+    working: list[Line]
+    equation: str
+    figure: str = ""
+    figure_ref: str = ""  # "same path as Sheet!B6" when the figure was drawn there
+
+
+@dataclass
 class Entry:
     sheet: str
     cell: str
     label: str
     formula: str
-    function: str
+    function: str  # the joulebook function the formula is, or "" for an ordinary formula
     inputs: list[Input]
     result: object
     result_unit: str
@@ -58,7 +99,26 @@ class Entry:
     equation: str
     row: Row | None
     flags: list[str] = field(default_factory=list)
-    figure: str = ""  # inline SVG
+    figure: str = ""
+    calls: list[SubCall] = field(default_factory=list)
+    substituted: str = ""  # the formula with its cell references replaced by their values
+    table: list[list[str]] = field(default_factory=list)  # a spilled result, row by row
+    table_head: list[str] = field(default_factory=list)  # its column headings
+    status: str = ""  # pass, differs, error, unsupported, not checked, circular, volatile …
+    note: str = ""
+    notes: list[str] = field(default_factory=list)  # what a checker should know; no mistake
+
+    @property
+    def anchor(self) -> str:
+        return "c-" + re.sub(r"[^A-Za-z0-9]+", "-", f"{self.sheet}-{self.cell}")
+
+    @property
+    def key(self) -> tuple[str, int, int]:
+        m = re.match(r"([A-Z]+)(\d+)$", self.cell)
+        assert m
+        from .refs import col_number
+
+        return (self.sheet, int(m.group(2)), col_number(m.group(1)))
 
 
 @dataclass
@@ -70,13 +130,19 @@ class Audit:
     caution: bool
     generated: str
     library: str
+    maps: dict[str, str] = field(default_factory=dict)  # sheet -> SVG
+
+    @property
+    def flags(self) -> list[tuple[Entry, str]]:
+        return [(e, f) for e in self.entries for f in e.flags]
 
 
 # ---------------------------------------------------------------------------------------
-# labels and arguments
+# labels, references and values
 
 
 def _label(book: Book, sheet: str, row: int, col: int) -> str:
+    """The nearest text to the left in the row, else above in the column."""
     for c in range(col - 1, max(0, col - 6), -1):
         cell = book.cells.get((sheet, row, c))
         if cell and cell.formula is None and isinstance(cell.cached, str) and cell.cached.strip():
@@ -91,41 +157,15 @@ def _label(book: Book, sheet: str, row: int, col: int) -> str:
 def _names_for(book: Book, sheet: str, ref: str) -> list[str]:
     out = []
     for name, target in book.names.items():
-        t = target.replace("$", "").replace("'", "")
-        if t.upper() in (f"{sheet}!{ref}".upper(),):
-            out.append(name)
+        r = _one_ref(target.lstrip("="))
+        if r is not None and r.kind == "cell" and (r.sheet or "").upper() == sheet.upper():
+            if f"{col_letters(r.c1)}{r.r1}" == ref:
+                out.append(name)
     return out
 
 
-def _split_call(formula: str) -> tuple[str, list[str]] | None:
-    """The first joulebook call in *formula*: (name, [argument texts])."""
-    from openpyxl.formula.tokenizer import Tokenizer
-
-    try:
-        items = Tokenizer("=" + formula).items
-    except Exception:
-        return None
-    for i, tok in enumerate(items):
-        if tok.type == "FUNC" and tok.subtype == "OPEN":
-            name = our_name(tok.value.replace(" ", ""))
-            if not name:
-                continue
-            args, cur, depth = [], [], 0
-            for t in items[i + 1 :]:
-                if t.type == "FUNC" and t.subtype == "OPEN":
-                    depth += 1
-                elif t.type == "FUNC" and t.subtype == "CLOSE":
-                    if depth == 0:
-                        args.append("".join(cur).strip())
-                        return name, [a for a in args] if any(args) else []
-                    depth -= 1
-                elif t.type == "SEP" and t.subtype == "ARG" and depth == 0:
-                    args.append("".join(cur).strip())
-                    cur = []
-                    continue
-                cur.append(t.value)
-            return name, args
-    return None
+def _where(key) -> str:
+    return f"{key[0]}!{col_letters(key[2])}{key[1]}"
 
 
 def _one_ref(text: str):
@@ -137,6 +177,40 @@ def _one_ref(text: str):
     if len(toks) != 1 or toks[0][1:] != ("OPERAND", "RANGE"):
         return None
     return parse_ref(toks[0][0])
+
+
+def _calls(formula: str) -> list[tuple[str, list[str], str]]:
+    """Every joulebook call in *formula*, outer before inner: (name, argument texts, text)."""
+    try:
+        items = tokens(formula)
+    except Exception:
+        return []
+    out = []
+    for i, (v, t, sub) in enumerate(items):
+        if t != "FUNC" or sub != "OPEN":
+            continue
+        name = our_name(v.replace(" ", ""))
+        if not name:
+            continue
+        args, cur, depth, text = [], [], 0, [v]
+        for v2, t2, s2 in items[i + 1 :]:
+            text.append(v2)
+            if t2 == "FUNC" and s2 == "OPEN":
+                depth += 1
+            elif t2 == "FUNC" and s2 == "CLOSE":
+                if depth == 0:
+                    args.append("".join(cur).strip())
+                    break
+                depth -= 1
+            elif t2 == "SEP" and s2 == "ARG" and depth == 0:
+                args.append("".join(cur).strip())
+                cur = []
+                continue
+            cur.append(v2)
+        if args == [""]:
+            args = []
+        out.append((name, args, "".join(text)))
+    return out
 
 
 def _resolve_arg(text: str, here: Cell, book: Book, values: dict, engine: Engine):
@@ -159,255 +233,344 @@ def _resolve_arg(text: str, here: Cell, book: Book, values: dict, engine: Engine
         src_cell = book.cells.get(target)
         kind = "formula" if src_cell is not None and src_cell.formula else "cell"
         lab = _label(book, *target)
-        where = f"{target[0]}!{col_letters(target[2])}{target[1]}"
-        return v, f"{kind} {where}" + (f" ({lab})" if lab else "")
-    if ref is not None and ref.kind == "area":
-        try:
-            v = engine.evaluate(here.sheet, here.row, here.col, text, values)
-        except Exception:
-            return None, f"range {text}"
-        arr = np.asarray(v, dtype=object)
-        nums = [
-            float(x)
-            for x in arr.reshape(-1)
-            if isinstance(x, (int, float)) and not isinstance(x, bool)
-        ]
-        return (nums or None), f"range {text}"
+        return v, f"{kind} {_where(target)}" + (f" ({lab})" if lab else "")
     try:
         v = engine.evaluate(here.sheet, here.row, here.col, text, values)
     except Exception:  # an argument the engine cannot evaluate on its own: show its text
         return None, f"expression {text}"
-    return (v if not isinstance(v, np.ndarray) else None), f"expression {text}"
+    if isinstance(v, np.ndarray) or (ref is not None and ref.kind == "area"):
+        arr = np.asarray(v, dtype=object).reshape(-1)
+        nums = [float(x) for x in arr if isinstance(x, (int, float)) and not isinstance(x, bool)]
+        return (nums or None), f"range {text}"
+    return v, f"expression {text}"
 
 
 # ---------------------------------------------------------------------------------------
-# units, models, equations
+# one joulebook call
 
 
-def _units_of(f: Func, argvals: dict, system_text) -> tuple[dict, str]:
-    """Unit text of every bound argument, and of the result."""
+def _system(units_text):
     try:
-        system = unit_system(system_text if isinstance(system_text, str) else None)
+        return unit_system(units_text if isinstance(units_text, str) and units_text else None)
     except JoulebookError:
-        system = unit_system(None)
+        return unit_system(None)
+
+
+_SPEC_OF = {"value1": "spec1", "value2": "spec2", "value": "given", "end_value": "end_spec"}
+
+
+def _units_of(f: Func, argvals: dict, system) -> tuple[dict, dict, str]:
+    """Unit text and units kind of every bound argument, and the unit of the result."""
     units: dict[str, str] = {}
+    kinds: dict[str, str] = {}
     phrase_units: dict[str, str] = {}
     for a in f.all_args:
         v = argvals.get(a.name)
         if a.quantity:
-            units[a.name] = system.unit(a.quantity) or "—"
+            units[a.name] = system.unit(a.quantity) or ""
+            kinds[a.name] = a.quantity
         elif a.type == "text" and isinstance(v, str) and " in " in v:
             phrase_units[a.name] = v.split(" in ", 1)[1].strip()
-    pairs = {"value1": "spec1", "value2": "spec2", "value": "given", "end_value": "end_spec"}
-    for val_arg, spec_arg in pairs.items():
-        if spec_arg in argvals:
-            spec = argvals.get(spec_arg)
-            if isinstance(spec, str):
-                sym = spec.split(" in ", 1)[0].strip()
-                units[val_arg] = phrase_units.get(spec_arg) or _default_unit(sym, system)
+    for val_arg, spec_arg in _SPEC_OF.items():
+        spec = argvals.get(spec_arg)
+        if val_arg in argvals and isinstance(spec, str):
+            sym, sep, unit = spec.partition(" in ")
+            if val_arg == "end_value":  # 'T2 in degC': the end state's symbol
+                spec = sym.strip().removesuffix("2") + sep + unit
+            try:
+                ph = parse_phrase(spec, system)
+                units[val_arg] = ph.unit
+                kinds[val_arg] = ph.kind
+            except (JoulebookError, AttributeError):
+                units[val_arg] = phrase_units.get(spec_arg, "")
     if f.result == "asked":
         want = argvals.get("want")
-        res = phrase_units.get("want") or (
-            _default_unit(str(want).strip(), system) if isinstance(want, str) else ""
-        )
+        res = phrase_units.get("want", "")
+        if not res and isinstance(want, str):
+            try:
+                res = parse_phrase(want.strip(), system).unit
+            except JoulebookError:
+                res = ""
     elif f.result in ("text", "number"):
         res = ""
     else:
         res = system.unit(f.result)
-    return units, res
+    return units, kinds, res
 
 
-def _default_unit(sym: str, system) -> str:
+def _figure_system(argvals: dict, system):
+    """The call's unit system with T, P and V in the units its phrases and state texts use
+    (a workbook that writes 'T in degC' and 'P = 4 bar' gets its figures in degC and bar)."""
+    from ..states import is_state_text
+
+    found: dict[str, str] = {}
+    for v in argvals.values():
+        if not isinstance(v, str):
+            continue
+        pieces = v.split("|")[1:] if is_state_text(v) else [v]
+        for piece in pieces:
+            if " in " in piece:
+                sym, unit = piece.split(" in ", 1)
+            elif "=" in piece:
+                sym, rest = piece.split("=", 1)
+                bits = rest.split(None, 1)
+                unit = bits[1] if len(bits) == 2 else ""
+            else:
+                continue
+            sym, unit = sym.strip().rstrip("12"), unit.strip()
+            if sym in ("T", "P", "V") and unit and sym not in found:
+                found[sym] = unit
+    if not found:
+        return system
+    base = argvals.get("units") if isinstance(argvals.get("units"), str) else ""
+    text = ", ".join([base or "K-kPa-kJ"] + [f"{k}={u}" for k, u in found.items()])
     try:
-        return parse_phrase(sym, system).unit
+        return unit_system(text)
     except JoulebookError:
-        return ""
+        return system
 
 
 def _model(f: Func, argvals: dict) -> str:
+    """The model behind a call, from the argument that names the substance."""
     from ..media import medium
     from ..states import is_state_text, parse_state
     from ..substances import solids
 
+    names = {a.name for a in f.args}
     try:
-        if f.family in ("state", "process", "stored") or f.name == "JB_WORK_PATH":
-            sub = argvals.get("substance") or argvals.get("state1") or argvals.get("state")
-            if isinstance(sub, str):
+        for arg in ("state1", "state", "substance"):
+            sub = argvals.get(arg)
+            if arg in names and isinstance(sub, str) and sub.strip():
                 med = parse_state(sub).medium if is_state_text(sub) else medium(sub)
                 return med.model
-        if f.family == "gas" or "gas" in [a.name for a in f.args]:
-            g = argvals.get("gas")
-            if isinstance(g, str):
-                return medium(g if "|" in g else f"{g} (ideal gas)").model
-        if f.family == "solid":
-            m = argvals.get("material")
-            if isinstance(m, str):
-                mat = solids.material(m)
-                return f"incompressible {mat.name}: {mat.source}"
+        g = argvals.get("gas")
+        if "gas" in names and isinstance(g, str):
+            return medium(g if "|" in g else f"{g} (ideal gas)").model
+        m = argvals.get("material")
+        if "material" in names and isinstance(m, str):
+            mat = solids.material(m)
+            return f"incompressible {mat.name}: {mat.source}"
     except JoulebookError as e:
         return f"(model not resolved: {e.message})"
-    return "closed-form relation (no property model)"
+    if f.working is not None and f.working.result:
+        return "closed-form relation (no property model)"
+    return f.references[0] if f.references else ""
 
 
-def _n(x) -> str:
-    return fmt(x) if isinstance(x, (int, float)) else str(x)
-
-
-def _shown(v) -> str:
-    """A value for the inputs table (a range as its count and extremes)."""
+def _show(v, unit: str = "") -> str:
+    """A value with its unit for the report (a range as its count and extremes)."""
     if isinstance(v, list):
         return f"{len(v)} values, {fmt(min(v))} … {fmt(max(v))}" if v else "no numbers"
-    return fmt(v)
+    text = fmt(v)
+    return f"{text} {pretty_unit(unit)}".strip() if unit and isinstance(v, float) else text
 
 
-def _equation(f: Func, argvals: dict, units: dict, result, res_unit: str) -> str:
-    """The equation with the numbers substituted, where the closed form is short."""
-    a = argvals
-    r = _n(result) if isinstance(result, str) else f"{_n(result)} {res_unit}".strip()
+def _display(system):
+    """``display(value, kind)`` for the substituted working, in the coherent system."""
+
+    def show(v, kind):
+        if isinstance(v, str):
+            return f"'{v}'"
+        if isinstance(v, list):
+            return f"[{len(v)} values]"
+        if not isinstance(v, (int, float)):
+            return fmt(v)
+        x = float(v)
+        unit = ""
+        if kind and kind != "text":
+            conv = system.conv(kind)
+            x, unit = conv.from_si(x), pretty_unit(system.unit(kind))
+        text = f"{x:.6g}" + (f" {unit}" if unit else "")
+        return f"({text.replace('-', '−', 1)})" if x < 0 else text
+
+    return show
+
+
+def _working(f: Func, si: dict, kinds: dict, units_text) -> tuple[list[Line], object]:
+    """The working lines of a call, and the value of its result line (SI) or None."""
+    w = f.working
+    if w is None or not (w.steps or w.result):
+        return [], None
+    ws = unit_system(WORKING_SYSTEM)
+    show = _display(ws)
+    steps, res = work_out(w, si, working_call(units_text), show, kinds)
+    out = []
+    for s in steps + ([res] if res else []):
+        kind = s.kind if s is not res else (f.result if f.result not in ("asked",) else None)
+        shown = "" if s.value is None else show(s.value, kind if kind != "number" else None)
+        out.append(
+            Line(s.symbol, s.formula, s.substituted, shown, s.error, s.formula.startswith("JB_"))
+        )
+    return out, (res.value if res is not None else None)
+
+
+def _sub_call(name, args, text, c: Cell, book, values, engine, whole: bool, result):
+    f = lookup(name)
+    argvals, sources = {}, {}
+    for a, t in zip(f.all_args, args + [""] * (len(f.all_args) - len(args))):
+        argvals[a.name], sources[a.name] = _resolve_arg(t, c, book, values, engine)
+    units_text = argvals.get("units")
+    system = _system(units_text)
+    units, kinds, res_unit = _units_of(f, argvals, system)
+    inputs = [
+        Input(a.name, argvals.get(a.name), units.get(a.name, ""), sources[a.name])
+        for a in f.all_args
+        if not (sources[a.name] == "omitted" and a.optional)
+    ]
+    if not whole:
+        try:
+            result = engine.evaluate(c.sheet, c.row, c.col, text, values)
+        except Exception:
+            result = None
+    si = {}
+    for a in f.all_args:
+        v = argvals.get(a.name)
+        if a.quantity and isinstance(v, float):
+            v = system.conv(a.quantity).to_si(v)
+        elif a.quantity and isinstance(v, list):
+            v = [system.conv(a.quantity).to_si(x) for x in v]
+        si[a.name] = v
     try:
-        if f.name == "JB_WORK_ISOBARIC":
-            return f"W = P·(V2 − V1) = {_n(a['P'])}·({_n(a['V_2'])} − {_n(a['V_1'])}) = {r}"
-        if f.name == "JB_WORK_LINEAR":
-            return f"W = (P1 + P2)/2·(V2 − V1) = ({_n(a['P_1'])} + {_n(a['P_2'])})/2·({_n(a['V_2'])} − {_n(a['V_1'])}) = {r}"
-        if f.name == "JB_WORK_ISOTHERMAL":
-            return f"W = P1·V1·ln(V2/V1) = {_n(a['P_1'])}·{_n(a['V_1'])}·ln({_n(a['V_2'])}/{_n(a['V_1'])}) = {r}"
-        if f.name == "JB_WORK_POLYTROPIC":
-            n = math.log(a["P_2"] / a["P_1"]) / math.log(a["V_1"] / a["V_2"])
-            return (
-                f"n = ln(P2/P1)/ln(V1/V2) = {n:.4g}; W = (P2·V2 − P1·V1)/(1 − n) = "
-                f"({_n(a['P_2'])}·{_n(a['V_2'])} − {_n(a['P_1'])}·{_n(a['V_1'])})/(1 − {n:.4g}) = {r}"
-            )
-        if f.name == "JB_WORK_POLYTROPIC_N":
-            P2 = a["P_1"] * (a["V_1"] / a["V_2"]) ** a["n"]
-            return (
-                f"P2 = P1·(V1/V2)^n = {P2:.6g}; W = (P2·V2 − P1·V1)/(1 − n) = "
-                f"({P2:.6g}·{_n(a['V_2'])} − {_n(a['P_1'])}·{_n(a['V_1'])})/(1 − {_n(a['n'])}) = {r}"
-            )
-        if f.name == "JB_POLY_EXPONENT":
-            return f"n = ln(P2/P1)/ln(V1/V2) = ln({_n(a['P_2'])}/{_n(a['P_1'])})/ln({_n(a['V_1'])}/{_n(a['V_2'])}) = {r}"
-        if f.name == "JB_BALANCE_HEAT":
-            parts = [f"{_n(a.get(k) or 0)}" for k in ("dU", "dKE", "dPE", "W_b", "W_other")]
-            return f"Q = ΔU + ΔKE + ΔPE + W_b + W_other = {' + '.join(parts)} = {r}"
-        if f.name == "JB_BALANCE_GAP":
-            return (
-                f"gap = Q − W_b − W_other − (ΔU + ΔKE + ΔPE) = {_n(a['Q'])} − {_n(a['W_b'])} − "
-                f"{_n(a.get('W_other') or 0)} − ({_n(a['dU'])} + {_n(a.get('dKE') or 0)} + {_n(a.get('dPE') or 0)}) = {r}"
-            )
-        if f.name == "JB_SOLID_HEAT":
-            return f"Q = m·∫c dT = {_n(a['m'])}·∫c dT from {_n(a['T_1'])} to {_n(a['T_2'])} {units.get('T_1', '')} = {r}"
-    except (KeyError, TypeError, ValueError, ZeroDivisionError):
-        pass
-    return f"{f.equation}; result = {r}"
+        lines, _ = _working(f, si, kinds, units_text)
+    except JoulebookError:
+        lines = []
+    sc = SubCall(
+        f.name,
+        text,
+        inputs,
+        result,
+        res_unit,
+        _model(f, argvals),
+        lines,
+        f.equation,
+    )
+    sc._f, sc._argvals, sc._si, sc._system = f, argvals, si, system  # type: ignore[attr-defined]
+    return sc
 
 
 # ---------------------------------------------------------------------------------------
-# flags
+# flags of one entry
 
 
-def _flags(
-    f: Func, argvals: dict, units: dict, inputs: list[Input], result, row: Row | None, unit_text
-) -> list[str]:
-    out = []
-    if row is not None and row.status == "differs":
+def _status_flags(e: Entry, message: str) -> list[str]:
+    row, out = e.row, []
+    if row is None:
+        return ["not recalculated by the engine"]
+    if row.status == "differs":
         out.append(
-            f"saved value {fmt(row.cached)} differs from the recomputed {fmt(row.recomputed)}: the workbook was not recalculated, or its inputs changed"
+            f"saved value {fmt(row.cached)} differs from the recomputed {fmt(row.recomputed)}: "
+            "the workbook was not recalculated, or its inputs changed"
         )
-    if row is not None and row.status == "no cached value":
+    elif row.status == "no cached value":
         out.append("no saved value in the file: open and recalculate before sending it out")
-    if isinstance(result, str) and result.startswith("OutOfRange:"):
-        out.append(
-            "outside the model's range: joulebook refused to extrapolate (" + result[12:120] + ")"
-        )
-    elif isinstance(result, str) and result.split(":", 1)[0] in (
-        "BadInput",
-        "NoConvergence",
-        "InternalError",
-    ):
-        out.append("the formula returns an error: " + result[:140])
-    for inp in inputs:
-        u = (inp.unit or "").strip()
-        if (
-            isinstance(inp.value, float)
-            and u in ("K", "R", "degR")
-            and inp.value < 200
-            and _is_temperature(f, inp.name, argvals)
-        ):
+    elif row.status == "error":
+        what = message or row.note or fmt(row.recomputed)
+        if isinstance(row.recomputed, str) and row.recomputed.startswith("OutOfRange:"):
             out.append(
-                f"{inp.name} = {fmt(inp.value)} {u}: a temperature under 200 {u} looks like a °C or °F value fed as absolute"
+                "outside the model's range: joulebook refused to extrapolate (" + what[:160] + ")"
             )
-    n = None
-    if f.name in ("JB_POLY_EXPONENT",) and isinstance(result, float):
-        n = result
-    elif f.name == "JB_POLY_FIT" and isinstance(result, float):
-        n = result
+        else:
+            out.append("the formula returns an error: " + what[:200])
+    elif row.status in ("unsupported", "not checked", "circular"):
+        note = row.note if row.note.startswith(row.status) else f"{row.status}: {row.note}"
+        out.append(note[:220])
+    elif row.status == "volatile":
+        out.append(f"volatile: {row.note[:160]} (recomputed here, not compared)")
+    if row.status == "pass" and isinstance(row.recomputed, tuple):
+        out.append(f"the cell holds the error value {row.recomputed[1]} (the file saved the same)")
+    return out
+
+
+def _call_flags(sc: SubCall, c: Cell, book: Book) -> list[str]:
+    f: Func = sc._f  # type: ignore[attr-defined]
+    argvals: dict = sc._argvals  # type: ignore[attr-defined]
+    si: dict = sc._si  # type: ignore[attr-defined]
+    out = []
+    units, kinds, _ = _units_of(f, argvals, sc._system)  # type: ignore[attr-defined]
+    for inp in sc.inputs:
+        u = (inp.unit or "").strip()
+        kind = kinds.get(inp.name)
+        if isinstance(inp.value, float) and kind == "temperature" and u in ("K", "R", "degR"):
+            if inp.value < 200:
+                out.append(
+                    f"{inp.name} = {fmt(inp.value)} {u}: a temperature under 200 {u} looks like "
+                    "a °C or °F value fed as absolute"
+                )
+        # a label naming another unit than the one the formula reads the cell in
+        m = re.match(r"(?:cell|formula) (.+?)!([A-Z]+)(\d+)(?: \((.*)\))?$", inp.source)
+        if m and m.group(4) and kind and u:
+            named = eye.label_unit(m.group(4), kind)
+            try:
+                read = eye.unit_kind(u)
+            except JoulebookError:
+                read = None
+            if named is not None and read is not None and read[0] == kind:
+                if not eye.same_unit(named, read[1]):
+                    out.append(
+                        f"{m.group(1)}!{m.group(2)}{m.group(3)} is labelled '{m.group(4)}' "
+                        f"but {sc.function} reads it as {inp.name} in {pretty_unit(u)}"
+                    )
+        typed = inp.source == "constant" and isinstance(inp.value, float) and kind and u
+        if typed and not _standard_atmosphere(inp.value, kind, sc._system, u):  # type: ignore[attr-defined]
+            out.append(
+                f"{inp.name} = {fmt(inp.value)} {pretty_unit(u)} is typed into the formula: put "
+                "inputs in labelled cells a checker can see"
+            )
+    w = f.working
+    if w is not None and w.band:
+        name, lo, hi, what = w.band
+        v = None
+        if name == "=":
+            v = sc.result if isinstance(sc.result, float) else None
+            who = w.symbol
+        else:
+            who = name
+            v = si.get(name)
+            if v is None:
+                v = next((ln for ln in sc.working if ln.symbol == name), None)
+                v = _num(v.value) if v is not None else None
+        if isinstance(v, float) and not lo <= v <= hi:
+            out.append(f"{who} = {v:.4g} lies outside {what} ({lo:g}–{hi:g})")
     path = argvals.get("path")
     if isinstance(path, str) and path.strip().lower().startswith("polytropic"):
-        m = re.search(r"n\s*=\s*([-+0-9.eE]+)", path)
-        if m:
-            n = float(m.group(1))
-    if n is not None and not 1.0 <= n <= 1.67:
-        out.append(
-            f"polytropic n = {n:.4g} lies outside the usual 1–1.67 band of gas compression and expansion"
-        )
-    if f.name == "JB_BALANCE_GAP" and isinstance(result, float):
-        scale = max(
-            abs(x)
-            for x in (
-                argvals.get("Q") or 0,
-                argvals.get("W_b") or 0,
-                argvals.get("dU") or 0,
-                1e-300,
-            )
-        )
-        if abs(result) > 1e-6 * scale:
+        n = _num(path.split("=", 1)[1]) if "=" in path else None
+        if n is not None and not 1.0 <= n <= 1.67:
             out.append(
-                f"the first-law balance does not close: Q − W − ΔE = {fmt(result)} (check signs: heat in +, work by the system +)"
+                f"polytropic n = {n:.4g} lies outside the usual 1–1.67 band of gas compression "
+                "and expansion"
+            )
+    if w is not None and w.zero and isinstance(sc.result, float):
+        scale = max([abs(si.get(k) or 0.0) for k in w.zero] + [1e-300])
+        res_si = sc._system.conv(f.result).to_si(sc.result)  # type: ignore[attr-defined]
+        if abs(res_si) > 1e-6 * scale:
+            out.append(
+                f"the first-law balance does not close: {w.symbol} = {fmt(sc.result)} "
+                f"{pretty_unit(sc.result_unit)} (check signs: heat in +, work by the system +)"
             )
     if not any(
         inp.name in ("substance", "state1", "state") and inp.source.startswith("formula ")
-        for inp in inputs
+        for inp in sc.inputs
     ):
-        out += _state_flags(f, argvals)  # a state that comes from another cell was flagged there
+        out += _state_flags(argvals)  # a state that comes from another cell is flagged there
     return out
 
 
-_GAUGE_WORDS = ("gauge", "gage", "barg", "psig", "kpag", "mpag", "(g)")
-_GAUGE_UNITS = re.compile(r"\b(kPag|barg|psig|MPag|Pag)\b", re.IGNORECASE)
+def _standard_atmosphere(v: float, kind: str, system, unit: str) -> bool:
+    """101.325 kPa typed in is the standard atmosphere, a constant of the trade."""
+    if kind != "pressure":
+        return False
+    k = eye.unit_kind(unit)
+    return k is not None and abs(k[1].to_si(v) - 101325.0) < 1e-6
 
 
-def _gauge_refs(book: Book, c: Cell, formula: str) -> list[str]:
-    """Cells labelled as gauge pressures that the formula reads with no gauge unit anywhere."""
-    if any(_GAUGE_UNITS.search(t) for t in texts(formula)):
-        return []
-    out = []
-    for key in cell_refs(formula, c.sheet):
-        lab = _label(book, *key).lower()
-        if any(w in lab for w in _GAUGE_WORDS):
-            where = f"{key[0]}!{col_letters(key[2])}{key[1]}"
-            out.append(
-                f"{where} is labelled as a gauge pressure but this formula reads it with an"
-                " absolute unit; use barg/psig/kPag"
-            )
-    return out
+def _num(text) -> float | None:
+    try:
+        return float(str(text).split()[0].strip("()").replace("−", "-"))
+    except (ValueError, IndexError):
+        return None
 
 
-def _is_quantity(f: Func, name: str, argvals: dict, kind: str, symbol: str) -> bool:
-    """Is argument *name* a *kind* quantity (directly, or through its spec phrase)?"""
-    for a in f.all_args:
-        if a.name == name and a.quantity == kind:
-            return True
-    spec = {"value1": "spec1", "value2": "spec2", "value": "given", "end_value": "end_spec"}.get(
-        name
-    )
-    s = argvals.get(spec) if spec else None
-    return isinstance(s, str) and s.strip().startswith(symbol)
-
-
-def _is_temperature(f: Func, name: str, argvals: dict) -> bool:
-    return _is_quantity(f, name, argvals, "temperature", "T")
-
-
-def _state_flags(f: Func, argvals: dict) -> list[str]:
+def _state_flags(argvals: dict) -> list[str]:
     """Two-phase, near-critical and near-saturation states of the real fluid involved."""
     from ..states import is_state_text, make_state, parse_state
 
@@ -426,7 +589,7 @@ def _state_flags(f: Func, argvals: dict) -> list[str]:
                 argvals["value1"],
                 argvals["spec2"],
                 argvals["value2"],
-                unit_system(None),
+                _system(argvals.get("units")),
             )
         else:
             return []
@@ -436,16 +599,18 @@ def _state_flags(f: Func, argvals: dict) -> list[str]:
         a, va, b, vb = st.si()
         p = med.point(a, va, b, vb, st.shows())
         info = med.info
-    except (JoulebookError, ValueError, KeyError):
+    except (JoulebookError, ValueError, KeyError, AttributeError):
         return []
     out = []
     if p.x is not None and 0.0 < p.x < 1.0:
         out.append(
-            f"two-phase state (x = {p.x:.4g}): T and P are tied; check the quality where it matters"
+            f"note: two-phase state (x = {p.x:.4g}): T and P are tied; check the quality where "
+            "it matters"
         )
     if abs(p.T / info.T_crit - 1) < 0.02 and abs(p.P / info.P_crit - 1) < 0.05:
         out.append(
-            "state within 2 % of the critical temperature and 5 % of the critical pressure: properties change steeply here"
+            "state within 2 % of the critical temperature and 5 % of the critical pressure: "
+            "properties change steeply here"
         )
     elif p.x is None and info.pure and info.T_triple <= p.T < info.T_crit:
         from ..substances.fluids import _psat
@@ -453,144 +618,174 @@ def _state_flags(f: Func, argvals: dict) -> list[str]:
         ps = _psat(info, p.T)
         if abs(p.P / ps - 1) < 0.01:
             out.append(
-                "state within 1 % of the saturation pressure: a small change of T or P changes the phase"
+                "state within 1 % of the saturation pressure: a small change of T or P changes "
+                "the phase"
+            )
+    return out
+
+
+_GAUGE_UNITS = ("kpag", "barg", "psig", "mpag", "pag")
+
+
+def _gauge_refs(book: Book, c: Cell, formula: str) -> list[str]:
+    """Cells labelled as gauge pressures that a joulebook call reads with no gauge unit."""
+    if any(w.lower() in t.lower() for t in texts(formula) for w in _GAUGE_UNITS):
+        return []
+    out = []
+    for key in cell_refs(formula, c.sheet):
+        lab = _label(book, *key).lower()
+        if any(w in lab for w in eye.GAUGE_WORDS):
+            out.append(
+                f"{_where(key)} is labelled as a gauge pressure but this formula reads it with an"
+                " absolute unit; use barg/psig/kPag"
             )
     return out
 
 
 # ---------------------------------------------------------------------------------------
-# figures
+# ordinary formulas: precedents, substitution, comparisons
 
 
-def _svg(fig) -> str:
-    buf = io.StringIO()
-    fig.savefig(buf, format="svg", bbox_inches="tight")
-    import matplotlib.pyplot as plt
+def _cell_unit(book: Book, key, by_key: dict) -> tuple[str, str]:
+    """(unit, label) of a cell: the result unit of a joulebook cell, else a unit its label
+    names."""
+    lab = _label(book, *key)
+    e = by_key.get(key)
+    if e is not None and e.function and e.result_unit:
+        return e.result_unit, lab
+    for text in eye._units_named(lab):
+        k = eye.unit_kind(text)
+        if k is not None:
+            return text, lab
+    return "", lab
 
-    plt.close(fig)
-    text = buf.getvalue()
-    text = re.sub(r"<metadata>.*?</metadata>", "", text, flags=re.DOTALL)  # no dates or URIs
-    return text[text.index("<svg") :]
 
-
-def _figure(f: Func, argvals: dict, units: dict | None = None) -> str:
-    """P–V (and T–s for real fluids) of a process entry, as inline SVG."""
+def _substitute(formula: str, here: str, values: dict) -> str:
+    """The formula with each single-cell reference replaced by its value (tokenizer)."""
     try:
-        import matplotlib
-
-        matplotlib.use("Agg")
-        matplotlib.rcParams["svg.fonttype"] = "none"
-        import matplotlib.pyplot as plt
-        import numpy as np
-    except ImportError:  # pragma: no cover
+        toks = tokens(formula)
+    except Exception:
         return ""
-    a = argvals
-    try:
-        if f.name in ("JB_PROCESS", "JB_PROCESS_TABLE", "JB_WORK_PATH"):
-            from ..formulas import _solved
-            from ..processes.solve import path_points
+    out, changed = [], False
+    for v, t, sub in toks:
+        if t == "OPERAND" and sub == "RANGE":
+            key = eye.operand_cell(v, here)
+            if key is not None and key in values:
+                x = values[key]
+                text = fmt(x) if not isinstance(x, str) else f'"{x}"'
+                if isinstance(x, float) and x < 0:
+                    text = f"({text})"
+                out.append(text)
+                changed = True
+                continue
+        out.append(v)
+    return "=" + "".join(out) if changed else ""
 
-            system = unit_system(a.get("units") if isinstance(a.get("units"), str) else None)
-            mass = a.get("mass")
-            m_si = None if mass is None else system.conv("mass").to_si(mass)
-            med, res = _solved(a["state1"], a["path"], a["end_spec"], a["end_value"], m_si, system)
-            pts = path_points(med, res, 41)
-            V = np.array([res.m * p.v for p in pts])
-            P = np.array([p.P for p in pts]) / 1e3
-            T = np.array([p.T for p in pts])
-            s = np.array([p.s for p in pts]) / 1e3
-            fig, axes = plt.subplots(
-                1, 1 if med.ideal else 2, figsize=(7.2 if not med.ideal else 3.8, 2.8)
-            )
-            ax = axes if med.ideal else axes[0]
-            _pv(ax, V, P)
-            if not med.ideal:
-                _ts(axes[1], med, T, s)
-            fig.tight_layout()
-            return _svg(fig)
-        if (
-            f.name == "JB_WORK_PV"
-            and isinstance(a.get("P_values"), list)
-            and isinstance(a.get("V_values"), list)
-        ):
-            P, V = np.array(a["P_values"]), np.array(a["V_values"])
-            if len(P) == len(V) >= 2:
-                fig, ax = plt.subplots(figsize=(3.8, 2.8))
-                u = units or {}
-                ax.plot(V, P, "o-", color="#1d5c7a", ms=3, lw=1.4)
-                ax.fill(V, P, color="#8fc1d4", alpha=0.45, lw=0)
-                ax.set_xlabel(f"V [{u.get('V_values', '?')}]")
-                ax.set_ylabel(f"P [{u.get('P_values', '?')}]")
-                ax.set_title("measured P–V points; enclosed area = net work", fontsize=8)
-                ax.grid(alpha=0.3)
-                return _svg(fig)
-        if f.name in (
-            "JB_WORK_ISOBARIC",
-            "JB_WORK_LINEAR",
-            "JB_WORK_POLYTROPIC",
-            "JB_WORK_POLYTROPIC_N",
-            "JB_WORK_ISOTHERMAL",
-        ):
-            V1, V2 = a["V_1"], a["V_2"]
-            V = np.linspace(V1, V2, 60)
-            if f.name == "JB_WORK_ISOBARIC":
-                P = np.full_like(V, a["P"])
-            elif f.name == "JB_WORK_LINEAR":
-                P = a["P_1"] + (a["P_2"] - a["P_1"]) * (V - V1) / (V2 - V1)
-            elif f.name == "JB_WORK_ISOTHERMAL":
-                P = a["P_1"] * V1 / V
+
+def _comparison_flags(book: Book, c: Cell, by_key: dict) -> list[str]:
+    out = []
+    for left, op, right in eye.comparisons(c.formula):
+        sides = []
+        for side in (left, right):
+            key = eye.operand_cell(side, c.sheet)
+            if key is None:
+                sides.append((side, None, "", ""))
             else:
-                n = (
-                    a["n"]
-                    if f.name == "JB_WORK_POLYTROPIC_N"
-                    else math.log(a["P_2"] / a["P_1"]) / math.log(V1 / V2)
+                unit, lab = _cell_unit(book, key, by_key)
+                sides.append((_where(key), key, unit, lab))
+        (lt, lk, lu, ll), (rt, rk, ru, rl) = sides
+        if lk is not None and rk is not None:
+            lg, rg = eye.is_gauge(ll, lu), eye.is_gauge(rl, ru)
+            if lg is not None and rg is not None and lg != rg:
+                g, a = (lt, rt) if lg else (rt, lt)
+                out.append(
+                    f"{lt} {op} {rt} compares a gauge pressure ({g}) with an absolute one ({a}): "
+                    "convert one side (gauge = absolute − atmospheric)"
                 )
-                P = a["P_1"] * (V1 / V) ** n
-            fig, ax = plt.subplots(figsize=(3.8, 2.8))
-            u = units or {}
-            _pv(ax, V, P, units=(u.get("V_1", "?"), u.get("P_1") or u.get("P", "?")))
-            return _svg(fig)
-    except (JoulebookError, KeyError, TypeError, ValueError, ZeroDivisionError):
-        return ""
-    return ""
+                continue
+            lkind, rkind = eye.unit_kind(lu) if lu else None, eye.unit_kind(ru) if ru else None
+            if lkind and rkind and lkind[0] == rkind[0] and not eye.same_unit(lkind[1], rkind[1]):
+                out.append(
+                    f"{lt} {op} {rt} compares {lkind[0]}s in different units "
+                    f"({pretty_unit(lu)} and {pretty_unit(ru)})"
+                )
+        for text, key in ((lt, lk), (rt, rk)):
+            if key is None and eye.is_number(text) and float(text) not in (0.0, 1.0):
+                other = rk if key is lk else lk
+                if other is not None:
+                    out.append(
+                        f"the limit {text} in '{lt} {op} {rt}' is typed into the formula: put it in "
+                        "a labelled cell with its unit"
+                    )
+    return out
 
 
-def _pv(ax, V, P, units=("m³", "kPa")) -> None:
-    ax.plot(V, P, color="#1d5c7a", lw=1.8)
-    ax.fill_between(V, 0, P, color="#8fc1d4", alpha=0.45, lw=0)
-    ax.annotate(
-        "",
-        xy=(V[-1], P[-1]),
-        xytext=(V[-2], P[-2]),
-        arrowprops=dict(arrowstyle="->", color="#1d5c7a"),
-    )
-    ax.set_xlabel(f"V [{units[0]}]")
-    ax.set_ylabel(f"P [{units[1]}]")
-    ax.set_title("P–V path; shaded area = boundary work", fontsize=8)
-    ax.set_ylim(bottom=0)
-    ax.grid(alpha=0.3)
+_Q = re.compile(r"^\s*(q\b|heat\b)", re.IGNORECASE)
+_DU = re.compile(r"(Δu|du\b|delta u|internal energy)", re.IGNORECASE)
+_W = re.compile(r"(^\s*w\b|work)", re.IGNORECASE)
 
 
-def _ts(ax, med, T, s) -> None:
-    import numpy as np
+def _hand_balance(book: Book, c: Cell, values: dict, label: str) -> list[str]:
+    """A hand-typed heat cell (label Q / heat) built from a ΔU cell and a W cell must equal
+    ΔU + W (heat in +, work by the system +)."""
+    if not _Q.search(label):
+        return []
+    du = w = None
+    for key in cell_refs(c.formula, c.sheet):
+        lab = _label(book, *key)
+        v = values.get(key)
+        if isinstance(v, float) and _DU.search(lab):
+            du = v
+        elif isinstance(v, float) and _W.search(lab):
+            w = v
+    q = values.get((c.sheet, c.row, c.col))
+    if du is None or w is None or not isinstance(q, float):
+        return []
+    if abs(q - (du + w)) > 1e-9 * max(abs(du), abs(w), 1e-300):
+        return [
+            f"hand-typed heat {fmt(q)} ≠ ΔU + W = {fmt(du)} + {fmt(w)} = {fmt(du + w)}: a sign "
+            "slip? (heat in +, work by the system +)"
+        ]
+    return []
 
-    from ..substances.fluids import saturation
 
-    info = med.info
-    Ts = np.linspace(
-        info.T_triple * 1.001 if info.T_triple > 0 else info.T_min, info.T_crit * 0.9999, 80
-    )
-    try:
-        sf = [saturation(info.name, "T", t, "sf") / 1e3 for t in Ts]
-        sg = [saturation(info.name, "T", t, "sg") / 1e3 for t in Ts]
-        ax.plot(sf + sg[::-1], list(Ts) + list(Ts[::-1]), color="#999", lw=1)
-    except JoulebookError:
-        pass
-    ax.plot(s, T, color="#a3432b", lw=1.8)
-    ax.set_xlabel("s [kJ/(kg·K)]")
-    ax.set_ylabel("T [K]")
-    ax.set_title("T–s path with saturation dome", fontsize=8)
-    ax.grid(alpha=0.3)
+# ---------------------------------------------------------------------------------------
+# spilled results
+
+
+def _box(c: Cell) -> tuple[int, int, int, int] | None:
+    if not c.array_ref or ":" not in c.array_ref:
+        return None
+    r = parse_ref(c.array_ref)
+    if r is None or r.kind != "area":
+        return None
+    return r.r1, r.c1, r.r2, r.c2
+
+
+def _table(book: Book, c: Cell, values: dict, columns: tuple[str, ...]) -> tuple[list, list]:
+    """A spilled result in full: a heading row (the sheet's header row above the range, else
+    the catalog's column names), then each row with the label to its left."""
+    box = _box(c)
+    if box is None:
+        return [], []
+    r1, c1, r2, c2 = box
+    if (r2 - r1 + 1) * (c2 - c1 + 1) > 2000:
+        r2 = r1 + 2000 // (c2 - c1 + 1)
+    rows = [[values.get((c.sheet, r, k)) for k in range(c1, c2 + 1)] for r in range(r1, r2 + 1)]
+    head = [book.cells.get((c.sheet, r1 - 1, k)) for k in range(c1, c2 + 1)]
+    heading = [
+        h.cached if h is not None and h.formula is None and isinstance(h.cached, str) else ""
+        for h in head
+    ]
+    if not any(heading) and columns and len(columns) == c2 - c1 + 1:
+        heading = list(columns)
+    labels = []
+    for r in range(r1, r2 + 1):
+        lc = book.cells.get((c.sheet, r, c1 - 1))
+        labels.append(lc.cached if lc is not None and isinstance(lc.cached, str) else "")
+    head = (([""] if any(labels) else []) + [str(h) for h in heading]) if any(heading) else []
+    out = [([lab] if any(labels) else []) + [fmt(v) for v in row] for lab, row in zip(labels, rows)]
+    return head, out
 
 
 # ---------------------------------------------------------------------------------------
@@ -605,6 +800,7 @@ def build_audit(
     figures: bool = True,
     progress=None,
 ) -> Audit:
+    """Every formula cell of *book* explained, with one status and its flags."""
     engine = Engine(book)
     outcomes = outcomes if outcomes is not None else engine.run()
     rows = compare(book, outcomes, rtol, atol)
@@ -612,176 +808,223 @@ def build_audit(
     values = {k: c.cached for k, c in book.cells.items() if c.formula is None and c.has_cached}
     values.update({k: o.value for k, o in outcomes.items()})
     order = {s: i for i, s in enumerate(book.sheets)}
-    ours = sorted(
-        (c for c in book.formula_cells() if calls_ours(c.formula)),
-        key=lambda c: (order.get(c.sheet, 0), c.row, c.col),
-    )
-    entries = []
-    unit_of_cell: dict[tuple[str, int, int], str] = {}
-    for i, c in enumerate(ours):
-        call = _split_call(c.formula)
-        if call is None:
-            continue
-        name, args = call
-        try:
-            f = lookup(name)
-        except JoulebookError:
-            continue
-        argvals, inputs, sources = {}, [], {}
-        for a, text in zip(f.all_args, args + [""] * (len(f.all_args) - len(args))):
-            v, src = _resolve_arg(text, c, book, values, engine)
-            argvals[a.name] = v
-            sources[a.name] = src
-        unit_text = argvals.get("units")
-        units, res_unit = _units_of(f, argvals, unit_text)
-        for a in f.all_args:
-            if sources[a.name] == "omitted" and a.optional:
-                continue
-            inputs.append(
-                Input(a.name, argvals.get(a.name), units.get(a.name, ""), sources[a.name])
-            )
+    cells = sorted(book.formula_cells(), key=lambda c: (order.get(c.sheet, 0), c.row, c.col))
+    entries: list[Entry] = []
+    by_key: dict = {}
+    drawn: dict[str, str] = {}  # figure hash -> where it was first drawn
+    for i, c in enumerate(cells):
         key = (c.sheet, c.row, c.col)
-        result = outcomes[key].value if key in outcomes else None
+        o = outcomes.get(key)
+        result = o.value if o is not None else None
         row = by_cell.get((c.sheet, c.ref))
-        flags = _flags(f, argvals, units, inputs, result, row, unit_text)
-        for g in _gauge_refs(book, c, c.formula):
-            if g not in flags and not any(g.split(" ")[0] in x for x in flags):
-                flags.append(g)
-        why = outcomes[key].message if key in outcomes else ""
-        if why and isinstance(result, tuple):  # an error value (JB_ERRORS "values"): say why
-            flags.insert(0, f"the cell shows {result[1]}: {why}")
-        unit_of_cell[key] = str(unit_text or "K-kPa-kJ").strip()
         label = _label(book, c.sheet, c.row, c.col)
         names = _names_for(book, c.sheet, c.ref)
         if names:
             label = (label + " · " if label else "") + "name: " + ", ".join(names)
-        entry = Entry(
+        found = _calls(c.formula)
+        whole = bool(found) and _tight(found[0][2]) == _tight(c.formula)
+        calls = []
+        for j, (name, args, text) in enumerate(found):
+            try:
+                calls.append(
+                    _sub_call(name, args, text, c, book, values, engine, whole and j == 0, result)
+                )
+            except JoulebookError:
+                continue  # an unknown JB_ name: the engine's status names it
+        e = Entry(
             c.sheet,
             c.ref,
             label,
             c.raw_formula or c.formula,
-            f.name,
-            inputs,
+            calls[0].function if whole and calls else "",
+            [],
             result,
-            res_unit,
-            _model(f, argvals),
-            _equation(f, argvals, units, result, res_unit),
+            "",
+            "",
+            "",
             row,
-            flags,
-            _figure(f, argvals, units) if figures else "",
+            status=row.status if row is not None else "not checked",
+            note=row.note if row is not None else "",
+            calls=calls,
         )
-        entry._key = key  # type: ignore[attr-defined]
-        entry._refs = [s for s in sources.values() if s.startswith("formula ")]  # type: ignore[attr-defined]
-        entries.append(entry)
+        if whole and calls:
+            top = calls[0]
+            e.inputs, e.result_unit, e.model = top.inputs, top.result_unit, top.model
+            e.equation = _equation_text(top)
+            e.table_head, e.table = _table(book, c, values, _columns(top))
+        else:
+            for k in dict.fromkeys(cell_refs(c.formula, c.sheet)):
+                unit, lab = _cell_unit(book, k, by_key)
+                src = book.cells.get(k)
+                kind = "formula" if src is not None and src.formula else "cell"
+                e.inputs.append(
+                    Input(
+                        _where(k),
+                        values.get(k),
+                        unit,
+                        f"{kind} {_where(k)}" + (f" ({lab})" if lab else ""),
+                    )
+                )
+            e.substituted = _substitute(c.formula, c.sheet, values)
+            e.table_head, e.table = _table(book, c, values, ())
+        # flags
+        e.flags += _status_flags(e, o.message if o is not None else "")
+        if o is not None and o.message and isinstance(result, tuple):
+            e.flags.insert(0, f"the cell shows {result[1]}: {o.message}")
+        for sc in calls:
+            for fl in _call_flags(sc, c, book):
+                if fl.startswith("note: "):
+                    e.notes.append(fl[6:])
+                elif fl not in e.flags:
+                    e.flags.append(fl if whole else f"{sc.function}: {fl}")
+        if calls:
+            for g in _gauge_refs(book, c, c.formula):
+                if g not in e.flags:
+                    e.flags.append(g)
+        e.flags += _comparison_flags(book, c, by_key)
+        if not calls:
+            e.flags += _hand_balance(book, c, values, label)
+        # figures: one per distinct path
+        if figures:
+            for sc in calls:
+                w = sc._f.working  # type: ignore[attr-defined]
+                if w is None or not (w.curve or w.figure):
+                    continue
+                fp = _fingerprint(sc)
+                if fp in drawn:
+                    sc.figure_ref = drawn[fp]
+                    continue
+                sc.figure = figure(
+                    w,
+                    sc._si,  # type: ignore[attr-defined]
+                    _figure_system(sc._argvals, sc._system),  # type: ignore[attr-defined]
+                    working_call(sc._argvals.get("units")),  # type: ignore[attr-defined]
+                )
+                if sc.figure:
+                    drawn[fp] = f"{c.sheet}!{c.ref}"
+            if whole and calls:
+                e.figure = calls[0].figure
+        entries.append(e)
+        by_key[key] = e
         if progress:
-            progress(i + 1, len(ours))
-    _unit_consistency(entries, unit_of_cell)
-    _hand_balances(book, values, entries)
+            progress(i + 1, len(cells))
+    _unit_consistency(entries, by_key)
     from ..substances.fluids import coolprop_version
 
-    return Audit(
+    audit = Audit(
         book,
         entries,
         rows,
         summary(rows),
         caution=any(
-            lookup(e.function).caution or lookup(e.function).family in ("process", "stored", "work")
+            (sc._f.caution or sc._f.family in ("process", "stored", "work"))  # type: ignore[attr-defined]
             for e in entries
+            for sc in e.calls
         ),
         generated=_dt.datetime.now(_dt.timezone.utc).strftime("%Y-%m-%d %H:%M UTC"),
         library=f"joulebook {__version__}; {coolprop_version()}",
     )
+    audit.maps = _maps(audit)
+    return audit
 
 
-def _unit_consistency(entries: list[Entry], unit_of_cell: dict) -> None:
-    """Flag a joulebook cell that reads another joulebook cell's result in another unit."""
-    by_key = {e._key: e for e in entries if hasattr(e, "_key")}  # type: ignore[attr-defined]
+def _tight(text: str) -> str:
+    return "".join(text.split()).lstrip("=").upper().replace("_XLFN.", "")
+
+
+def _columns(sc: SubCall) -> tuple[str, ...]:
+    w = sc._f.working  # type: ignore[attr-defined]
+    return w.columns if w is not None else ()
+
+
+def _equation_text(sc: SubCall) -> str:
+    if sc.working:
+        ln = sc.working[-1]
+        return f"{ln.symbol} = {ln.formula}"
+    return sc.equation
+
+
+def _fingerprint(sc: SubCall) -> str:
+    """What the figure of a call depends on: the arguments its working draws from."""
+    from ..working import names_in
+
+    w = sc._f.working  # type: ignore[attr-defined]
+    if w.figure == "path":
+        used = {"state1", "path", "end_spec", "end_value", "mass"}
+    elif w.figure == "points":
+        used = {"P_values", "V_values"}
+    else:
+        used = {"V_1", "V_2"} | names_in(w.curve)
+        for st in w.steps:
+            used |= names_in(st.expr)
+    si = sc._si  # type: ignore[attr-defined]
+    payload = repr(
+        (
+            sorted((k, repr(si.get(k))) for k in used),
+            repr(_figure_system(sc._argvals, sc._system).units),  # type: ignore[attr-defined]
+        )
+    )
+    return hashlib.sha256(payload.encode()).hexdigest()
+
+
+def _unit_consistency(entries: list[Entry], by_key: dict) -> None:
+    """Flag a joulebook call that reads another joulebook cell's result in another unit."""
     for e in entries:
-        if not hasattr(e, "_key"):
+        for sc in e.calls:
+            for inp in sc.inputs:
+                m = re.match(r"formula (.+?)!([A-Z]+)(\d+)", inp.source)
+                if not m:
+                    continue
+                from .refs import col_number
+
+                src = by_key.get((m.group(1), int(m.group(3)), col_number(m.group(2))))
+                if src is None or not src.result_unit or not inp.unit:
+                    continue
+                if not isinstance(src.result, float):
+                    continue
+                a, b = eye.unit_kind(src.result_unit), eye.unit_kind(inp.unit)
+                if a and b and a[0] == b[0] and not eye.same_unit(a[1], b[1]):
+                    e.flags.append(
+                        f"{inp.name} reads {m.group(1)}!{m.group(2)}{m.group(3)}, a result in "
+                        f"{pretty_unit(src.result_unit)}, as {pretty_unit(inp.unit)}: the unit "
+                        "systems of the two cells disagree"
+                    )
+
+
+def _maps(a: Audit) -> dict[str, str]:
+    out = {}
+    book = a.book
+    for sheet in book.sheets:
+        es = [e for e in a.entries if e.sheet == sheet]
+        if not es:
             continue
-        for inp in e.inputs:
-            m = re.match(r"formula (.+?)!([A-Z]+)(\d+)", inp.source)
-            if not m:
-                continue
-            src = by_key.get((m.group(1), int(m.group(3)), col_number(m.group(2))))
-            if (
-                src is None
-                or not src.result_unit
-                or not inp.unit
-                or not isinstance(src.result, float)
-            ):
-                continue
-            if _norm_unit(src.result_unit) != _norm_unit(inp.unit):
-                e.flags.append(
-                    f"{inp.name} reads {m.group(1)}!{m.group(2)}{m.group(3)}, a result in {src.result_unit}, "
-                    f"as {inp.unit}: the unit systems of the two cells disagree"
-                )
-
-
-def _norm_unit(u: str) -> tuple:
-    for kind in (
-        "temperature",
-        "pressure",
-        "energy",
-        "specific_energy",
-        "volume",
-        "mass",
-        "specific_entropy",
-        "specific_volume",
-    ):
-        try:
-            c = parse_unit(u, kind)
-            return kind, round(c.factor, 12), round(c.offset, 9)
-        except JoulebookError:
-            continue
-    return ("?", u.strip())
-
-
-_Q = re.compile(r"^\s*(q\b|heat\b)", re.IGNORECASE)
-_DU = re.compile(r"(Δu|du\b|delta u|internal energy)", re.IGNORECASE)
-_W = re.compile(r"(^\s*w\b|work)", re.IGNORECASE)
-
-
-def _hand_balances(book: Book, values: dict, entries: list[Entry]) -> None:
-    """A hand-typed heat cell (label Q / heat) built from a ΔU cell and a W cell must equal
-    ΔU + W (heat in +, work by the system +); a sign slip there is flagged on the ΔU entry's
-    sheet as an extra entry."""
-    for c in book.formula_cells():
-        if calls_ours(c.formula):
-            continue
-        label = _label(book, c.sheet, c.row, c.col)
-        if not _Q.search(label):
-            continue
-        du = w = None
-        for key in cell_refs(c.formula, c.sheet):
-            lab = _label(book, *key)
-            v = values.get(key)
-            if isinstance(v, float) and _DU.search(lab):
-                du = v
-            elif isinstance(v, float) and _W.search(lab):
-                w = v
-        q = values.get((c.sheet, c.row, c.col))
-        if du is None or w is None or not isinstance(q, float):
-            continue
-        if abs(q - (du + w)) > 1e-9 * max(abs(du), abs(w), 1e-300):
-            entries.append(
-                Entry(
-                    c.sheet,
-                    c.ref,
-                    label,
-                    c.raw_formula or c.formula,
-                    "(hand-typed first law)",
-                    [],
-                    q,
-                    "",
-                    "first law of a closed system",
-                    f"expected Q = ΔU + W = {fmt(du)} + {fmt(w)} = {fmt(du + w)}",
-                    None,
-                    [
-                        f"hand-typed heat {fmt(q)} ≠ ΔU + W = {fmt(du + w)}: a sign slip? (heat in +, work by the system +)"
-                    ],
-                )
+        nodes: dict = {}
+        for e in es:
+            k = e.key
+            pre = [p for p in cell_refs(e.formula.lstrip("="), sheet) if p[0] == sheet]
+            kind = (
+                "flagged"
+                if e.flags
+                else "ours"
+                if e.calls
+                else "check"
+                if eye.comparisons(e.formula)
+                else "formula"
             )
+            nodes[k] = Node(k, e.cell, e.label, kind, pre, e.anchor)
+        for e in es:
+            for p in nodes[e.key].precedents:
+                if p not in nodes:
+                    nodes[p] = Node(
+                        p, f"{col_letters(p[2])}{p[1]}", _label(book, *p), "input", [], ""
+                    )
+        ordered = sorted(nodes.values(), key=lambda n: (n.key[1], n.key[2]))
+        out[sheet] = calc_map(ordered, sheet)
+    return out
+
+
+# ---------------------------------------------------------------------------------------
+# outputs
 
 
 def audit_rows(a: Audit) -> list[list[object]]:
@@ -814,118 +1057,155 @@ def audit_rows(a: Audit) -> list[list[object]]:
                 result,
                 e.result_unit,
                 e.model,
-                e.equation,
-                e.row.status if e.row else "not checked",
+                e.equation or e.substituted,
+                e.status,
                 " | ".join(e.flags),
             ]
         )
     return rows
 
 
-# ---------------------------------------------------------------------------------------
-# HTML
-
-_CSS = """
-@page { size: A4; margin: 14mm 12mm; }
-body { font: 10.5pt/1.45 "DejaVu Sans", "Segoe UI", sans-serif; color: #1f2a30; margin: 0 auto; max-width: 190mm; }
-h1 { font-size: 17pt; margin: 10px 0 2px; color: #123e52; }
-h2 { font-size: 13pt; border-bottom: 2px solid #1d5c7a; padding-bottom: 2px; margin-top: 22px; color: #123e52; }
-.meta { color: #55656d; font-size: 9pt; }
-table { border-collapse: collapse; width: 100%; font-size: 9.5pt; }
-th, td { border: 1px solid #cfd8dc; padding: 3px 6px; text-align: left; vertical-align: top; }
-th { background: #eef4f6; }
-.caution { border-left: 5px solid #c0392b; background: #fbeeec; padding: 8px 12px; margin: 12px 0; }
-.entry { border: 1px solid #cfd8dc; border-radius: 4px; padding: 8px 10px; margin: 10px 0; page-break-inside: avoid; }
-.entry h3 { font-size: 11pt; margin: 0 0 4px; }
-code, .formula { font-family: "DejaVu Sans Mono", Consolas, monospace; font-size: 9pt; word-break: break-all; }
-.badge { display: inline-block; padding: 0 6px; border-radius: 3px; font-size: 8.5pt; color: #fff; }
-.pass { background: #2e7d4f; } .differs, .error, .circular, .unsupported { background: #c0392b; } .none { background: #8a6d1d; }
-.flags { margin: 4px 0 0 0; padding-left: 18px; color: #8a3a1d; }
-.eq { background: #f6f8f9; padding: 4px 6px; margin: 4px 0; }
-.figure svg { max-width: 100%; height: auto; }
-.counts td:first-child { width: 45%; }
-"""
+def _jsonable(v):
+    if isinstance(v, tuple):
+        return {"error": v[1]} if len(v) == 2 and v[0] == "error" else list(v)
+    if isinstance(v, float) and not math.isfinite(v):
+        return repr(v)
+    if isinstance(v, np.ndarray):
+        return [_jsonable(x) for x in v.tolist()]
+    if isinstance(v, list):
+        return [_jsonable(x) for x in v]
+    return v
 
 
-def _e(x) -> str:
-    return html.escape(str(x), quote=True)
+def to_json(a: Audit) -> str:
+    """Every entry, flag and figure of the audit as JSON (figures as their presence)."""
+
+    def inp(i: Input) -> dict:
+        return {"name": i.name, "value": _jsonable(i.value), "unit": i.unit, "source": i.source}
+
+    entries = []
+    for e in a.entries:
+        entries.append(
+            {
+                "sheet": e.sheet,
+                "cell": e.cell,
+                "label": e.label,
+                "formula": "=" + e.formula,
+                "function": e.function,
+                "status": e.status,
+                "note": e.note,
+                "result": _jsonable(e.result),
+                "result_unit": e.result_unit,
+                "saved": _jsonable(e.row.cached) if e.row else None,
+                "model": e.model,
+                "equation": e.equation,
+                "substituted": e.substituted,
+                "inputs": [inp(i) for i in e.inputs],
+                "calls": [
+                    {
+                        "function": sc.function,
+                        "text": sc.text,
+                        "result": _jsonable(sc.result),
+                        "result_unit": sc.result_unit,
+                        "model": sc.model,
+                        "inputs": [inp(i) for i in sc.inputs],
+                        "working": [vars(ln) for ln in sc.working],
+                        "figure": bool(sc.figure),
+                        "figure_ref": sc.figure_ref,
+                    }
+                    for sc in e.calls
+                ],
+                "table": ([e.table_head] if e.table_head else []) + e.table,
+                "flags": e.flags,
+                "notes": e.notes,
+            }
+        )
+    return json.dumps(
+        {
+            "workbook": str(a.book.path),
+            "sha256": a.book.sha256,
+            "library": a.library,
+            "summary": a.summary,
+            "flags": [{"cell": f"{e.sheet}!{e.cell}", "flag": f} for e, f in a.flags],
+            "entries": entries,
+            "caution": CAUTION if a.caution else "",
+        },
+        indent=2,
+        ensure_ascii=False,
+    )
 
 
-def _badge(row: Row | None) -> str:
-    if row is None:
-        return '<span class="badge none">not checked</span>'
-    cls = {"pass": "pass", "no cached value": "none"}.get(row.status, row.status.split()[0])
-    return f'<span class="badge {cls}">{_e(row.status)}</span>'
+def _badge(e: Entry) -> str:
+    """Green only for a recomputed value that matches and is not an error."""
+    if isinstance(e.result, tuple):
+        return "bad"
+    return _BADGE.get(e.status, "bad")
+
+
+_BADGE = {
+    "pass": "pass",
+    "differs": "bad",
+    "error": "bad",
+    "circular": "bad",
+    "unsupported": "bad",
+    "not checked": "warn",
+    "no cached value": "warn",
+    "volatile": "warn",
+}
 
 
 def render_html(a: Audit) -> str:
-    s = a.summary
-    flags = sum(len(e.flags) for e in a.entries)
-    out = [
-        "<!DOCTYPE html>",
-        '<html lang="en"><head><meta charset="utf-8">',
-        f"<title>Audit of {_e(a.book.path.name)}</title>",
-        f"<style>{_CSS}</style></head><body>",
-        f"<h1>Audit of {_e(a.book.path.name)}</h1>",
-        f'<p class="meta">{_e(a.library)} · generated {_e(a.generated)} · input SHA-256 <code>{_e(a.book.sha256)}</code></p>',
-        '<h2 id="summary">Summary</h2><table class="counts">',
-        f"<tr><td>joulebook cells audited</td><td>{len([e for e in a.entries if e.row is not None])}</td></tr>",
-        f"<tr><td>formula cells recalculated</td><td>{s.get('cells', 0)}</td></tr>",
-        f"<tr><td>passes (recomputed = saved)</td><td>{s.get('pass', 0)}</td></tr>",
-        f"<tr><td>differences</td><td>{s.get('differs', 0)}</td></tr>",
-        f"<tr><td>no saved value</td><td>{s.get('no cached value', 0)}</td></tr>",
-        f"<tr><td>errors (unsupported, circular, engine)</td><td>{s.get('unsupported', 0) + s.get('circular', 0) + s.get('error', 0)}</td></tr>",
-        f"<tr><td>cells holding error values</td><td>{s.get('errors_in_values', 0)}</td></tr>",
-        f"<tr><td>flags raised</td><td>{flags}</td></tr>",
-        "</table>",
-    ]
-    if a.caution:
-        out.append(f'<div class="caution"><strong>Caution.</strong> {_e(CAUTION)}</div>')
-    sheets = []
-    for e in a.entries:
-        if e.sheet not in sheets:
-            sheets.append(e.sheet)
-    for sheet in sheets:
-        out.append(f"<h2>Sheet {_e(sheet)}</h2>")
-        for e in [x for x in a.entries if x.sheet == sheet]:
-            out.append('<div class="entry">')
-            out.append(
-                f"<h3>{_e(e.sheet)}!{_e(e.cell)} {('— ' + _e(e.label)) if e.label else ''} {_badge(e.row)}</h3>"
-            )
-            out.append(f'<div class="formula">={_e(e.formula)}</div>')
-            if e.inputs:
-                out.append("<table><tr><th>input</th><th>value</th><th>unit</th><th>from</th></tr>")
-                for i in e.inputs:
-                    out.append(
-                        f"<tr><td>{_e(i.name)}</td><td>{_e(_shown(i.value))}</td><td>{_e(i.unit)}</td><td>{_e(i.source)}</td></tr>"
-                    )
-                out.append("</table>")
-            res = (
-                fmt(e.result)
-                if isinstance(e.result, str)
-                else f"{fmt(e.result)} {e.result_unit}".strip()
-            )
-            out.append(f"<p><strong>Result:</strong> {_e(res)}")
-            if e.row is not None and e.row.status == "pass":
-                out.append(" · the value saved in the file matches")
-            elif e.row is not None:
-                out.append(
-                    f" · recomputed {_e(fmt(e.row.recomputed))} · saved {_e(fmt(e.row.cached))}"
-                )
-            out.append("</p>")
-            out.append(f"<p><strong>Model:</strong> {_e(e.model)}</p>")
-            out.append(f'<div class="eq">{_e(e.equation)}</div>')
-            if e.flags:
-                out.append(
-                    '<ul class="flags">' + "".join(f"<li>{_e(fl)}</li>" for fl in e.flags) + "</ul>"
-                )
-            if e.figure:
-                out.append(f'<div class="figure">{e.figure}</div>')
-            out.append("</div>")
-    if not a.entries:
-        out.append("<p>No cell of this workbook calls a joulebook function.</p>")
-    out.append(
-        f'<p class="meta">Sign convention: heat into the system +, work done by the system +. {_e(CAUTION)}</p>'
+    """The self-contained HTML report (Jinja2, autoescaped; figures and maps are SVG that
+    escape every text from the workbook themselves)."""
+    import jinja2
+    from markupsafe import Markup, escape
+
+    env = jinja2.Environment(
+        loader=jinja2.PackageLoader("joulebook.workbook", "templates"),
+        autoescape=True,
+        trim_blocks=True,
+        lstrip_blocks=True,
+        undefined=jinja2.StrictUndefined,
     )
-    out.append("</body></html>")
-    return "\n".join(out) + "\n"
+
+    def breakable(text) -> Markup:
+        """Formula text that wraps after separators and operators, never inside a word."""
+        s = str(escape(text))
+        for ch in (",", "(", "+", "*", "/", "&amp;", ";"):
+            s = s.replace(ch, ch + "<wbr>")
+        return Markup(s)
+
+    env.filters["breakable"] = breakable
+    env.filters["shown"] = _show
+    env.filters["unit"] = pretty_unit
+    env.filters["fmt"] = fmt
+    tpl = env.get_template("audit.html")
+    es = a.entries
+    counts = [
+        ("formula cells audited", len(es)),
+        ("of them calling joulebook", sum(1 for e in es if e.calls)),
+        ("passes (recomputed = saved, not an error)", sum(_badge(e) == "pass" for e in es)),
+        ("differences", sum(e.status == "differs" for e in es)),
+        (
+            "errors (joulebook refusals and error values)",
+            sum(e.status == "error" or isinstance(e.result, tuple) for e in es),
+        ),
+        ("unsupported / circular", sum(e.status in ("unsupported", "circular") for e in es)),
+        ("not checked (a precedent was not evaluated)", sum(e.status == "not checked" for e in es)),
+        ("volatile (recomputed, not compared)", sum(e.status == "volatile" for e in es)),
+        ("no saved value", sum(e.status == "no cached value" for e in es)),
+        ("cells recalculated, spilled cells included", a.summary.get("cells", 0)),
+        ("flags raised", len(a.flags)),
+    ]
+    sheets = list(dict.fromkeys([e.sheet for e in a.entries]))
+    return tpl.render(
+        a=a,
+        counts=counts,
+        sheets=sheets,
+        badge=_badge,
+        status=lambda e: (
+            "error value" if e.status == "pass" and isinstance(e.result, tuple) else e.status
+        ),
+        svg=lambda text: Markup(text),
+        caution=CAUTION,
+    )
