@@ -568,9 +568,9 @@ def _audit(ns: argparse.Namespace) -> int:
     import time
 
     from .errors import BadInput
+    from .files import atomic_write
     from .workbook.audit import build_audit, render_html
     from .workbook.reader import read_book
-    from .workbook.writer import atomic_write
 
     out = Path(ns.output)
     t0 = time.perf_counter()

@@ -717,7 +717,7 @@ def _freeze_times(path: Path) -> None:
     import re
     import zipfile
 
-    from .workbook.writer import atomic_write
+    from .files import atomic_write
 
     with zipfile.ZipFile(path) as zin:
         items = [(i, zin.read(i)) for i in zin.infolist()]
@@ -737,11 +737,12 @@ def _freeze_times(path: Path) -> None:
 
 def run_demo(folder: str | Path = "joulebook-demo", echo=print) -> dict:
     """Build, recalculate, check and audit every demo workbook into *folder*."""
+    from .files import atomic_write
     from .workbook.audit import build_audit, render_html
     from .workbook.check import compare, summary
     from .workbook.engine import Engine
     from .workbook.reader import read_book
-    from .workbook.writer import atomic_write, write_copy
+    from .workbook.writer import write_copy
 
     folder = Path(folder)
     books = build_workbooks(folder / "workbooks", recalculate=False)
@@ -754,17 +755,19 @@ def run_demo(folder: str | Path = "joulebook-demo", echo=print) -> dict:
         fresh.parent.mkdir(parents=True, exist_ok=True)
         write_copy(book, outcomes, fresh, force=True)
         checked = read_book(fresh)
-        rows = compare(checked, Engine(checked).run())
+        outcomes = Engine(checked).run()
+        rows = compare(checked, outcomes)
         s = summary(rows)
         report = folder / "reports" / (path.stem + ".html")
         report.parent.mkdir(parents=True, exist_ok=True)
-        audit = build_audit(checked)
+        audit = build_audit(checked, outcomes=outcomes)
         html = render_html(audit).encode("utf-8")
         atomic_write(report, lambda fh, html=html: fh.write(html))
-        flags = sum(len(e.flags) for e in audit.entries)
+        flags = len(audit.flags)
         echo(
-            f"{path.name:36} {s['cells']:4d} formulas, {s.get('pass', 0):4d} hold, "
-            f"{len(audit.entries):3d} audited, {flags:2d} flags  -> {report}  ({time.perf_counter() - t0:.1f} s)"
+            f"{path.name:36} {s['cells']:4d} cells, {s.get('pass', 0):4d} hold, "
+            f"{len(audit.entries):3d} formulas audited, {flags:2d} flags  -> {report}  "
+            f"({time.perf_counter() - t0:.1f} s)"
         )
         results[path.name] = {
             "summary": s,

@@ -309,7 +309,7 @@ def to_xlsm(xlsx: str, out: str, vba_bin: bytes) -> None:
     import zipfile
     from pathlib import Path
 
-    from ..workbook.writer import atomic_write
+    from ..files import atomic_write
 
     main_xlsx = b"application/vnd.openxmlformats-officedocument.spreadsheetml.sheet.main+xml"
     main_xlsm = b"application/vnd.ms-excel.sheet.macroEnabled.main+xml"

@@ -430,8 +430,9 @@ def _sub_call(name, args, text, c: Cell, book, values, engine, whole: bool, resu
         elif a.quantity and isinstance(v, list):
             v = [system.conv(a.quantity).to_si(x) for x in v]
         si[a.name] = v
+    qkinds = {a.name: a.quantity for a in f.all_args if a.quantity}  # numbers held in SI
     try:
-        lines, _ = _working(f, si, kinds, units_text)
+        lines, _ = _working(f, si, qkinds, units_text)
     except JoulebookError:
         lines = []
     sc = SubCall(

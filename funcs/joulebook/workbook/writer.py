@@ -10,14 +10,13 @@ never written.
 
 from __future__ import annotations
 
-import os
 import re
-import tempfile
 import zipfile
 from pathlib import Path
 from xml.sax.saxutils import escape
 
 from ..errors import BadInput
+from ..files import atomic_write
 from .reader import Book, split_ref
 
 __all__ = ["write_copy", "patch_sheet_xml", "atomic_write"]
@@ -181,26 +180,6 @@ def patch_sheet_xml(
 
         xml = _SHEETDATA.sub(fix_data, xml, count=1)
     return xml
-
-
-def atomic_write(target: Path, write) -> None:
-    """Call ``write(fileobj)`` on a temporary file beside *target*, then rename it into place."""
-    fd, tmp = tempfile.mkstemp(prefix=".joulebook-", suffix=target.suffix, dir=target.parent)
-    umask = os.umask(0)
-    os.umask(umask)
-    os.chmod(tmp, 0o666 & ~umask)  # an ordinary file, not mkstemp's private 0600
-    try:
-        with os.fdopen(fd, "wb") as fh:
-            write(fh)
-            fh.flush()
-            os.fsync(fh.fileno())
-        os.replace(tmp, target)
-    except BaseException:
-        try:
-            os.unlink(tmp)
-        except OSError:
-            pass
-        raise
 
 
 def write_copy(book: Book, outcomes: dict, out: str | Path, force: bool = False) -> Path:

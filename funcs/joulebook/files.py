@@ -1,0 +1,51 @@
+"""Writing files safely, shared by every face (sheet, workbook, CLI, demo).
+
+A face never imports another face: what two of them need lives here, below both.
+"""
+
+from __future__ import annotations
+
+import os
+import tempfile
+from pathlib import Path
+
+__all__ = ["atomic_write"]
+
+
+def atomic_write(target: Path, write) -> None:
+    """Call ``write(fileobj)`` on a temporary file beside *target*, then rename it into place.
+
+    A reader never sees a half-written file, and a failure leaves *target* as it was.
+
+    Parameters
+    ----------
+    target : pathlib.Path
+        The file to write (its folder must exist).
+    write : callable
+        Called once with a binary file object.
+
+    Examples
+    --------
+    >>> import pathlib, tempfile
+    >>> p = pathlib.Path(tempfile.mkdtemp()) / "out.txt"
+    >>> atomic_write(p, lambda fh: fh.write(b"ok"))
+    >>> p.read_bytes()
+    b'ok'
+    """
+    target = Path(target)
+    fd, tmp = tempfile.mkstemp(prefix=".joulebook-", suffix=target.suffix, dir=target.parent)
+    umask = os.umask(0)
+    os.umask(umask)
+    os.chmod(tmp, 0o666 & ~umask)  # an ordinary file, not mkstemp's private 0600
+    try:
+        with os.fdopen(fd, "wb") as fh:
+            write(fh)
+            fh.flush()
+            os.fsync(fh.fileno())
+        os.replace(tmp, target)
+    except BaseException:
+        try:
+            os.unlink(tmp)
+        except OSError:
+            pass
+        raise
