@@ -228,6 +228,18 @@ def _resolve_arg(text: str, here: Cell, book: Book, values: dict, engine: Engine
         ref = _one_ref(book.names[ref.text.upper()].lstrip("="))
     if ref is not None and ref.kind == "cell" and ref.book is None and not ref.sheet2:
         target = (ref.sheet or here.sheet, ref.r1, ref.c1)
+    if ref is not None and ref.kind == "area" and ref.book is None and not ref.sheet2:
+        sheet = ref.sheet or here.sheet
+        n = (ref.r2 - ref.r1 + 1) * (ref.c2 - ref.c1 + 1)
+        if n <= 100_000:
+            nums = [
+                float(x)
+                for r in range(ref.r1, ref.r2 + 1)
+                for k in range(ref.c1, ref.c2 + 1)
+                if isinstance(x := values.get((sheet, r, k)), (int, float))
+                and not isinstance(x, bool)
+            ]
+            return (nums or None), f"range {text}"
     if target is not None:
         v = values.get(target)
         src_cell = book.cells.get(target)
@@ -992,6 +1004,26 @@ def _unit_consistency(entries: list[Entry], by_key: dict) -> None:
                     )
 
 
+def _ranges(formula: str, sheet: str) -> list[tuple]:
+    """The ranges of *sheet* a formula reads, as (sheet, r1, c1, r2, c2) (tokenizer)."""
+    try:
+        toks = tokens(formula)
+    except Exception:
+        return []
+    out = []
+    for v, t, sub in toks:
+        if t == "OPERAND" and sub == "RANGE":
+            r = parse_ref(v)
+            if (
+                r is not None
+                and r.kind == "area"
+                and r.book is None
+                and (r.sheet or sheet) == sheet
+            ):
+                out.append((sheet, r.r1, r.c1, r.r2, r.c2))
+    return out
+
+
 def _maps(a: Audit) -> dict[str, str]:
     out = {}
     book = a.book
@@ -1003,6 +1035,7 @@ def _maps(a: Audit) -> dict[str, str]:
         for e in es:
             k = e.key
             pre = [p for p in cell_refs(e.formula.lstrip("="), sheet) if p[0] == sheet]
+            pre += _ranges(e.formula.lstrip("="), sheet)
             kind = (
                 "flagged"
                 if e.flags
@@ -1015,7 +1048,12 @@ def _maps(a: Audit) -> dict[str, str]:
             nodes[k] = Node(k, e.cell, e.label, kind, pre, e.anchor)
         for e in es:
             for p in nodes[e.key].precedents:
-                if p not in nodes:
+                if p in nodes:
+                    continue
+                if len(p) == 5:  # a range: one node, named by its heading
+                    ref = f"{col_letters(p[2])}{p[1]}:{col_letters(p[4])}{p[3]}"
+                    nodes[p] = Node(p, ref, _label(book, *p[:3]), "input", [], "")
+                else:
                     nodes[p] = Node(
                         p, f"{col_letters(p[2])}{p[1]}", _label(book, *p), "input", [], ""
                     )
