@@ -78,7 +78,9 @@ def start(workdir):
     while time.monotonic() < deadline:
         try:
             ctx = resolver.resolve(f"uno:pipe,name={pipe};urp;StarOffice.ComponentContext")
-            desktop = ctx.ServiceManager.createInstanceWithContext("com.sun.star.frame.Desktop", ctx)
+            desktop = ctx.ServiceManager.createInstanceWithContext(
+                "com.sun.star.frame.Desktop", ctx
+            )
             desktop.getComponents()  # fails while LibreOffice restarts after installing
             return proc, ctx, desktop
         except Exception:
