@@ -72,6 +72,22 @@ def _sheet(ns: argparse.Namespace) -> int:
     return 0
 
 
+def _calc_extension(ns: argparse.Namespace) -> int:
+    from .calc.generate import write
+
+    out = Path(ns.output)
+    if out.exists() and not ns.force:
+        print(f"joulebook: {out} exists; use --force to replace it", file=sys.stderr)
+        return 2
+    python = ns.python or sys.executable
+    if not Path(python).exists():
+        print(f"joulebook: --python {python} does not exist", file=sys.stderr)
+        return 2
+    write(out, python)
+    print(f"wrote {out}: install it with `unopkg add {out}` (calls run in {python})")
+    return 0
+
+
 class _Bar:
     """A progress bar (tqdm) on a terminal's stderr; silent when stderr is not a terminal or
     with ``-q``, so CI logs and redirected output never carry it."""
@@ -763,6 +779,19 @@ def build_parser() -> argparse.ArgumentParser:
     )
     a.add_argument("--force", action="store_true", help="replace existing outputs")
     a.set_defaults(run=_audit)
+
+    x = sub.add_parser(
+        "calc-extension",
+        help="write the LibreOffice Calc extension (.oxt) of the worksheet functions",
+        description="Write a LibreOffice Calc extension exposing every JB_ function; Calc hands "
+        "the calls to this Python (or --python), where joulebook is installed. See docs/calc.md.",
+    )
+    x.add_argument("-o", "--output", required=True, help="the .oxt to write")
+    x.add_argument(
+        "--python", help="the Python that runs the calls (default: the one running this command)"
+    )
+    x.add_argument("--force", action="store_true", help="replace an existing file")
+    x.set_defaults(run=_calc_extension)
 
     for verb, what, run in (
         ("docs", "docs/functions.md", _docs),

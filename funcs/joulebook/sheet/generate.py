@@ -14,8 +14,8 @@ import sys
 import types
 from pathlib import Path
 
-from ..catalog import CATALOG, FAMILIES, Arg, Func
-from ..units import unit_system
+from ..arghelp import arg_doc
+from ..catalog import CATALOG, FAMILIES, Func
 
 UDF_MODULE = "joulebook.sheet.udfs"
 HEAVY_FAMILIES = ("process", "stored")  # not evaluated live in Excel's function wizard
@@ -36,22 +36,7 @@ from joulebook.sheet.cells import why as _why
 '''
 
 
-def _arg_doc(a: Arg) -> str:
-    if a.type == "text":
-        kind = "text"
-    elif a.type == "range":
-        kind = "range"
-    else:
-        kind = "number or range"
-    unit = ""
-    if a.quantity and a.quantity != "dimensionless":
-        default = unit_system(None).unit(a.quantity)
-        unit = (
-            f"; {a.quantity.replace('_', ' ')} in the units argument's unit ({default} by default)"
-        )
-    opt = " (optional)" if a.optional else ""
-    doc = f"{a.help}{opt} [{kind}{unit}]"
-    return doc if len(doc) <= 255 else doc[:254] + "…"
+_arg_doc = arg_doc  # shared with the Calc face
 
 
 def _py(s: str) -> str:
