@@ -50,6 +50,7 @@ __all__ = [
     "convert",
     "kind_of_unit",
     "DEFAULT_SYSTEM",
+    "registry",
 ]
 
 #: standard atmosphere, Pa (the default reference of gauge pressure)
@@ -224,6 +225,28 @@ def _ureg():
                     ureg.define(line)
                 _UREG = ureg
     return _UREG
+
+
+def registry():
+    """The project's one pint unit registry (built on first use, with the units below).
+
+    Returns
+    -------
+    pint.UnitRegistry
+        The registry every quantity of :mod:`joulebook.api` belongs to; the worksheet's unit
+        parsing reads the same one.
+
+    References
+    ----------
+    .. [1] pint documentation, *Defining units*, https://pint.readthedocs.io.
+
+    Examples
+    --------
+    >>> ureg = registry()
+    >>> round(ureg.Quantity(1, "TR").to("kW").magnitude, 4)   # ton of refrigeration
+    3.5169
+    """
+    return _ureg()
 
 
 #: units engineers use that pint lacks or spells otherwise [1]_ [2]_ [3]_
