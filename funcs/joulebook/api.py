@@ -14,8 +14,9 @@ Everything here is a thin layer: values are converted to SI once, handed to the 
 functions the worksheet cells use (:mod:`joulebook.media`, :mod:`joulebook.processes`,
 :mod:`joulebook.firstlaw`), and the SI results are wrapped as quantities of the project's
 one pint registry (:func:`joulebook.units.registry`).  Plain numbers are read as SI (K, Pa,
-m³, kg, J).  numpy arrays (and pandas Series) broadcast element by element, as a worksheet
-column does; the first failing element raises its project error (:class:`BadInput`,
+m³, kg, J).  numpy arrays broadcast element by element, as a worksheet column does (a
+pandas Series is taken as its values, in order, and the results are numpy arrays in the same
+order); the first failing element raises its project error (:class:`BadInput`,
 :class:`OutOfRange`, :class:`NoConvergence`) with its index in the message.
 
 Sign convention: heat *into* the system and work *done by* the system are positive, so
@@ -131,6 +132,8 @@ def Q_(value: QuantityLike, unit: str = "") -> Any:
     <Quantity(298.15, 'kelvin')>
     """
     ureg = registry()
+    if type(value).__module__.startswith("pandas"):
+        value = np.asarray(value, dtype=float)  # a Series is taken as its values, in order
     try:
         return ureg.Quantity(value, unit or "dimensionless")
     except Exception:
@@ -147,15 +150,6 @@ def _is_quantity(value: object) -> bool:
     import pint
 
     return isinstance(value, pint.Quantity)
-
-
-def _series_index(*values: object) -> Any:
-    """The index of the first pandas Series among *values* (None without one)."""
-    for v in values:
-        mag = getattr(v, "magnitude", v) if _is_quantity(v) else v
-        if type(mag).__module__.startswith("pandas") and hasattr(mag, "index"):
-            return mag.index
-    return None
 
 
 def _si(value: QuantityLike, kind: str, arg: str) -> np.ndarray:
@@ -182,14 +176,10 @@ def _si(value: QuantityLike, kind: str, arg: str) -> np.ndarray:
     return arr
 
 
-def _out(values: Any, kind: str, index: Any = None) -> Any:
+def _out(values: Any, kind: str) -> Any:
     """SI *values* (a float or an array) as a quantity of *kind*."""
     arr = np.asarray(values, dtype=float)
     mag: Any = float(arr) if arr.ndim == 0 else arr
-    if index is not None and arr.ndim == 1 and len(index) == arr.shape[0]:
-        import pandas as pd
-
-        mag = pd.Series(arr, index=index)
     return registry().Quantity(mag, _SI[kind])
 
 
@@ -323,7 +313,6 @@ class State:
             )
         (a, va), (b, vb) = given.items()
         self._med = medium(substance, unit_system(_SI_SYSTEM))
-        self._index = _series_index(va, vb, m, V)
         sa, sb = _si(va, SYMBOLS[a], a), _si(vb, SYMBOLS[b], b)
         med = self._med
         self._pts = _each(lambda p, q: med.point(a, p, b, q), sa, sb)
@@ -332,9 +321,9 @@ class State:
 
     # --- construction ----------------------------------------------------------------
     @classmethod
-    def _of(cls, med: Any, pts: Any, m: Any, index: Any = None) -> State:
+    def _of(cls, med: Any, pts: Any, m: Any) -> State:
         st = cls.__new__(cls)
-        st._med, st._pts, st._spec, st._m, st._index = med, pts, None, m, index
+        st._med, st._pts, st._spec, st._m = med, pts, None, m
         return st
 
     @classmethod
@@ -454,7 +443,7 @@ class State:
             return self._read("phase")
         if name not in fluids.OUTPUTS or name not in SYMBOLS:
             raise BadInput(f"unknown property {name!r}; use one of {' '.join(fluids.OUTPUTS)}")
-        return _out(_floats(self._read(name)), SYMBOLS[name], self._index)
+        return _out(_floats(self._read(name)), SYMBOLS[name])
 
     @property
     def T(self) -> Any:
@@ -529,12 +518,12 @@ class State:
     @property
     def m(self) -> Any:
         """Mass of the system (kg); BadInput when the state was given without m or V."""
-        return _out(self._need_mass(), "mass", self._index)
+        return _out(self._need_mass(), "mass")
 
     @property
     def V(self) -> Any:
         """Total volume m·v of the system (m³)."""
-        return _out(self._need_mass() * _floats(self._field("v")), "volume", self._index)
+        return _out(self._need_mass() * _floats(self._field("v")), "volume")
 
     @property
     def substance(self) -> str:
@@ -637,8 +626,7 @@ class State:
             return solve.solve(med, p1, mm, pth, sym, target)
 
         res = _each(one, index, mass, value)
-        idx = self._index if self._index is not None else _series_index(val, m)
-        return Process._from(self, path, res, idx)
+        return Process._from(self, path, res)
 
     def rigid(self, *, m: QuantityLike = None, **end: QuantityLike) -> Process:
         """Constant volume: W = 0, Q = ΔU.  End condition as in :meth:`process`.
@@ -840,21 +828,21 @@ class Process:
     dH: Any
 
     @classmethod
-    def _from(cls, start: State, path: str, res: Any, index: Any) -> Process:
+    def _from(cls, start: State, path: str, res: Any) -> Process:
         def take(fn: Callable[[solve.Result], Any]) -> Any:
             if isinstance(res, np.ndarray):
                 return np.vectorize(fn, otypes=[object])(res)
             return fn(res)
 
-        end = State._of(start._med, take(lambda r: r.p2), _floats(take(lambda r: r.m)), index)
+        end = State._of(start._med, take(lambda r: r.p2), _floats(take(lambda r: r.m)))
         return cls(
             start,
             end,
             path,
-            _out(_floats(take(lambda r: r.W)), "energy", index),
-            _out(_floats(take(lambda r: r.Q)), "energy", index),
-            _out(_floats(take(lambda r: r.dU)), "energy", index),
-            _out(_floats(take(lambda r: r.dH)), "energy", index),
+            _out(_floats(take(lambda r: r.W)), "energy"),
+            _out(_floats(take(lambda r: r.Q)), "energy"),
+            _out(_floats(take(lambda r: r.dU)), "energy"),
+            _out(_floats(take(lambda r: r.dH)), "energy"),
         )
 
     @property
@@ -884,9 +872,8 @@ class Process:
 
 def _apply(fn: Callable[..., float], args: list[tuple[QuantityLike, str, str]], kind: str) -> Any:
     """*fn* over the SI values of *args* ((value, kind, name) each), as a quantity of *kind*."""
-    index = _series_index(*(a for a, _, _ in args))
     arrays = [_si(a, k, name) for a, k, name in args]
-    return _out(_floats(_each(fn, *arrays)), kind, index)
+    return _out(_floats(_each(fn, *arrays)), kind)
 
 
 def _opt(value: QuantityLike) -> QuantityLike:
