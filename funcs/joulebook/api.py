@@ -236,7 +236,7 @@ class State:
     substance : str
         Substance text as in a worksheet: ``"water"``, ``"R134a"``, ``"air (ideal gas)"``
         (c_p(T) of the gas's equation of state), ``"air | k = 1.4"`` (constant c_p),
-        ``"water (IF97)"``, a mixture ``"methane[0.9] & ethane[0.1]"``.
+        ``"water (IF97)"``, a mixture ``"methane 0.9, ethane 0.1"``.
     T, P, v, rho, u, h, s, x : quantity or float or array_like, optional
         Exactly two of: temperature (K), pressure (Pa, absolute), specific volume (m³/kg),
         density (kg/m³), specific internal energy (J/kg), specific enthalpy (J/kg), specific

@@ -60,18 +60,44 @@ DEFAULT_SYSTEM = "K-kPa-kJ"
 
 @dataclass(frozen=True)
 class Conv:
-    """Linear map from a unit to SI: ``si = value * factor + offset``."""
+    r"""Linear map from a unit to SI.
+
+    .. math:: x_{SI} = x \cdot \mathrm{factor} + \mathrm{offset}
+
+    Parameters
+    ----------
+    factor : float
+        SI value of one unit (1e3 for kPa, 0.3048 for ft).
+    offset : float
+        SI value of the unit's zero (273.15 for degC, the atmospheric reference of a gauge
+        pressure); 0 for most units.
+    unit : str
+        The unit as written.
+
+    References
+    ----------
+    .. [1] NIST Special Publication 811 (2008), *Guide for the Use of the International System
+       of Units*, Appendix B (conversion factors).
+
+    Examples
+    --------
+    >>> c = Conv(1.0, 273.15, "degC")
+    >>> c.to_si(25.0), round(c.from_si(300.0), 2)
+    (298.15, 26.85)
+    """
 
     factor: float
     offset: float = 0.0
     unit: str = ""
 
     def to_si(self, value):
+        """The SI value of *value* (a float or an array) given in this unit."""
         if self.offset == 0.0:
             return value * self.factor if self.factor != 1.0 else value
         return value * self.factor + self.offset
 
     def from_si(self, value):
+        """The value in this unit of the SI *value* (a float or an array)."""
         if self.offset == 0.0:
             return value / self.factor if self.factor != 1.0 else value
         return (value - self.offset) / self.factor
@@ -373,7 +399,9 @@ def _to_pint(text: str, kind: str | None) -> str:
 
 @lru_cache(maxsize=4096)
 def parse_unit(text: str, kind: str) -> Conv:
-    """Parse *text* as a unit of quantity *kind* and return its cached SI map.
+    r"""Parse *text* as a unit of quantity *kind* and return its cached SI map.
+
+    .. math:: x_{SI} = x \cdot \mathrm{factor} + \mathrm{offset}
 
     Parameters
     ----------
@@ -392,6 +420,18 @@ def parse_unit(text: str, kind: str) -> Conv:
     ------
     BadInput
         Unknown unit, or a unit of another quantity (a pressure unit given for T).
+
+    References
+    ----------
+    .. [1] NIST Special Publication 811 (2008), *Guide for the Use of the International System
+       of Units*, Appendix B (conversion factors).
+
+    Examples
+    --------
+    >>> parse_unit("kJ/kg.K", "specific_heat").factor
+    1000.0
+    >>> parse_unit("psig", "pressure").to_si(0.0)                 # gauge zero: 1 atm
+    101325.0
     """
     if kind not in KINDS:
         raise BadInput(f"unknown quantity kind {kind!r}")
@@ -516,7 +556,35 @@ _EXAMPLE_UNITS = {
 
 
 def kind_of_unit(text: str, _quiet: bool = False) -> str | None:
-    """The quantity kind a unit string belongs to (temperature wins over difference)."""
+    """The quantity kind a unit string belongs to (temperature wins over difference).
+
+    Parameters
+    ----------
+    text : str
+        A unit as typed.
+
+    Returns
+    -------
+    str or None
+        A key of :data:`KINDS`.
+
+    Raises
+    ------
+    BadInput
+        Unknown unit, or one of no quantity joulebook converts.
+
+    References
+    ----------
+    .. [1] NIST Special Publication 811 (2008), *Guide for the Use of the International System
+       of Units*, Appendix B (conversion factors).
+
+    Examples
+    --------
+    >>> kind_of_unit("Btu/lbm")
+    'specific_energy'
+    >>> kind_of_unit("degF")
+    'temperature'
+    """
     raw = _spelled(str(text).strip())
     for word in _IDENT.findall(raw):
         if word in _AMBIGUOUS and not _quiet:
@@ -552,15 +620,33 @@ class UnitSystem:
 
     Instances come from the cached :func:`unit_system`, so identity is equality (and hashing
     is cheap, which matters: systems key several caches on the hot path).
+
+    Parameters
+    ----------
+    name : str
+        The text it was parsed from (``"degC-bar-kJ"``).
+    units : tuple of (str, str)
+        ``(kind, unit text)`` pairs, one per kind of :data:`KINDS`.
+
+    References
+    ----------
+    .. [1] docs/units.md (the unit systems and their defaults).
+
+    Examples
+    --------
+    >>> unit_system("degF-psia-Btu").unit("specific_energy")
+    'Btu/lbm'
     """
 
     name: str
     units: tuple[tuple[str, str], ...]  # (kind, unit text)
 
     def unit(self, kind: str) -> str:
+        """The default unit text of quantity *kind* in this system."""
         return dict(self.units)[kind]
 
     def conv(self, kind: str) -> Conv:
+        """The cached SI map (:class:`Conv`) of the default unit of *kind*."""
         return _system_convs(self)[kind]
 
 
@@ -623,10 +709,31 @@ def _energy_family(energy_unit: str) -> dict[str, str]:
 def unit_system(text: str | None = None) -> UnitSystem:
     """Parse a unit-system text: a name such as ``degC-bar-kJ`` and/or overrides ``"P=psig"``.
 
+    Parameters
+    ----------
+    text : str, optional
+        ``K-kPa-kJ`` (the default when empty), ``K-Pa-J``, ``degC-bar-kJ``, ``degF-psia-Btu``,
+        ``R-psia-Btu``, optionally followed by per-symbol overrides ``"P=psig, V=L"``.
+
+    Returns
+    -------
+    UnitSystem
+        The system, cached (the same object for the same text).
+
     Raises
     ------
     BadInput
         Unknown name part, unknown symbol in an override, or a unit of the wrong quantity.
+
+    References
+    ----------
+    .. [1] docs/units.md (the unit systems and their defaults).
+
+    Examples
+    --------
+    >>> s = unit_system("degC-bar-kJ, V=L")
+    >>> s.unit("pressure"), s.unit("volume"), s.unit("specific_heat")
+    ('bar', 'L', 'kJ/(kg*K)')
     """
     raw = DEFAULT_SYSTEM if text is None or str(text).strip() == "" else str(text).strip()
     parts = [p.strip() for p in re.split(r"[;,]", raw) if p.strip()]
@@ -716,7 +823,28 @@ def unit_system(text: str | None = None) -> UnitSystem:
 
 @dataclass(frozen=True)
 class Phrase:
-    """A parsed unit phrase such as ``"T in degC"``."""
+    """A parsed unit phrase such as ``"T in degC"``.
+
+    Parameters
+    ----------
+    symbol : str
+        The trade symbol (``T``, ``P``, ``h``, …; see :data:`SYMBOLS`).
+    kind : str
+        Its quantity kind.
+    unit : str
+        The unit as written (or the system's default).
+    conv : Conv
+        The unit's SI map.
+
+    References
+    ----------
+    .. [1] docs/design.md §3 (units written in the formula).
+
+    Examples
+    --------
+    >>> parse_phrase("T in degC").conv.to_si(25)
+    298.15
+    """
 
     symbol: str
     kind: str
@@ -733,10 +861,35 @@ _PHRASE = re.compile(
 def parse_phrase(text: str, system: UnitSystem | None = None, allowed: tuple = ()) -> Phrase:
     """Parse ``"<symbol> in <unit>"`` (or a bare symbol) into symbol, kind and SI map.
 
+    Parameters
+    ----------
+    text : str
+        ``"T in degC"``, ``"h in kJ/kg"``, ``"P [bar]"``, or a bare symbol ``"h"`` (the system's
+        default unit).
+    system : UnitSystem, optional
+        The unit system of bare symbols (``K-kPa-kJ`` unless given).
+    allowed : tuple of str
+        The symbols accepted (any of :data:`SYMBOLS` when empty).
+
+    Returns
+    -------
+    Phrase
+        Symbol, kind, unit and SI map.
+
     Raises
     ------
     BadInput
         Unknown symbol, symbol not in *allowed*, or a unit of another quantity.
+
+    References
+    ----------
+    .. [1] docs/design.md §3 (units written in the formula).
+
+    Examples
+    --------
+    >>> p = parse_phrase("h")
+    >>> p.symbol, p.unit
+    ('h', 'kJ/kg')
     """
     system = system or unit_system(None)
     m = _PHRASE.match(str(text))
@@ -779,6 +932,37 @@ def convert(value, from_unit: str, to_unit: str):
 
     Temperatures convert as absolute temperatures (27 degC -> 300.15 K); write ``dT`` units
     as ``delta_degC`` or use the same unit on both sides for a difference.
+
+    .. math:: x_2 = (x_1 f_1 + o_1 - o_2) / f_2
+
+    Parameters
+    ----------
+    value : float or array_like
+        The value in *from_unit*.
+    from_unit, to_unit : str
+        Units of one quantity.
+
+    Returns
+    -------
+    float or numpy.ndarray
+        The value in *to_unit*.
+
+    Raises
+    ------
+    BadInput
+        Units of different quantities, or an absolute temperature or pressure below zero.
+
+    References
+    ----------
+    .. [1] NIST Special Publication 811 (2008), *Guide for the Use of the International System
+       of Units*, Appendix B (conversion factors).
+
+    Examples
+    --------
+    >>> convert(100, "psig", "kPa")
+    790.8007293168364
+    >>> convert(10, "delta_degC", "delta_degF")
+    18.0
     """
     k1 = kind_of_unit(from_unit)
     k2 = kind_of_unit(to_unit)
