@@ -13,14 +13,14 @@ A notebook user writes a state with quantities and reads quantities back::
 Everything here is a thin layer: values are converted to SI once, handed to the same core
 functions the worksheet cells use (:mod:`joulebook.media`, :mod:`joulebook.processes`,
 :mod:`joulebook.firstlaw`), and the SI results are wrapped as quantities of the project's
-one pint registry (:func:`joulebook.units.registry`).  Plain numbers are read as SI (K, Pa,
+one pint registry (:func:`joulebook.units.registry`) [1]_.  Plain numbers are read as SI (K, Pa,
 m³, kg, J).  numpy arrays broadcast element by element, as a worksheet column does (a
 pandas Series is taken as its values, in order, and the results are numpy arrays in the same
 order); the first failing element raises its project error (:class:`BadInput`,
 :class:`OutOfRange`, :class:`NoConvergence`) with its index in the message.
 
 Sign convention: heat *into* the system and work *done by* the system are positive, so
-Q − W = ΔU for a closed system at rest.
+Q − W = ΔU for a closed system at rest [2]_.
 
 References
 ----------

@@ -94,7 +94,7 @@ def efficiency(Q_values, W_values, tolerance: float = 1e-6) -> float:
     W_values : array_like
         Works done by the system of each process (J).
     tolerance : float
-        Largest |gap| accepted, relative to Q_in.
+        Largest absolute gap accepted, relative to Q_in.
 
     Returns
     -------
@@ -104,7 +104,7 @@ def efficiency(Q_values, W_values, tolerance: float = 1e-6) -> float:
     Raises
     ------
     OutOfRange
-        No heat in, or a balance that does not close (|gap| > tolerance·Q_in).
+        No heat in, or a balance that does not close (absolute gap > tolerance·Q_in).
 
     References
     ----------

@@ -5,21 +5,21 @@ by* the system is positive, so the first law of a closed system at rest reads
 
     Q − W = ΔU = m·(u2 − u1).
 
-A process is a path from state 1 and one end condition.  Paths:
+A process is a path from state 1 and one end condition.  Paths::
 
-``rigid``                 v constant; W = 0 exactly
-``isobaric``              P constant; W = m·P·(v2 − v1), Q = m·(h2 − h1)
-``isothermal``            T constant; reversible, Q = m·T·(s2 − s1), W = Q − ΔU
-                          (= −ΔA: the isotherm's ∫P dv on the equation of state, across the
-                          saturation dome included)
-``isentropic``            s constant; Q = 0, W = −ΔU
-``polytropic n = …``      P·vⁿ = C; W = m·P1·v1·ln(r)·φ((1 − n)·ln r), r = v2/v1
-``linear slope = … kPa/m3``  P = P1 + slope·(V − V1) (spring-loaded piston);
-                          W = (P1 + P2)/2·(V2 − V1)
-``stops P = …``           piston resting on stops: rigid until P reaches the lift-off
-                          pressure, then isobaric at it
-``stops V = …``           the reverse: isobaric at P1 until the volume reaches the stops,
-                          then rigid
+    ``rigid``                 v constant; W = 0 exactly
+    ``isobaric``              P constant; W = m·P·(v2 − v1), Q = m·(h2 − h1)
+    ``isothermal``            T constant; reversible, Q = m·T·(s2 − s1), W = Q − ΔU
+                              (= −ΔA: the isotherm's ∫P dv on the equation of state, across the
+                              saturation dome included)
+    ``isentropic``            s constant; Q = 0, W = −ΔU
+    ``polytropic n = …``      P·vⁿ = C; W = m·P1·v1·ln(r)·φ((1 − n)·ln r), r = v2/v1
+    ``linear slope = … kPa/m3``  P = P1 + slope·(V − V1) (spring-loaded piston);
+                              W = (P1 + P2)/2·(V2 − V1)
+    ``stops P = …``           piston resting on stops: rigid until P reaches the lift-off
+                              pressure, then isobaric at it
+    ``stops V = …``           the reverse: isobaric at P1 until the volume reaches the stops,
+                              then rigid
 
 End conditions: V2, v2, P2, T2, x2, Q or W.  Every result has Q = ΔU + W by construction, and
 an end condition given as Q or W is met to the root-finder's tolerance (≪ 1e-9 relative).

@@ -7,7 +7,7 @@ of u alone, so the equation separates and the time to reach a target is the inte
 
     t = m · ∫ du / Q̇(u)      from u1 to u2,
 
-taken with Gauss–Legendre quadrature on the equation of state, piece by piece between the
+taken with Gauss–Legendre quadrature [2]_ on the equation of state, piece by piece between the
 phase boundaries the path crosses (where the integrand has a kink).  The heat rate is
 Q̇ = Q̇_const + UA·(T_source − T) + Q̇_fire(A_wet), each term optional.
 

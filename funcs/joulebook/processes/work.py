@@ -159,7 +159,7 @@ def polytropic_n(P1: float, V1: float, V2: float, n: float) -> float:
     Raises
     ------
     OutOfRange
-        Non-positive pressure or volume, |n| > 50, or an end pressure beyond any finite number.
+        Non-positive pressure or volume, n outside −50…50, or an end pressure beyond any finite number.
 
     References
     ----------
