@@ -32,6 +32,7 @@ import re
 import threading
 from dataclasses import dataclass
 from functools import lru_cache
+from typing import Any
 
 import numpy as np
 
@@ -90,13 +91,13 @@ class Conv:
     offset: float = 0.0
     unit: str = ""
 
-    def to_si(self, value):
+    def to_si(self, value: Any) -> Any:
         """The SI value of *value* (a float or an array) given in this unit."""
         if self.offset == 0.0:
             return value * self.factor if self.factor != 1.0 else value
         return value * self.factor + self.offset
 
-    def from_si(self, value):
+    def from_si(self, value: Any) -> Any:
         """The value in this unit of the SI *value* (a float or an array)."""
         if self.offset == 0.0:
             return value / self.factor if self.factor != 1.0 else value
@@ -235,25 +236,25 @@ SYMBOLS: dict[str, str] = {
 # ---------------------------------------------------------------------------------------
 # pint, loaded once and only when a unit string is first parsed
 
-_UREG = None
+_UREG: Any = None
 _UREG_LOCK = threading.Lock()
 
 
-def _ureg():
+def _ureg() -> Any:
     global _UREG
     if _UREG is None:
         with _UREG_LOCK:
             if _UREG is None:
                 import pint
 
-                ureg = pint.UnitRegistry()
+                ureg: Any = pint.UnitRegistry()
                 for line in _DEFINITIONS:
                     ureg.define(line)
                 _UREG = ureg
     return _UREG
 
 
-def registry():
+def registry() -> Any:
     """The project's one pint unit registry (built on first use, with the units below).
 
     Returns
@@ -589,7 +590,8 @@ def kind_of_unit(text: str, _quiet: bool = False) -> str | None:
     for word in _IDENT.findall(raw):
         if word in _AMBIGUOUS and not _quiet:
             raise BadInput(f"unit {text!r}: {_AMBIGUOUS[word]}")
-    base = _ATM.match(raw).group("unit").strip() if _ATM.match(raw) else raw
+    atm = _ATM.match(raw)
+    base = atm.group("unit").strip() if atm else raw
     if base in _GAUGE:
         return "pressure"
     ureg = _ureg()
@@ -766,6 +768,9 @@ def unit_system(text: str | None = None) -> UnitSystem:
     m_unit, vol_unit = fam["mass"], fam["volume"]
     d_unit = _DELTA_OF[_to_pint(t_unit, "temperature")]
     units = dict(_SI_DEFAULTS)
+    family: dict[str, str] = {
+        k: fam[k] for k in ("speed", "acceleration", "torque", "area") if k in fam
+    }
     units.update(
         {
             "temperature": t_unit,
@@ -780,7 +785,7 @@ def unit_system(text: str | None = None) -> UnitSystem:
             "specific_entropy": f"{e_unit}/({m_unit}*{d_unit})",
             "specific_heat": f"{e_unit}/({m_unit}*{d_unit})",
             "length": fam["length"],
-            **{k: fam[k] for k in ("speed", "acceleration", "torque", "area") if k in fam},
+            **family,
             "expansion_coefficient": f"1/{d_unit}",
             "compressibility": f"1/{_GAUGE.get(p_unit, p_unit)}",
             "joule_thomson": f"{d_unit}/{_GAUGE.get(p_unit, p_unit)}",
@@ -927,7 +932,7 @@ _SYMBOL_ALIASES = {
 }
 
 
-def convert(value, from_unit: str, to_unit: str):
+def convert(value: Any, from_unit: str, to_unit: str) -> Any:
     """Convert *value* between two units of the same quantity.
 
     Temperatures convert as absolute temperatures (27 degC -> 300.15 K); write ``dT`` units
@@ -964,8 +969,8 @@ def convert(value, from_unit: str, to_unit: str):
     >>> convert(10, "delta_degC", "delta_degF")
     18.0
     """
-    k1 = kind_of_unit(from_unit)
-    k2 = kind_of_unit(to_unit)
+    k1 = kind_of_unit(from_unit) or ""
+    k2 = kind_of_unit(to_unit) or ""
     if k1 != k2:
         raise BadInput(
             f"cannot convert {from_unit!r} ({KIND_WORDS.get(k1, k1)}) to {to_unit!r} "

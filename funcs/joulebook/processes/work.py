@@ -15,6 +15,7 @@ from __future__ import annotations
 import math
 
 import numpy as np
+from numpy.typing import ArrayLike
 
 from ..errors import BadInput, OutOfRange, fmt_value
 
@@ -268,26 +269,26 @@ def linear(P1: float, V1: float, P2: float, V2: float) -> float:
     return 0.5 * (P1 + P2) * (V2 - V1)
 
 
-def _clean_pairs(P: np.ndarray, V: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
-    P = np.asarray(P, dtype=float)
-    V = np.asarray(V, dtype=float)
-    if P.size != V.size:
-        raise BadInput(f"P_values has {P.size} cells but V_values has {V.size}; give equal lengths")
-    P, V = P.reshape(-1), V.reshape(-1)
-    blankP, blankV = np.isnan(P), np.isnan(V)
+def _clean_pairs(P: ArrayLike, V: ArrayLike) -> tuple[np.ndarray, np.ndarray]:
+    p = np.asarray(P, dtype=float)
+    v = np.asarray(V, dtype=float)
+    if p.size != v.size:
+        raise BadInput(f"P_values has {p.size} cells but V_values has {v.size}; give equal lengths")
+    p, v = p.reshape(-1), v.reshape(-1)
+    blankP, blankV = np.isnan(p), np.isnan(v)
     half = np.flatnonzero(blankP ^ blankV)
     if half.size:
         i = int(half[0])
         which = "P_values" if blankP[i] else "V_values"
         raise BadInput(f"point {i + 1}: {which} is blank but its partner is not")
     keep = ~(blankP | blankV)
-    P, V = P[keep], V[keep]
-    if P.size < 2:
-        raise BadInput(f"need at least 2 points of P and V (got {P.size} after blanks)")
-    return P, V
+    p, v = p[keep], v[keep]
+    if p.size < 2:
+        raise BadInput(f"need at least 2 points of P and V (got {p.size} after blanks)")
+    return p, v
 
 
-def from_pv(P, V, method: str = "trapezoid") -> float:
+def from_pv(P: ArrayLike, V: ArrayLike, method: str = "trapezoid") -> float:
     r"""Work from measured P–V points: Σ over segments of ∫P dV.
 
     .. math:: W = \sum_i \frac{P_i + P_{i+1}}{2} (V_{i+1} - V_i) \quad\text{(trapezoid)}
@@ -324,15 +325,15 @@ def from_pv(P, V, method: str = "trapezoid") -> float:
     >>> from_pv([1e5, 2e5, 3e5], [1e-3, 2e-3, 3e-3])
     400.0
     """
-    P, V = _clean_pairs(P, V)
+    p, v = _clean_pairs(P, V)
     m = (method or "trapezoid").strip().lower()
     if m in ("trapezoid", "trapezoidal", "linear"):
-        return float(np.sum(0.5 * (P[1:] + P[:-1]) * np.diff(V)))
+        return float(np.sum(0.5 * (p[1:] + p[:-1]) * np.diff(v)))
     if m in ("polytropic", "polytropic segments", "power"):
-        if (P <= 0).any() or (V <= 0).any():
-            i = int(np.flatnonzero((P <= 0) | (V <= 0))[0])
+        if (p <= 0).any() or (v <= 0).any():
+            i = int(np.flatnonzero((p <= 0) | (v <= 0))[0])
             raise OutOfRange(f"point {i + 1}: polytropic segments need P > 0 and V > 0")
         return float(
-            sum(polytropic_states(P[i], V[i], P[i + 1], V[i + 1]) for i in range(P.size - 1))
+            sum(polytropic_states(p[i], v[i], p[i + 1], v[i + 1]) for i in range(p.size - 1))
         )
     raise BadInput(f"method {method!r}: use trapezoid or polytropic")
