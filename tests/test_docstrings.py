@@ -14,9 +14,8 @@ from __future__ import annotations
 import importlib
 import inspect
 
+import numpydoc.docscrape as numpydoc
 import pytest
-
-numpydoc = pytest.importorskip("numpydoc.docscrape")
 
 MODULES = [
     "joulebook",

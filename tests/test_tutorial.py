@@ -9,14 +9,13 @@ from __future__ import annotations
 import doctest
 from pathlib import Path
 
-import pytest
-
 TUTORIAL = Path(__file__).resolve().parents[1] / "docs" / "tutorial.md"
 
 
 def test_tutorial_runs_as_written():
-    mpl = pytest.importorskip("matplotlib")
-    mpl.use("Agg")
+    import matplotlib
+
+    matplotlib.use("Agg")
     import matplotlib.pyplot as plt
 
     result = doctest.testfile(

@@ -12,7 +12,26 @@ Importing the package is instant: the API, pint and the property library load on
 
 from __future__ import annotations
 
-from typing import Any
+from typing import TYPE_CHECKING, Any
+
+if TYPE_CHECKING:  # the real types for type checkers; at run time they load on first use
+    from .api import (
+        Q_,
+        Process,
+        State,
+        balance_gap,
+        blocked_in_p2,
+        delta_ke,
+        delta_pe,
+        heat,
+        relief_thermal_flow,
+        work_isobaric,
+        work_isothermal,
+        work_linear,
+        work_polytropic,
+        work_pv,
+    )
+    from .units import registry
 
 __version__ = "0.1.0"
 
