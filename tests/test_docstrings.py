@@ -2,8 +2,9 @@
 docstring: a summary, each parameter named in Parameters, Returns, runnable Examples and
 numbered References; public methods and properties at least a summary line.
 
-Scope: the core (units, errors, roots, substances, states, media, processes, first law) and the
-Python faces (``joulebook``, ``joulebook.api``).  The worksheet adapters (formulas.py) are
+Scope: the core (units, errors, roots, substances, states, media, processes, first law), the
+cell-value rules both cell faces share (cellvalues) and the Python faces (``joulebook``,
+``joulebook.api``).  The worksheet adapters (formulas.py) are
 documented through their catalog entries (docs/functions.md); the workbook and sheet faces,
 the CLI, the demo and the generators are out of this rule (docs/design.md, "Python API").
 The examples themselves run in the default suite (``--doctest-modules`` in pyproject).
@@ -26,6 +27,7 @@ MODULES = [
     "joulebook.states",
     "joulebook.media",
     "joulebook.firstlaw",
+    "joulebook.cellvalues",
     "joulebook.substances.fluids",
     "joulebook.substances.gases",
     "joulebook.substances.solids",
