@@ -14,6 +14,7 @@ REFERENCE_TESTS = [
     "tests/test_daily_cases.py",
     "tests/test_fluid_transport.py",
     "tests/test_if97.py",
+    "tests/test_api.py",
 ]
 
 

@@ -56,7 +56,24 @@ _PREFIXES = tuple(f"{label}: " for label in ERROR_CODES)
 
 @dataclass(frozen=True)
 class ErrorValue:
-    """A failure as a spreadsheet error value: ``code`` is shown, ``message`` is kept."""
+    """A failure as a spreadsheet error value: ``code`` is shown, ``message`` is kept.
+
+    Parameters
+    ----------
+    code : str
+        The error value a cell shows: ``#VALUE!``, ``#NUM!`` or ``#N/A``.
+    message : str
+        The failure's text ``Label: message``, for ``JB_WHY`` and the audit.
+
+    References
+    ----------
+    .. [1] docs/design.md §4 (errors: the error style and the blank rule of both cell faces).
+
+    Examples
+    --------
+    >>> cell("JB_PROP", "water", "h", "T in K", 5000, "P in kPa", 100, errors="values").code
+    '#NUM!'
+    """
 
     code: str
     message: str
@@ -66,7 +83,32 @@ def error_style(text) -> str:
     """The error style named by the ``JB_ERRORS`` defined name's content (absent: "text").
 
     Accepts ``values`` / ``text`` as the name's constant, with or without the formula's
-    ``=`` and quotes, in any case."""
+    ``=`` and quotes, in any case.
+
+    Parameters
+    ----------
+    text : object
+        The defined name's content, or None when the workbook has no such name.
+
+    Returns
+    -------
+    str
+        ``"text"`` or ``"values"``.
+
+    Raises
+    ------
+    BadInput
+        Any other content.
+
+    References
+    ----------
+    .. [1] docs/design.md §4 (errors: the error style and the blank rule of both cell faces).
+
+    Examples
+    --------
+    >>> error_style('="Values"'), error_style(None)
+    ('values', 'text')
+    """
     if text is None:
         return "text"
     word = str(text).strip().lstrip("=").strip().strip('"').strip().lower()
@@ -79,14 +121,56 @@ def error_style(text) -> str:
 
 
 def message_of(value) -> str:
-    """The joulebook message a cell value carries ("" when it carries none)."""
+    """The joulebook message a cell value carries ("" when it carries none).
+
+    Parameters
+    ----------
+    value : object
+        A cell value: a number, text, or an :class:`ErrorValue`.
+
+    Returns
+    -------
+    str
+        The failure's text ``Label: message``, or the empty string.
+
+    References
+    ----------
+    .. [1] docs/design.md §4 (errors: the error style and the blank rule of both cell faces).
+
+    Examples
+    --------
+    >>> message_of(ErrorValue("#NUM!", "OutOfRange: x = 2 is outside 0–1"))
+    'OutOfRange: x = 2 is outside 0–1'
+    >>> message_of(3.5)
+    ''
+    """
     if isinstance(value, ErrorValue):
         return value.message
     return message_in(value)
 
 
 def unwrap(value):
-    """``[[v]]`` → ``v``; any other value unchanged."""
+    """``[[v]]`` → ``v``; any other value unchanged.
+
+    Parameters
+    ----------
+    value : object
+        A cell value or a 2-D list.
+
+    Returns
+    -------
+    object
+        The single cell's value of a 1×1 list, else *value* itself.
+
+    References
+    ----------
+    .. [1] docs/design.md §4 (errors: the error style and the blank rule of both cell faces).
+
+    Examples
+    --------
+    >>> unwrap([[4.0]]), unwrap([[1.0], [2.0]])
+    (4.0, [[1.0], [2.0]])
+    """
     if type(value) is list and len(value) == 1:
         row = value[0]
         if type(row) is list and len(row) == 1:
@@ -101,7 +185,31 @@ def _failure(text: str, errors: str):
 
 
 def to_cell(result, errors: str = "text"):
-    """A call result as a cell value or a 2-D list (blank elements stay None → empty cells)."""
+    """A call result as a cell value or a 2-D list (blank elements stay None → empty cells).
+
+    Parameters
+    ----------
+    result : object
+        What :func:`joulebook.catalog.call` returned: a number, text, None, an array or a list.
+    errors : str
+        The error style, ``"text"`` or ``"values"`` (failure texts inside a table become
+        :class:`ErrorValue` in the latter).
+
+    Returns
+    -------
+    object
+        A float, text, None, or a list of rows.
+
+    References
+    ----------
+    .. [1] docs/design.md §4 (errors: the error style and the blank rule of both cell faces).
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> to_cell(np.array([[1.0], [2.0]]))
+    [[1.0], [2.0]]
+    """
     if isinstance(result, (np.ndarray, list)):
         rows = as_rows(result)
         out = []
@@ -121,7 +229,38 @@ def to_cell(result, errors: str = "text"):
 
 
 def cell(name: str, *args, errors: str = "text"):
-    """Evaluate catalog function *name* for a cell in the given error style."""
+    """Evaluate catalog function *name* for a cell in the given error style.
+
+    A blank required input gives a blank (None); a failure gives its cell text or its
+    :class:`ErrorValue`; never an exception.
+
+    Parameters
+    ----------
+    name : str
+        A worksheet function name, ``"JB_PROP"`` …
+    *args : object
+        The cell values of its arguments (1×1 lists unwrapped).
+    errors : str
+        The error style, ``"text"`` (default) or ``"values"``.
+
+    Returns
+    -------
+    object
+        What the cell shows.
+
+    References
+    ----------
+    .. [1] docs/design.md §4 (errors: the error style and the blank rule of both cell faces).
+
+    Examples
+    --------
+    >>> cell("JB_WORK_ISOBARIC", 200, [[0.001]], 0.003)                 # kJ: 200 kPa · 2 L
+    0.4
+    >>> cell("JB_WORK_ISOBARIC", 200, None, 0.003) is None               # a blank input
+    True
+    >>> cell("JB_PROP", "water", "h", "T in K", 5000, "P in kPa", 100)[:12]
+    'OutOfRange: '
+    """
     try:
         return to_cell(call(name, *(unwrap(a) for a in args)), errors)
     except BlankInput:

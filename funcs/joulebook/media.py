@@ -37,7 +37,41 @@ _STATE_KEYS = fluids.INPUTS
 
 @dataclass(frozen=True)
 class Point:
-    """A state, SI: K, Pa, m³/kg, J/kg, J/(kg·K); x is None outside the two-phase region."""
+    r"""A state, SI: K, Pa, m³/kg, J/kg, J/(kg·K); x is None outside the two-phase region.
+
+    .. math:: h = u + P\,v
+
+    Parameters
+    ----------
+    T : float
+        Temperature (K).
+    P : float
+        Pressure (Pa).
+    v : float
+        Specific volume (m³/kg).
+    u : float
+        Specific internal energy (J/kg).
+    h : float
+        Specific enthalpy (J/kg).
+    s : float
+        Specific entropy (J/(kg·K)).
+    x : float or None
+        Quality (two-phase states only).
+    phase : str
+        The phase in words.
+
+    References
+    ----------
+    .. [1] E. W. Lemmon, I. H. Bell, M. L. Huber, M. O. McLinden, reference equations of
+       state as implemented by CoolProp: I. H. Bell et al., Ind. Eng. Chem. Res. 53 (2014)
+       2498–2508.
+
+    Examples
+    --------
+    >>> p = medium("water").point("T", 373.15, "x", 1.0)
+    >>> p.phase, round(p.P)
+    ('saturated vapor', 101418)
+    """
 
     T: float
     P: float
@@ -50,7 +84,32 @@ class Point:
 
 
 def split_substance(text: str) -> tuple[str, list[str], list[str]]:
-    """Split substance/state text into (name, model-constant parts, state-spec parts)."""
+    """Split substance/state text into (name, model-constant parts, state-spec parts).
+
+    Parameters
+    ----------
+    text : str
+        ``"air | k = 1.4 | T = 300 K | P = 1 bar"`` and the like.
+
+    Returns
+    -------
+    tuple
+        ``(name, [model constants], [state specifications])``.
+
+    Raises
+    ------
+    BadInput
+        A part that is not ``SYMBOL = value unit``.
+
+    References
+    ----------
+    .. [1] docs/design.md §9 (ideal gases in state text).
+
+    Examples
+    --------
+    >>> split_substance("air | k = 1.4 | T = 300 K | P = 1 bar")
+    ('air', ['k = 1.4'], ['T = 300 K', 'P = 1 bar'])
+    """
     parts = [p.strip() for p in str(text).split("|")]
     name = parts[0]
     consts, specs = [], []
@@ -69,7 +128,25 @@ def split_substance(text: str) -> tuple[str, list[str], list[str]]:
 
 
 class RealMedium:
-    """A real fluid on its reference equation of state."""
+    """A real fluid on its reference equation of state.
+
+    Parameters
+    ----------
+    info : FluidInfo
+        The fluid's constants and limits (:func:`joulebook.substances.fluids.fluid_info`).
+
+    References
+    ----------
+    .. [1] E. W. Lemmon, I. H. Bell, M. L. Huber, M. O. McLinden, reference equations of
+       state as implemented by CoolProp: I. H. Bell et al., Ind. Eng. Chem. Res. 53 (2014)
+       2498–2508.
+
+    Examples
+    --------
+    >>> w = medium("water")
+    >>> type(w).__name__, round(w.read("h", "T", 298.15, "P", 1e5))
+    ('RealMedium', 104919)
+    """
 
     ideal = False
 
@@ -80,9 +157,11 @@ class RealMedium:
         self.R = info.R
 
     def text(self) -> str:
+        """The fluid's name as substance text."""
         return self.name
 
     def point(self, a: str, va: float, b: str, vb: float, shows=None) -> Point:
+        """The :class:`Point` fixed by properties *a* = *va* and *b* = *vb* (SI)."""
         info = self.info
         st = fluids._flash(info, a, va, b, vb, shows)
         two = fluids._is_two_phase(st)
@@ -98,11 +177,39 @@ class RealMedium:
         )
 
     def read(self, want: str, a: str, va: float, b: str, vb: float, shows=None):
+        """Property *want* (SI) at the state fixed by *a* = *va* and *b* = *vb*."""
         return fluids.state_props(self.name, [want], a, va, b, vb, shows)[0]
 
 
 class IdealMedium:
-    """An ideal gas (P·v = R·T) with c_p(T) or constant c_p."""
+    r"""An ideal gas (P·v = R·T) with c_p(T) or constant c_p.
+
+    .. math:: h = h^0(T), \quad u = h - R\,T, \quad s = s^0(T) - R \ln(P/P_0)
+
+    with P₀ = 101.325 kPa.
+
+    Parameters
+    ----------
+    g : GasModel
+        The gas model (:func:`joulebook.substances.gases.gas_model`).
+    text : str
+        The substance text it was named by.
+
+    References
+    ----------
+    .. [1] E. W. Lemmon, I. H. Bell, M. L. Huber, M. O. McLinden, reference equations of
+       state as implemented by CoolProp: I. H. Bell et al., Ind. Eng. Chem. Res. 53 (2014)
+       2498–2508.
+    .. [2] Y. A. Çengel, M. A. Boles, *Thermodynamics: An Engineering Approach*, 9th ed.,
+       2019, §4-4 and §7-9 (ideal-gas u, h and s).
+
+    Examples
+    --------
+    >>> air = medium("air | k = 1.4")
+    >>> p = air.point("T", 300.0, "P", 1e5)
+    >>> round(p.v, 5)                                   # R·T/P
+    0.86115
+    """
 
     ideal = True
 
@@ -114,18 +221,22 @@ class IdealMedium:
         self._text = text
 
     def text(self) -> str:
+        """The substance text the gas was named by."""
         return self._text
 
     # --- the model's temperature functions --------------------------------------------
     def h_T(self, T: float) -> float:
+        """Specific enthalpy h⁰(T) (J/kg), zero at 298.15 K for constant c_p."""
         g = self.g
         gases._check_T(g, T)
         return g.cp_const * (T - _T_REF) if g.constant else gases._ig(g.internal, T)[1]
 
     def u_T(self, T: float) -> float:
+        """Specific internal energy u = h⁰(T) − R·T (J/kg)."""
         return self.h_T(T) - self.R * T
 
     def s0_T(self, T: float) -> float:
+        """Standard-state entropy s⁰(T) at P₀ = 101.325 kPa (J/(kg·K))."""
         g = self.g
         gases._check_T(g, T)
         return g.cp_const * math.log(T / _T_REF) if g.constant else gases._ig(g.internal, T)[2]
@@ -153,6 +264,7 @@ class IdealMedium:
 
     # --- flashing ------------------------------------------------------------------------
     def TP(self, a: str, va: float, b: str, vb: float) -> tuple[float, float]:
+        """Temperature and pressure (K, Pa) fixed by *a* = *va* and *b* = *vb*."""
         if a == b:
             raise BadInput(f"{self.name}: the two state properties must differ (both are {a})")
         vals = {a: va, b: vb}
@@ -199,6 +311,7 @@ class IdealMedium:
         return T, P
 
     def point(self, a: str, va: float, b: str, vb: float, shows=None) -> Point:
+        """The :class:`Point` fixed by properties *a* = *va* and *b* = *vb* (SI)."""
         T, P = self.TP(a, va, b, vb)
         h = self.h_T(T)
         return Point(
@@ -213,6 +326,7 @@ class IdealMedium:
         )
 
     def read(self, want: str, a: str, va: float, b: str, vb: float, shows=None):
+        """Property *want* (SI) at the state fixed by *a* = *va* and *b* = *vb*."""
         p = self.point(a, va, b, vb, shows)
         simple = {
             "T": p.T,
@@ -285,7 +399,24 @@ class _TabulatedMedium:
 
 
 class MixtureMedium(_TabulatedMedium):
-    """A mixture by composition on the multi-fluid model (substances/mixtures.py)."""
+    """A mixture by composition on the multi-fluid model (substances/mixtures.py).
+
+    Parameters
+    ----------
+    text : str
+        Mixture text, e.g. ``"methane 0.9, ethane 0.1"`` or a blend name ``"R410A"``.
+
+    References
+    ----------
+    .. [1] O. Kunz, W. Wagner, "The GERG-2008 wide-range equation of state for natural gases
+       and other mixtures", J. Chem. Eng. Data 57 (2012) 3032–3091 (the model's form).
+
+    Examples
+    --------
+    >>> mix = medium("methane 0.9, ethane 0.1")
+    >>> mix.point("T", 300.0, "P", 5e6).phase
+    'single phase (mixture)'
+    """
 
     info = None
     _NOT_OFFERED = " for mixtures"
@@ -300,6 +431,7 @@ class MixtureMedium(_TabulatedMedium):
         self.R = 8.314462618 / mixtures.molar_mass(self.mix)
 
     def point(self, a: str, va: float, b: str, vb: float, shows=None) -> Point:
+        """The :class:`Point` at T–P, or at T or P with x (bubble 0, dew 1)."""
         pair = {a: va, b: vb}
         if set(pair) == {"T", "P"}:
             T, P, v, u, h, s = self._mx.at_TP(self.mix, pair["T"], pair["P"])
@@ -319,7 +451,19 @@ class MixtureMedium(_TabulatedMedium):
 
 
 class IF97Medium(_TabulatedMedium):
-    """Water by the industrial formulation IAPWS-IF97 (substances/if97.py)."""
+    """Water by the industrial formulation IAPWS-IF97 (substances/if97.py).
+
+    References
+    ----------
+    .. [1] IAPWS R7-97(2012), *Revised Release on the IAPWS Industrial Formulation 1997 for
+       the Thermodynamic Properties of Water and Steam*.
+
+    Examples
+    --------
+    >>> w = medium("water (IF97)")
+    >>> round(w.point("T", 300.0, "P", 3e6).h / 1e3, 6)    # IF97 Table 5: 115.331273 kJ/kg
+    115.331273
+    """
 
     _NOT_OFFERED = " with IF97; write water (IAPWS-95) for it"
 
@@ -333,6 +477,7 @@ class IF97Medium(_TabulatedMedium):
         self.R = self.info.R
 
     def point(self, a: str, va: float, b: str, vb: float, shows=None) -> Point:
+        """The :class:`Point` fixed by *a* = *va* and *b* = *vb* on IAPWS-IF97."""
         T, P, v, u, h, s, x = self._if97.flash(a, va, b, vb)
         if x is not None:
             words = {0.0: "saturated liquid", 1.0: "saturated vapor"}
@@ -374,7 +519,39 @@ def _explicit_unit(part: str, system: UnitSystem) -> str:
 
 @lru_cache(maxsize=1024)
 def medium(text: str, system: UnitSystem | None = None):
-    """The medium named by substance text (state-spec parts, if any, are ignored here)."""
+    """The medium named by substance text (state-spec parts, if any, are ignored here).
+
+    Parameters
+    ----------
+    text : str
+        ``"water"`` (a real fluid), ``"water (IF97)"``, ``"air (ideal gas)"`` (c_p(T)),
+        ``"air | k = 1.4"`` (constant c_p), a mixture ``"methane 0.9, ethane 0.1"``.
+    system : UnitSystem, optional
+        The unit system of model constants written without a unit (``cp = 1.005``).
+
+    Returns
+    -------
+    RealMedium or IdealMedium or MixtureMedium or IF97Medium
+        The medium, cached per text and system.
+
+    Raises
+    ------
+    BadInput
+        Unknown substance or malformed model constants.
+
+    References
+    ----------
+    .. [1] E. W. Lemmon, I. H. Bell, M. L. Huber, M. O. McLinden, reference equations of
+       state as implemented by CoolProp: I. H. Bell et al., Ind. Eng. Chem. Res. 53 (2014)
+       2498–2508.
+    .. [2] Y. A. Çengel, M. A. Boles, *Thermodynamics: An Engineering Approach*, 9th ed.,
+       2019, §4-4 and §7-9 (ideal-gas u, h and s).
+
+    Examples
+    --------
+    >>> medium("air (ideal gas)").text()
+    'air (ideal gas)'
+    """
     system = system or unit_system(None)
     name, consts, _specs = split_substance(text)
     if _IF97_RE.match(name) and not consts:

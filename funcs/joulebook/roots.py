@@ -21,11 +21,49 @@ def brent(
     maxiter: int = 200,
     what: str = "root",
 ) -> float:
-    """Brent's method on a bracket ``[a, b]`` with ``f(a)·f(b) ≤ 0``.
+    r"""Brent's method on a bracket ``[a, b]`` with ``f(a)·f(b) ≤ 0``.
+
+    Inverse quadratic interpolation and the secant step where they stay inside the bracket,
+    bisection otherwise, so the bracket shrinks every step:
+
+    .. math:: f(x^*) = 0, \qquad |x - x^*| \le \mathrm{xtol} + \mathrm{rtol}\,|x|
+
+    Parameters
+    ----------
+    f : callable
+        A function of one float (in whatever unit *a* and *b* are in).
+    a, b : float
+        The bracket's ends.
+    fa, fb : float, optional
+        ``f(a)`` and ``f(b)`` when already known (saves two calls).
+    xtol : float
+        Absolute tolerance on the root.
+    rtol : float
+        Relative tolerance on the root.
+    maxiter : int
+        Iterations before giving up.
+    what : str
+        What is being solved, for the messages.
+
+    Returns
+    -------
+    float
+        The root.
+
+    Raises
+    ------
+    NoConvergence
+        No bracket (same signs at both ends) or no convergence within *maxiter*.
 
     References
     ----------
-    R. P. Brent, *Algorithms for Minimization without Derivatives*, Prentice-Hall, 1973, ch. 4.
+    .. [1] R. P. Brent, *Algorithms for Minimization without Derivatives*, Prentice-Hall,
+       1973, ch. 4.
+
+    Examples
+    --------
+    >>> round(brent(lambda x: x * x - 2.0, 0.0, 2.0), 12)
+    1.414213562373
     """
     fa = f(a) if fa is None else fa
     fb = f(b) if fb is None else fb
@@ -83,6 +121,34 @@ def scan_roots(
     closer together than the grid's spacing leave no sign change; where three neighbouring
     points have one sign and the middle one is nearest zero, the extremum between them is
     found by golden-section search, and if *f* changes sign there both roots are kept.
+
+    Parameters
+    ----------
+    f : callable
+        A function of one float.
+    grid : sequence of float
+        Increasing points to scan.
+    what : str
+        What is being solved, for the messages.
+    xtol : float
+        Absolute tolerance of each root.
+
+    Returns
+    -------
+    list of float
+        The roots in increasing order (empty when there is none).
+
+    References
+    ----------
+    .. [1] R. P. Brent, *Algorithms for Minimization without Derivatives*, Prentice-Hall,
+       1973, ch. 4.
+    .. [2] J. Kiefer, "Sequential minimax search for a maximum", Proc. Amer. Math. Soc. 4
+       (1953) 502–506.
+
+    Examples
+    --------
+    >>> [round(r, 9) for r in scan_roots(lambda x: (x - 1.0) * (x - 3.0), [0.0, 2.0, 4.0])]
+    [1.0, 3.0]
     """
     roots: list[float] = []
     pts: list[tuple[float, float] | None] = []
@@ -148,11 +214,38 @@ def golden_min(
     iters: int = 60,
     stop_below: float | None = None,
 ):
-    """The minimum of *g* on [a, b] by golden-section search [1]_: (x, g(x)); with
-    *stop_below*, as soon as a value under it is found.
+    """The minimum of *g* on [a, b] by golden-section search.
 
+    Each step keeps the part of the interval that holds the smaller value, shrinking it by
+    the golden ratio r = (√5 − 1)/2.
+
+    Parameters
+    ----------
+    g : callable
+        A function of one float, unimodal on [a, b].
+    a, b : float
+        The interval.
+    iters : int
+        Number of steps (the interval shrinks by r each).
+    stop_below : float, optional
+        Stop as soon as a value under it is found.
+
+    Returns
+    -------
+    tuple of float
+        ``(x, g(x))`` at the smallest value found.
+
+    References
+    ----------
     .. [1] J. Kiefer, "Sequential minimax search for a maximum", Proc. Amer. Math. Soc. 4
-       (1953) 502–506."""
+       (1953) 502–506.
+
+    Examples
+    --------
+    >>> x, gx = golden_min(lambda x: (x - 2.0) ** 2, 0.0, 5.0)
+    >>> round(x, 6), round(gx, 12)
+    (2.0, 0.0)
+    """
     r = (math.sqrt(5.0) - 1.0) / 2.0
     c, d = b - r * (b - a), a + r * (b - a)
     gc, gd = g(c), g(d)

@@ -26,25 +26,66 @@ STATE_INPUTS = fluids.INPUTS
 
 @dataclass(frozen=True)
 class State:
-    """A fluid and two specifications, each with the value as written and its unit phrase."""
+    """A fluid and two specifications, each with the value as written and its unit phrase.
+
+    Parameters
+    ----------
+    fluid : str
+        Substance text of the medium: ``"water"``, ``"air (ideal gas)"``, ``"air | k = 1.4"``.
+    specs : tuple
+        Two ``(Phrase, value)`` pairs, the value in the phrase's unit.
+
+    References
+    ----------
+    .. [1] docs/design.md §3 (state text: the text is the state).
+
+    Examples
+    --------
+    >>> st = parse_state("water | T = 25 degC | P = 200 kPa")
+    >>> st.si()
+    ('T', 298.15, 'P', 200000.0)
+    """
 
     fluid: str  # substance text of the medium: "water", "air (ideal gas)", "air | k = 1.4"
     specs: tuple[tuple[Phrase, float], tuple[Phrase, float]]
 
     @property
     def medium(self):
+        """The medium (:func:`joulebook.media.medium`) of the state's fluid."""
         return medium(self.fluid)
 
     def si(self) -> tuple[str, float, str, float]:
+        """The two specifications in SI: ``(symbol1, value1, symbol2, value2)``."""
         (p1, v1), (p2, v2) = self.specs
         return p1.symbol, p1.conv.to_si(v1), p2.symbol, p2.conv.to_si(v2)
 
     def shows(self) -> dict:
+        """The unit each specification was written in, for messages (symbol → Conv)."""
         return {p.symbol: p.conv for p, _ in self.specs}
 
 
 def format_number(x: float) -> str:
-    """Shortest text that reads back to the same float (``25`` not ``25.0``)."""
+    """Shortest text that reads back to the same float (``25`` not ``25.0``).
+
+    Parameters
+    ----------
+    x : float
+        The number.
+
+    Returns
+    -------
+    str
+        Its shortest round-tripping text.
+
+    References
+    ----------
+    .. [1] docs/design.md §3 (state text: the text is the state).
+
+    Examples
+    --------
+    >>> format_number(25.0), format_number(0.1 + 0.2)
+    ('25', '0.30000000000000004')
+    """
     x = float(x)
     if math.isfinite(x) and x == int(x) and abs(x) < 1e15:
         return str(int(x))
@@ -52,7 +93,27 @@ def format_number(x: float) -> str:
 
 
 def is_state_text(text: object) -> bool:
-    """True for text that fixes a state (a substance plus two ``SYMBOL = value`` parts)."""
+    """True for text that fixes a state (a substance plus two ``SYMBOL = value`` parts).
+
+    Parameters
+    ----------
+    text : object
+        A cell value.
+
+    Returns
+    -------
+    bool
+        Whether it is (or tries to be) state text.
+
+    References
+    ----------
+    .. [1] docs/design.md §3 (state text: the text is the state).
+
+    Examples
+    --------
+    >>> is_state_text("water | T = 25 degC | P = 2 bar"), is_state_text("water")
+    (True, False)
+    """
     if not isinstance(text, str) or "|" not in text:
         return False
     try:
@@ -62,6 +123,37 @@ def is_state_text(text: object) -> bool:
 
 
 def spec_phrase(text: object, arg: str, system: UnitSystem) -> Phrase:
+    """The unit phrase of a state specification (``"T in degC"``), checked.
+
+    Parameters
+    ----------
+    text : object
+        The phrase as given.
+    arg : str
+        The argument's name, for messages.
+    system : UnitSystem
+        Unit system of a bare symbol.
+
+    Returns
+    -------
+    Phrase
+        Symbol (one of T P v rho u h s x), kind, unit and SI map.
+
+    Raises
+    ------
+    BadInput
+        Not text, or not a state property with a unit of its quantity.
+
+    References
+    ----------
+    .. [1] docs/design.md §3 (state text: the text is the state).
+
+    Examples
+    --------
+    >>> from joulebook.units import unit_system
+    >>> spec_phrase("P in bar", "spec1", unit_system(None)).conv.factor
+    100000.0
+    """
     if not isinstance(text, str) or not text.strip():
         raise BadInput(f"{arg} must be a property phrase such as 'T in degC' (got {text!r})")
     try:
@@ -71,6 +163,27 @@ def spec_phrase(text: object, arg: str, system: UnitSystem) -> Phrase:
 
 
 def format_state(st: State) -> str:
+    """The state text of *st*: ``substance | SYM = value unit | SYM = value unit``.
+
+    Parameters
+    ----------
+    st : State
+        The state.
+
+    Returns
+    -------
+    str
+        Its text; reading it back with :func:`parse_state` gives the same state.
+
+    References
+    ----------
+    .. [1] docs/design.md §3 (state text: the text is the state).
+
+    Examples
+    --------
+    >>> format_state(parse_state("water|T=25 degC|P=200 kPa"))
+    'water | T = 25 degC | P = 200 kPa'
+    """
     parts = [st.fluid]
     for p, v in st.specs:
         unit = f" {p.unit}" if p.unit else ""
@@ -87,10 +200,29 @@ _SPEC = re.compile(
 def parse_state(text: str) -> State:
     """Parse state text ``substance | SYM = value unit | SYM = value unit``.
 
+    Parameters
+    ----------
+    text : str
+        The state text, e.g. ``water | T = 25 degC | P = 200 kPa``.
+
+    Returns
+    -------
+    State
+        The fluid and its two specifications.
+
     Raises
     ------
     BadInput
         Malformed text, unknown fluid, symbol or unit.
+
+    References
+    ----------
+    .. [1] docs/design.md §3 (state text: the text is the state).
+
+    Examples
+    --------
+    >>> parse_state("air | k = 1.4 | T = 300 K | P = 1 bar").fluid
+    'air | k = 1.4'
     """
     name, consts, parts = split_substance(text)
     if len(parts) != 2:
@@ -117,7 +249,34 @@ def parse_state(text: str) -> State:
 
 
 def make_state(fluid: str, spec1, value1: float, spec2, value2: float, system: UnitSystem) -> State:
-    """Build a :class:`State` from worksheet arguments (values in the phrases' units)."""
+    """Build a :class:`State` from worksheet arguments (values in the phrases' units).
+
+    Parameters
+    ----------
+    fluid : str
+        Substance text.
+    spec1, spec2 : str
+        Unit phrases of the two specifications (``"T in degC"``).
+    value1, value2 : float
+        Their values, in the phrases' units.
+    system : UnitSystem
+        Unit system of bare symbols.
+
+    Returns
+    -------
+    State
+        The state (not yet checked against the fluid's model).
+
+    References
+    ----------
+    .. [1] docs/design.md §3 (state text: the text is the state).
+
+    Examples
+    --------
+    >>> from joulebook.units import unit_system
+    >>> format_state(make_state("water", "T in degC", 25, "P in bar", 2, unit_system(None)))
+    'water | T = 25 degC | P = 2 bar'
+    """
     med = medium(fluid, system)
     p1 = spec_phrase(spec1, "spec1", system)
     p2 = spec_phrase(spec2, "spec2", system)

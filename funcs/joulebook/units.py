@@ -32,6 +32,7 @@ import re
 import threading
 from dataclasses import dataclass
 from functools import lru_cache
+from typing import Any
 
 import numpy as np
 
@@ -50,6 +51,7 @@ __all__ = [
     "convert",
     "kind_of_unit",
     "DEFAULT_SYSTEM",
+    "registry",
 ]
 
 #: standard atmosphere, Pa (the default reference of gauge pressure)
@@ -59,18 +61,44 @@ DEFAULT_SYSTEM = "K-kPa-kJ"
 
 @dataclass(frozen=True)
 class Conv:
-    """Linear map from a unit to SI: ``si = value * factor + offset``."""
+    r"""Linear map from a unit to SI.
+
+    .. math:: x_{SI} = x \cdot \mathrm{factor} + \mathrm{offset}
+
+    Parameters
+    ----------
+    factor : float
+        SI value of one unit (1e3 for kPa, 0.3048 for ft).
+    offset : float
+        SI value of the unit's zero (273.15 for degC, the atmospheric reference of a gauge
+        pressure); 0 for most units.
+    unit : str
+        The unit as written.
+
+    References
+    ----------
+    .. [1] NIST Special Publication 811 (2008), *Guide for the Use of the International System
+       of Units*, Appendix B (conversion factors).
+
+    Examples
+    --------
+    >>> c = Conv(1.0, 273.15, "degC")
+    >>> c.to_si(25.0), round(c.from_si(300.0), 2)
+    (298.15, 26.85)
+    """
 
     factor: float
     offset: float = 0.0
     unit: str = ""
 
-    def to_si(self, value):
+    def to_si(self, value: Any) -> Any:
+        """The SI value of *value* (a float or an array) given in this unit."""
         if self.offset == 0.0:
             return value * self.factor if self.factor != 1.0 else value
         return value * self.factor + self.offset
 
-    def from_si(self, value):
+    def from_si(self, value: Any) -> Any:
+        """The value in this unit of the SI *value* (a float or an array)."""
         if self.offset == 0.0:
             return value / self.factor if self.factor != 1.0 else value
         return (value - self.offset) / self.factor
@@ -208,22 +236,44 @@ SYMBOLS: dict[str, str] = {
 # ---------------------------------------------------------------------------------------
 # pint, loaded once and only when a unit string is first parsed
 
-_UREG = None
+_UREG: Any = None
 _UREG_LOCK = threading.Lock()
 
 
-def _ureg():
+def _ureg() -> Any:
     global _UREG
     if _UREG is None:
         with _UREG_LOCK:
             if _UREG is None:
                 import pint
 
-                ureg = pint.UnitRegistry()
+                ureg: Any = pint.UnitRegistry()
                 for line in _DEFINITIONS:
                     ureg.define(line)
                 _UREG = ureg
     return _UREG
+
+
+def registry() -> Any:
+    """The project's one pint unit registry (built on first use, with the units below).
+
+    Returns
+    -------
+    pint.UnitRegistry
+        The registry every quantity of :mod:`joulebook.api` belongs to; the worksheet's unit
+        parsing reads the same one.
+
+    References
+    ----------
+    .. [1] pint documentation, *Defining units*, https://pint.readthedocs.io.
+
+    Examples
+    --------
+    >>> ureg = registry()
+    >>> round(ureg.Quantity(1, "TR").to("kW").magnitude, 4)   # ton of refrigeration
+    3.5169
+    """
+    return _ureg()
 
 
 #: units engineers use that pint lacks or spells otherwise [1]_ [2]_ [3]_
@@ -350,7 +400,9 @@ def _to_pint(text: str, kind: str | None) -> str:
 
 @lru_cache(maxsize=4096)
 def parse_unit(text: str, kind: str) -> Conv:
-    """Parse *text* as a unit of quantity *kind* and return its cached SI map.
+    r"""Parse *text* as a unit of quantity *kind* and return its cached SI map.
+
+    .. math:: x_{SI} = x \cdot \mathrm{factor} + \mathrm{offset}
 
     Parameters
     ----------
@@ -369,6 +421,18 @@ def parse_unit(text: str, kind: str) -> Conv:
     ------
     BadInput
         Unknown unit, or a unit of another quantity (a pressure unit given for T).
+
+    References
+    ----------
+    .. [1] NIST Special Publication 811 (2008), *Guide for the Use of the International System
+       of Units*, Appendix B (conversion factors).
+
+    Examples
+    --------
+    >>> parse_unit("kJ/kg.K", "specific_heat").factor
+    1000.0
+    >>> parse_unit("psig", "pressure").to_si(0.0)                 # gauge zero: 1 atm
+    101325.0
     """
     if kind not in KINDS:
         raise BadInput(f"unknown quantity kind {kind!r}")
@@ -493,12 +557,41 @@ _EXAMPLE_UNITS = {
 
 
 def kind_of_unit(text: str, _quiet: bool = False) -> str | None:
-    """The quantity kind a unit string belongs to (temperature wins over difference)."""
+    """The quantity kind a unit string belongs to (temperature wins over difference).
+
+    Parameters
+    ----------
+    text : str
+        A unit as typed.
+
+    Returns
+    -------
+    str or None
+        A key of :data:`KINDS`.
+
+    Raises
+    ------
+    BadInput
+        Unknown unit, or one of no quantity joulebook converts.
+
+    References
+    ----------
+    .. [1] NIST Special Publication 811 (2008), *Guide for the Use of the International System
+       of Units*, Appendix B (conversion factors).
+
+    Examples
+    --------
+    >>> kind_of_unit("Btu/lbm")
+    'specific_energy'
+    >>> kind_of_unit("degF")
+    'temperature'
+    """
     raw = _spelled(str(text).strip())
     for word in _IDENT.findall(raw):
         if word in _AMBIGUOUS and not _quiet:
             raise BadInput(f"unit {text!r}: {_AMBIGUOUS[word]}")
-    base = _ATM.match(raw).group("unit").strip() if _ATM.match(raw) else raw
+    atm = _ATM.match(raw)
+    base = atm.group("unit").strip() if atm else raw
     if base in _GAUGE:
         return "pressure"
     ureg = _ureg()
@@ -529,15 +622,33 @@ class UnitSystem:
 
     Instances come from the cached :func:`unit_system`, so identity is equality (and hashing
     is cheap, which matters: systems key several caches on the hot path).
+
+    Parameters
+    ----------
+    name : str
+        The text it was parsed from (``"degC-bar-kJ"``).
+    units : tuple of (str, str)
+        ``(kind, unit text)`` pairs, one per kind of :data:`KINDS`.
+
+    References
+    ----------
+    .. [1] docs/units.md (the unit systems and their defaults).
+
+    Examples
+    --------
+    >>> unit_system("degF-psia-Btu").unit("specific_energy")
+    'Btu/lbm'
     """
 
     name: str
     units: tuple[tuple[str, str], ...]  # (kind, unit text)
 
     def unit(self, kind: str) -> str:
+        """The default unit text of quantity *kind* in this system."""
         return dict(self.units)[kind]
 
     def conv(self, kind: str) -> Conv:
+        """The cached SI map (:class:`Conv`) of the default unit of *kind*."""
         return _system_convs(self)[kind]
 
 
@@ -600,10 +711,31 @@ def _energy_family(energy_unit: str) -> dict[str, str]:
 def unit_system(text: str | None = None) -> UnitSystem:
     """Parse a unit-system text: a name such as ``degC-bar-kJ`` and/or overrides ``"P=psig"``.
 
+    Parameters
+    ----------
+    text : str, optional
+        ``K-kPa-kJ`` (the default when empty), ``K-Pa-J``, ``degC-bar-kJ``, ``degF-psia-Btu``,
+        ``R-psia-Btu``, optionally followed by per-symbol overrides ``"P=psig, V=L"``.
+
+    Returns
+    -------
+    UnitSystem
+        The system, cached (the same object for the same text).
+
     Raises
     ------
     BadInput
         Unknown name part, unknown symbol in an override, or a unit of the wrong quantity.
+
+    References
+    ----------
+    .. [1] docs/units.md (the unit systems and their defaults).
+
+    Examples
+    --------
+    >>> s = unit_system("degC-bar-kJ, V=L")
+    >>> s.unit("pressure"), s.unit("volume"), s.unit("specific_heat")
+    ('bar', 'L', 'kJ/(kg*K)')
     """
     raw = DEFAULT_SYSTEM if text is None or str(text).strip() == "" else str(text).strip()
     parts = [p.strip() for p in re.split(r"[;,]", raw) if p.strip()]
@@ -636,6 +768,9 @@ def unit_system(text: str | None = None) -> UnitSystem:
     m_unit, vol_unit = fam["mass"], fam["volume"]
     d_unit = _DELTA_OF[_to_pint(t_unit, "temperature")]
     units = dict(_SI_DEFAULTS)
+    family: dict[str, str] = {
+        k: fam[k] for k in ("speed", "acceleration", "torque", "area") if k in fam
+    }
     units.update(
         {
             "temperature": t_unit,
@@ -650,7 +785,7 @@ def unit_system(text: str | None = None) -> UnitSystem:
             "specific_entropy": f"{e_unit}/({m_unit}*{d_unit})",
             "specific_heat": f"{e_unit}/({m_unit}*{d_unit})",
             "length": fam["length"],
-            **{k: fam[k] for k in ("speed", "acceleration", "torque", "area") if k in fam},
+            **family,
             "expansion_coefficient": f"1/{d_unit}",
             "compressibility": f"1/{_GAUGE.get(p_unit, p_unit)}",
             "joule_thomson": f"{d_unit}/{_GAUGE.get(p_unit, p_unit)}",
@@ -693,7 +828,28 @@ def unit_system(text: str | None = None) -> UnitSystem:
 
 @dataclass(frozen=True)
 class Phrase:
-    """A parsed unit phrase such as ``"T in degC"``."""
+    """A parsed unit phrase such as ``"T in degC"``.
+
+    Parameters
+    ----------
+    symbol : str
+        The trade symbol (``T``, ``P``, ``h``, …; see :data:`SYMBOLS`).
+    kind : str
+        Its quantity kind.
+    unit : str
+        The unit as written (or the system's default).
+    conv : Conv
+        The unit's SI map.
+
+    References
+    ----------
+    .. [1] docs/design.md §3 (units written in the formula).
+
+    Examples
+    --------
+    >>> parse_phrase("T in degC").conv.to_si(25)
+    298.15
+    """
 
     symbol: str
     kind: str
@@ -710,10 +866,35 @@ _PHRASE = re.compile(
 def parse_phrase(text: str, system: UnitSystem | None = None, allowed: tuple = ()) -> Phrase:
     """Parse ``"<symbol> in <unit>"`` (or a bare symbol) into symbol, kind and SI map.
 
+    Parameters
+    ----------
+    text : str
+        ``"T in degC"``, ``"h in kJ/kg"``, ``"P [bar]"``, or a bare symbol ``"h"`` (the system's
+        default unit).
+    system : UnitSystem, optional
+        The unit system of bare symbols (``K-kPa-kJ`` unless given).
+    allowed : tuple of str
+        The symbols accepted (any of :data:`SYMBOLS` when empty).
+
+    Returns
+    -------
+    Phrase
+        Symbol, kind, unit and SI map.
+
     Raises
     ------
     BadInput
         Unknown symbol, symbol not in *allowed*, or a unit of another quantity.
+
+    References
+    ----------
+    .. [1] docs/design.md §3 (units written in the formula).
+
+    Examples
+    --------
+    >>> p = parse_phrase("h")
+    >>> p.symbol, p.unit
+    ('h', 'kJ/kg')
     """
     system = system or unit_system(None)
     m = _PHRASE.match(str(text))
@@ -751,14 +932,45 @@ _SYMBOL_ALIASES = {
 }
 
 
-def convert(value, from_unit: str, to_unit: str):
+def convert(value: Any, from_unit: str, to_unit: str) -> Any:
     """Convert *value* between two units of the same quantity.
 
     Temperatures convert as absolute temperatures (27 degC -> 300.15 K); write ``dT`` units
     as ``delta_degC`` or use the same unit on both sides for a difference.
+
+    .. math:: x_2 = (x_1 f_1 + o_1 - o_2) / f_2
+
+    Parameters
+    ----------
+    value : float or array_like
+        The value in *from_unit*.
+    from_unit, to_unit : str
+        Units of one quantity.
+
+    Returns
+    -------
+    float or numpy.ndarray
+        The value in *to_unit*.
+
+    Raises
+    ------
+    BadInput
+        Units of different quantities, or an absolute temperature or pressure below zero.
+
+    References
+    ----------
+    .. [1] NIST Special Publication 811 (2008), *Guide for the Use of the International System
+       of Units*, Appendix B (conversion factors).
+
+    Examples
+    --------
+    >>> convert(100, "psig", "kPa")
+    790.8007293168364
+    >>> convert(10, "delta_degC", "delta_degF")
+    18.0
     """
-    k1 = kind_of_unit(from_unit)
-    k2 = kind_of_unit(to_unit)
+    k1 = kind_of_unit(from_unit) or ""
+    k2 = kind_of_unit(to_unit) or ""
     if k1 != k2:
         raise BadInput(
             f"cannot convert {from_unit!r} ({KIND_WORDS.get(k1, k1)}) to {to_unit!r} "

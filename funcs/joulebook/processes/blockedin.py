@@ -51,7 +51,10 @@ SHAPES = ("cylinder", "sphere")
 
 
 def compliance(shape: str, D: float, t: float, E: float, nu: float) -> float:
-    """Volumetric compliance c = (1/V)·dV/dP of a thin wall (1/Pa).
+    r"""Volumetric compliance c = (1/V)·dV/dP of a thin wall (1/Pa).
+
+    .. math:: c_{cyl} = \frac{D\,(5 - 4\nu)}{4\,t\,E}, \qquad
+       c_{sph} = \frac{3\,D\,(1 - \nu)}{4\,t\,E}
 
     Parameters
     ----------
@@ -65,6 +68,22 @@ def compliance(shape: str, D: float, t: float, E: float, nu: float) -> float:
         Young's modulus of the wall, Pa.
     nu : float
         Poisson's ratio, 0 ≤ ν < 0.5.
+
+    Returns
+    -------
+    float
+        c (1/Pa).
+
+    Raises
+    ------
+    BadInput
+        Unknown shape, or wall data out of range.
+
+    References
+    ----------
+    .. [1] W. C. Young, R. G. Budynas, *Roark's Formulas for Stress and Strain*, 7th ed.,
+       McGraw-Hill, 2002, Table 13.1 (thin-walled pressure vessels); the volumetric strain is
+       the sum of the three normal strains of Hooke's law.
 
     Examples
     --------
@@ -91,8 +110,45 @@ def compliance(shape: str, D: float, t: float, E: float, nu: float) -> float:
 
 
 def elastic_p2(med, p1, T2: float, c: float, alpha: float, shows=None) -> float:
-    """End pressure P2 (Pa) of the blocked-in liquid *p1* (a Point) heated to *T2* (K) in a
-    wall of compliance *c* (1/Pa) and linear expansion coefficient *alpha* (1/K).
+    r"""End pressure of a blocked-in liquid heated in a wall that stretches.
+
+    .. math:: v(T_2, P_2) = v_1 (1 + \alpha\,\Delta T)^3 (1 + c\,(P_2 - P_1))
+
+    solved for P2 by bracketing; c = 0 and α = 0 give the rigid upper bound v(T2, P2) = v1.
+
+    Parameters
+    ----------
+    med : medium
+        The liquid's medium (:func:`joulebook.media.medium`).
+    p1 : Point
+        The state when blocked in (compressed or saturated liquid).
+    T2 : float
+        Temperature after heating (K).
+    c : float
+        Volumetric compliance of the wall (1/Pa), ≥ 0.
+    alpha : float
+        Linear expansion coefficient of the wall (1/K), 0–0.001.
+    shows : dict, optional
+        Units the inputs were written in, for messages.
+
+    Returns
+    -------
+    float
+        P2 (Pa, absolute).
+
+    Raises
+    ------
+    BadInput
+        A start state that is not liquid, or wall data out of range.
+    OutOfRange
+        The pressure would pass the model's limit, or vapour would form.
+
+    References
+    ----------
+    .. [1] W. C. Young, R. G. Budynas, *Roark's Formulas for Stress and Strain*, 7th ed.,
+       McGraw-Hill, 2002, Table 13.1 (thin-walled pressure vessels); the volumetric strain is
+       the sum of the three normal strains of Hooke's law.
+    .. [2] API Standard 521, §4.4.12 (hydraulic expansion), from memory.
 
     Examples
     --------
@@ -148,7 +204,37 @@ def elastic_p2(med, p1, T2: float, c: float, alpha: float, shows=None) -> float:
 
 
 def relief_flow(beta: float, Q_dot: float, rho: float, cp: float) -> float:
-    """Thermal-relief volume flow q = β·Q̇/(ρ·c_p) (m³/s).
+    r"""Thermal-relief volume flow of a heated blocked-in liquid.
+
+    .. math:: q = \frac{\beta\,\dot Q}{\rho\,c_p}
+
+    Parameters
+    ----------
+    beta : float
+        Isobaric expansion coefficient of the liquid (1/K).
+    Q_dot : float
+        Heat input (W), > 0.
+    rho : float
+        Density (kg/m³).
+    cp : float
+        Isobaric specific heat (J/(kg·K)).
+
+    Returns
+    -------
+    float
+        q (m³/s).
+
+    Raises
+    ------
+    BadInput
+        No heat input.
+    OutOfRange
+        A liquid that contracts on heating (β ≤ 0).
+
+    References
+    ----------
+    .. [1] API Standard 521, *Pressure-relieving and Depressuring Systems*, §4.4.12
+       (hydraulic expansion), from memory.
 
     Examples
     --------

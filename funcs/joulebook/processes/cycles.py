@@ -23,17 +23,99 @@ def _vals(x, name: str) -> np.ndarray:
 
 
 def net(values, name: str = "values") -> float:
-    """Σ of the process values (blanks ignored)."""
+    r"""Sum of the process values of a cycle (blanks ignored).
+
+    .. math:: X_{net} = \sum_i X_i
+
+    Parameters
+    ----------
+    values : array_like
+        Heats or works of the processes (J); NaN = blank.
+    name : str
+        The argument's name, for messages.
+
+    Returns
+    -------
+    float
+        The sum (J).
+
+    References
+    ----------
+    .. [1] Y. A. Çengel, M. A. Boles, *Thermodynamics: An Engineering Approach*, 9th ed.,
+       McGraw-Hill, 2019, §6-3 (thermal efficiency) and §2-6 (ΔE = 0 over a cycle).
+
+    Examples
+    --------
+    >>> net([100.0, -40.0, float("nan")])
+    60.0
+    """
     return float(np.sum(_vals(values, name)))
 
 
 def gap(Q_values, W_values) -> float:
-    """Q_net − W_net: zero for a cycle whose process results close the first law."""
+    r"""Closure gap of a cycle: zero for process results that close the first law.
+
+    .. math:: \text{gap} = Q_{net} - W_{net}
+
+    Parameters
+    ----------
+    Q_values : array_like
+        Heats into the system of each process (J).
+    W_values : array_like
+        Works done by the system of each process (J).
+
+    Returns
+    -------
+    float
+        The gap (J).
+
+    References
+    ----------
+    .. [1] Y. A. Çengel, M. A. Boles, *Thermodynamics: An Engineering Approach*, 9th ed.,
+       McGraw-Hill, 2019, §6-3 (thermal efficiency) and §2-6 (ΔE = 0 over a cycle).
+
+    Examples
+    --------
+    >>> gap([500.0, -300.0], [0.0, 200.0])
+    0.0
+    """
     return net(Q_values, "Q_values") - net(W_values, "W_values")
 
 
 def efficiency(Q_values, W_values, tolerance: float = 1e-6) -> float:
-    """η = W_net / Q_in; refuses a cycle whose balance does not close (|gap| > tolerance·Q_in)."""
+    r"""Thermal efficiency of a cycle.
+
+    .. math:: \eta = \frac{W_{net}}{Q_{in}}, \qquad Q_{in} = \sum_{Q_i > 0} Q_i
+
+    Parameters
+    ----------
+    Q_values : array_like
+        Heats into the system of each process (J).
+    W_values : array_like
+        Works done by the system of each process (J).
+    tolerance : float
+        Largest absolute gap accepted, relative to Q_in.
+
+    Returns
+    -------
+    float
+        η (dimensionless).
+
+    Raises
+    ------
+    OutOfRange
+        No heat in, or a balance that does not close (absolute gap > tolerance·Q_in).
+
+    References
+    ----------
+    .. [1] Y. A. Çengel, M. A. Boles, *Thermodynamics: An Engineering Approach*, 9th ed.,
+       McGraw-Hill, 2019, §6-3 (thermal efficiency) and §2-6 (ΔE = 0 over a cycle).
+
+    Examples
+    --------
+    >>> efficiency([500.0, -300.0], [0.0, 200.0])
+    0.4
+    """
     Q = _vals(Q_values, "Q_values")
     W = _vals(W_values, "W_values")
     q_in = float(Q[Q > 0].sum())

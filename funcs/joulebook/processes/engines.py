@@ -40,7 +40,33 @@ __all__ = ["volume", "indicated_power", "mep", "volumetric_efficiency", "branch_
 
 
 def volume(theta_deg: float, bore: float, stroke: float, rod: float, V_c: float) -> float:
-    """V(θ) of the slider-crank (m³); θ in degrees from top dead centre.
+    r"""Cylinder volume of the slider-crank at crank angle θ from top dead centre.
+
+    .. math:: V = V_c + \frac{\pi B^2}{4}\left(l + a - a\cos\theta
+       - \sqrt{l^2 - a^2 \sin^2\theta}\right), \quad a = S/2
+
+    Parameters
+    ----------
+    theta_deg : float
+        Crank angle (degrees from top dead centre).
+    bore : float
+        Bore B (m).
+    stroke : float
+        Stroke S (m).
+    rod : float
+        Connecting-rod length l (m), > S/2.
+    V_c : float
+        Clearance volume (m³).
+
+    Returns
+    -------
+    float
+        V (m³).
+
+    References
+    ----------
+    .. [1] J. B. Heywood, *Internal Combustion Engine Fundamentals*, McGraw-Hill, 1988, §2.2
+       (cylinder volume, eq. 2.4 and 2.5) and §2.4 (indicated work, mean effective pressure).
 
     Examples
     --------
@@ -68,7 +94,30 @@ def volume(theta_deg: float, bore: float, stroke: float, rod: float, V_c: float)
 
 
 def indicated_power(W_cycle: float, speed: float, cylinders: float, revs_per_cycle: float) -> float:
-    """P_i = W_cycle·N·z/n_R (W); W_cycle (J), N (rev/s).
+    r"""Indicated power of an engine or compressor.
+
+    .. math:: P_i = \frac{W_{cycle}\,N\,z}{n_R}
+
+    Parameters
+    ----------
+    W_cycle : float
+        Indicated work per cycle of one cylinder (J).
+    speed : float
+        Speed N (rev/s).
+    cylinders : float
+        Number of cylinders z.
+    revs_per_cycle : float
+        Revolutions per cycle n_R (2 four-stroke, 1 two-stroke).
+
+    Returns
+    -------
+    float
+        P_i (W).
+
+    References
+    ----------
+    .. [1] J. B. Heywood, *Internal Combustion Engine Fundamentals*, McGraw-Hill, 1988, §2.2
+       (cylinder volume, eq. 2.4 and 2.5) and §2.4 (indicated work, mean effective pressure).
 
     Examples
     --------
@@ -88,14 +137,60 @@ def indicated_power(W_cycle: float, speed: float, cylinders: float, revs_per_cyc
 
 
 def mep(W_cycle: float, V_d: float) -> float:
-    """MEP = W_cycle/V_d (Pa)."""
+    """Mean effective pressure.
+
+    .. math:: MEP = W_{cycle} / V_d
+
+    Parameters
+    ----------
+    W_cycle : float
+        Work per cycle (J).
+    V_d : float
+        Displaced volume (m³), > 0.
+
+    Returns
+    -------
+    float
+        MEP (Pa).
+
+    References
+    ----------
+    .. [1] J. B. Heywood, *Internal Combustion Engine Fundamentals*, McGraw-Hill, 1988, §2.2
+       (cylinder volume, eq. 2.4 and 2.5) and §2.4 (indicated work, mean effective pressure).
+
+    Examples
+    --------
+    >>> mep(500.0, 5e-4)
+    1000000.0
+    """
     if not V_d > 0:
         raise BadInput(f"V_d = {fmt_value(V_d)} m3: the swept volume must be above 0")
     return W_cycle / V_d
 
 
 def volumetric_efficiency(c: float, P_s: float, P_d: float, n: float) -> float:
-    """η_v = 1 + c − c·(P_d/P_s)^(1/n).
+    r"""Volumetric efficiency of a reciprocating compressor from its clearance.
+
+    .. math:: \eta_v = 1 + c - c\,(P_d/P_s)^{1/n}
+
+    Parameters
+    ----------
+    c : float
+        Clearance ratio V_c/V_d.
+    P_s, P_d : float
+        Suction and discharge pressure (Pa, absolute).
+    n : float
+        Polytropic exponent of the re-expansion.
+
+    Returns
+    -------
+    float
+        η_v (dimensionless).
+
+    References
+    ----------
+    .. [1] Reciprocating-compressor volumetric efficiency from the clearance re-expansion
+       (common practice; textbooks of compressor engineering).
 
     Examples
     --------
@@ -118,11 +213,37 @@ def volumetric_efficiency(c: float, P_s: float, P_d: float, n: float) -> float:
 
 
 def branch_fits(P, V) -> tuple[float, float]:
-    """(n of the compression branch, n of the expansion branch) of a closed loop given in
-    path order: the points of the segments along which the volume falls form the compression
-    branch, those along which it rises the expansion branch (segments at constant volume, such
-    as combustion or blow-down, belong to neither).  For a compressor card, give only the
-    compression and re-expansion portions: its suction and discharge lines would join them."""
+    """Polytropic exponents of the compression and expansion branches of a closed loop.
+
+    The points of the segments along which the volume falls form the compression branch, those
+    along which it rises the expansion branch (segments at constant volume, such as combustion
+    or blow-down, belong to neither); each is fitted to ln P = ln C − n·ln V.  For a compressor
+    card, give only the compression and re-expansion portions: its suction and discharge lines
+    would join them.
+
+    Parameters
+    ----------
+    P, V : array_like
+        Pressures (Pa) and volumes (m³) of the loop in path order.
+
+    Returns
+    -------
+    tuple of float
+        ``(n_compression, n_expansion)``.
+
+    References
+    ----------
+    .. [1] J. B. Heywood, *Internal Combustion Engine Fundamentals*, McGraw-Hill, 1988, §2.2
+       (cylinder volume, eq. 2.4 and 2.5) and §2.4 (indicated work, mean effective pressure).
+    .. [2] Least squares in logarithmic coordinates (common practice).
+
+    Examples
+    --------
+    >>> V = [1.0, 0.5, 0.25, 0.25, 0.5, 1.0]
+    >>> P = [1.0, 2 ** 1.3, 4 ** 1.3, 3 * 4 ** 1.3, 3 * 4 ** 1.3 / 2 ** 1.25, 3 * 4 ** 1.3 / 4 ** 1.25]
+    >>> [round(n, 9) for n in branch_fits(P, V)]
+    [1.3, 1.25]
+    """
     P, V = _clean_pairs(P, V)
     if P.size < 6:
         raise BadInput(f"a closed loop needs at least 6 points (got {P.size})")

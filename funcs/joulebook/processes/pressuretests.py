@@ -48,7 +48,28 @@ E_TNT = 4.184e6  # J per kg of TNT, the conventional basis
 
 
 def pneumatic_energy(P: float, V: float, P_amb: float = 101_325.0) -> float:
-    """E = 2.5·P·V·[1 − (P_amb/P)^0.286] (J), P and P_amb absolute (Pa), V (m³).
+    r"""Stored energy of a pneumatic test by the code formula (air, k = 1.4).
+
+    .. math:: E = 2.5\,P\,V\left[1 - \left(\frac{P_{amb}}{P}\right)^{0.286}\right]
+
+    Parameters
+    ----------
+    P : float
+        Test pressure (Pa, absolute).
+    V : float
+        Volume (m³).
+    P_amb : float
+        Ambient pressure (Pa, absolute).
+
+    Returns
+    -------
+    float
+        E (J).
+
+    References
+    ----------
+    .. [1] ASME PCC-2, Repair of Pressure Equipment and Piping, Article 501 (pressure testing),
+       mandatory appendix on stored energy; recalled from memory.
 
     Examples
     --------
@@ -60,15 +81,59 @@ def pneumatic_energy(P: float, V: float, P_amb: float = 101_325.0) -> float:
 
 
 def container_energy(c: float, V: float, dP: float) -> float:
-    """Elastic energy ½·c·V·ΔP² (J) of a wall of volumetric compliance *c* (1/Pa) holding *V*
-    (m³) at *dP* (Pa) above ambient."""
+    r"""Elastic energy of a wall of volumetric compliance *c* holding *V* at *dP*.
+
+    .. math:: E = \tfrac12\,c\,V\,\Delta P^2
+
+    Parameters
+    ----------
+    c : float
+        Volumetric compliance of the wall (1/Pa).
+    V : float
+        Volume (m³).
+    dP : float
+        Pressure above ambient (Pa).
+
+    Returns
+    -------
+    float
+        E (J).
+
+    References
+    ----------
+    .. [1] W. C. Young, R. G. Budynas, *Roark's Formulas for Stress and Strain*, 7th ed.,
+       2002, Table 13.1 (the compliance); the energy is ∫ΔP dV of a linear wall.
+
+    Examples
+    --------
+    >>> container_energy(1e-9, 1.0, 1e7)
+    50000.0
+    """
     if not c >= 0:
         raise BadInput(f"the wall compliance {fmt_value(c)} 1/Pa must not be negative")
     return 0.5 * c * V * dP * dP
 
 
 def tnt_equivalent(E: float, basis: float = E_TNT) -> float:
-    """W = E/e_TNT (kg).
+    r"""TNT equivalent of an energy.
+
+    .. math:: W = E / e_{TNT}, \qquad e_{TNT} = 4.184\ \mathrm{MJ/kg}
+
+    Parameters
+    ----------
+    E : float
+        Energy (J).
+    basis : float
+        Energy per kg of TNT (J/kg).
+
+    Returns
+    -------
+    float
+        W (kg of TNT).
+
+    References
+    ----------
+    .. [1] The convention of the "ton of TNT" as 4.184 × 10⁹ J (NIST SP 811, Appendix B).
 
     Examples
     --------
@@ -83,7 +148,26 @@ def tnt_equivalent(E: float, basis: float = E_TNT) -> float:
 
 
 def scaled_distance(W: float, Z: float) -> float:
-    """R = Z·W^(1/3) (m), W in kg of TNT, Z in m/kg^(1/3).
+    r"""Distance at a scaled distance Z from a TNT charge (cube-root scaling).
+
+    .. math:: R = Z\,W^{1/3}
+
+    Parameters
+    ----------
+    W : float
+        Charge (kg of TNT).
+    Z : float
+        Scaled distance (m/kg^(1/3)).
+
+    Returns
+    -------
+    float
+        R (m).
+
+    References
+    ----------
+    .. [1] G. F. Kinney, K. J. Graham, *Explosive Shocks in Air*, 2nd ed., Springer, 1985,
+       ch. 5 (cube-root scaling of blast parameters).
 
     Examples
     --------

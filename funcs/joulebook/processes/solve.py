@@ -5,21 +5,21 @@ by* the system is positive, so the first law of a closed system at rest reads
 
     Q − W = ΔU = m·(u2 − u1).
 
-A process is a path from state 1 and one end condition.  Paths:
+A process is a path from state 1 and one end condition.  Paths::
 
-``rigid``                 v constant; W = 0 exactly
-``isobaric``              P constant; W = m·P·(v2 − v1), Q = m·(h2 − h1)
-``isothermal``            T constant; reversible, Q = m·T·(s2 − s1), W = Q − ΔU
-                          (= −ΔA: the isotherm's ∫P dv on the equation of state, across the
-                          saturation dome included)
-``isentropic``            s constant; Q = 0, W = −ΔU
-``polytropic n = …``      P·vⁿ = C; W = m·P1·v1·ln(r)·φ((1 − n)·ln r), r = v2/v1
-``linear slope = … kPa/m3``  P = P1 + slope·(V − V1) (spring-loaded piston);
-                          W = (P1 + P2)/2·(V2 − V1)
-``stops P = …``           piston resting on stops: rigid until P reaches the lift-off
-                          pressure, then isobaric at it
-``stops V = …``           the reverse: isobaric at P1 until the volume reaches the stops,
-                          then rigid
+    ``rigid``                 v constant; W = 0 exactly
+    ``isobaric``              P constant; W = m·P·(v2 − v1), Q = m·(h2 − h1)
+    ``isothermal``            T constant; reversible, Q = m·T·(s2 − s1), W = Q − ΔU
+                              (= −ΔA: the isotherm's ∫P dv on the equation of state, across the
+                              saturation dome included)
+    ``isentropic``            s constant; Q = 0, W = −ΔU
+    ``polytropic n = …``      P·vⁿ = C; W = m·P1·v1·ln(r)·φ((1 − n)·ln r), r = v2/v1
+    ``linear slope = … kPa/m3``  P = P1 + slope·(V − V1) (spring-loaded piston);
+                              W = (P1 + P2)/2·(V2 − V1)
+    ``stops P = …``           piston resting on stops: rigid until P reaches the lift-off
+                              pressure, then isobaric at it
+    ``stops V = …``           the reverse: isobaric at P1 until the volume reaches the stops,
+                              then rigid
 
 End conditions: V2, v2, P2, T2, x2, Q or W.  Every result has Q = ΔU + W by construction, and
 an end condition given as Q or W is met to the root-finder's tolerance (≪ 1e-9 relative).
@@ -46,6 +46,36 @@ PATHS = ("rigid", "isobaric", "isothermal", "isentropic", "polytropic", "linear"
 
 @dataclass(frozen=True)
 class Path:
+    """A process path, its parameters in SI.
+
+    Parameters
+    ----------
+    kind : str
+        ``rigid``, ``isobaric``, ``isothermal``, ``isentropic``, ``polytropic``, ``linear`` or
+        ``stops``.
+    n : float, optional
+        Polytropic exponent.
+    slope : float, optional
+        dP/dV of a linear path (Pa/m³).
+    P_lift : float, optional
+        Lift-off pressure of a piston on stops (Pa).
+    V_stop : float, optional
+        Volume at which the piston lands on the stops (m³).
+    text : str
+        The path text as written.
+
+    References
+    ----------
+    .. [1] Y. A. Çengel, M. A. Boles, *Thermodynamics: An Engineering Approach*, 9th ed.,
+       McGraw-Hill, 2019, §4-1 to §4-5 (closed systems: boundary work, energy balance).
+
+    Examples
+    --------
+    >>> from joulebook.units import unit_system
+    >>> parse_path("polytropic n = 1.3", unit_system(None)).n
+    1.3
+    """
+
     kind: str
     n: float | None = None  # polytropic exponent
     slope: float | None = None  # Pa/m³, linear path on total volume
@@ -62,10 +92,35 @@ _PARAM = re.compile(
 def parse_path(text: str, system: UnitSystem) -> Path:
     """Parse path text such as ``"polytropic n = 1.3"`` or ``"stops P = 500 kPa"``.
 
+    Parameters
+    ----------
+    text : str
+        A path word and its parameters with units: ``rigid``, ``isobaric``, ``isothermal``,
+        ``isentropic``, ``polytropic n = 1.3``, ``linear slope = 2000 kPa/m3``,
+        ``stops P = 500 kPa`` or ``stops V = 0.1 m3``.
+    system : UnitSystem
+        Unit system of parameters written without a unit.
+
+    Returns
+    -------
+    Path
+        The path, SI.
+
     Raises
     ------
     BadInput
         Unknown path word, missing or malformed parameter.
+
+    References
+    ----------
+    .. [1] Y. A. Çengel, M. A. Boles, *Thermodynamics: An Engineering Approach*, 9th ed.,
+       McGraw-Hill, 2019, §4-1 to §4-5 (closed systems: boundary work, energy balance).
+
+    Examples
+    --------
+    >>> from joulebook.units import unit_system
+    >>> parse_path("linear slope = 2000 kPa/m3", unit_system(None)).slope
+    2000000.0
     """
     if not isinstance(text, str) or not text.strip():
         raise BadInput(f"path must be one of {', '.join(PATHS)} (got {text!r})")
@@ -143,6 +198,35 @@ def parse_path(text: str, system: UnitSystem) -> Path:
 
 @dataclass
 class Segment:
+    """One piece of a solved path (a piston on stops has two).
+
+    Parameters
+    ----------
+    kind : str
+        The path word of the piece.
+    start, end : Point
+        Its end states.
+    W : float
+        Work done by the system over the piece (J).
+    n : float, optional
+        Polytropic exponent.
+    slope : float, optional
+        dP/dV of a linear piece (Pa/m³).
+
+    References
+    ----------
+    .. [1] Y. A. Çengel, M. A. Boles, *Thermodynamics: An Engineering Approach*, 9th ed.,
+       McGraw-Hill, 2019, §4-1 to §4-5 (closed systems: boundary work, energy balance).
+
+    Examples
+    --------
+    >>> from joulebook.media import medium
+    >>> air = medium("air | k = 1.4")
+    >>> res = solve(air, air.point("T", 300.0, "P", 1e5), 1.0, Path("rigid"), "T2", 600.0)
+    >>> [s.kind for s in res.segments], res.segments[0].W
+    (['rigid'], 0.0)
+    """
+
     kind: str
     start: Point
     end: Point
@@ -153,6 +237,35 @@ class Segment:
 
 @dataclass
 class Result:
+    r"""The end state of a process and the energy it takes.
+
+    .. math:: Q - W = \Delta U = m\,(u_2 - u_1)
+
+    Parameters
+    ----------
+    m : float
+        Mass (kg).
+    p1, p2 : Point
+        Initial and end states.
+    W : float
+        Work done by the system (J).
+    segments : list of Segment
+        The pieces of the path.
+
+    References
+    ----------
+    .. [1] Y. A. Çengel, M. A. Boles, *Thermodynamics: An Engineering Approach*, 9th ed.,
+       McGraw-Hill, 2019, §4-1 to §4-5 (closed systems: boundary work, energy balance).
+
+    Examples
+    --------
+    >>> from joulebook.media import medium
+    >>> air = medium("air | k = 1.4")
+    >>> res = solve(air, air.point("T", 300.0, "P", 1e5), 1.0, Path("isobaric"), "T2", 400.0)
+    >>> round(res.Q - res.W - res.dU, 9)
+    0.0
+    """
+
     m: float
     p1: Point
     p2: Point
@@ -161,14 +274,17 @@ class Result:
 
     @property
     def dU(self) -> float:
+        """ΔU = m·(u2 − u1) (J)."""
         return self.m * (self.p2.u - self.p1.u)
 
     @property
     def dH(self) -> float:
+        """ΔH = m·(h2 − h1) (J)."""
         return self.m * (self.p2.h - self.p1.h)
 
     @property
     def Q(self) -> float:
+        """Heat into the system by the first law, Q = ΔU + W (J)."""
         return self.dU + self.W  # the first law, Q − W = ΔU
 
 
@@ -478,7 +594,33 @@ def _stops(med, p1: Point, m: float, end: str, value: float, shows, path: Path) 
 
 
 def solve(med, p1: Point, m: float, path: Path, end: str, value: float, shows=None) -> Result:
-    """End state of mass *m* from *p1* along *path* until *end* = *value* (SI).
+    r"""End state of mass *m* from *p1* along *path* until *end* = *value* (SI).
+
+    Every result closes the first law of the closed system at rest:
+
+    .. math:: Q = \Delta U + W, \qquad W = \int P\,dV
+
+    Parameters
+    ----------
+    med : medium
+        The substance (:func:`joulebook.media.medium`).
+    p1 : Point
+        The initial state.
+    m : float
+        Mass (kg), > 0.
+    path : Path
+        The path (:func:`parse_path`).
+    end : str
+        The end condition: one of ``V2 v2 P2 T2 x2 Q W``.
+    value : float
+        Its SI value.
+    shows : dict, optional
+        Units the inputs were written in, for messages.
+
+    Returns
+    -------
+    Result
+        End state, work and the segments of the path.
 
     Raises
     ------
@@ -486,6 +628,19 @@ def solve(med, p1: Point, m: float, path: Path, end: str, value: float, shows=No
         End condition that the path cannot change (P2 on an isobar …) or an ambiguous one.
     OutOfRange
         The end condition is not reached within the property model.
+
+    References
+    ----------
+    .. [1] Y. A. Çengel, M. A. Boles, *Thermodynamics: An Engineering Approach*, 9th ed.,
+       McGraw-Hill, 2019, §4-1 to §4-5 (closed systems: boundary work, energy balance).
+
+    Examples
+    --------
+    >>> from joulebook.media import medium
+    >>> water = medium("water")
+    >>> res = solve(water, water.point("P", 101325.0, "x", 0.0), 1.0, Path("isobaric"), "x2", 1.0)
+    >>> round(res.Q / 1e3, 2)                                     # h_fg at 1 atm, kJ
+    2256.47
     """
     if not m > 0 or not math.isfinite(m):
         raise BadInput(f"mass = {fmt_value(m)} must be > 0")
@@ -553,7 +708,43 @@ def _segment_points(med, seg: Segment, m: float, N: int, shows) -> list[Point]:
 
 
 def path_points(med, res: Result, N: int, shows=None) -> list[Point]:
-    """N points from state 1 to state 2 along the solved path (shared corners once)."""
+    """N points from state 1 to state 2 along the solved path (shared corners once).
+
+    Parameters
+    ----------
+    med : medium
+        The substance.
+    res : Result
+        A solved process.
+    N : int
+        Number of points, 2–10000.
+    shows : dict, optional
+        Units the inputs were written in, for messages.
+
+    Returns
+    -------
+    list of Point
+        The states along the path, first and last the end states.
+
+    Raises
+    ------
+    BadInput
+        N outside 2–10000.
+
+    References
+    ----------
+    .. [1] Y. A. Çengel, M. A. Boles, *Thermodynamics: An Engineering Approach*, 9th ed.,
+       McGraw-Hill, 2019, §4-1 to §4-5 (closed systems: boundary work, energy balance).
+
+    Examples
+    --------
+    >>> from joulebook.media import medium
+    >>> air = medium("air | k = 1.4")
+    >>> res = solve(air, air.point("T", 300.0, "P", 1e5), 1.0, Path("isothermal"), "P2", 2e5)
+    >>> pts = path_points(air, res, 5)
+    >>> len(pts), {round(p.T, 9) for p in pts}
+    (5, {300.0})
+    """
     if not 2 <= N <= 10_000:
         raise BadInput(f"points = {N}: use 2 to 10000")
     segs = res.segments

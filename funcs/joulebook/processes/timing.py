@@ -7,7 +7,7 @@ of u alone, so the equation separates and the time to reach a target is the inte
 
     t = m · ∫ du / Q̇(u)      from u1 to u2,
 
-taken with Gauss–Legendre quadrature on the equation of state, piece by piece between the
+taken with Gauss–Legendre quadrature [2]_ on the equation of state, piece by piece between the
 phase boundaries the path crosses (where the integrand has a kink).  The heat rate is
 Q̇ = Q̇_const + UA·(T_source − T) + Q̇_fire(A_wet), each term optional.
 
@@ -60,7 +60,35 @@ _NODES, _WEIGHTS = np.polynomial.legendre.leggauss(48)
 
 
 def fire_heat(A_wet: float, F: float = 1.0, drainage: str = "adequate") -> float:
-    """Q̇ = C·F·A^0.82 (W), A in m² [1]_.
+    r"""Heat absorbed by a vessel's wetted surface exposed to a pool fire.
+
+    .. math:: \dot Q = C\,F\,A^{0.82}
+
+    C = 43,200 W/m^1.64 with adequate drainage and fire fighting, 70,900 without.
+
+    Parameters
+    ----------
+    A_wet : float
+        Wetted area (m²), > 0.
+    F : float
+        Environment factor (1 bare vessel; less with insulation or water spray), 0–1.
+    drainage : str
+        ``adequate`` or ``inadequate``.
+
+    Returns
+    -------
+    float
+        Q̇ (W).
+
+    Raises
+    ------
+    BadInput
+        A non-positive area, F outside 0–1, unknown drainage word.
+
+    References
+    ----------
+    .. [1] API Standard 521, *Pressure-relieving and Depressuring Systems*, §4.4.13.2 (fire
+       exposure, wetted surface, environment factor F); recalled from memory.
 
     Examples
     --------
@@ -89,13 +117,65 @@ def _check_vessel(shape: str, D: float, L: float) -> str:
 
 
 def vessel_volume(shape: str, D: float, L: float) -> float:
-    """Volume of a cylinder with flat ends (m³)."""
+    r"""Volume of a cylinder with flat ends.
+
+    .. math:: V = \frac{\pi D^2}{4} L
+
+    Parameters
+    ----------
+    shape : str
+        ``horizontal`` or ``vertical``.
+    D : float
+        Diameter (m).
+    L : float
+        Length (m).
+
+    Returns
+    -------
+    float
+        V (m³).
+
+    References
+    ----------
+    .. [1] Circle-segment area and cylinder geometry (common practice).
+
+    Examples
+    --------
+    >>> round(vessel_volume("horizontal", 2.0, 5.0), 4)
+    15.708
+    """
     _check_vessel(shape, D, L)
     return math.pi * D * D / 4 * L
 
 
 def wetted_area(shape: str, D: float, L: float, level: float) -> float:
-    """Wetted area (m²) of a horizontal or vertical cylinder with flat ends up to *level*.
+    r"""Wetted area of a horizontal or vertical cylinder with flat ends up to *level*.
+
+    .. math:: A_{vert} = \pi D\,\ell + \frac{\pi D^2}{4}, \qquad
+       A_{hor} = \theta\,\frac{D}{2}\,L + 2\,A_{seg}(\ell)
+
+    with θ the wetted angle of the shell and A_seg the circle segment below the level.
+
+    Parameters
+    ----------
+    shape : str
+        ``horizontal`` or ``vertical``.
+    D : float
+        Diameter (m).
+    L : float
+        Length (m).
+    level : float
+        Liquid level from the bottom (m), 0 to D (horizontal) or L (vertical).
+
+    Returns
+    -------
+    float
+        Wetted area (m²).
+
+    References
+    ----------
+    .. [1] Circle-segment area and cylinder geometry (common practice).
+    .. [2] API Standard 521, §4.4.13.2.2 (wetted surface), from memory.
 
     Examples
     --------
@@ -118,7 +198,36 @@ def wetted_area(shape: str, D: float, L: float, level: float) -> float:
 
 
 def liquid_level(shape: str, D: float, L: float, V_liquid: float) -> float:
-    """The liquid level (m) holding *V_liquid* (m³) in the cylinder."""
+    r"""The liquid level holding *V_liquid* in the cylinder (inverse of the segment volume).
+
+    .. math:: V_{liq}(\ell) = L\,A_{seg}(\ell) \;\text{(horizontal)}, \qquad
+       V_{liq} = \frac{\pi D^2}{4}\,\ell \;\text{(vertical)}
+
+    Parameters
+    ----------
+    shape : str
+        ``horizontal`` or ``vertical``.
+    D : float
+        Diameter (m).
+    L : float
+        Length (m).
+    V_liquid : float
+        Liquid volume (m³), 0 to the vessel's volume.
+
+    Returns
+    -------
+    float
+        Level (m).
+
+    References
+    ----------
+    .. [1] Circle-segment area and cylinder geometry (common practice).
+
+    Examples
+    --------
+    >>> round(liquid_level("horizontal", 2.0, 5.0, vessel_volume("horizontal", 2.0, 5.0) / 2), 9)
+    1.0
+    """
     word = _check_vessel(shape, D, L)
     V = vessel_volume(word, D, L)
     if V_liquid <= 0:
@@ -143,11 +252,55 @@ def _pieces(u1: float, u2: float, breaks) -> list[tuple[float, float]]:
 
 
 def rigid_heating(med, p1, m: float, end_sym: str, end_value: float, rate, points: int = 0):
-    """Time (s) for the rigid vessel holding mass *m* at state *p1* to reach *end_sym* =
-    *end_value* (T, P or x, SI) under the heat rate ``rate(point) -> W``; with *points*, also
-    the table [(t, point, Q)] at that many states along the way.
+    r"""Time for a rigid vessel to reach a target T, P or x under a heat rate.
 
-    The end state is the one on the vessel's isochore (v = v1) with the target value."""
+    The end state is the one on the vessel's isochore (v = v1) with the target value; the
+    first law m·du/dt = Q̇(state) is integrated piece by piece between phase boundaries:
+
+    .. math:: t = m \int_{u_1}^{u_2} \frac{du}{\dot Q(u)}
+
+    Parameters
+    ----------
+    med : medium
+        The contents' medium.
+    p1 : Point
+        The initial state.
+    m : float
+        Mass (kg).
+    end_sym : str
+        ``T``, ``P`` or ``x``.
+    end_value : float
+        The target (SI).
+    rate : callable
+        ``rate(point) -> W``, the heat rate into the contents at a state.
+    points : int
+        With points > 0, also the table [(t, point, Q)] at that many states along the way.
+
+    Returns
+    -------
+    float or tuple
+        The time (s); with *points*, ``(time, table)``.
+
+    Raises
+    ------
+    OutOfRange
+        The target is not reached on the isochore, or the heat rate falls to zero first.
+
+    References
+    ----------
+    .. [1] API Standard 521, *Pressure-relieving and Depressuring Systems*, §4.4.13.2 (fire
+       exposure, wetted surface, environment factor F); recalled from memory.
+    .. [2] G. H. Golub, J. H. Welsch, "Calculation of Gauss quadrature rules", Math. Comp. 23
+       (1969) 221–230 (the nodes and weights, numpy.polynomial.legendre.leggauss).
+
+    Examples
+    --------
+    >>> from joulebook.media import medium
+    >>> air = medium("air | k = 1.4")
+    >>> t = rigid_heating(air, air.point("T", 300.0, "P", 1e5), 1.0, "T", 400.0, lambda p: 1e3)
+    >>> round(t, 3)                                              # m·cv·ΔT / Q̇
+    71.762
+    """
     v = p1.v
     try:
         p2 = med.point("v", v, end_sym, end_value)
@@ -195,7 +348,33 @@ def rigid_heating(med, p1, m: float, end_sym: str, end_value: float, rate, point
 
 
 def batch_time(c_of_T, m: float, T1: float, T2: float, UA: float, T_source: float) -> float:
-    """t = m·∫ c(T) dT / (UA·(T_source − T)) from T1 to T2 (s).
+    r"""Time to heat a batch of solid or liquid with c(T) from T1 to T2 through UA.
+
+    .. math:: t = m \int_{T_1}^{T_2} \frac{c(T)\,dT}{UA\,(T_{source} - T)}
+
+    Parameters
+    ----------
+    c_of_T : callable
+        Specific heat c(T) (J/(kg·K)).
+    m : float
+        Mass (kg).
+    T1, T2 : float
+        Initial and final temperature (K), both on one side of T_source.
+    UA : float
+        Conductance (W/K).
+    T_source : float
+        Source temperature (K).
+
+    Returns
+    -------
+    float
+        t (s).
+
+    References
+    ----------
+    .. [1] G. H. Golub, J. H. Welsch, "Calculation of Gauss quadrature rules", Math. Comp. 23
+       (1969) 221–230 (the nodes and weights, numpy.polynomial.legendre.leggauss).
+    .. [2] Lumped-capacitance heating through a conductance (common practice).
 
     Examples
     --------

@@ -70,6 +70,27 @@ def _coolprop():
 
 
 def coolprop_version() -> str:
+    """The property library's name and version, as the model texts cite it.
+
+    Returns
+    -------
+    str
+        ``"CoolProp X.Y.Z"``.
+
+    References
+    ----------
+    .. [1] I. H. Bell, J. Wronski, S. Quoilin, V. Lemort, "Pure and Pseudo-pure Fluid
+       Thermophysical Property Evaluation and the Open-Source Thermophysical Property Library
+       CoolProp", Ind. Eng. Chem. Res. 53 (2014) 2498–2508.
+    .. [2] W. Wagner, A. Pruß, "The IAPWS Formulation 1995 for the Thermodynamic Properties of
+       Ordinary Water Substance for General and Scientific Use", J. Phys. Chem. Ref. Data 31
+       (2002) 387.
+
+    Examples
+    --------
+    >>> coolprop_version().startswith("CoolProp ")
+    True
+    """
     import CoolProp
 
     return f"CoolProp {CoolProp.__version__}"
@@ -161,7 +182,52 @@ def _display_name(cp_name: str) -> str:
 
 @dataclass(frozen=True)
 class FluidInfo:
-    """Constants of one real fluid (SI)."""
+    """Constants of one real fluid (SI).
+
+    Parameters
+    ----------
+    name : str
+        Our display name (``"water"``).
+    internal : str
+        The property library's name (never shown in the worksheet interface).
+    aliases : tuple of str
+        Other names accepted.
+    T_min, T_max : float
+        Temperature range of the equation of state (K).
+    P_max : float
+        Upper pressure limit (Pa).
+    T_crit, P_crit, rho_crit : float
+        Critical temperature (K), pressure (Pa) and density (kg/m³).
+    T_triple, P_triple : float
+        Triple-point temperature (K) and pressure (Pa).
+    molar_mass : float
+        Molar mass (kg/mol).
+    R : float
+        Specific gas constant R_u/M (J/(kg·K)).
+    pure : bool
+        False for pseudo-pure fluids (air) and mixtures.
+    eos : str
+        The equation of state and its source, as cited in results.
+    melts : bool
+        Whether the library has the fluid's melting line.
+    T_melt_top : float
+        The melting temperature at P_max (K): no solid above it.
+
+    References
+    ----------
+    .. [1] I. H. Bell, J. Wronski, S. Quoilin, V. Lemort, "Pure and Pseudo-pure Fluid
+       Thermophysical Property Evaluation and the Open-Source Thermophysical Property Library
+       CoolProp", Ind. Eng. Chem. Res. 53 (2014) 2498–2508.
+    .. [2] W. Wagner, A. Pruß, "The IAPWS Formulation 1995 for the Thermodynamic Properties of
+       Ordinary Water Substance for General and Scientific Use", J. Phys. Chem. Ref. Data 31
+       (2002) 387.
+
+    Examples
+    --------
+    >>> w = fluid_info("steam")
+    >>> w.name, w.T_crit, round(w.R, 3)
+    ('water', 647.0959999999873, 461.518)
+    """
 
     name: str  # our display name
     internal: str  # the property library's name (never shown in the worksheet interface)
@@ -228,7 +294,27 @@ def _registry() -> tuple[dict[str, str], dict[str, str]]:
 
 
 def fluid_names() -> list[str]:
-    """Display names of every real fluid, sorted case-insensitively."""
+    """Display names of every real fluid, sorted case-insensitively.
+
+    Returns
+    -------
+    list of str
+        The names :func:`fluid_info` accepts (aliases aside).
+
+    References
+    ----------
+    .. [1] I. H. Bell, J. Wronski, S. Quoilin, V. Lemort, "Pure and Pseudo-pure Fluid
+       Thermophysical Property Evaluation and the Open-Source Thermophysical Property Library
+       CoolProp", Ind. Eng. Chem. Res. 53 (2014) 2498–2508.
+    .. [2] W. Wagner, A. Pruß, "The IAPWS Formulation 1995 for the Thermodynamic Properties of
+       Ordinary Water Substance for General and Scientific Use", J. Phys. Chem. Ref. Data 31
+       (2002) 387.
+
+    Examples
+    --------
+    >>> "water" in fluid_names() and "R134a" in fluid_names()
+    True
+    """
     return sorted(_registry()[1].values(), key=str.lower)
 
 
@@ -236,10 +322,34 @@ def fluid_names() -> list[str]:
 def fluid_info(name: str) -> FluidInfo:
     """Resolve a fluid name or alias (case, spaces and hyphens ignored).
 
+    Parameters
+    ----------
+    name : str
+        ``"water"``, ``"Steam"``, ``"r-134a"``, ``"CO2"`` …
+
+    Returns
+    -------
+    FluidInfo
+        The fluid's constants and limits.
+
     Raises
     ------
     BadInput
         Unknown name; the message suggests close names.
+
+    References
+    ----------
+    .. [1] I. H. Bell, J. Wronski, S. Quoilin, V. Lemort, "Pure and Pseudo-pure Fluid
+       Thermophysical Property Evaluation and the Open-Source Thermophysical Property Library
+       CoolProp", Ind. Eng. Chem. Res. 53 (2014) 2498–2508.
+    .. [2] W. Wagner, A. Pruß, "The IAPWS Formulation 1995 for the Thermodynamic Properties of
+       Ordinary Water Substance for General and Scientific Use", J. Phys. Chem. Ref. Data 31
+       (2002) 387.
+
+    Examples
+    --------
+    >>> fluid_info("r-134a").name
+    'R134a'
     """
     alias_map, display = _registry()
     internal = alias_map.get(_key(name))
@@ -899,7 +1009,36 @@ def _is_two_phase(st) -> bool:
 
 
 def phase_word(info: FluidInfo, st) -> str:
-    """Plain-English phase of the current state."""
+    """Plain-English phase of the current state.
+
+    Parameters
+    ----------
+    info : FluidInfo
+        The fluid.
+    st : AbstractState
+        The property library's state, already updated.
+
+    Returns
+    -------
+    str
+        ``compressed liquid``, ``saturated liquid``, ``saturated mixture``, ``saturated vapor``,
+        ``superheated vapor``, ``supercritical fluid`` or ``gas above the critical temperature``.
+
+    References
+    ----------
+    .. [1] I. H. Bell, J. Wronski, S. Quoilin, V. Lemort, "Pure and Pseudo-pure Fluid
+       Thermophysical Property Evaluation and the Open-Source Thermophysical Property Library
+       CoolProp", Ind. Eng. Chem. Res. 53 (2014) 2498–2508.
+    .. [2] W. Wagner, A. Pruß, "The IAPWS Formulation 1995 for the Thermodynamic Properties of
+       Ordinary Water Substance for General and Scientific Use", J. Phys. Chem. Ref. Data 31
+       (2002) 387.
+
+    Examples
+    --------
+    >>> from joulebook.media import medium
+    >>> medium("water").point("T", 373.15, "x", 0.5).phase
+    'saturated mixture'
+    """
     CP = _coolprop()
     if _is_two_phase(st):
         q = st.Q()
@@ -1080,7 +1219,34 @@ _FAST_READ = {"T": "T", "P": "p", "rho": "rhomass", "u": "umass", "h": "hmass", 
 
 
 def reader(want: str):
-    """A function ``(info, state, shows) -> value`` for output *want* (fast for the plain ones)."""
+    """A function ``(info, state, shows) -> value`` for output *want* (fast for the plain ones).
+
+    Parameters
+    ----------
+    want : str
+        One of :data:`OUTPUTS`.
+
+    Returns
+    -------
+    callable
+        Reads *want* (SI) from an updated state.
+
+    References
+    ----------
+    .. [1] I. H. Bell, J. Wronski, S. Quoilin, V. Lemort, "Pure and Pseudo-pure Fluid
+       Thermophysical Property Evaluation and the Open-Source Thermophysical Property Library
+       CoolProp", Ind. Eng. Chem. Res. 53 (2014) 2498–2508.
+    .. [2] W. Wagner, A. Pruß, "The IAPWS Formulation 1995 for the Thermodynamic Properties of
+       Ordinary Water Substance for General and Scientific Use", J. Phys. Chem. Ref. Data 31
+       (2002) 387.
+
+    Examples
+    --------
+    >>> read_h = reader("h")
+    >>> info = fluid_info("water")
+    >>> round(read_h(info, _flash(info, "T", 298.15, "P", 1e5), None))
+    104919
+    """
     if want in _FAST_READ:
         name = _FAST_READ[want]
         return lambda info, st, shows: getattr(st, name)()
@@ -1092,7 +1258,39 @@ def reader(want: str):
 
 
 def state_props(fluid: str, wants, a: str, va: float, b: str, vb: float, shows=None):
-    """Properties *wants* (list of symbols) of one state fixed by (a, va), (b, vb), SI.
+    """Properties *wants* of one state fixed by (a, va), (b, vb), SI.
+
+    Parameters
+    ----------
+    fluid : str
+        Fluid name.
+    wants : list of str
+        Symbols of :data:`OUTPUTS`.
+    a, b : str
+        Symbols of the two fixing properties (of :data:`INPUTS`).
+    va, vb : float
+        Their SI values.
+    shows : dict, optional
+        Units the inputs were written in (symbol → Conv), for messages.
+
+    Returns
+    -------
+    list
+        The values, SI (the phase as text).
+
+    Raises
+    ------
+    OutOfRange
+        A state outside the model, or a property not defined there.
+
+    References
+    ----------
+    .. [1] I. H. Bell, J. Wronski, S. Quoilin, V. Lemort, "Pure and Pseudo-pure Fluid
+       Thermophysical Property Evaluation and the Open-Source Thermophysical Property Library
+       CoolProp", Ind. Eng. Chem. Res. 53 (2014) 2498–2508.
+    .. [2] W. Wagner, A. Pruß, "The IAPWS Formulation 1995 for the Thermodynamic Properties of
+       Ordinary Water Substance for General and Scientific Use", J. Phys. Chem. Ref. Data 31
+       (2002) 387.
 
     Examples
     --------
@@ -1107,12 +1305,42 @@ def state_props(fluid: str, wants, a: str, va: float, b: str, vb: float, shows=N
 def column_props(fluid: str, want: str, a: str, va, b: str, vb, shows=None, out_conv=None):
     """One property over broadcast columns of SI inputs; repeated states are computed once.
 
+    Parameters
+    ----------
+    fluid : str
+        Fluid name.
+    want : str
+        A symbol of :data:`OUTPUTS`.
+    a, b : str
+        Symbols of the two fixing properties.
+    va, vb : array_like
+        Their SI values (NaN for a blank).
+    shows : dict, optional
+        Units the inputs were written in, for messages.
+    out_conv : Conv, optional
+        Unit of the results (SI when omitted).
+
     Returns
     -------
     values : numpy.ndarray (object)
         Float results (converted by *out_conv* when given), or a
         :class:`~joulebook.errors.JoulebookError` instance where that element failed;
         ``None`` where an input was missing (NaN).
+
+    References
+    ----------
+    .. [1] I. H. Bell, J. Wronski, S. Quoilin, V. Lemort, "Pure and Pseudo-pure Fluid
+       Thermophysical Property Evaluation and the Open-Source Thermophysical Property Library
+       CoolProp", Ind. Eng. Chem. Res. 53 (2014) 2498–2508.
+    .. [2] W. Wagner, A. Pruß, "The IAPWS Formulation 1995 for the Thermodynamic Properties of
+       Ordinary Water Substance for General and Scientific Use", J. Phys. Chem. Ref. Data 31
+       (2002) 387.
+
+    Examples
+    --------
+    >>> col = column_props("water", "rho", "T", [293.15, 5000.0], "P", 1e5)
+    >>> round(col[0], 3), type(col[1]).__name__
+    (998.207, 'OutOfRange')
     """
     info = fluid_info(fluid)
     read = reader(want)
@@ -1139,13 +1367,44 @@ def column_props(fluid: str, want: str, a: str, va, b: str, vb, shows=None, out_
 
 
 def saturation(fluid: str, by: str, value: float, want: str, shows=None) -> float:
-    """A saturation property at a given T or P (``want`` in Tsat, Psat, and the liquid/vapor
-    values ``vf vg uf ug hf hg sf sg hfg``), SI.
+    """A saturation property at a given T or P.
+
+    Parameters
+    ----------
+    fluid : str
+        Fluid name.
+    by : str
+        ``"T"`` or ``"P"``.
+    value : float
+        The saturation temperature (K) or pressure (Pa).
+    want : str
+        ``Tsat``, ``Psat``, or the liquid/vapor values ``vf vg uf ug hf hg sf sg hfg``.
+    shows : dict, optional
+        Units the input was written in, for messages.
+
+    Returns
+    -------
+    float
+        The value, SI.
 
     Raises
     ------
     OutOfRange
         *value* outside triple point – critical point.
+
+    References
+    ----------
+    .. [1] I. H. Bell, J. Wronski, S. Quoilin, V. Lemort, "Pure and Pseudo-pure Fluid
+       Thermophysical Property Evaluation and the Open-Source Thermophysical Property Library
+       CoolProp", Ind. Eng. Chem. Res. 53 (2014) 2498–2508.
+    .. [2] W. Wagner, A. Pruß, "The IAPWS Formulation 1995 for the Thermodynamic Properties of
+       Ordinary Water Substance for General and Scientific Use", J. Phys. Chem. Ref. Data 31
+       (2002) 387.
+
+    Examples
+    --------
+    >>> round(saturation("water", "P", 101325.0, "hfg") / 1e3, 2)   # kJ/kg
+    2256.47
     """
     info = fluid_info(fluid)
     if by not in ("T", "P"):

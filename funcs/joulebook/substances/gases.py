@@ -37,7 +37,39 @@ _P_REF = 101_325.0
 
 @dataclass(frozen=True)
 class GasModel:
-    """An ideal-gas model (SI)."""
+    """An ideal-gas model (SI).
+
+    Parameters
+    ----------
+    name : str
+        The gas's name.
+    R : float
+        Specific gas constant (J/(kg·K)).
+    M : float or None
+        Molar mass (kg/mol), None when only R is known.
+    cp_const : float or None
+        c_p (J/(kg·K)) of the constant model; None for c_p⁰(T).
+    internal : str or None
+        The real fluid whose ideal-gas part gives c_p⁰(T).
+    T_min, T_max : float
+        Temperature range (K).
+    source : str
+        The model and its source, as cited in results.
+
+    References
+    ----------
+    .. [1] E. W. Lemmon, R. T. Jacobsen, S. G. Penoncello, D. G. Friend, "Thermodynamic
+       Properties of Air and Mixtures of Nitrogen, Argon, and Oxygen from 60 to 2000 K at
+       Pressures to 2000 MPa", J. Phys. Chem. Ref. Data 29 (2000) 331 (air's c_p⁰(T); each
+       gas's from its own equation of state, via CoolProp).
+    .. [2] Y. A. Çengel, M. A. Boles, *Thermodynamics: An Engineering Approach*, 9th ed.,
+       2019, §4-4 and §7-9 (ideal-gas relations).
+
+    Examples
+    --------
+    >>> gas_model("air | k = 1.4").constant
+    True
+    """
 
     name: str
     R: float  # J/(kg K)
@@ -50,6 +82,7 @@ class GasModel:
 
     @property
     def constant(self) -> bool:
+        """True for the constant-c_p model."""
         return self.cp_const is not None
 
 
@@ -66,10 +99,37 @@ def _num_with_unit(text: str, kind: str, system: UnitSystem, what: str) -> float
 def gas_model(text: str, system: UnitSystem | None = None) -> GasModel:
     """Parse a gas text into a :class:`GasModel`.
 
+    Parameters
+    ----------
+    text : str
+        ``"air"`` (c_p⁰(T) of its equation of state), ``"air | k = 1.4"``,
+        ``"air | cp = 1.005 kJ/(kg*K)"``, ``"R = 0.287 kJ/(kg*K) | cp = 1.005"``.
+    system : UnitSystem, optional
+        Unit system of constants written without a unit.
+
+    Returns
+    -------
+    GasModel
+        The model, cached.
+
     Raises
     ------
     BadInput
         Unknown gas, unknown key, or inconsistent constants (k ≤ 1, c_p ≤ R).
+
+    References
+    ----------
+    .. [1] E. W. Lemmon, R. T. Jacobsen, S. G. Penoncello, D. G. Friend, "Thermodynamic
+       Properties of Air and Mixtures of Nitrogen, Argon, and Oxygen from 60 to 2000 K at
+       Pressures to 2000 MPa", J. Phys. Chem. Ref. Data 29 (2000) 331 (air's c_p⁰(T); each
+       gas's from its own equation of state, via CoolProp).
+    .. [2] Y. A. Çengel, M. A. Boles, *Thermodynamics: An Engineering Approach*, 9th ed.,
+       2019, §4-4 and §7-9 (ideal-gas relations).
+
+    Examples
+    --------
+    >>> round(gas_model("air | k = 1.4").cp_const, 2)       # k·R/(k − 1)
+    1004.67
     """
     system = system or unit_system(None)
     parts = [p.strip() for p in str(text).split("|")]
@@ -167,24 +227,148 @@ def _ig(internal: str, T: float) -> tuple[float, float, float]:
 
 
 def cp(g: GasModel, T: float) -> float:
-    """c_p⁰(T), J/(kg·K)."""
+    r"""Isobaric specific heat of the ideal gas, c_p⁰(T).
+
+    .. math:: c_p^0(T) = T\,\frac{ds^0}{dT}
+
+    Parameters
+    ----------
+    g : GasModel
+        The gas.
+    T : float
+        Temperature (K).
+
+    Returns
+    -------
+    float
+        c_p⁰ (J/(kg·K)).
+
+    Raises
+    ------
+    OutOfRange
+        T outside the model's range.
+
+    References
+    ----------
+    .. [1] E. W. Lemmon, R. T. Jacobsen, S. G. Penoncello, D. G. Friend, "Thermodynamic
+       Properties of Air and Mixtures of Nitrogen, Argon, and Oxygen from 60 to 2000 K at
+       Pressures to 2000 MPa", J. Phys. Chem. Ref. Data 29 (2000) 331 (air's c_p⁰(T); each
+       gas's from its own equation of state, via CoolProp).
+    .. [2] Y. A. Çengel, M. A. Boles, *Thermodynamics: An Engineering Approach*, 9th ed.,
+       2019, §4-4 and §7-9 (ideal-gas relations).
+
+    Examples
+    --------
+    >>> air = gas_model("air")
+    >>> round(cp(air, 300.0), 1)
+    1004.8
+    """
     _check_T(g, T)
     return g.cp_const if g.constant else _ig(g.internal, T)[0]
 
 
 def cv(g: GasModel, T: float) -> float:
-    """c_v⁰(T) = c_p⁰(T) − R, J/(kg·K)."""
+    """Isochoric specific heat of the ideal gas.
+
+    .. math:: c_v^0(T) = c_p^0(T) - R
+
+    Parameters
+    ----------
+    g : GasModel
+        The gas.
+    T : float
+        Temperature (K).
+
+    Returns
+    -------
+    float
+        c_v⁰ (J/(kg·K)).
+
+    References
+    ----------
+    .. [1] E. W. Lemmon, R. T. Jacobsen, S. G. Penoncello, D. G. Friend, "Thermodynamic
+       Properties of Air and Mixtures of Nitrogen, Argon, and Oxygen from 60 to 2000 K at
+       Pressures to 2000 MPa", J. Phys. Chem. Ref. Data 29 (2000) 331 (air's c_p⁰(T); each
+       gas's from its own equation of state, via CoolProp).
+    .. [2] Y. A. Çengel, M. A. Boles, *Thermodynamics: An Engineering Approach*, 9th ed.,
+       2019, §4-4 and §7-9 (ideal-gas relations).
+
+    Examples
+    --------
+    >>> air = gas_model("air")
+    >>> round(cp(air, 300.0) - cv(air, 300.0), 3) == round(air.R, 3)
+    True
+    """
     return cp(g, T) - g.R
 
 
 def k(g: GasModel, T: float) -> float:
-    """k(T) = c_p⁰/c_v⁰."""
+    """Ratio of specific heats of the ideal gas.
+
+    .. math:: k(T) = c_p^0(T) / c_v^0(T)
+
+    Parameters
+    ----------
+    g : GasModel
+        The gas.
+    T : float
+        Temperature (K).
+
+    Returns
+    -------
+    float
+        k (dimensionless).
+
+    References
+    ----------
+    .. [1] E. W. Lemmon, R. T. Jacobsen, S. G. Penoncello, D. G. Friend, "Thermodynamic
+       Properties of Air and Mixtures of Nitrogen, Argon, and Oxygen from 60 to 2000 K at
+       Pressures to 2000 MPa", J. Phys. Chem. Ref. Data 29 (2000) 331 (air's c_p⁰(T); each
+       gas's from its own equation of state, via CoolProp).
+    .. [2] Y. A. Çengel, M. A. Boles, *Thermodynamics: An Engineering Approach*, 9th ed.,
+       2019, §4-4 and §7-9 (ideal-gas relations).
+
+    Examples
+    --------
+    >>> air = gas_model("air")
+    >>> round(k(air, 300.0), 4)
+    1.3999
+    """
     c = cp(g, T)
     return c / (c - g.R)
 
 
 def delta_h(g: GasModel, T1: float, T2: float) -> float:
-    """Δh = ∫_{T1}^{T2} c_p⁰ dT, J/kg."""
+    r"""Enthalpy change of the ideal gas between two temperatures.
+
+    .. math:: \Delta h = \int_{T_1}^{T_2} c_p^0\,dT
+
+    Parameters
+    ----------
+    g : GasModel
+        The gas.
+    T1, T2 : float
+        Initial and final temperature (K).
+
+    Returns
+    -------
+    float
+        Δh (J/kg).
+
+    References
+    ----------
+    .. [1] E. W. Lemmon, R. T. Jacobsen, S. G. Penoncello, D. G. Friend, "Thermodynamic
+       Properties of Air and Mixtures of Nitrogen, Argon, and Oxygen from 60 to 2000 K at
+       Pressures to 2000 MPa", J. Phys. Chem. Ref. Data 29 (2000) 331 (air's c_p⁰(T); each
+       gas's from its own equation of state, via CoolProp).
+    .. [2] Y. A. Çengel, M. A. Boles, *Thermodynamics: An Engineering Approach*, 9th ed.,
+       2019, §4-4 and §7-9 (ideal-gas relations).
+
+    Examples
+    --------
+    >>> round(delta_h(gas_model("air | k = 1.4"), 300.0, 400.0), 2)   # c_p·ΔT
+    100467.19
+    """
     _check_T(g, T1, "T1")
     _check_T(g, T2, "T2")
     if g.constant:
@@ -193,12 +377,73 @@ def delta_h(g: GasModel, T1: float, T2: float) -> float:
 
 
 def delta_u(g: GasModel, T1: float, T2: float) -> float:
-    """Δu = Δh − R·(T2 − T1), J/kg."""
+    r"""Internal-energy change of the ideal gas between two temperatures.
+
+    .. math:: \Delta u = \Delta h - R\,(T_2 - T_1)
+
+    Parameters
+    ----------
+    g : GasModel
+        The gas.
+    T1, T2 : float
+        Initial and final temperature (K).
+
+    Returns
+    -------
+    float
+        Δu (J/kg).
+
+    References
+    ----------
+    .. [1] E. W. Lemmon, R. T. Jacobsen, S. G. Penoncello, D. G. Friend, "Thermodynamic
+       Properties of Air and Mixtures of Nitrogen, Argon, and Oxygen from 60 to 2000 K at
+       Pressures to 2000 MPa", J. Phys. Chem. Ref. Data 29 (2000) 331 (air's c_p⁰(T); each
+       gas's from its own equation of state, via CoolProp).
+    .. [2] Y. A. Çengel, M. A. Boles, *Thermodynamics: An Engineering Approach*, 9th ed.,
+       2019, §4-4 and §7-9 (ideal-gas relations).
+
+    Examples
+    --------
+    >>> round(delta_u(gas_model("air | k = 1.4"), 300.0, 400.0), 2)   # c_v·ΔT
+    71762.28
+    """
     return delta_h(g, T1, T2) - g.R * (T2 - T1)
 
 
 def cp_mean(g: GasModel, T1: float, T2: float) -> float:
-    """Mean c_p over [T1, T2] = Δh/(T2 − T1); c_p⁰(T1) when T1 = T2, J/(kg·K)."""
+    r"""Mean isobaric specific heat over [T1, T2].
+
+    .. math:: \bar c_p = \frac{\Delta h}{T_2 - T_1}
+
+    (c_p⁰(T1) when T1 = T2).
+
+    Parameters
+    ----------
+    g : GasModel
+        The gas.
+    T1, T2 : float
+        The temperatures (K).
+
+    Returns
+    -------
+    float
+        Mean c_p (J/(kg·K)).
+
+    References
+    ----------
+    .. [1] E. W. Lemmon, R. T. Jacobsen, S. G. Penoncello, D. G. Friend, "Thermodynamic
+       Properties of Air and Mixtures of Nitrogen, Argon, and Oxygen from 60 to 2000 K at
+       Pressures to 2000 MPa", J. Phys. Chem. Ref. Data 29 (2000) 331 (air's c_p⁰(T); each
+       gas's from its own equation of state, via CoolProp).
+    .. [2] Y. A. Çengel, M. A. Boles, *Thermodynamics: An Engineering Approach*, 9th ed.,
+       2019, §4-4 and §7-9 (ideal-gas relations).
+
+    Examples
+    --------
+    >>> air = gas_model("air")
+    >>> round(cp_mean(air, 300.0, 1000.0), 1)
+    1065.6
+    """
     if T1 == T2:
         return cp(g, T1)
     return delta_h(g, T1, T2) / (T2 - T1)
@@ -207,7 +452,46 @@ def cp_mean(g: GasModel, T1: float, T2: float) -> float:
 def delta_s(
     g: GasModel, T1: float, T2: float, P1: float | None = None, P2: float | None = None
 ) -> float:
-    """Δs = s⁰(T2) − s⁰(T1) − R·ln(P2/P1), J/(kg·K); without pressures, Δs⁰ at equal pressure."""
+    r"""Entropy change of the ideal gas.
+
+    .. math:: \Delta s = s^0(T_2) - s^0(T_1) - R \ln(P_2/P_1)
+
+    Without pressures, Δs⁰ at equal pressure.
+
+    Parameters
+    ----------
+    g : GasModel
+        The gas.
+    T1, T2 : float
+        Initial and final temperature (K).
+    P1, P2 : float, optional
+        Initial and final pressure (Pa); give both or neither.
+
+    Returns
+    -------
+    float
+        Δs (J/(kg·K)).
+
+    Raises
+    ------
+    BadInput
+        One pressure without the other, or a pressure ≤ 0.
+
+    References
+    ----------
+    .. [1] E. W. Lemmon, R. T. Jacobsen, S. G. Penoncello, D. G. Friend, "Thermodynamic
+       Properties of Air and Mixtures of Nitrogen, Argon, and Oxygen from 60 to 2000 K at
+       Pressures to 2000 MPa", J. Phys. Chem. Ref. Data 29 (2000) 331 (air's c_p⁰(T); each
+       gas's from its own equation of state, via CoolProp).
+    .. [2] Y. A. Çengel, M. A. Boles, *Thermodynamics: An Engineering Approach*, 9th ed.,
+       2019, §4-4 and §7-9 (ideal-gas relations).
+
+    Examples
+    --------
+    >>> g = gas_model("air | k = 1.4")
+    >>> abs(delta_s(g, 300.0, 300.0 * 8 ** (0.4 / 1.4), 1e5, 8e5)) < 1e-9   # isentropic
+    True
+    """
     _check_T(g, T1, "T1")
     _check_T(g, T2, "T2")
     if g.constant:

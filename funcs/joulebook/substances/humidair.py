@@ -60,7 +60,39 @@ def _check(sym: str, val: float) -> None:
 
 
 def prop(want: str, P: float, a: str, va: float, b: str, vb: float) -> float:
-    """*want* of humid air at total pressure *P* (Pa) fixed by (*a*, *va*), (*b*, *vb*), SI.
+    r"""*want* of humid air at total pressure *P* (Pa) fixed by (*a*, *va*), (*b*, *vb*), SI.
+
+    .. math:: RH = \frac{x_w\,P}{f\,P_{ws}(T)}, \qquad HR = \frac{m_w}{m_{da}}
+
+    on the real-gas model of moist air.
+
+    Parameters
+    ----------
+    want : str
+        One of ``T RH HR Tdp Twb h v``.
+    P : float
+        Total pressure (Pa).
+    a, b : str
+        Two of ``T RH HR Tdp Twb h``.
+    va, vb : float
+        Their values, SI (RH as a fraction 0–1, h and v per kg dry air).
+
+    Returns
+    -------
+    float
+        The value, SI.
+
+    Raises
+    ------
+    BadInput
+        Unknown symbols or a repeated one.
+    OutOfRange
+        A value outside the model's range.
+
+    References
+    ----------
+    .. [1] S. Herrmann, H.-J. Kretzschmar, D. P. Gatley, "Thermodynamic properties of real moist
+       air, dry air, steam, water, and ice", ASHRAE RP-1485, HVAC&R Research 15 (2009) 961–986.
 
     Examples
     --------
@@ -102,8 +134,34 @@ def prop(want: str, P: float, a: str, va: float, b: str, vb: float) -> float:
 
 
 def condensate(P1: float, T1: float, RH1: float, P2: float, T2: float, V2: float) -> float:
-    """Water (kg) condensed from the dry air that fills *V2* (m³) at (P2, T2) after taking in
-    air at (P1, T1, RH1).
+    r"""Water condensed from the air that fills a receiver after compression and cooling.
+
+    .. math:: m_w = \frac{V_2}{v_{sat}(P_2, T_2)}\,\max\big(0,\ HR_1 - HR_{sat}(P_2, T_2)\big)
+
+    Parameters
+    ----------
+    P1 : float
+        Intake pressure (Pa).
+    T1 : float
+        Intake temperature (K).
+    RH1 : float
+        Intake relative humidity (0–1).
+    P2 : float
+        Receiver pressure (Pa).
+    T2 : float
+        Receiver temperature (K).
+    V2 : float
+        Receiver volume (m³), > 0.
+
+    Returns
+    -------
+    float
+        Condensed water (kg).
+
+    References
+    ----------
+    .. [1] S. Herrmann, H.-J. Kretzschmar, D. P. Gatley, "Thermodynamic properties of real moist
+       air, dry air, steam, water, and ice", ASHRAE RP-1485, HVAC&R Research 15 (2009) 961–986.
 
     Examples
     --------

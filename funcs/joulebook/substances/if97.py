@@ -39,6 +39,24 @@ _local = threading.local()
 
 
 def model_text() -> str:
+    """The model's name with the property library's version, as results cite it.
+
+    Returns
+    -------
+    str
+        ``"IAPWS-IF97 (…) via CoolProp X.Y.Z"``.
+
+    References
+    ----------
+    .. [1] IAPWS R7-97(2012), "Revised Release on the IAPWS Industrial Formulation 1997 for the
+       Thermodynamic Properties of Water and Steam"; W. Wagner et al., J. Eng. Gas Turbines
+       Power 122 (2000) 150–182.
+
+    Examples
+    --------
+    >>> model_text().startswith("IAPWS-IF97")
+    True
+    """
     import CoolProp
 
     return f"IAPWS-IF97 (IAPWS R7-97(2012), industrial formulation) via CoolProp {CoolProp.__version__}"
@@ -93,6 +111,39 @@ def _update(key, a: float, b: float, two_phase: bool = False):
 
 
 def at_TP(T: float, P: float):
+    """A single-phase state of water by IF97 at (T, P).
+
+    Parameters
+    ----------
+    T : float
+        Temperature (K), 273.15–1073.15.
+    P : float
+        Pressure (Pa), up to 100 MPa.
+
+    Returns
+    -------
+    tuple of float
+        ``(T, P, v, u, h, s, x)`` in K, Pa, m³/kg, J/kg, J/(kg·K); x is None off the
+        saturation line.
+
+    Raises
+    ------
+    BadInput
+        (T, P) on the saturation line (give x or v).
+    OutOfRange
+        Outside regions 1 to 3 and 5's range offered.
+
+    References
+    ----------
+    .. [1] IAPWS R7-97(2012), "Revised Release on the IAPWS Industrial Formulation 1997 for the
+       Thermodynamic Properties of Water and Steam"; W. Wagner et al., J. Eng. Gas Turbines
+       Power 122 (2000) 150–182.
+
+    Examples
+    --------
+    >>> round(at_TP(300.0, 3e6)[4] / 1e3, 6)        # IF97 Table 5: h = 115.331273 kJ/kg
+    115.331273
+    """
     _check_T(T)
     _check_P(P)
     if T < T_CRIT and abs(P - psat(T)) <= 1e-5 * P:
@@ -104,10 +155,68 @@ def at_TP(T: float, P: float):
 
 
 def psat(T: float) -> float:
+    r"""Saturation pressure of water by IF97 (region 4).
+
+    .. math:: P_{sat}(T) \text{ from the saturation equation of region 4}
+
+    Parameters
+    ----------
+    T : float
+        Temperature (K), 273.15 to the critical 647.096.
+
+    Returns
+    -------
+    float
+        P_sat (Pa).
+
+    References
+    ----------
+    .. [1] IAPWS R7-97(2012), "Revised Release on the IAPWS Industrial Formulation 1997 for the
+       Thermodynamic Properties of Water and Steam"; W. Wagner et al., J. Eng. Gas Turbines
+       Power 122 (2000) 150–182.
+
+    Examples
+    --------
+    >>> round(psat(300.0) / 1e6, 11)                 # IF97 Table 35: 0.00353658941 MPa
+    0.00353658941
+    """
     return _update(_cp().QT_INPUTS, 0.0, T, True)[1]
 
 
 def sat(by: str, value: float, x: float):
+    """A saturated state of water by IF97 at T or P with quality x.
+
+    Parameters
+    ----------
+    by : str
+        ``"T"`` or ``"P"``.
+    value : float
+        The saturation temperature (K) or pressure (Pa).
+    x : float
+        Quality, 0–1.
+
+    Returns
+    -------
+    tuple of float
+        ``(T, P, v, u, h, s, x)`` in K, Pa, m³/kg, J/kg, J/(kg·K); x is None off the
+        saturation line.
+
+    Raises
+    ------
+    OutOfRange
+        Above the critical point or below the triple point.
+
+    References
+    ----------
+    .. [1] IAPWS R7-97(2012), "Revised Release on the IAPWS Industrial Formulation 1997 for the
+       Thermodynamic Properties of Water and Steam"; W. Wagner et al., J. Eng. Gas Turbines
+       Power 122 (2000) 150–182.
+
+    Examples
+    --------
+    >>> round(sat("P", 101325.0, 0.0)[0], 2)
+    373.12
+    """
     CP = _cp()
     if by == "T":
         _check_T(value)
@@ -166,7 +275,40 @@ def _single(solve_over: str, fixed: float, sym: str, target: float):
 
 
 def flash(a: str, va: float, b: str, vb: float):
-    """(T, P, v, u, h, s, x) of water by IF97 at the pair (a, b), SI."""
+    """(T, P, v, u, h, s, x) of water by IF97 at the pair (a, b), SI.
+
+    Parameters
+    ----------
+    a, b : str
+        Symbols of the fixing properties: T–P, P–x, T–x, or T or P with v, u, h or s.
+    va, vb : float
+        Their SI values.
+
+    Returns
+    -------
+    tuple of float
+        ``(T, P, v, u, h, s, x)`` in K, Pa, m³/kg, J/kg, J/(kg·K); x is None off the
+        saturation line.
+
+    Raises
+    ------
+    BadInput
+        A pair IF97 does not take here, or one that fits two states.
+    OutOfRange
+        Outside the formulation's range.
+
+    References
+    ----------
+    .. [1] IAPWS R7-97(2012), "Revised Release on the IAPWS Industrial Formulation 1997 for the
+       Thermodynamic Properties of Water and Steam"; W. Wagner et al., J. Eng. Gas Turbines
+       Power 122 (2000) 150–182.
+
+    Examples
+    --------
+    >>> st = flash("P", 3e6, "h", 115331.273)
+    >>> round(st[0], 4)
+    300.0
+    """
     _cp()
     pair = {a: va, b: vb}
     if a == b:
@@ -212,7 +354,33 @@ def flash(a: str, va: float, b: str, vb: float):
 
 
 def derivative(T: float, P: float, want: str) -> float:
-    """cp, cv, k or w of a single-phase state (T, P)."""
+    """cp, cv, k or w of a single-phase state (T, P).
+
+    Parameters
+    ----------
+    T : float
+        Temperature (K).
+    P : float
+        Pressure (Pa).
+    want : str
+        ``cp``, ``cv``, ``k`` or ``w``.
+
+    Returns
+    -------
+    float
+        The value, SI (J/(kg·K), m/s, or k dimensionless).
+
+    References
+    ----------
+    .. [1] IAPWS R7-97(2012), "Revised Release on the IAPWS Industrial Formulation 1997 for the
+       Thermodynamic Properties of Water and Steam"; W. Wagner et al., J. Eng. Gas Turbines
+       Power 122 (2000) 150–182.
+
+    Examples
+    --------
+    >>> round(derivative(300.0, 3e6, "w"), 5)        # IF97 Table 5: 1507.73921 m/s
+    1507.73921
+    """
     st = _state()
     try:
         st.update(_cp().PT_INPUTS, P, T)

@@ -53,13 +53,56 @@ _local = threading.local()
 
 @dataclass(frozen=True)
 class Mixture:
+    """A mixture by composition (mole fractions).
+
+    Parameters
+    ----------
+    text : str
+        The composition as shown: ``"methane 0.9, ethane 0.1 (mole)"``.
+    internal : tuple of str
+        The property library's names of the components.
+    mole : tuple of float
+        Mole fractions, adding up to 1.
+
+    References
+    ----------
+    .. [1] O. Kunz, W. Wagner, "The GERG-2008 wide-range equation of state for natural gases and
+       other mixtures", J. Chem. Eng. Data 57 (2012) 3032–3091.
+
+    Examples
+    --------
+    >>> parse("methane 0.9, ethane 0.1").mole
+    (0.9, 0.1)
+    """
+
     text: str  # as shown: "methane 0.9, ethane 0.1"
     internal: tuple[str, ...]
     mole: tuple[float, ...]
 
 
 def is_mixture_text(name: str) -> bool:
-    """Does *name* read as a composition ("a 0.5, b 0.5")?"""
+    """Does *name* read as a composition ("a 0.5, b 0.5")?
+
+    Parameters
+    ----------
+    name : str
+        Substance text.
+
+    Returns
+    -------
+    bool
+        True for two or more ``component fraction`` parts.
+
+    References
+    ----------
+    .. [1] O. Kunz, W. Wagner, "The GERG-2008 wide-range equation of state for natural gases and
+       other mixtures", J. Chem. Eng. Data 57 (2012) 3032–3091.
+
+    Examples
+    --------
+    >>> is_mixture_text("R32 0.5, R125 0.5 (mass)"), is_mixture_text("water")
+    (True, False)
+    """
     name = _MASS.sub("", str(name)).strip()
     parts = [p for p in name.split(",") if p.strip()]
     return len(parts) >= 2 and all(_PART.match(p) for p in parts)
@@ -67,13 +110,37 @@ def is_mixture_text(name: str) -> bool:
 
 @lru_cache(maxsize=256)
 def parse(text: str) -> Mixture:
-    """The mixture written as components and fractions (mole, or mass with '(mass)').
+    r"""The mixture written as components and fractions (mole, or mass with '(mass)').
+
+    Mass fractions become mole fractions by
+
+    .. math:: x_i = \frac{w_i / M_i}{\sum_j w_j / M_j}
+
+    Parameters
+    ----------
+    text : str
+        ``"methane 0.9, ethane 0.1"`` or ``"R32 0.5, R125 0.5 (mass)"``.
+
+    Returns
+    -------
+    Mixture
+        The components and mole fractions.
+
+    Raises
+    ------
+    BadInput
+        A malformed part, an unknown or repeated component, fractions not adding up to 1.
+
+    References
+    ----------
+    .. [1] O. Kunz, W. Wagner, "The GERG-2008 wide-range equation of state for natural gases and
+       other mixtures", J. Chem. Eng. Data 57 (2012) 3032–3091.
 
     Examples
     --------
     >>> m = parse("R32 0.5, R125 0.5 (mass)")
     >>> round(m.mole[0], 6)
-    0.697616
+    0.697615
     """
     raw = str(text).strip()
     basis = _MASS.search(raw)
@@ -144,7 +211,40 @@ def _do(mix: Mixture, key, a: float, b: float, what: str):
 
 
 def saturation(mix: Mixture, by: str, value: float, x: float):
-    """(T, P, v, u, h, s) at T or P with vapour fraction x (0 bubble, 1 dew)."""
+    """(T, P, v, u, h, s) at T or P with vapour fraction x (0 bubble, 1 dew).
+
+    Parameters
+    ----------
+    mix : Mixture
+        The mixture.
+    by : str
+        ``"T"`` or ``"P"``.
+    value : float
+        Temperature (K) or pressure (Pa).
+    x : float
+        Vapour fraction, 0–1.
+
+    Returns
+    -------
+    tuple of float
+        ``(T, P, v, u, h, s)`` in K, Pa, m³/kg, J/kg, J/(kg·K).
+
+    Raises
+    ------
+    OutOfRange, NoConvergence
+        No saturation state there, or the model's solver failed (near the critical locus).
+
+    References
+    ----------
+    .. [1] O. Kunz, W. Wagner, "The GERG-2008 wide-range equation of state for natural gases and
+       other mixtures", J. Chem. Eng. Data 57 (2012) 3032–3091.
+
+    Examples
+    --------
+    >>> T, P = saturation(parse("R32 0.5, R125 0.5 (mass)"), "P", 1e6, 0.0)[:2]
+    >>> round(T - 273.15, 1)                                         # R410A bubble point
+    7.2
+    """
     import CoolProp.CoolProp as CP
 
     if not 0 <= x <= 1:
@@ -156,7 +256,38 @@ def saturation(mix: Mixture, by: str, value: float, x: float):
 
 
 def at_TP(mix: Mixture, T: float, P: float):
-    """(T, P, v, u, h, s) of a single-phase state; refused between bubble and dew point."""
+    """(T, P, v, u, h, s) of a single-phase state; refused between bubble and dew point.
+
+    Parameters
+    ----------
+    mix : Mixture
+        The mixture.
+    T : float
+        Temperature (K).
+    P : float
+        Pressure (Pa).
+
+    Returns
+    -------
+    tuple of float
+        ``(T, P, v, u, h, s)`` in K, Pa, m³/kg, J/kg, J/(kg·K).
+
+    Raises
+    ------
+    OutOfRange
+        A two-phase (T, P), or one outside the model.
+
+    References
+    ----------
+    .. [1] O. Kunz, W. Wagner, "The GERG-2008 wide-range equation of state for natural gases and
+       other mixtures", J. Chem. Eng. Data 57 (2012) 3032–3091.
+
+    Examples
+    --------
+    >>> ng = parse("methane 0.9, ethane 0.1")
+    >>> round(1 / at_TP(ng, 300.0, 5e6)[2], 2)                       # density, kg/m3
+    38.94
+    """
     import CoolProp.CoolProp as CP
 
     if not (T > 0 and P > 0):
@@ -175,6 +306,35 @@ def at_TP(mix: Mixture, T: float, P: float):
 
 
 def derivative(mix: Mixture, T: float, P: float, want: str) -> float:
+    """cp, cv, k or w of a single-phase state (T, P) of the mixture.
+
+    Parameters
+    ----------
+    mix : Mixture
+        The mixture.
+    T : float
+        Temperature (K).
+    P : float
+        Pressure (Pa).
+    want : str
+        ``cp``, ``cv``, ``k`` or ``w``.
+
+    Returns
+    -------
+    float
+        The value, SI.
+
+    References
+    ----------
+    .. [1] O. Kunz, W. Wagner, "The GERG-2008 wide-range equation of state for natural gases and
+       other mixtures", J. Chem. Eng. Data 57 (2012) 3032–3091.
+
+    Examples
+    --------
+    >>> ng = parse("methane 0.9, ethane 0.1")
+    >>> derivative(ng, 300.0, 5e6, "k") > 1.0
+    True
+    """
     import CoolProp.CoolProp as CP
 
     st = _do(mix, CP.PT_INPUTS, P, T, "single-phase state")[0]
@@ -186,4 +346,28 @@ def derivative(mix: Mixture, T: float, P: float, want: str) -> float:
 
 
 def molar_mass(mix: Mixture) -> float:
+    r"""Molar mass of the mixture.
+
+    .. math:: M = \sum_i x_i M_i
+
+    Parameters
+    ----------
+    mix : Mixture
+        The mixture.
+
+    Returns
+    -------
+    float
+        M (kg/mol).
+
+    References
+    ----------
+    .. [1] O. Kunz, W. Wagner, "The GERG-2008 wide-range equation of state for natural gases and
+       other mixtures", J. Chem. Eng. Data 57 (2012) 3032–3091.
+
+    Examples
+    --------
+    >>> round(molar_mass(parse("methane 0.5, ethane 0.5")) * 1e3, 3)     # g/mol
+    23.056
+    """
     return sum(x * fluids.fluid_info(n).molar_mass for n, x in zip(mix.internal, mix.mole))

@@ -32,6 +32,40 @@ R_UNIVERSAL = 8.314462618  # J/(mol K), CODATA 2018 (exact)
 
 @dataclass(frozen=True)
 class Material:
+    """An incompressible solid or liquid with its sourced c(T).
+
+    Parameters
+    ----------
+    name : str
+        Display name.
+    aliases : tuple of str
+        Other names accepted.
+    form : str
+        ``nasa7``, ``nasa9``, ``table`` or ``en1993``.
+    data : tuple
+        The coefficients or table of the form (see the module docstring).
+    T_min, T_max : float
+        Valid temperature range (K).
+    source : str
+        The data's source, as cited in results.
+    molar_mass : float, optional
+        kg/mol, for the NASA forms.
+    note : str
+        A remark shown with results.
+
+    References
+    ----------
+    .. [1] B. J. McBride, S. Gordon, M. A. Reno, *Coefficients for Calculating Thermodynamic
+       and Transport Properties of Individual Species*, NASA TM-4513, 1993 (condensed species).
+    .. [2] EN 1993-1-2:2005, *Eurocode 3: Design of steel structures — Part 1-2: Structural
+       fire design*, §3.4.1.2, eq. (3.2) (carbon steel).
+
+    Examples
+    --------
+    >>> material("steel").name
+    'carbon steel'
+    """
+
     name: str
     aliases: tuple[str, ...]
     form: str  # "nasa7", "nasa9", "table" or "en1993" (the Eurocode equation for steel)
@@ -245,16 +279,57 @@ def _index() -> dict[str, Material]:
 
 
 def material_names() -> list[str]:
+    """Display names of every material, in the catalogue's order.
+
+    Returns
+    -------
+    list of str
+        The names :func:`material` accepts (aliases aside).
+
+    References
+    ----------
+    .. [1] B. J. McBride, S. Gordon, M. A. Reno, *Coefficients for Calculating Thermodynamic
+       and Transport Properties of Individual Species*, NASA TM-4513, 1993 (condensed species).
+    .. [2] EN 1993-1-2:2005, *Eurocode 3: Design of steel structures — Part 1-2: Structural
+       fire design*, §3.4.1.2, eq. (3.2) (carbon steel).
+
+    Examples
+    --------
+    >>> material_names()[:2]
+    ['aluminium', 'copper']
+    """
     return [m.name for m in MATERIALS]
 
 
 def material(name: str) -> Material:
     """Resolve a material name or alias.
 
+    Parameters
+    ----------
+    name : str
+        ``"copper"``, ``"carbon steel"``, ``"concrete"`` …
+
+    Returns
+    -------
+    Material
+        The material and its c(T).
+
     Raises
     ------
     BadInput
         Unknown material; the message lists the known ones.
+
+    References
+    ----------
+    .. [1] B. J. McBride, S. Gordon, M. A. Reno, *Coefficients for Calculating Thermodynamic
+       and Transport Properties of Individual Species*, NASA TM-4513, 1993 (condensed species).
+    .. [2] EN 1993-1-2:2005, *Eurocode 3: Design of steel structures — Part 1-2: Structural
+       fire design*, §3.4.1.2, eq. (3.2) (carbon steel).
+
+    Examples
+    --------
+    >>> material("Copper").form
+    'nasa7'
     """
     m = _index().get(_key(name))
     if m is None:
@@ -344,7 +419,39 @@ def _en1993_int(T: float) -> float:
 
 
 def c(m: Material, T: float) -> float:
-    """Specific heat c(T), J/(kg·K)."""
+    r"""Specific heat c(T) of the material (c_p = c_v = c, incompressible).
+
+    .. math:: c(T) = R/M \sum_i a_i T^{i-1} \quad\text{(NASA 7-term form)}
+
+    Parameters
+    ----------
+    m : Material
+        The material.
+    T : float
+        Temperature (K).
+
+    Returns
+    -------
+    float
+        c (J/(kg·K)).
+
+    Raises
+    ------
+    OutOfRange
+        T outside the material's range.
+
+    References
+    ----------
+    .. [1] B. J. McBride, S. Gordon, M. A. Reno, *Coefficients for Calculating Thermodynamic
+       and Transport Properties of Individual Species*, NASA TM-4513, 1993 (condensed species).
+    .. [2] EN 1993-1-2:2005, *Eurocode 3: Design of steel structures — Part 1-2: Structural
+       fire design*, §3.4.1.2, eq. (3.2) (carbon steel).
+
+    Examples
+    --------
+    >>> round(c(material("copper"), 300.0), 1)
+    385.0
+    """
     _check(m, T, "T")
     if m.form == "en1993":
         return _en1993_c(T)
@@ -391,14 +498,70 @@ def _antiderivative(m: Material, T: float) -> float:
 
 
 def delta_u(m: Material, T1: float, T2: float) -> float:
-    """Δu = ∫_{T1}^{T2} c(T) dT, J/kg (negative on cooling)."""
+    r"""Sensible internal-energy change, negative on cooling.
+
+    .. math:: \Delta u = \int_{T_1}^{T_2} c(T)\,dT
+
+    Parameters
+    ----------
+    m : Material
+        The material.
+    T1, T2 : float
+        Initial and final temperature (K).
+
+    Returns
+    -------
+    float
+        Δu (J/kg).
+
+    References
+    ----------
+    .. [1] B. J. McBride, S. Gordon, M. A. Reno, *Coefficients for Calculating Thermodynamic
+       and Transport Properties of Individual Species*, NASA TM-4513, 1993 (condensed species).
+    .. [2] EN 1993-1-2:2005, *Eurocode 3: Design of steel structures — Part 1-2: Structural
+       fire design*, §3.4.1.2, eq. (3.2) (carbon steel).
+
+    Examples
+    --------
+    >>> round(delta_u(material("copper"), 300.0, 400.0) / 1e3, 2)   # kJ/kg
+    39.34
+    """
     _check(m, T1, "T1")
     _check(m, T2, "T2")
     return _antiderivative(m, T2) - _antiderivative(m, T1)
 
 
 def c_mean(m: Material, T1: float, T2: float) -> float:
-    """Mean specific heat Δu/(T2 − T1); c(T1) when T1 = T2, J/(kg·K)."""
+    r"""Mean specific heat over [T1, T2].
+
+    .. math:: \bar c = \frac{\Delta u}{T_2 - T_1}
+
+    (c(T1) when T1 = T2).
+
+    Parameters
+    ----------
+    m : Material
+        The material.
+    T1, T2 : float
+        The temperatures (K).
+
+    Returns
+    -------
+    float
+        Mean c (J/(kg·K)).
+
+    References
+    ----------
+    .. [1] B. J. McBride, S. Gordon, M. A. Reno, *Coefficients for Calculating Thermodynamic
+       and Transport Properties of Individual Species*, NASA TM-4513, 1993 (condensed species).
+    .. [2] EN 1993-1-2:2005, *Eurocode 3: Design of steel structures — Part 1-2: Structural
+       fire design*, §3.4.1.2, eq. (3.2) (carbon steel).
+
+    Examples
+    --------
+    >>> round(c_mean(material("copper"), 300.0, 400.0), 1)
+    393.4
+    """
     if T1 == T2:
         return c(m, T1)
     return delta_u(m, T1, T2) / (T2 - T1)
