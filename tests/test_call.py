@@ -111,3 +111,32 @@ def test_messages_are_short():
 def test_numpy_inputs_accepted():
     out = joulebook.call("JB_GAS_CP", "air", np.array([300.0, 400.0]))
     assert out.shape == (2,) and out[0] == joulebook.call("JB_GAS_CP", "air", 300.0)
+
+
+def test_blank_value_of_a_named_property_is_a_blank_result_in_every_path(tmp_path):
+    """A copied-down row not filled in yet: the single-cell path, the column path and the
+    engine agree (common practice; design §4).  A property left unnamed is a bad formula."""
+    import openpyxl
+
+    from joulebook.cellvalues import cell
+    from joulebook.workbook.engine import Engine
+    from joulebook.workbook.reader import read_book
+
+    args = ("water", "h", "T in degC")
+    assert cell("JB_PROP", *args, None, "P in kPa", 100) is None
+    assert cell("JB_PROP", *args, [[None], [20]], "P in kPa", 100)[0] == [None]
+    assert cell("JB_PROP", "water", "h", "T in degC", 20, None, 100).startswith("BadInput:")
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws["A1"], ws["A3"] = 20, 30
+    for r in (1, 2, 3):
+        ws[f"B{r}"] = f'=JB_PROP("water","h","T in degC",A{r},"P in kPa",100)'
+    ws["C1"] = '=JB_PROP("water","h","T in degC",A2,"P in kPa",100)'
+    wb.save(tmp_path / "b.xlsx")
+    out = Engine(read_book(tmp_path / "b.xlsx")).run()
+    sheet = ws.title
+    assert isinstance(out[(sheet, 1, 2)].value, float) and isinstance(
+        out[(sheet, 3, 2)].value, float
+    )
+    assert out[(sheet, 2, 2)].value in (None, "") and out[(sheet, 1, 3)].value in (None, "")
+    assert not out[(sheet, 2, 2)].message

@@ -27,6 +27,8 @@ MODULES = [
     "joulebook.states",
     "joulebook.media",
     "joulebook.firstlaw",
+    "joulebook.working",
+    "joulebook.files",
     "joulebook.cellvalues",
     "joulebook.substances.fluids",
     "joulebook.substances.gases",

@@ -31,6 +31,11 @@ def atomic_write(target: Path, write) -> None:
     >>> atomic_write(p, lambda fh: fh.write(b"ok"))
     >>> p.read_bytes()
     b'ok'
+
+    References
+    ----------
+    .. [1] Python Software Foundation, "os.replace", The Python Standard Library
+       documentation (an atomic rename on POSIX and Windows).
     """
     target = Path(target)
     fd, tmp = tempfile.mkstemp(prefix=".joulebook-", suffix=target.suffix, dir=target.parent)

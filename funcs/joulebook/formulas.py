@@ -15,7 +15,7 @@ from functools import lru_cache
 import numpy as np
 
 from . import __version__, firstlaw, states
-from .errors import BadInput, JoulebookError, OutOfRange, message_in
+from .errors import BadInput, BlankInput, JoulebookError, OutOfRange, message_in
 from .media import RealMedium, medium
 from .processes import (
     blockedin,
@@ -53,10 +53,14 @@ def _state_from_args(substance, spec1, value1, spec2, value2, system: UnitSystem
         if v is None
     ]
     if missing:
-        raise BadInput(
+        msg = (
             f"{substance}: give two properties with values ({', '.join(missing)} missing), "
             "or pass a state text from JB_STATE"
         )
+        if spec1 is not None and spec2 is not None:
+            # both properties named, a value blank: a copied-down row not filled in yet
+            raise BlankInput(msg)
+        raise BadInput(msg)
     return states.make_state(substance, spec1, value1, spec2, value2, system)
 
 

@@ -47,7 +47,28 @@ _CONST = {"pi": math.pi}
 
 @dataclass(frozen=True)
 class Step:
-    """An intermediate quantity: ``symbol = expr``, shown in the unit of *kind*."""
+    """An intermediate quantity of a working: ``symbol = expr``, shown in the unit of *kind*.
+
+    Parameters
+    ----------
+    symbol : str
+        The quantity's symbol (``n``, ``P_2``, ``cp``); later steps and the result use it.
+    expr : str
+        Its expression in the entry's argument names and earlier steps, SI.
+    kind : str or None
+        Its units kind (``"pressure"``); None for a plain number, ``"text"`` for text.
+
+    Examples
+    --------
+    >>> st = Step("n", "ln(P_2/P_1)/ln(V_1/V_2)")
+    >>> round(evaluate(st.expr, {"P_1": 1e5, "P_2": 2e5, "V_1": 2.0, "V_2": 1.0}), 6)
+    1.0
+
+    References
+    ----------
+    .. [1] Python Software Foundation, "ast — Abstract Syntax Trees", The Python Standard
+       Library documentation (the parser the expressions go through; never ``eval``).
+    """
 
     symbol: str
     expr: str
@@ -82,6 +103,17 @@ class Working:
         The SI values the function takes for omitted optional arguments.
     columns : tuple of str
         Headings of a spilled result that carries none of its own (the audit's table).
+
+    Examples
+    --------
+    >>> w = Working("W", "P*(V_2 - V_1)", curve="P")
+    >>> round(evaluate(w.result, {"P": 2e5, "V_1": 0.1, "V_2": 0.3}), 6)
+    40000.0
+
+    References
+    ----------
+    .. [1] Python Software Foundation, "ast — Abstract Syntax Trees", The Python Standard
+       Library documentation (the parser the expressions go through; never ``eval``).
     """
 
     symbol: str = ""
@@ -128,7 +160,28 @@ def _parse(expr: str) -> ast.expr:
 
 
 def names_in(expr: str) -> set[str]:
-    """The names an expression reads (arguments and steps; not functions or constants)."""
+    """The names an expression reads (arguments and steps; not functions or constants).
+
+    Parameters
+    ----------
+    expr : str
+        A working expression.
+
+    Returns
+    -------
+    set of str
+        The argument and step names it reads.
+
+    Examples
+    --------
+    >>> sorted(names_in("2*pi*revolutions*torque"))
+    ['revolutions', 'torque']
+
+    References
+    ----------
+    .. [1] Python Software Foundation, "ast — Abstract Syntax Trees", The Python Standard
+       Library documentation (the parser the expressions go through; never ``eval``).
+    """
     out = set()
     for node in ast.walk(_parse(expr)):
         if isinstance(node, ast.Name) and node.id not in _CONST:
@@ -140,9 +193,38 @@ def names_in(expr: str) -> set[str]:
 
 
 def evaluate(expr: str, values: dict, call: Callable | None = None):
-    """The value of *expr* with *values* (SI); *call(name, *args)* runs catalog functions.
+    """The value of a working expression.
 
-    Raises KeyError for a name without a value and the exceptions of the functions it calls.
+    Parameters
+    ----------
+    expr : str
+        The expression (the safe subset of :func:`_parse`).
+    values : dict
+        Argument and step values: numbers in SI, text as given, None for an omitted argument.
+    call : callable, optional
+        ``call(name, *args)`` runs a catalog function (SI in, SI out); needed only when the
+        expression calls one.
+
+    Returns
+    -------
+    float or str
+        The value, SI.
+
+    Raises
+    ------
+    KeyError
+        A name without a value, or a catalog call without *call*; and whatever the functions
+        it calls raise.
+
+    Examples
+    --------
+    >>> evaluate("P_1*V_1*ln(V_2/V_1)", {"P_1": 1e5, "V_1": 1.0, "V_2": 2.0})
+    69314.71805599453
+
+    References
+    ----------
+    .. [1] Python Software Foundation, "ast — Abstract Syntax Trees", The Python Standard
+       Library documentation (the parser the expressions go through; never ``eval``).
     """
 
     def ev(n):
@@ -193,9 +275,28 @@ def _name(name: str) -> str:
 
 
 def show(expr: str, subst: dict[str, str] | None = None) -> str:
-    """*expr* written as the trade writes it (``·``, ``−``, ``^``), names replaced by
-    *subst* (e.g. their values with units) where given.
+    """*expr* written as the trade writes it (``·``, ``−``, ``^``).
 
+    Parameters
+    ----------
+    expr : str
+        A working expression.
+    subst : dict, optional
+        Text to write in place of a name (a value with its unit); names without one are
+        written as the trade writes them (``P_1`` → ``P1``).
+
+    Returns
+    -------
+    str
+        The expression as text, parentheses only where precedence needs them.
+
+    References
+    ----------
+    .. [1] Python Software Foundation, "ast — Abstract Syntax Trees", The Python Standard
+       Library documentation (the parser the expressions go through; never ``eval``).
+
+    Examples
+    --------
     >>> show("(P_2*V_2 - P_1*V_1)/(1 - n)")
     '(P2·V2 − P1·V1)/(1 − n)'
     >>> show("P*(V_2 - V_1)", {"P": "500 kPa", "V_1": "0.1 m³", "V_2": "0.3 m³"})
@@ -236,7 +337,33 @@ def _num(v: float) -> str:
 
 @dataclass
 class Worked:
-    """One line of a working: ``symbol = formula = substituted = value``."""
+    """One line of a working: ``symbol = formula = substituted = value``.
+
+    Parameters
+    ----------
+    symbol : str
+        The symbol as the trade writes it (``P2``).
+    formula : str
+        The expression as written (:func:`show`).
+    substituted : str
+        The expression with the values put in.
+    value : float, str or None
+        The value (SI), None when the line could not be evaluated.
+    kind : str or None
+        Its units kind.
+    error : str
+        Why the line could not be evaluated (empty when it was).
+
+    Examples
+    --------
+    >>> Worked("n", "ln(P2/P1)", "ln(2)", 0.693, None).error
+    ''
+
+    References
+    ----------
+    .. [1] Python Software Foundation, "ast — Abstract Syntax Trees", The Python Standard
+       Library documentation (the parser the expressions go through; never ``eval``).
+    """
 
     symbol: str
     formula: str
@@ -253,11 +380,41 @@ def work_out(
     display: Callable[[object, str | None], str],
     kinds: dict | None = None,
 ) -> tuple[list[Worked], Worked | None]:
-    """Evaluate the steps and the result of *w* with the arguments *values* (SI for numbers
-    with a quantity, as given otherwise; ``None`` for omitted ones, which take *w*'s
-    defaults).  *call(name, *args)* runs catalog functions; *display(value, kind)* writes a
-    value with its unit (*kinds*: the units kind of each argument).  A line that cannot be evaluated carries its error and stops the
-    lines after it from using it."""
+    """Evaluate the steps and the result of a working, line by line.
+
+    Parameters
+    ----------
+    w : Working
+        The working of a catalog entry.
+    values : dict
+        The entry's arguments: SI for numbers with a quantity, as given otherwise, None for
+        omitted ones (which take *w*'s defaults).
+    call : callable
+        ``call(name, *args)`` runs catalog functions (SI in, SI out).
+    display : callable
+        ``display(value, kind)`` writes a value with its unit for the substituted lines.
+    kinds : dict, optional
+        The units kind of each argument (for *display*).
+
+    Returns
+    -------
+    steps : list of Worked
+        One line per step; a line that cannot be evaluated carries its error.
+    result : Worked or None
+        The result line, None when the working has no closed form.
+
+    Examples
+    --------
+    >>> w = Working("W", "P*(V_2 - V_1)")
+    >>> steps, res = work_out(w, {"P": 2e5, "V_1": 0.1, "V_2": 0.3}, None, lambda v, k: f"{v:g}")
+    >>> res.substituted
+    '200000·(0.3 − 0.1)'
+
+    References
+    ----------
+    .. [1] Python Software Foundation, "ast — Abstract Syntax Trees", The Python Standard
+       Library documentation (the parser the expressions go through; never ``eval``).
+    """
     vals = dict(values)
     for name, v in w.defaults:
         if vals.get(name) is None:
