@@ -29,21 +29,21 @@ def pretty_unit(u: str) -> str:
     return u
 
 
-def _plt():
+def _new(ncols: int = 1, width: float = 3.8):
+    """A bare matplotlib figure and its axes (no pyplot: no GUI state, a lighter import)."""
     import matplotlib
 
-    matplotlib.use("Agg")
     matplotlib.rcParams["svg.fonttype"] = "none"
     matplotlib.rcParams["svg.hashsalt"] = "joulebook"  # the same figure gives the same SVG
-    import matplotlib.pyplot as plt
+    from matplotlib.figure import Figure
 
-    return plt
+    fig = Figure(figsize=(width, 2.8))
+    return fig, fig.subplots(1, ncols)
 
 
 def _svg(fig) -> str:
     buf = io.StringIO()
     fig.savefig(buf, format="svg", bbox_inches="tight", metadata={"Date": None})
-    _plt().close(fig)
     text = buf.getvalue()
     text = re.sub(r"<metadata>.*?</metadata>", "", text, flags=re.DOTALL)  # no dates or URIs
     return text[text.index("<svg") :]
@@ -78,8 +78,7 @@ def _curve(w: Working, si: dict, system, call) -> str:
     vals["V"] = V
     P = evaluate(w.curve, vals, call)
     P = np.full_like(V, P) if np.ndim(P) == 0 else np.asarray(P, dtype=float)
-    plt = _plt()
-    fig, ax = plt.subplots(figsize=(3.8, 2.8))
+    fig, ax = _new()
     cv, uv = _axis(system, "volume")
     cp, up = _axis(system, "pressure")
     _pv(ax, cv.from_si(V), cp.from_si(P), (uv, up))
@@ -92,8 +91,7 @@ def _points(si: dict, system) -> str:
         return ""
     cv, uv = _axis(system, "volume")
     cp, up = _axis(system, "pressure")
-    plt = _plt()
-    fig, ax = plt.subplots(figsize=(3.8, 2.8))
+    fig, ax = _new()
     x, y = cv.from_si(np.array(V)), cp.from_si(np.array(P))
     ax.plot(x, y, "o-", color="#1d5c7a", ms=3, lw=1.4)
     ax.fill(x, y, color="#8fc1d4", alpha=0.45, lw=0)
@@ -120,8 +118,7 @@ def _path(si: dict, system) -> str:
     P = cp.from_si(np.array([p.P for p in pts]))
     T = ct.from_si(np.array([p.T for p in pts]))
     s = cs.from_si(np.array([p.s for p in pts]))
-    plt = _plt()
-    fig, axes = plt.subplots(1, 1 if med.ideal else 2, figsize=(3.8 if med.ideal else 7.2, 2.8))
+    fig, axes = _new(1 if med.ideal else 2, 3.8 if med.ideal else 7.2)
     ax = axes if med.ideal else axes[0]
     _pv(ax, V, P, (uv, up))
     if not med.ideal:
