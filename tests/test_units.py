@@ -264,3 +264,20 @@ def test_rates_and_heat_flux_units():
     assert convert(2, "kW/m2", "W/m2") == 2000.0
     # the first law per unit time: dE/dt = Q_dot − W_dot (hand)
     assert joulebook.call("JB_BALANCE_RATE", 12, 5) == 7.0
+
+
+def test_unit_seed_holds_exactly_what_pint_computes():
+    # the seed (joulebook.unitseed) spares a check the import of pint for the common units;
+    # each entry must be pint's own result (pint, the version installed), and regenerating
+    # it must give the committed table
+    from joulebook import units, unitseed
+
+    for (pint_text, kind), (factor, offset) in unitseed.CONVS.items():
+        assert units._pint_conv(pint_text, kind, pint_text) == (factor, offset), pint_text
+    for pint_text, kind in unitseed.KINDS.items():
+        assert units._pint_kind(pint_text, pint_text, False) == kind, pint_text
+    convs, kinds = unitseed.generate()
+    assert (convs, kinds) == (unitseed.CONVS, unitseed.KINDS), (
+        "joulebook/unitseed.py is stale: run `python -m joulebook.unitseed`"
+    )
+    assert parse_unit("kJ/kg", "specific_energy").factor == 1000.0

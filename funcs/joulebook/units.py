@@ -206,7 +206,11 @@ SYMBOLS: dict[str, str] = {
 }
 
 # ---------------------------------------------------------------------------------------
-# pint, loaded once and only when a unit string is first parsed
+# pint, loaded once and only when a unit string outside the seed (:mod:`.unitseed`: the units
+# of the named systems and the common ones, as pint computes them) is first parsed
+
+from .unitseed import CONVS as _SEED_CONVS  # noqa: E402
+from .unitseed import KINDS as _SEED_KINDS  # noqa: E402
 
 _UREG = None
 _UREG_LOCK = threading.Lock()
@@ -415,6 +419,16 @@ def parse_unit(text: str, kind: str) -> Conv:
         raise BadInput(f"unit {raw!r} given for a dimensionless number (use no unit or %)")
 
     pint_text = _to_pint(base, kind)
+    seeded = _SEED_CONVS.get((pint_text, kind))
+    if seeded is not None:
+        return Conv(seeded[0], seeded[1], raw)
+    factor, offset = _pint_conv(pint_text, kind, raw)
+    return Conv(factor, offset, raw)
+
+
+def _pint_conv(pint_text: str, kind: str, raw: str) -> tuple[float, float]:
+    """(factor, offset) of a unit in pint's syntax by pint (what :mod:`.unitseed` holds for
+    the common units); BadInput naming *raw* when it is not a unit of *kind*."""
     ureg = _ureg()
     try:
         q1 = ureg.Quantity(1.0, pint_text)
@@ -437,13 +451,13 @@ def parse_unit(text: str, kind: str) -> Conv:
                 )
             q0 = ureg.Quantity(0.0, pint_text).to("K").magnitude
             f = ureg.Quantity(1.0, _DELTA.get(pint_text, pint_text)).to("K").magnitude
-            return Conv(float(f), float(q0), raw)
+            return float(f), float(q0)
         f = q1.to(si_text).magnitude
     except BadInput:
         raise
     except Exception:
         raise BadInput(f"unit {raw!r} cannot be converted to {si_text}") from None
-    return Conv(_exact(float(f)), 0.0, raw)
+    return _exact(float(f)), 0.0
 
 
 def _exact(f: float) -> float:
@@ -501,6 +515,17 @@ def kind_of_unit(text: str, _quiet: bool = False) -> str | None:
     base = _ATM.match(raw).group("unit").strip() if _ATM.match(raw) else raw
     if base in _GAUGE:
         return "pressure"
+    try:
+        seeded = _SEED_KINDS.get(_to_pint(base, "temperature"))
+    except Exception:
+        seeded = None
+    if seeded is not None:
+        return seeded
+    return _pint_kind(base, raw, _quiet)
+
+
+def _pint_kind(base: str, raw: str, _quiet: bool) -> str | None:
+    """kind_of_unit by pint (what :mod:`.unitseed` holds for the common units)."""
     ureg = _ureg()
     try:
         pint_text = _to_pint(base, "temperature")

@@ -211,8 +211,11 @@ def _register_ours() -> None:
         import formulas
         from formulas.functions import wrap_func
 
+        from .builtins import import_statistics
+
         logging.getLogger("schedula").setLevel(logging.CRITICAL)
         logging.getLogger("formulas").setLevel(logging.CRITICAL)
+        import_statistics()  # before the table: scipy deferred until a function needs it
         table = formulas.get_functions()
         for f in CATALOG:
             table[f.name] = (
@@ -290,7 +293,10 @@ def warm_up() -> None:
     then share them): the formula library and its function table, and the property library."""
     _register_ours()
     import CoolProp.CoolProp  # noqa: F401
-    import formulas.functions.stat  # noqa: F401  (what most workbooks reach for)
+
+    from .builtins import import_statistics
+
+    import_statistics()  # what most workbooks reach for (scipy deferred to first use)
 
 
 def _to_cell_value(x):
