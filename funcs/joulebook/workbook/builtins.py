@@ -611,6 +611,9 @@ def import_statistics() -> None:
 # the library's shared helpers, corrected
 
 
+_PLAIN = frozenset({float, int, bool, str})
+
+
 def _patch_library() -> None:
     import schedula as sh
     from formulas import functions as lib
@@ -626,6 +629,14 @@ def _patch_library() -> None:
         )
 
     def flatten(v, check=is_number, drop_empty=False):
+        if type(v) in _PLAIN:  # one value: what the library's flatten does, without its walk
+            if not check or check(v):
+                yield v
+            return
+        if type(v) is tuple:  # the values of one call (its error test): each, as the library
+            for x in v:
+                yield from flatten(x, check, drop_empty)
+            return
         if isinstance(v, np.ndarray) and numeric_check(check):
             inner = check
 

@@ -32,6 +32,7 @@ import os
 import threading
 from bisect import bisect_left, bisect_right
 from dataclasses import dataclass, field
+from typing import NamedTuple
 
 import numpy as np
 
@@ -40,6 +41,8 @@ from ..cellvalues import ERRORS_NAME, ErrorValue, error_style, message_of
 from ..cellvalues import cell as shared_cell
 from .reader import Book, Cell
 from .refs import (
+    _RUNS,
+    _SCIENTIFIC,
     MAX_COL,
     MAX_ROW,
     Ref,
@@ -47,6 +50,7 @@ from .refs import (
     expand_let,
     parse_ref,
     quote_sheet,
+    split_sheet,
     tokens,
 )
 
@@ -307,9 +311,10 @@ def _to_cell_value(x):
     if isinstance(x, np.ndarray):
         if x.size == 1 and x.ndim == 2 and x.shape == (1, 1):
             return _to_cell_value(x[0, 0])
-        return [
-            [_to_cell_value(v) for v in row] for row in (x if x.ndim == 2 else x.reshape(1, -1))
-        ]
+        rows = (x if x.ndim == 2 else x.reshape(1, -1)).tolist()
+        if x.dtype == object and all(type(v) in _CELL_TYPES for row in rows for v in row):
+            return rows  # numbers and text as they are (a column of one batch)
+        return [[_to_cell_value(v) for v in row] for row in rows]
     if x is sh.EMPTY:
         return None
     if isinstance(x, XlError):
@@ -319,6 +324,9 @@ def _to_cell_value(x):
     if isinstance(x, np.bool_):
         return bool(x)
     return x
+
+
+_CELL_TYPES = frozenset({float, str, int, bool})
 
 
 def _failed_type():
@@ -1084,9 +1092,9 @@ def _indirect(ref_text, a1=True):
 # templates
 
 
-@dataclass(frozen=True)
-class _Target:
-    """A resolved reference: one box on one or more sheets (3-D spans)."""
+class _Target(NamedTuple):
+    """A resolved reference: one box on one or more sheets (3-D spans).  A named tuple, not
+    a frozen dataclass: one is made per reference of every formula cell."""
 
     sheets: tuple[str, ...]
     box: tuple[int, int, int, int]  # r1, c1, r2, c2
@@ -1136,6 +1144,7 @@ class Engine:
     batch: bool = True  # evaluate same-shape columns in one vectorised call
     _templates: dict = field(default_factory=dict)  # (sheet, text) -> (template, shift)
     _shapes: dict = field(default_factory=dict)  # shape key -> (template, row, col built at)
+    _fast_shapes: dict = field(default_factory=dict)  # the same by _fast_shape_key
     _compiled: dict = field(default_factory=dict)
     _sheet_upper: dict = field(default_factory=dict)
     _max: dict = field(default_factory=dict)
@@ -1191,6 +1200,12 @@ class Engine:
         key = (sheet, formula)
         hit = self._templates.get(key)
         if hit is None:
+            fast = _fast_shape_key(sheet, formula, row, col)
+            first = self._fast_shapes.get(fast) if fast is not None else None
+            if first is not None:
+                tpl, r0, c0 = first
+                hit = self._templates[key] = (tpl, (row - r0, col - c0))
+                return hit
             try:
                 formula = expand_let(formula)
             except Exception:  # refused with its reason by _build
@@ -1205,6 +1220,9 @@ class Engine:
                 tpl, r0, c0 = first
                 hit = (tpl, (row - r0, col - c0))
             self._templates[key] = hit
+            if fast is not None:
+                r0, c0 = row - hit[1][0], col - hit[1][1]
+                self._fast_shapes[fast] = (hit[0], r0, c0)
         return hit
 
     def _build(self, sheet: str, formula: str) -> _Template:
@@ -1696,6 +1714,13 @@ class Engine:
                 ):
                     # the cell reads itself (SUM(3:3) in row 3): Excel's circular reference
                     out[key] = self._refused(p.cell, "circular reference (the cell reads itself)")
+                r1, c1, r2, c2 = t.box
+                if r1 == r2 and c1 == c2 and len(t.sheets) == 1:  # one cell: no search
+                    dep = (t.sheets[0], r1, c1)
+                    dep = owner.get(dep, dep)
+                    if dep != key and (dep in plans or dep in out or dep in tables):
+                        deps.add(dep)
+                    continue
                 for s in t.sheets:
                     r1, c1, r2, c2 = self._bounded(s, t.box)
                     for cc in range(c1, c2 + 1):
@@ -1911,6 +1936,8 @@ class Engine:
         """Cells reading a refused cell are not checked; cells reading a volatile one are
         volatile.  Dependency order makes one pass enough."""
         out = self._out
+        if not any(o.problem for o in out.values()):
+            return  # nothing refused or volatile: nothing to pass on
         try:
             order = list(graphlib.TopologicalSorter(self._graph).static_order())
         except graphlib.CycleError:
@@ -2218,6 +2245,84 @@ def _shape_key(sheet: str, formula: str, row: int, col: int):
         else:
             parts.append((v, t, sub))
     return tuple(parts)
+
+
+_ROLES: dict = {}  # skeleton -> per run of digits: True for a relative row, else False;
+# None when the skeleton has no fast key
+
+
+def _fast_shape_key(sheet: str, formula: str, row: int, col: int):
+    """A shape key read without the tokenizer, for formulas filled down a column: the
+    formula's skeleton (its text between runs of digits, see :func:`.refs.tokens`) with each
+    run that is the row of a relative reference counted from *row*, every other run as
+    written, and *col* when a reference has a relative column.  Equal keys mean the same
+    text but for relative rows moved by the same number of rows: the same shape.  None for
+    a formula the key does not cover (LET, ``E+``/``E-``, external books, a range glued to
+    a function); such formulas take :func:`_shape_key`."""
+    parts = _RUNS.split(formula)
+    if len(parts) == 1 or _SCIENTIFIC(formula) or "LET" in formula.upper():
+        return None
+    skeleton = tuple(parts[0::2])
+    roles = _ROLES.get(skeleton, _NOTHING)
+    if roles is _NOTHING:
+        roles = _run_roles(formula, len(parts) // 2)
+        if len(_ROLES) > 65_536:
+            _ROLES.clear()
+        _ROLES[skeleton] = roles
+    if roles is None:
+        return None
+    rel, by_col = roles
+    key: list = [sheet, skeleton, col if by_col else 0]
+    for run, relative in zip(parts[1::2], rel):
+        if relative:
+            r = int(run)
+            if not 1 <= r <= MAX_ROW:
+                return None
+            key.append(r - row)
+        else:
+            key.append(run)
+    return tuple(key)
+
+
+def _run_roles(formula: str, n_runs: int):
+    """(per run of digits: is it the row of a relative reference?, does a reference have a
+    relative column?) read from the tokens of *formula*; None when no fast key applies."""
+    try:
+        toks = tokens(formula)
+    except Exception:
+        return None
+    rel: list = []
+    by_col = False
+    for v, t, sub in toks:
+        n = len(_RUNS.split(v)) // 2
+        if t == "FUNC" and sub == "OPEN" and ":" in v:
+            return None
+        if not (t == "OPERAND" and sub == "RANGE"):
+            rel.extend([False] * n)
+            continue
+        if v.startswith(":"):
+            return None
+        ref = parse_ref(v)
+        if ref is None or ref.kind in ("name", "table"):
+            rel.extend([False] * n)
+            continue
+        if ref.book is not None:
+            return None
+        _book, _sheet, addr = split_sheet(v)
+        before = len(_RUNS.split(v[: len(v) - len(addr)])) // 2
+        rel.extend([False] * before)
+        pieces = addr.split(":")
+        flags = ((ref.abs_r1, ref.abs_c1), (ref.abs_r2, ref.abs_c2))
+        for piece, (abs_r, abs_c) in zip(pieces, flags):
+            digits = len(_RUNS.split(piece)) // 2
+            if digits > 1:
+                return None
+            rel.extend([not abs_r] * digits)
+            if ref.kind in ("cell", "area", "cols") and not abs_c:
+                by_col = True
+    if len(rel) != n_runs:
+        return None
+    return tuple(rel), by_col
 
 
 def _returns_reference(formula: str) -> bool:

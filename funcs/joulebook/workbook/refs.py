@@ -15,6 +15,7 @@ References
 
 from __future__ import annotations
 
+import re
 from dataclasses import dataclass
 from functools import lru_cache
 
@@ -52,10 +53,59 @@ def col_letters(n: int) -> str:
 
 @lru_cache(maxsize=65_536)
 def tokens(formula: str) -> tuple:
-    """The tokens of *formula* (without its leading ``=``) as ``(value, type, subtype)``."""
+    """The tokens of *formula* (without its leading ``=``) as ``(value, type, subtype)``.
+
+    Formulas filled down a column differ only in their runs of digits (``A2*2``, ``A3*2``):
+    the tokenizer's split of the first is kept by its *skeleton* (the text between the runs)
+    and the next one's tokens are that split with its own digits, the tokenizer not run
+    again.  The tokenizer decides nothing on the value of a run of digits (a number is a
+    number whatever its digits) except after a mantissa's ``E`` (``1E+5``), so formulas
+    holding ``E+``/``E-`` are always tokenized; a split is kept only when putting the
+    formula's own digits back gives exactly its tokens."""
+    parts = _RUNS.split(formula)
+    if len(parts) == 1 or _SCIENTIFIC(formula):
+        return _tokenized(formula)
+    skeleton = tuple(parts[0::2])
+    runs = parts[1::2]
+    split = _SPLITS.get(skeleton)
+    if split is not None:
+        return _filled(split, runs)
+    toks = _tokenized(formula)
+    split = tuple((tuple(_RUNS.split(v)[0::2]), t, sub) for v, t, sub in toks)
+    if sum(len(p) - 1 for p, _, _ in split) == len(runs) and _filled(split, runs) == toks:
+        if len(_SPLITS) > 65_536:
+            _SPLITS.clear()
+        _SPLITS[skeleton] = split
+    return toks
+
+
+def _tokenized(formula: str) -> tuple:
     from openpyxl.formula.tokenizer import Tokenizer
 
     return tuple((t.value, t.type, t.subtype) for t in Tokenizer("=" + formula).items)
+
+
+_RUNS = re.compile(r"([0-9]+)")  # runs of digits: the tokenizer's cache key, see tokens()
+_SPLITS: dict = {}  # skeleton -> the tokens' texts between runs of digits, type, subtype
+
+
+def _SCIENTIFIC(formula: str) -> bool:  # noqa: N802 - a predicate on the text
+    return "E+" in formula or "E-" in formula or "e+" in formula or "e-" in formula
+
+
+def _filled(split: tuple, runs: list) -> tuple:
+    out = []
+    k = 0
+    for pieces, t, sub in split:
+        if len(pieces) == 1:
+            out.append((pieces[0], t, sub))
+            continue
+        v = pieces[0]
+        for piece in pieces[1:]:
+            v += runs[k] + piece
+            k += 1
+        out.append((v, t, sub))
+    return tuple(out)
 
 
 @dataclass(frozen=True)
@@ -268,7 +318,7 @@ def our_name(func_token: str) -> str | None:
     name = name.upper()
     if not name.startswith("JB_") or len(name) < 4:
         return None
-    if not all(ch.isascii() and (ch.isalnum() or ch == "_") for ch in name) or name[3].isdigit():
+    if not (name.isascii() and name.replace("_", "").isalnum()) or name[3].isdigit():
         return None
     return name
 
@@ -285,6 +335,8 @@ def calls_ours(formula: str) -> bool:
 def normalise(formula: str) -> str:
     """*formula* with our functions as plain names (add-in link and ``_xludf.`` prefixes
     dropped); any other text as it was."""
+    if "JB_" not in formula.upper():
+        return formula  # calls none of ours (every name of ours holds JB_)
     try:
         toks = tokens(formula)
     except Exception:
