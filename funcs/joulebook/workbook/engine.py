@@ -39,7 +39,7 @@ import numpy as np
 from ..catalog import CATALOG
 from ..cellvalues import ERRORS_NAME, ErrorValue, error_style, message_of
 from ..cellvalues import cell as shared_cell
-from .reader import Book, Cell
+from .reader import Book, Cell, paused_gc
 from .refs import (
     _RUNS,
     _SCIENTIFIC,
@@ -173,7 +173,7 @@ def ERROR(code: str) -> tuple[str, str]:  # noqa: N802 - reads like Excel's erro
     return ("error", code)
 
 
-@dataclass
+@dataclass(slots=True)
 class Outcome:
     """The recomputed value of one cell, and why it could not be checked when it was not.
 
@@ -1117,6 +1117,7 @@ class _Template:
     position_only: frozenset = frozenset()  # placeholders read for their place, not values
     unbounded: frozenset = frozenset()  # placeholders handed over at full size (no values)
     top_ref: bool = False  # the whole formula is INDEX(…), OFFSET(…) or INDIRECT(…)
+    shapes: dict = field(default_factory=dict)  # batch keys of its cells (see Engine._run)
 
 
 @dataclass
@@ -1125,7 +1126,7 @@ class _Compiled:
     order: list[int]  # placeholder index of each library input, in the library's order
 
 
-@dataclass
+@dataclass(slots=True)
 class _Plan:
     cell: Cell
     tpl: _Template
@@ -1204,8 +1205,7 @@ class Engine:
             first = self._fast_shapes.get(fast) if fast is not None else None
             if first is not None:
                 tpl, r0, c0 = first
-                hit = self._templates[key] = (tpl, (row - r0, col - c0))
-                return hit
+                return tpl, (row - r0, col - c0)  # not kept: the key is as quick
             try:
                 formula = expand_let(formula)
             except Exception:  # refused with its reason by _build
@@ -1636,6 +1636,10 @@ class Engine:
 
     # --- running ------------------------------------------------------------------------
     def run(self) -> dict[tuple[str, int, int], Outcome]:
+        with paused_gc():
+            return self._run()
+
+    def _run(self) -> dict[tuple[str, int, int], Outcome]:
         import formulas  # noqa: F401  (registers the parser grammar before compiling)
 
         book = self.book
@@ -1674,12 +1678,10 @@ class Engine:
                 out[key] = self._refused(c, f"unsupported: {type(e).__name__} while parsing")
                 continue
             # cells that one compiled function evaluates alike (batched by column)
-            shape = (
-                tpl.text,
-                tpl.modes,
-                tpl.implicit,
-                tuple(i for i, t in enumerate(targets) if not isinstance(t, _Target)),
-            )
+            failed = tuple(i for i, t in enumerate(targets) if not isinstance(t, _Target))
+            shape = tpl.shapes.get(failed)
+            if shape is None:  # one tuple per template and failed references, not per cell
+                shape = tpl.shapes[failed] = (tpl.text, tpl.modes, tpl.implicit, failed)
             plans[key] = _Plan(c, tpl, comp, targets, shape)
 
         # spilled ranges of array formulas belong to their anchor
@@ -1733,11 +1735,11 @@ class Engine:
                             # understood) is a dependency too: its readers are not checked
                             if dep != key and (dep in plans or dep in out or dep in tables):
                                 deps.add(dep)
-            graph[key] = deps
+            graph[key] = tuple(deps)  # a tuple: a set per cell costs 216 bytes
         for key, t in self._tables.items():
             formula, subs = _table_parts(t, key)
             deps = {k for k in (formula, *(v for _, v in subs)) if k in plans or k in out}
-            graph[key] = deps
+            graph[key] = tuple(deps)
         self._graph = graph
 
         # cells with run-time references, and everything that depends on them, go last
@@ -1783,7 +1785,9 @@ class Engine:
             # and let each run-time reference compute what it reads first
             try:
                 late_order = list(
-                    graphlib.TopologicalSorter({k: graph[k] & late for k in late}).static_order()
+                    graphlib.TopologicalSorter(
+                        {k: [d for d in graph[k] if d in late] for k in late}
+                    ).static_order()
                 )
             except graphlib.CycleError:
                 sheet_pos = {s: i for i, s in enumerate(book.sheets)}
@@ -1840,7 +1844,9 @@ class Engine:
             above.add(k)
             stack.extend(graph.get(k, ()))
         order = list(
-            graphlib.TopologicalSorter({k: graph[k] & above for k in above}).static_order()
+            graphlib.TopologicalSorter(
+                {k: [d for d in graph[k] if d in above] for k in above}
+            ).static_order()
         )
         redo: list = []
         for k in order:
@@ -2052,7 +2058,7 @@ class Engine:
             if len(members) < 2:
                 continue
             mset = set(members)
-            if any(graph[m] & mset for m in members):  # a running total: keep cell by cell
+            if any(d in mset for m in members for d in graph[m]):  # a running total: one by one
                 continue
             batches[("batch", n)] = sorted(members)
         return batches

@@ -51,7 +51,7 @@ def col_letters(n: int) -> str:
     return s
 
 
-@lru_cache(maxsize=65_536)
+@lru_cache(maxsize=4_096)  # a column filled down is split afresh from its skeleton, quickly
 def tokens(formula: str) -> tuple:
     """The tokens of *formula* (without its leading ``=``) as ``(value, type, subtype)``.
 
@@ -347,7 +347,8 @@ def normalise(formula: str) -> str:
     for v, t, sub in toks:
         name = our_name(v) if t == "FUNC" and sub == "OPEN" else None
         out.append(name + "(" if name else v)
-    return "".join(out)
+    text = "".join(out)
+    return formula if text == formula else text  # one string kept, not two equal ones
 
 
 def cell_refs(formula: str, here: str) -> list[tuple[str, int, int]]:
