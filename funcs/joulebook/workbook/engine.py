@@ -395,6 +395,9 @@ def _message_reader(name: str):
     return fn
 
 
+_NO_MESSAGE = frozenset({float, int, bool, np.float64, np.bool_})
+
+
 class _Explained(str):
     """A message shown by a message reader (JB_WHY): the cell explains a failure elsewhere
     and has not failed itself."""
@@ -402,6 +405,8 @@ class _Explained(str):
 
 def _message_of_library(x) -> str:
     """The joulebook failure a library value carries ("" for none)."""
+    if type(x) in _NO_MESSAGE:
+        return ""
     if isinstance(x, _Explained):
         return ""
     return getattr(x, "why", "") or message_of(x)
@@ -1118,6 +1123,9 @@ class _Template:
     unbounded: frozenset = frozenset()  # placeholders handed over at full size (no values)
     top_ref: bool = False  # the whole formula is INDEX(…), OFFSET(…) or INDIRECT(…)
     shapes: dict = field(default_factory=dict)  # batch keys of its cells (see Engine._run)
+    plain_refs: tuple | None = None  # its Refs when all are plain single cells, else ()
+    compiled: object = None  # its compiled function (when not positional)
+    batchable: bool | None = None  # its cells may go in one vectorised call (see _batches)
 
 
 @dataclass
@@ -1424,9 +1432,13 @@ class Engine:
     def _compile(self, tpl: _Template, cell: Cell) -> _Compiled:
         import formulas
 
+        if tpl.compiled is not None and not tpl.positional:
+            return tpl.compiled
         key = (tpl.text, (cell.sheet, cell.row, cell.col) if tpl.positional else None)
         comp = self._compiled.get(key)
         if comp is not None:
+            if not tpl.positional:
+                tpl.compiled = comp
             return comp
         for name in tpl.unknown:
             if not name.startswith("~"):
@@ -1452,6 +1464,8 @@ class Engine:
             order.append(ref)
         comp = _Compiled(fn, order)
         self._compiled[key] = comp
+        if not tpl.positional:
+            tpl.compiled = comp
         return comp
 
     # --- resolving references ---------------------------------------------------------
@@ -1507,6 +1521,23 @@ class Engine:
             raise _Unsupported(str(e)) from None
 
     def _targets(self, tpl: _Template, cell: Cell, shift=(0, 0)) -> list:
+        plain = tpl.plain_refs
+        if plain is None:
+            plain = tpl.plain_refs = _plain_refs(tpl)
+        if plain and not cell.array_ref:
+            # every reference one cell on a sheet named or this one, none intersected: the
+            # references moved by the shift (what _place does for them, without its search)
+            here, dr, dc = cell.sheet, shift[0], shift[1]
+            out = []
+            for ref in plain:
+                r = ref.r1 if ref.abs_r1 else ref.r1 + dr
+                c = ref.c1 if ref.abs_c1 else ref.c1 + dc
+                s1 = here if ref.sheet is None else self._sheet(ref.sheet, here)
+                if s1 is None or not (1 <= r <= MAX_ROW and 1 <= c <= MAX_COL):
+                    out.append("#REF!")
+                else:
+                    out.append(_Target((s1,), (r, c, r, c)))
+            return out
         out = []
         for i, (ref, frame) in enumerate(tpl.refs):
             if frame == "cell":
@@ -1709,6 +1740,17 @@ class Engine:
             for i, t in enumerate(p.targets):
                 if not isinstance(t, _Target) or i in p.tpl.position_only:
                     continue  # ROW(3:3), ISREF(A1): where, not what — no dependency
+                r1, c1, r2, c2 = t.box
+                if r1 == r2 and c1 == c2 and len(t.sheets) == 1:  # one cell: no search
+                    dep = (t.sheets[0], r1, c1)
+                    if dep == key and key not in out:
+                        out[key] = self._refused(
+                            p.cell, "circular reference (the cell reads itself)"
+                        )
+                    dep = owner.get(dep, dep)
+                    if dep != key and (dep in plans or dep in out or dep in tables):
+                        deps.add(dep)
+                    continue
                 if (
                     key[0] in t.sheets
                     and _inside(key, self._bounded(key[0], t.box))
@@ -1716,13 +1758,6 @@ class Engine:
                 ):
                     # the cell reads itself (SUM(3:3) in row 3): Excel's circular reference
                     out[key] = self._refused(p.cell, "circular reference (the cell reads itself)")
-                r1, c1, r2, c2 = t.box
-                if r1 == r2 and c1 == c2 and len(t.sheets) == 1:  # one cell: no search
-                    dep = (t.sheets[0], r1, c1)
-                    dep = owner.get(dep, dep)
-                    if dep != key and (dep in plans or dep in out or dep in tables):
-                        deps.add(dep)
-                    continue
                 for s in t.sheets:
                     r1, c1, r2, c2 = self._bounded(s, t.box)
                     for cc in range(c1, c2 + 1):
@@ -2033,17 +2068,20 @@ class Engine:
             if p is None:  # a data-table cell
                 continue
             tpl = p.tpl
-            if (
-                key in self._out
-                or p.cell.array_ref
-                or tpl.needs_ranges
-                or tpl.positional
-                or tpl.volatile
-                or tpl.unknown
-                or not _elementwise(tpl)
-            ):
+            if tpl.batchable is None:
+                tpl.batchable = not (
+                    tpl.needs_ranges
+                    or tpl.positional
+                    or tpl.volatile
+                    or tpl.unknown
+                    or not _elementwise(tpl)
+                )
+            if not tpl.batchable or key in self._out or p.cell.array_ref:
                 continue
-            if any(
+            if tpl.plain_refs:  # single cells without notes, or error codes
+                if any(type(t) is str for t in p.targets):
+                    continue
+            elif any(
                 not isinstance(t, _Target)
                 or len(t.sheets) != 1
                 or t.box[0] != t.box[2]
@@ -2071,16 +2109,17 @@ class Engine:
         values = self._values
         import schedula as sh
 
+        plans = self._plans
+        targets = [plans[m].targets for m in members]
+        empty = sh.EMPTY
         for i in comp.order:
             col = []
-            for m in members:
-                t = self._plans[m].targets[i]
-                col.append(
-                    _as_formula_value(values.get((t.sheets[0], t.box[0], t.box[1]), sh.EMPTY))
-                )
+            for ts in targets:
+                t = ts[i]
+                v = values.get((t.sheets[0], t.box[0], t.box[1]), empty)
+                col.append(_as_formula_value(v) if type(v) is tuple else v)
             arr = np.empty((k, 1), dtype=object)
-            for j, v in enumerate(col):
-                arr[j, 0] = v
+            arr[:, 0] = col  # scalars only: numbers, text, logical values, blanks, errors
             args.append(arr)
         try:
             res = np.asarray(comp.fn(*args), dtype=object)
@@ -2331,6 +2370,17 @@ def _run_roles(formula: str, n_runs: int):
     return tuple(rel), by_col
 
 
+def _plain_refs(tpl: _Template) -> tuple:
+    """The Refs of a template whose references are all single cells written in the formula
+    (no names, tables, 3-D spans or other books), read as values; () otherwise."""
+    out = []
+    for ref, frame in tpl.refs:
+        if frame != "cell" or ref.kind != "cell" or ref.book is not None or ref.sheet2:
+            return ()
+        out.append(ref)
+    return tuple(out)
+
+
 def _returns_reference(formula: str) -> bool:
     """True when the whole formula is one call of a function that returns a reference."""
     try:
@@ -2474,6 +2524,8 @@ def _elementwise(tpl: _Template) -> bool:
 
 def _plain(x):
     """A formula-library value as a plain cell value."""
+    if type(x) is float:  # the common case first
+        return x if x - x == 0.0 else ERROR("#NUM!")  # inf - inf and nan - nan are nan
     import schedula as sh
     from formulas.tokens.operand import XlError
 

@@ -335,8 +335,11 @@ def calls_ours(formula: str) -> bool:
 def normalise(formula: str) -> str:
     """*formula* with our functions as plain names (add-in link and ``_xludf.`` prefixes
     dropped); any other text as it was."""
-    if "JB_" not in formula.upper():
+    upper = formula.upper()
+    if "JB_" not in upper:
         return formula  # calls none of ours (every name of ours holds JB_)
+    if "_XLUDF." not in upper and "]!" not in formula and _names_upper(formula, upper):
+        return formula  # no prefix to drop and every JB_ word written in capitals already
     try:
         toks = tokens(formula)
     except Exception:
@@ -349,6 +352,20 @@ def normalise(formula: str) -> str:
         out.append(name + "(" if name else v)
     text = "".join(out)
     return formula if text == formula else text  # one string kept, not two equal ones
+
+
+def _names_upper(formula: str, upper: str) -> bool:
+    """True when every word starting with JB_ (in any case) is written in capitals."""
+    i = upper.find("JB_")
+    n = len(upper)
+    while i >= 0:
+        j = i + 3
+        while j < n and (upper[j].isalnum() or upper[j] == "_"):
+            j += 1
+        if formula[i:j] != upper[i:j]:
+            return False
+        i = upper.find("JB_", j)
+    return True
 
 
 def cell_refs(formula: str, here: str) -> list[tuple[str, int, int]]:
