@@ -276,8 +276,32 @@ def test_unit_seed_holds_exactly_what_pint_computes():
         assert units._pint_conv(pint_text, kind, pint_text) == (factor, offset), pint_text
     for pint_text, kind in unitseed.KINDS.items():
         assert units._pint_kind(pint_text, pint_text, False) == kind, pint_text
-    convs, kinds = unitseed.generate()
-    assert (convs, kinds) == (unitseed.CONVS, unitseed.KINDS), (
+    for pint_text, dims in unitseed.DIMS.items():
+        assert unitseed.dimensions(pint_text) == dims, pint_text
+    assert unitseed.generate() == (unitseed.CONVS, unitseed.KINDS, unitseed.DIMS), (
         "joulebook/unitseed.py is stale: run `python -m joulebook.unitseed`"
     )
     assert parse_unit("kJ/kg", "specific_energy").factor == 1000.0
+
+
+@pytest.mark.parametrize(
+    "unit, kind", [("J", "temperature"), ("kJ/kg", "pressure"), ("m3", "mass"), ("K", "energy")]
+)
+def test_a_unit_of_another_quantity_is_refused_alike_with_or_without_the_seed(unit, kind):
+    from joulebook import units
+
+    with pytest.raises(BadInput) as seeded:
+        parse_unit(unit, kind)
+    saved = dict(units._SEED_DIMS), dict(units._SEED_CONVS), dict(units._SEED_KINDS)
+    for table in (units._SEED_DIMS, units._SEED_CONVS, units._SEED_KINDS):
+        table.clear()
+    parse_unit.cache_clear()
+    try:
+        with pytest.raises(BadInput) as by_pint:
+            parse_unit(unit, kind)
+    finally:
+        units._SEED_DIMS.update(saved[0])
+        units._SEED_CONVS.update(saved[1])
+        units._SEED_KINDS.update(saved[2])
+        parse_unit.cache_clear()
+    assert str(seeded.value) == str(by_pint.value)

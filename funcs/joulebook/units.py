@@ -210,6 +210,7 @@ SYMBOLS: dict[str, str] = {
 # of the named systems and the common ones, as pint computes them) is first parsed
 
 from .unitseed import CONVS as _SEED_CONVS  # noqa: E402
+from .unitseed import DIMS as _SEED_DIMS  # noqa: E402
 from .unitseed import KINDS as _SEED_KINDS  # noqa: E402
 
 _UREG = None
@@ -422,8 +423,20 @@ def parse_unit(text: str, kind: str) -> Conv:
     seeded = _SEED_CONVS.get((pint_text, kind))
     if seeded is not None:
         return Conv(seeded[0], seeded[1], raw)
+    dim, want = _SEED_DIMS.get(pint_text), _SEED_DIMS.get(KINDS[kind][1])
+    if dim is not None and want is not None and dim[0] != want[0]:
+        _wrong_kind(raw, kind, dim[1])  # a unit of another quantity, refused as pint would
     factor, offset = _pint_conv(pint_text, kind, raw)
     return Conv(factor, offset, raw)
+
+
+def _wrong_kind(raw: str, kind: str, dimension: str) -> None:
+    """Refuse a unit of another quantity (*dimension*: pint's words for the unit's own)."""
+    got = kind_of_unit(raw, _quiet=True)
+    got_words = KIND_WORDS.get(got, dimension) if got else dimension
+    raise BadInput(
+        f"unit {raw!r} is a {got_words} unit; {KIND_WORDS[kind]} needs e.g. {_EXAMPLE_UNITS[kind]}"
+    )
 
 
 def _pint_conv(pint_text: str, kind: str, raw: str) -> tuple[float, float]:
@@ -437,12 +450,7 @@ def _pint_conv(pint_text: str, kind: str, raw: str) -> tuple[float, float]:
     si_text, dim_text = KINDS[kind]
     want_dim = ureg.Quantity(1.0, dim_text).dimensionality
     if q1.dimensionality != want_dim:
-        got = kind_of_unit(raw, _quiet=True)
-        got_words = KIND_WORDS.get(got, str(q1.dimensionality)) if got else str(q1.dimensionality)
-        raise BadInput(
-            f"unit {raw!r} is a {got_words} unit; {KIND_WORDS[kind]} needs e.g. "
-            f"{_EXAMPLE_UNITS[kind]}"
-        )
+        _wrong_kind(raw, kind, str(q1.dimensionality))
     try:
         if kind == "temperature":
             if pint_text not in _ABS_TEMPS:

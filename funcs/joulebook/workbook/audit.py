@@ -465,22 +465,54 @@ def _state_flags(f: Func, argvals: dict) -> list[str]:
 def _svg(fig) -> str:
     buf = io.StringIO()
     fig.savefig(buf, format="svg", bbox_inches="tight")
-    import matplotlib.pyplot as plt
-
-    plt.close(fig)
     text = buf.getvalue()
     text = re.sub(r"<metadata>.*?</metadata>", "", text, flags=re.DOTALL)  # no dates or URIs
     return text[text.index("<svg") :]
 
 
+_FIGURED = frozenset(
+    {
+        "JB_PROCESS",
+        "JB_PROCESS_TABLE",
+        "JB_WORK_PATH",
+        "JB_WORK_PV",
+        "JB_WORK_ISOBARIC",
+        "JB_WORK_LINEAR",
+        "JB_WORK_POLYTROPIC",
+        "JB_WORK_POLYTROPIC_N",
+        "JB_WORK_ISOTHERMAL",
+    }
+)
+_DRAWN: dict = {}  # one figure per distinct path (function, arguments, units)
+
+
 def _figure(f: Func, argvals: dict, units: dict | None = None) -> str:
-    """P–V (and T–s for real fluids) of a process entry, as inline SVG."""
+    """P–V (and T–s for real fluids) of a process entry, as inline SVG, drawn once per
+    distinct path; matplotlib is imported only when a figure is drawn."""
+    if f.name not in _FIGURED:
+        return ""
+    key = repr((f.name, sorted(argvals.items()), sorted((units or {}).items())))
+    if key not in _DRAWN:
+        if len(_DRAWN) > 256:
+            _DRAWN.clear()
+        _DRAWN[key] = _draw(f, argvals, units)
+    return _DRAWN[key]
+
+
+def _draw(f: Func, argvals: dict, units: dict | None = None) -> str:
     try:
         import matplotlib
 
         matplotlib.use("Agg")
         matplotlib.rcParams["svg.fonttype"] = "none"
-        import matplotlib.pyplot as plt
+        from matplotlib.figure import Figure  # not pyplot: no window machinery to import
+
+        class plt:  # noqa: N801 - the two calls of pyplot used here, on a bare Figure
+            @staticmethod
+            def subplots(nrows=1, ncols=1, figsize=None):
+                fig = Figure(figsize=figsize)
+                return fig, fig.subplots(nrows, ncols)
+
         import numpy as np
     except ImportError:  # pragma: no cover
         return ""
