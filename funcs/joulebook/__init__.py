@@ -11,14 +11,13 @@ __version__ = "0.1.0"
 __all__ = ["__version__", "call"]
 
 
-def call(name: str, *args):
-    """Evaluate worksheet function *name* with cell values *args*, as a cell would.
+def __getattr__(name: str):
+    """``joulebook.call`` is the catalog's own function (:func:`joulebook.catalog.call`:
+    evaluate worksheet function *name* with cell values, as a cell would), imported when it
+    is first named, so ``import joulebook`` stays light and a call pays no wrapper."""
+    if name == "call":
+        from .catalog import call
 
-    Raises one of :mod:`joulebook.errors`' types on bad input; see
-    :func:`joulebook.catalog.call`.  (The catalog is imported on first use, after which this
-    name is rebound to the catalog's own function.)
-    """
-    from .catalog import call as _call
-
-    globals()["call"] = _call
-    return _call(name, *args)
+        globals()["call"] = call
+        return call
+    raise AttributeError(f"module 'joulebook' has no attribute {name!r}")

@@ -1858,8 +1858,11 @@ def _broadcast(f: Func, fargs, prepared, arrays, system):
         missing = False
         try:
             for i, a in b.items():
-                where = f" (item {','.join(str(j + 1) for j in idx)})"
-                x = _cell(fargs[i], a[idx], where)
+                v = a[idx]
+                try:
+                    x = _cell(fargs[i], v)
+                except JoulebookError:  # again, the item named (only a refusal pays for it)
+                    x = _cell(fargs[i], v, f" (item {','.join(str(j + 1) for j in idx)})")
                 if x is None:  # a blank cell in a range: blank result for that element
                     missing = True
                 elem[i] = x
