@@ -664,6 +664,18 @@ def _patch_library() -> None:
         if getattr(mod, "flatten", None) is original_flatten:
             mod.flatten = flatten
 
+    original_nan = lib.convert_nan
+
+    def convert_nan(value, *default):
+        # the library's test of every elementwise result: a plain float is finite exactly
+        # when x - x is 0 (inf - inf and nan - nan are nan), without a numpy call per value
+        if type(value) is float and not default:
+            return value if value - value == 0.0 else _error("#NUM!")
+        return original_nan(value, *default)
+
+    if lib.convert_nan is original_nan:
+        lib.convert_nan = convert_nan
+
     original_parse = libdate._text2datetime
 
     def text2datetime(date_text):

@@ -365,6 +365,10 @@ def _our_function(name: str):
         out = shared_cell(name, *(_to_cell_value(a) for a in args), errors=_style())
         if isinstance(out, list):
             arr = np.empty((len(out), len(out[0]) if out else 0), dtype=object)
+            flat = [v for row in out for v in row]
+            if arr.size == len(flat) and all(type(v) is float for v in flat):
+                arr.reshape(-1)[:] = flat  # numbers as they are (a column of one batch)
+                return arr
             for i, row in enumerate(out):
                 for j, v in enumerate(row):
                     arr[i, j] = _as_library(v)
@@ -1701,7 +1705,7 @@ class Engine:
                 continue
             try:
                 targets = self._targets(tpl, c, shift)
-                comp = self._compile(tpl, c)
+                comp = tpl.compiled or self._compile(tpl, c)
             except _Unsupported as e:
                 out[key] = self._refused(c, f"unsupported: {e}")
                 continue
@@ -1709,7 +1713,11 @@ class Engine:
                 out[key] = self._refused(c, f"unsupported: {type(e).__name__} while parsing")
                 continue
             # cells that one compiled function evaluates alike (batched by column)
-            failed = tuple(i for i, t in enumerate(targets) if not isinstance(t, _Target))
+            failed = (
+                tuple(i for i, t in enumerate(targets) if not isinstance(t, _Target))
+                if not _ONLY_TARGETS.issuperset(map(type, targets))  # an error code, say
+                else ()
+            )
             shape = tpl.shapes.get(failed)
             if shape is None:  # one tuple per template and failed references, not per cell
                 shape = tpl.shapes[failed] = (tpl.text, tpl.modes, tpl.implicit, failed)
@@ -1725,13 +1733,13 @@ class Engine:
                         if (p.cell.sheet, r, cc) != key:
                             owner[(p.cell.sheet, r, cc)] = key
         self._owner = owner
-        for s, r, c in list(plans) + list(owner) + [k for k in book.cells if k not in plans]:
-            self._rows_by_col.setdefault((s, c), []).append(r)
-        for rows in self._rows_by_col.values():
-            rows.sort()
-            # duplicates do no harm to the bisect but cost time
-        for k, rows in self._rows_by_col.items():
-            self._rows_by_col[k] = sorted(set(rows))
+        by_col = self._rows_by_col  # every cell with a formula, a value or a spilled value
+        for s, r, c in book.cells:
+            by_col.setdefault((s, c), []).append(r)
+        for s, r, c in owner:
+            by_col.setdefault((s, c), []).append(r)
+        for k, rows in by_col.items():
+            by_col[k] = sorted(set(rows))  # duplicates do no harm to the bisect but cost time
 
         graph: dict = {}
         tables = self._tables
@@ -2292,6 +2300,7 @@ def _shape_key(sheet: str, formula: str, row: int, col: int):
     return tuple(parts)
 
 
+_ONLY_TARGETS = frozenset({_Target})
 _ROLES: dict = {}  # skeleton -> per run of digits: True for a relative row, else False;
 # None when the skeleton has no fast key
 
@@ -2305,12 +2314,14 @@ def _fast_shape_key(sheet: str, formula: str, row: int, col: int):
     a formula the key does not cover (LET, ``E+``/``E-``, external books, a range glued to
     a function); such formulas take :func:`_shape_key`."""
     parts = _RUNS.split(formula)
-    if len(parts) == 1 or _SCIENTIFIC(formula) or "LET" in formula.upper():
+    if len(parts) == 1:
         return None
     skeleton = tuple(parts[0::2])
     roles = _ROLES.get(skeleton, _NOTHING)
     if roles is _NOTHING:
-        roles = _run_roles(formula, len(parts) // 2)
+        # LET and a mantissa's E+/E- are in the skeleton: one verdict for all its formulas
+        scientific_or_let = _SCIENTIFIC(formula) or "LET" in formula.upper()
+        roles = None if scientific_or_let else _run_roles(formula, len(parts) // 2)
         if len(_ROLES) > 65_536:
             _ROLES.clear()
         _ROLES[skeleton] = roles

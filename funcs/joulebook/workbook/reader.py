@@ -245,12 +245,18 @@ def paused_gc():
     Reading and computing make one or more objects per cell, none of them in reference
     cycles; the collector, triggered by the count of new objects, would walk every one of
     them again and again (a 100,000-cell workbook took twice as long).  Reference counting
-    frees everything as before; the collector resumes afterwards as it was."""
+    frees everything as before; the collector resumes afterwards as it was.  The objects
+    made meanwhile join the oldest generation without a walk (``gc.freeze`` then
+    ``gc.unfreeze`` moves every tracked object there), unless the program has frozen
+    objects of its own, which stay as they are."""
     was = gc.isenabled()
     gc.disable()
     try:
         yield
     finally:
+        if gc.get_freeze_count() == 0:
+            gc.freeze()
+            gc.unfreeze()
         if was:
             gc.enable()
 
