@@ -496,6 +496,7 @@ class _SheetHandler:
         self.c = None  # the attributes of the <c> being read
         self.f = None  # its <f> attributes
         self.f_text = self.v_text = None
+        self.has_v = False
         self.inline = None  # the <t> texts of its inline string
         self.buf = None  # text being collected
         self.phonetic = 0  # depth inside <rPh> (phonetic runs are not the text)
@@ -503,6 +504,7 @@ class _SheetHandler:
     def start(self, name, attrs):
         if name == _C:
             self.c, self.f, self.f_text, self.v_text, self.inline = attrs, None, None, None, None
+            self.has_v = False
         elif self.c is None:
             if name == _ROW and attrs.get("hidden") in ("1", "true"):
                 self.book.hidden_rows.setdefault(self.sheet, set()).add(int(attrs.get("r", "0")))
@@ -511,7 +513,7 @@ class _SheetHandler:
         elif name == _F:
             self.f, self.buf = attrs, []
         elif name == _V:
-            self.buf = []
+            self.buf, self.has_v = [], True
         elif name == _IS:
             self.inline = []
         elif name == _RPH:
@@ -585,8 +587,8 @@ class _SheetHandler:
             if text:
                 cell.raw_formula = text
                 cell.formula = normalise(text)
-        raw = self.v_text
-        if raw is not None or t == "inlineStr":
+        raw = self.v_text  # None for <v/> as for no <v> (the tree reader's .text)
+        if self.has_v or t == "inlineStr":
             cell.has_cached = True
             if t == "s" and raw is not None:
                 i = int(raw)
