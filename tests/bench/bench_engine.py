@@ -51,6 +51,16 @@ def build(path: Path, cells: int) -> int:
 
 
 def peak_mb() -> float:
+    """This process's peak resident memory, MB: the kernel's high-water mark of its own
+    address space (Linux), else ru_maxrss (which Linux carries over from the parent across
+    exec, so a child of a large parent would show the parent's peak)."""
+    try:
+        with open("/proc/self/status", encoding="ascii") as fh:
+            for line in fh:
+                if line.startswith("VmHWM:"):
+                    return int(line.split()[1]) / 1024
+    except OSError:
+        pass
     return resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024
 
 

@@ -610,8 +610,6 @@ class _SheetHandler:
 
 
 def _read_sheet(zf, part, sheet, book: Book, shared, limits: Limits, counts) -> None:
-    from openpyxl.utils.cell import range_boundaries
-
     try:
         fh = zf.open(part)
     except KeyError:
@@ -630,6 +628,8 @@ def _read_sheet(zf, part, sheet, book: Book, shared, limits: Limits, counts) -> 
                 f"sheet {sheet!r} is not safe, well-formed XML ({type(e).__name__})"
             ) from None
     data_tables = handler.data_tables
+    if data_tables:
+        from openpyxl.utils.cell import range_boundaries
     for box, row_in, col_in in data_tables:
         text = f"TABLE({row_in},{col_in})"
         try:

@@ -80,9 +80,33 @@ def tokens(formula: str) -> tuple:
 
 
 def _tokenized(formula: str) -> tuple:
-    from openpyxl.formula.tokenizer import Tokenizer
+    tokenizer = _TOKENIZER or _load_tokenizer()
+    return tuple((t.value, t.type, t.subtype) for t in tokenizer("=" + formula).items)
 
-    return tuple((t.value, t.type, t.subtype) for t in Tokenizer("=" + formula).items)
+
+_TOKENIZER = None
+
+
+def _load_tokenizer():
+    """openpyxl's formula tokenizer class.  When openpyxl is not imported yet, its tokenizer
+    module (which needs only ``re``) is loaded from openpyxl's own file, without the
+    package's ``__init__``, which imports the whole workbook model (about 0.1 s a check of a
+    workbook without shared formulas would pay for nothing)."""
+    global _TOKENIZER
+    import sys
+
+    mod = sys.modules.get("openpyxl.formula.tokenizer")
+    if mod is None:
+        import importlib.util
+        from pathlib import Path
+
+        spec = importlib.util.find_spec("openpyxl")  # found, not executed
+        path = Path(spec.origin).parent / "formula" / "tokenizer.py"
+        own = importlib.util.spec_from_file_location("joulebook._openpyxl_tokenizer", path)
+        mod = importlib.util.module_from_spec(own)
+        own.loader.exec_module(mod)
+    _TOKENIZER = mod.Tokenizer
+    return _TOKENIZER
 
 
 _RUNS = re.compile(r"([0-9]+)")  # runs of digits: the tokenizer's cache key, see tokens()
