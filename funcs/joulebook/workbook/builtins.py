@@ -635,7 +635,11 @@ def _patch_library() -> None:
             return
         if type(v) is tuple:  # the values of one call (its error test): each, as the library
             for x in v:
-                yield from flatten(x, check, drop_empty)
+                if type(x) in _PLAIN:
+                    if not check or check(x):
+                        yield x
+                else:
+                    yield from flatten(x, check, drop_empty)
             return
         if isinstance(v, np.ndarray) and numeric_check(check):
             inner = check

@@ -1804,7 +1804,7 @@ class Engine:
                 book.cells[key], "unsupported: a data table whose formula reads OFFSET or INDIRECT"
             )
         late -= set(self._tables)
-        early = {k: d for k, d in graph.items() if k not in late}
+        early = {k: d for k, d in graph.items() if k not in late} if late else graph
         batches = self._batches(early) if self.batch else {}
         member_of = {m: b for b, members in batches.items() for m in members}
         order = None
@@ -1812,7 +1812,11 @@ class Engine:
             bgraph: dict = {}
             for key, deps in early.items():
                 node = member_of.get(key, key)
-                bgraph.setdefault(node, set()).update(member_of.get(d, d) for d in deps)
+                into = bgraph.get(node)
+                if into is None:
+                    into = bgraph[node] = set()
+                for d in deps:
+                    into.add(member_of.get(d, d))
             for node, deps in bgraph.items():
                 deps.discard(node)
             try:
