@@ -99,10 +99,10 @@ def _names_for(book: Book, sheet: str, ref: str) -> list[str]:
 
 def _split_call(formula: str) -> tuple[str, list[str]] | None:
     """The first joulebook call in *formula*: (name, [argument texts])."""
-    from openpyxl.formula.tokenizer import Tokenizer
+    from .refs import tokenizer  # openpyxl's, without its workbook model (0.1 s)
 
     try:
-        items = Tokenizer("=" + formula).items
+        items = tokenizer()("=" + formula).items
     except Exception:
         return None
     for i, tok in enumerate(items):

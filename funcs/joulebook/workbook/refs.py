@@ -87,6 +87,11 @@ def _tokenized(formula: str) -> tuple:
 _TOKENIZER = None
 
 
+def tokenizer():
+    """openpyxl's ``Tokenizer`` class, without importing openpyxl's workbook model."""
+    return _TOKENIZER or _load_tokenizer()
+
+
 def _load_tokenizer():
     """openpyxl's formula tokenizer class.  When openpyxl is not imported yet, its tokenizer
     module (which needs only ``re``) is loaded from openpyxl's own file, without the
