@@ -264,3 +264,53 @@ def test_rates_and_heat_flux_units():
     assert convert(2, "kW/m2", "W/m2") == 2000.0
     # the first law per unit time: dE/dt = Q_dot − W_dot (hand)
     assert joulebook.call("JB_BALANCE_RATE", 12, 5) == 7.0
+
+
+def test_unit_seed_holds_exactly_what_pint_computes():
+    # the seed (joulebook.unitseed) spares a check the import of pint for the common units;
+    # each entry must be pint's own result (pint, the version installed), and regenerating
+    # it must give the committed table
+    from joulebook import units, unitseed
+
+    for (pint_text, kind), (factor, offset) in unitseed.CONVS.items():
+        assert units._pint_conv(pint_text, kind, pint_text) == (factor, offset), pint_text
+    for pint_text, kind in unitseed.KINDS.items():
+        assert units._pint_kind(pint_text, pint_text, False) == kind, pint_text
+    for pint_text, dims in unitseed.DIMS.items():
+        assert unitseed.dimensions(pint_text) == dims, pint_text
+    # generated in a process of its own, as `python -m joulebook.unitseed` does (in this one,
+    # caches filled by other tests would hide some of the units the examples read)
+    import ast
+    import subprocess
+    import sys
+
+    code = "from joulebook.unitseed import generate; print(repr(generate()))"
+    done = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    fresh = ast.literal_eval(done.stdout)
+    assert fresh == (unitseed.CONVS, unitseed.KINDS, unitseed.DIMS), (
+        "joulebook/unitseed.py is stale: run `python -m joulebook.unitseed`"
+    )
+    assert parse_unit("kJ/kg", "specific_energy").factor == 1000.0
+
+
+@pytest.mark.parametrize(
+    "unit, kind", [("J", "temperature"), ("kJ/kg", "pressure"), ("m3", "mass"), ("K", "energy")]
+)
+def test_a_unit_of_another_quantity_is_refused_alike_with_or_without_the_seed(unit, kind):
+    from joulebook import units
+
+    with pytest.raises(BadInput) as seeded:
+        parse_unit(unit, kind)
+    saved = dict(units._SEED_DIMS), dict(units._SEED_CONVS), dict(units._SEED_KINDS)
+    for table in (units._SEED_DIMS, units._SEED_CONVS, units._SEED_KINDS):
+        table.clear()
+    parse_unit.cache_clear()
+    try:
+        with pytest.raises(BadInput) as by_pint:
+            parse_unit(unit, kind)
+    finally:
+        units._SEED_DIMS.update(saved[0])
+        units._SEED_CONVS.update(saved[1])
+        units._SEED_KINDS.update(saved[2])
+        parse_unit.cache_clear()
+    assert str(seeded.value) == str(by_pint.value)

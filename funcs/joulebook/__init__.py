@@ -59,45 +59,19 @@ __all__ = [
 _API = frozenset(__all__) - {"__version__", "call", "registry"}
 
 
-def call(name: str, *args: Any) -> Any:
-    """Evaluate worksheet function *name* with cell values *args*, as a cell would.
-
-    Parameters
-    ----------
-    name : str
-        A worksheet function name, ``"JB_PROP"``, ``"JB_PROCESS"``, … (docs/functions.md).
-    *args : object
-        Cell values: numbers, text, ``None`` for a blank, nested lists for a range.
-
-    Returns
-    -------
-    object
-        What the cell shows: a number, text, or a 2-D list for a spilled table.
-
-    Raises
-    ------
-    BadInput, OutOfRange, NoConvergence
-        The project errors (:mod:`joulebook.errors`), where a cell would show their text.
-
-    References
-    ----------
-    .. [1] docs/design.md §1 (the Python face) and docs/functions.md.
-
-    Examples
-    --------
-    >>> round(call("JB_PROP", "water", "h in kJ/kg", "T in degC", 25, "P in bar", 2), 3)
-    105.011
-
-    The catalog is imported on first use, after which this name is rebound to
-    :func:`joulebook.catalog.call` itself.
-    """
-    from .catalog import call as _call
-
-    globals()["call"] = _call
-    return _call(name, *args)
-
-
 def __getattr__(name: str) -> Any:
+    """Names served on first use, so ``import joulebook`` stays light.
+
+    ``joulebook.call`` is the catalog's own function (:func:`joulebook.catalog.call`:
+    evaluate worksheet function *name* with cell values, as a cell would), bound here when
+    first named so a call pays no wrapper; the Pythonic API (:mod:`joulebook.api`) and the
+    unit registry load when first named.
+    """
+    if name == "call":
+        from .catalog import call
+
+        globals()["call"] = call
+        return call
     if name in _API:
         from . import api
 

@@ -1995,6 +1995,10 @@ _GAUGE_HINT = " (a gauge pressure is written kPag, barg, psig)"
 
 def _above_zero(arg: Arg, given, si, conv) -> None:
     """The one rule for absolute quantities (T, P, V, m): above zero, whatever the unit."""
+    if type(si) is float and (
+        si != si or (si >= 0.0 if arg.quantity == "volume" else si > 0.0)
+    ):  # one number that keeps the rule (NaN is refused elsewhere): no array needed
+        return
     a = np.asarray(si, dtype=float)
     # a volume may be zero (a bag inflated from flat, a cylinder filled from empty)
     bad = (a < 0.0 if arg.quantity == "volume" else ~(a > 0.0)) & ~np.isnan(a)
@@ -2054,24 +2058,30 @@ def _broadcast(f: Func, fargs, prepared, arrays, system):
             f"{fargs[i].name} {'×'.join(map(str, a.shape))}" for i, a in arrays.items()
         )
         raise BadInput(f"ranges of different shapes cannot be combined: {shapes}") from None
-    b = {i: np.broadcast_to(a, shape) for i, a in arrays.items()}
-    out = np.empty(shape, dtype=object)
+    # each range as a flat list of its elements in row order (numpy's own order, the
+    # elements as indexing gives them), so the loop below does not index an array each time
+    cols = [(i, list(np.broadcast_to(a, shape).ravel())) for i, a in arrays.items()]
+    results = []
     memo: dict[tuple, object] = {}
-    for idx in np.ndindex(shape):
+    for n in range(math.prod(shape)):
         elem = list(prepared)
         missing = False
         try:
-            for i, a in b.items():
-                where = f" (item {','.join(str(j + 1) for j in idx)})"
-                x = _cell(fargs[i], a[idx], where)
+            for i, values in cols:
+                v = values[n]
+                try:
+                    x = _cell(fargs[i], v)
+                except JoulebookError:  # again, the item named (only a refusal pays for it)
+                    idx = np.unravel_index(n, shape)
+                    x = _cell(fargs[i], v, f" (item {','.join(str(j + 1) for j in idx)})")
                 if x is None:  # a blank cell in a range: blank result for that element
                     missing = True
                 elem[i] = x
         except JoulebookError as e:
-            out[idx] = e.cell_text()
+            results.append(e.cell_text())
             continue
         if missing:
-            out[idx] = None
+            results.append(None)
             continue
         key = tuple(elem)
         r = memo.get(key, memo)
@@ -2085,8 +2095,11 @@ def _broadcast(f: Func, fargs, prepared, arrays, system):
             except Exception as e:  # a library failure must not kill the whole column
                 r = cell_text(e)
             memo[key] = r
-        out[idx] = r
-    return out
+        results.append(r)
+    out = np.empty(len(results), dtype=object)
+    for n, r in enumerate(results):  # one by one: a result may itself be a list
+        out[n] = r
+    return out.reshape(shape)
 
 
 def as_rows(value) -> list[list]:

@@ -234,7 +234,12 @@ SYMBOLS: dict[str, str] = {
 }
 
 # ---------------------------------------------------------------------------------------
-# pint, loaded once and only when a unit string is first parsed
+# pint, loaded once and only when a unit string outside the seed (:mod:`.unitseed`: the units
+# of the named systems and the common ones, as pint computes them) is first parsed
+
+from .unitseed import CONVS as _SEED_CONVS  # noqa: E402
+from .unitseed import DIMS as _SEED_DIMS  # noqa: E402
+from .unitseed import KINDS as _SEED_KINDS  # noqa: E402
 
 _UREG: Any = None
 _UREG_LOCK = threading.Lock()
@@ -479,6 +484,28 @@ def parse_unit(text: str, kind: str) -> Conv:
         raise BadInput(f"unit {raw!r} given for a dimensionless number (use no unit or %)")
 
     pint_text = _to_pint(base, kind)
+    seeded = _SEED_CONVS.get((pint_text, kind))
+    if seeded is not None:
+        return Conv(seeded[0], seeded[1], raw)
+    dim, want = _SEED_DIMS.get(pint_text), _SEED_DIMS.get(KINDS[kind][1])
+    if dim is not None and want is not None and dim[0] != want[0]:
+        _wrong_kind(raw, kind, dim[1])  # a unit of another quantity, refused as pint would
+    factor, offset = _pint_conv(pint_text, kind, raw)
+    return Conv(factor, offset, raw)
+
+
+def _wrong_kind(raw: str, kind: str, dimension: str) -> None:
+    """Refuse a unit of another quantity (*dimension*: pint's words for the unit's own)."""
+    got = kind_of_unit(raw, _quiet=True)
+    got_words = KIND_WORDS.get(got, dimension) if got else dimension
+    raise BadInput(
+        f"unit {raw!r} is a {got_words} unit; {KIND_WORDS[kind]} needs e.g. {_EXAMPLE_UNITS[kind]}"
+    )
+
+
+def _pint_conv(pint_text: str, kind: str, raw: str) -> tuple[float, float]:
+    """(factor, offset) of a unit in pint's syntax by pint (what :mod:`.unitseed` holds for
+    the common units); BadInput naming *raw* when it is not a unit of *kind*."""
     ureg = _ureg()
     try:
         q1 = ureg.Quantity(1.0, pint_text)
@@ -487,12 +514,7 @@ def parse_unit(text: str, kind: str) -> Conv:
     si_text, dim_text = KINDS[kind]
     want_dim = ureg.Quantity(1.0, dim_text).dimensionality
     if q1.dimensionality != want_dim:
-        got = kind_of_unit(raw, _quiet=True)
-        got_words = KIND_WORDS.get(got, str(q1.dimensionality)) if got else str(q1.dimensionality)
-        raise BadInput(
-            f"unit {raw!r} is a {got_words} unit; {KIND_WORDS[kind]} needs e.g. "
-            f"{_EXAMPLE_UNITS[kind]}"
-        )
+        _wrong_kind(raw, kind, str(q1.dimensionality))
     try:
         if kind == "temperature":
             if pint_text not in _ABS_TEMPS:
@@ -501,13 +523,13 @@ def parse_unit(text: str, kind: str) -> Conv:
                 )
             q0 = ureg.Quantity(0.0, pint_text).to("K").magnitude
             f = ureg.Quantity(1.0, _DELTA.get(pint_text, pint_text)).to("K").magnitude
-            return Conv(float(f), float(q0), raw)
+            return float(f), float(q0)
         f = q1.to(si_text).magnitude
     except BadInput:
         raise
     except Exception:
         raise BadInput(f"unit {raw!r} cannot be converted to {si_text}") from None
-    return Conv(_exact(float(f)), 0.0, raw)
+    return _exact(float(f)), 0.0
 
 
 def _exact(f: float) -> float:
@@ -594,6 +616,17 @@ def kind_of_unit(text: str, _quiet: bool = False) -> str | None:
     base = atm.group("unit").strip() if atm else raw
     if base in _GAUGE:
         return "pressure"
+    try:
+        seeded = _SEED_KINDS.get(_to_pint(base, "temperature"))
+    except Exception:
+        seeded = None
+    if seeded is not None:
+        return seeded
+    return _pint_kind(base, raw, _quiet)
+
+
+def _pint_kind(base: str, raw: str, _quiet: bool) -> str | None:
+    """kind_of_unit by pint (what :mod:`.unitseed` holds for the common units)."""
     ureg = _ureg()
     try:
         pint_text = _to_pint(base, "temperature")

@@ -70,7 +70,9 @@ def _coolprop():
 
 
 def coolprop_version() -> str:
-    """The property library's name and version, as the model texts cite it.
+    """The property library's name and version, as the model texts cite it: the module's own
+    version when it is loaded, else the installed distribution's (read without importing it:
+    a report of a workbook that needs no property need not pay the import, seconds).
 
     Returns
     -------
@@ -91,9 +93,18 @@ def coolprop_version() -> str:
     >>> coolprop_version().startswith("CoolProp ")
     True
     """
-    import CoolProp
+    import sys
 
-    return f"CoolProp {CoolProp.__version__}"
+    if "CoolProp" in sys.modules:
+        return f"CoolProp {sys.modules['CoolProp'].__version__}"
+    from importlib.metadata import PackageNotFoundError, version
+
+    try:
+        return f"CoolProp {version('CoolProp')}"
+    except PackageNotFoundError:  # pragma: no cover - a source build without metadata
+        import CoolProp
+
+        return f"CoolProp {CoolProp.__version__}"
 
 
 # ---------------------------------------------------------------------------------------

@@ -19,8 +19,10 @@ Corrections to the library's shared helpers, installed with them:
 from __future__ import annotations
 
 import functools
+import importlib
 import math
 import re
+import types
 
 import numpy as np
 
@@ -558,7 +560,58 @@ def _array_function(fn):
 
 
 # ---------------------------------------------------------------------------------------
+# the library's statistics module, without scipy until a function needs it
+
+_SCIPY_PARTS = ("scipy.stats", "scipy.linalg", "scipy.interpolate")
+
+
+class _Deferred(types.ModuleType):
+    """Stands for a scipy module while the library's statistics module is imported: any
+    attribute read later (``stats.norm``, ``interp1d(...)``) imports the real module then.
+    The library imports scipy's statistics, linear algebra and interpolation at the top of
+    that module (about 0.8 s), though only a few distribution and fitting functions use them;
+    AVERAGE, MAX or COUNTIF never do."""
+
+    def __getattr__(self, attr):
+        if attr.startswith("__"):
+            raise AttributeError(attr)
+        return getattr(importlib.import_module(self.__name__), attr)
+
+
+class _DeferredCall:
+    """A function of a deferred module (``from scipy.interpolate import interp1d``)."""
+
+    def __init__(self, module: str, name: str):
+        self.module, self.name = module, name
+
+    def __call__(self, *args, **kwargs):
+        return getattr(importlib.import_module(self.module), self.name)(*args, **kwargs)
+
+
+def import_statistics() -> None:
+    """Import the library's statistics module with scipy's parts deferred to first use."""
+    import sys
+
+    if "formulas.functions.stat" in sys.modules:
+        return
+    missing = [m for m in _SCIPY_PARTS if m not in sys.modules]
+    stand_ins = {m: _Deferred(m) for m in missing}
+    if "scipy.interpolate" in stand_ins:
+        stand_ins["scipy.interpolate"].interp1d = _DeferredCall("scipy.interpolate", "interp1d")
+    sys.modules.update(stand_ins)
+    try:
+        import formulas.functions.stat  # noqa: F401
+    finally:
+        for m, mod in stand_ins.items():
+            if sys.modules.get(m) is mod:
+                del sys.modules[m]
+
+
+# ---------------------------------------------------------------------------------------
 # the library's shared helpers, corrected
+
+
+_PLAIN = frozenset({float, int, bool, str})
 
 
 def _patch_library() -> None:
@@ -576,6 +629,18 @@ def _patch_library() -> None:
         )
 
     def flatten(v, check=is_number, drop_empty=False):
+        if type(v) in _PLAIN:  # one value: what the library's flatten does, without its walk
+            if not check or check(v):
+                yield v
+            return
+        if type(v) is tuple:  # the values of one call (its error test): each, as the library
+            for x in v:
+                if type(x) in _PLAIN:
+                    if not check or check(x):
+                        yield x
+                else:
+                    yield from flatten(x, check, drop_empty)
+            return
         if isinstance(v, np.ndarray) and numeric_check(check):
             inner = check
 
@@ -594,13 +659,26 @@ def _patch_library() -> None:
     import formulas.functions.logic
     import formulas.functions.look
     import formulas.functions.math
-    import formulas.functions.stat
+
+    import_statistics()
     import formulas.functions.text  # noqa: F401
 
     for mod in (lib, lib.stat, lib.math, lib.financial, lib.info, lib.logic, lib.look,
                 lib.text, lib.eng, libdate):  # fmt: skip
         if getattr(mod, "flatten", None) is original_flatten:
             mod.flatten = flatten
+
+    original_nan = lib.convert_nan
+
+    def convert_nan(value, *default):
+        # the library's test of every elementwise result: a plain float is finite exactly
+        # when x - x is 0 (inf - inf and nan - nan are nan), without a numpy call per value
+        if type(value) is float and not default:
+            return value if value - value == 0.0 else _error("#NUM!")
+        return original_nan(value, *default)
+
+    if lib.convert_nan is original_nan:
+        lib.convert_nan = convert_nan
 
     original_parse = libdate._text2datetime
 

@@ -32,14 +32,17 @@ import os
 import threading
 from bisect import bisect_left, bisect_right
 from dataclasses import dataclass, field
+from typing import NamedTuple
 
 import numpy as np
 
 from ..catalog import CATALOG
 from ..cellvalues import ERRORS_NAME, ErrorValue, error_style, message_of
 from ..cellvalues import cell as shared_cell
-from .reader import Book, Cell
+from .reader import Book, Cell, paused_gc
 from .refs import (
+    _RUNS,
+    _SCIENTIFIC,
     MAX_COL,
     MAX_ROW,
     Ref,
@@ -47,6 +50,7 @@ from .refs import (
     expand_let,
     parse_ref,
     quote_sheet,
+    split_sheet,
     tokens,
 )
 
@@ -169,7 +173,7 @@ def ERROR(code: str) -> tuple[str, str]:  # noqa: N802 - reads like Excel's erro
     return ("error", code)
 
 
-@dataclass
+@dataclass(slots=True)
 class Outcome:
     """The recomputed value of one cell, and why it could not be checked when it was not.
 
@@ -211,8 +215,11 @@ def _register_ours() -> None:
         import formulas
         from formulas.functions import wrap_func
 
+        from .builtins import import_statistics
+
         logging.getLogger("schedula").setLevel(logging.CRITICAL)
         logging.getLogger("formulas").setLevel(logging.CRITICAL)
+        import_statistics()  # before the table: scipy deferred until a function needs it
         table = formulas.get_functions()
         for f in CATALOG:
             table[f.name] = (
@@ -290,7 +297,10 @@ def warm_up() -> None:
     then share them): the formula library and its function table, and the property library."""
     _register_ours()
     import CoolProp.CoolProp  # noqa: F401
-    import formulas.functions.stat  # noqa: F401  (what most workbooks reach for)
+
+    from .builtins import import_statistics
+
+    import_statistics()  # what most workbooks reach for (scipy deferred to first use)
 
 
 def _to_cell_value(x):
@@ -301,9 +311,10 @@ def _to_cell_value(x):
     if isinstance(x, np.ndarray):
         if x.size == 1 and x.ndim == 2 and x.shape == (1, 1):
             return _to_cell_value(x[0, 0])
-        return [
-            [_to_cell_value(v) for v in row] for row in (x if x.ndim == 2 else x.reshape(1, -1))
-        ]
+        rows = (x if x.ndim == 2 else x.reshape(1, -1)).tolist()
+        if x.dtype == object and all(type(v) in _CELL_TYPES for row in rows for v in row):
+            return rows  # numbers and text as they are (a column of one batch)
+        return [[_to_cell_value(v) for v in row] for row in rows]
     if x is sh.EMPTY:
         return None
     if isinstance(x, XlError):
@@ -313,6 +324,9 @@ def _to_cell_value(x):
     if isinstance(x, np.bool_):
         return bool(x)
     return x
+
+
+_CELL_TYPES = frozenset({float, str, int, bool})
 
 
 def _failed_type():
@@ -351,6 +365,10 @@ def _our_function(name: str):
         out = shared_cell(name, *(_to_cell_value(a) for a in args), errors=_style())
         if isinstance(out, list):
             arr = np.empty((len(out), len(out[0]) if out else 0), dtype=object)
+            flat = [v for row in out for v in row]
+            if arr.size == len(flat) and all(type(v) is float for v in flat):
+                arr.reshape(-1)[:] = flat  # numbers as they are (a column of one batch)
+                return arr
             for i, row in enumerate(out):
                 for j, v in enumerate(row):
                     arr[i, j] = _as_library(v)
@@ -381,6 +399,9 @@ def _message_reader(name: str):
     return fn
 
 
+_NO_MESSAGE = frozenset({float, int, bool, np.float64, np.bool_})
+
+
 class _Explained(str):
     """A message shown by a message reader (JB_WHY): the cell explains a failure elsewhere
     and has not failed itself."""
@@ -388,6 +409,8 @@ class _Explained(str):
 
 def _message_of_library(x) -> str:
     """The joulebook failure a library value carries ("" for none)."""
+    if type(x) in _NO_MESSAGE:
+        return ""
     if isinstance(x, _Explained):
         return ""
     return getattr(x, "why", "") or message_of(x)
@@ -1078,9 +1101,9 @@ def _indirect(ref_text, a1=True):
 # templates
 
 
-@dataclass(frozen=True)
-class _Target:
-    """A resolved reference: one box on one or more sheets (3-D spans)."""
+class _Target(NamedTuple):
+    """A resolved reference: one box on one or more sheets (3-D spans).  A named tuple, not
+    a frozen dataclass: one is made per reference of every formula cell."""
 
     sheets: tuple[str, ...]
     box: tuple[int, int, int, int]  # r1, c1, r2, c2
@@ -1103,6 +1126,10 @@ class _Template:
     position_only: frozenset = frozenset()  # placeholders read for their place, not values
     unbounded: frozenset = frozenset()  # placeholders handed over at full size (no values)
     top_ref: bool = False  # the whole formula is INDEX(…), OFFSET(…) or INDIRECT(…)
+    shapes: dict = field(default_factory=dict)  # batch keys of its cells (see Engine._run)
+    plain_refs: tuple | None = None  # its Refs when all are plain single cells, else ()
+    compiled: object = None  # its compiled function (when not positional)
+    batchable: bool | None = None  # its cells may go in one vectorised call (see _batches)
 
 
 @dataclass
@@ -1111,7 +1138,7 @@ class _Compiled:
     order: list[int]  # placeholder index of each library input, in the library's order
 
 
-@dataclass
+@dataclass(slots=True)
 class _Plan:
     cell: Cell
     tpl: _Template
@@ -1130,6 +1157,7 @@ class Engine:
     batch: bool = True  # evaluate same-shape columns in one vectorised call
     _templates: dict = field(default_factory=dict)  # (sheet, text) -> (template, shift)
     _shapes: dict = field(default_factory=dict)  # shape key -> (template, row, col built at)
+    _fast_shapes: dict = field(default_factory=dict)  # the same by _fast_shape_key
     _compiled: dict = field(default_factory=dict)
     _sheet_upper: dict = field(default_factory=dict)
     _max: dict = field(default_factory=dict)
@@ -1185,6 +1213,11 @@ class Engine:
         key = (sheet, formula)
         hit = self._templates.get(key)
         if hit is None:
+            fast = _fast_shape_key(sheet, formula, row, col)
+            first = self._fast_shapes.get(fast) if fast is not None else None
+            if first is not None:
+                tpl, r0, c0 = first
+                return tpl, (row - r0, col - c0)  # not kept: the key is as quick
             try:
                 formula = expand_let(formula)
             except Exception:  # refused with its reason by _build
@@ -1199,6 +1232,9 @@ class Engine:
                 tpl, r0, c0 = first
                 hit = (tpl, (row - r0, col - c0))
             self._templates[key] = hit
+            if fast is not None:
+                r0, c0 = row - hit[1][0], col - hit[1][1]
+                self._fast_shapes[fast] = (hit[0], r0, c0)
         return hit
 
     def _build(self, sheet: str, formula: str) -> _Template:
@@ -1400,9 +1436,13 @@ class Engine:
     def _compile(self, tpl: _Template, cell: Cell) -> _Compiled:
         import formulas
 
+        if tpl.compiled is not None and not tpl.positional:
+            return tpl.compiled
         key = (tpl.text, (cell.sheet, cell.row, cell.col) if tpl.positional else None)
         comp = self._compiled.get(key)
         if comp is not None:
+            if not tpl.positional:
+                tpl.compiled = comp
             return comp
         for name in tpl.unknown:
             if not name.startswith("~"):
@@ -1428,6 +1468,8 @@ class Engine:
             order.append(ref)
         comp = _Compiled(fn, order)
         self._compiled[key] = comp
+        if not tpl.positional:
+            tpl.compiled = comp
         return comp
 
     # --- resolving references ---------------------------------------------------------
@@ -1483,6 +1525,23 @@ class Engine:
             raise _Unsupported(str(e)) from None
 
     def _targets(self, tpl: _Template, cell: Cell, shift=(0, 0)) -> list:
+        plain = tpl.plain_refs
+        if plain is None:
+            plain = tpl.plain_refs = _plain_refs(tpl)
+        if plain and not cell.array_ref:
+            # every reference one cell on a sheet named or this one, none intersected: the
+            # references moved by the shift (what _place does for them, without its search)
+            here, dr, dc = cell.sheet, shift[0], shift[1]
+            out = []
+            for ref in plain:
+                r = ref.r1 if ref.abs_r1 else ref.r1 + dr
+                c = ref.c1 if ref.abs_c1 else ref.c1 + dc
+                s1 = here if ref.sheet is None else self._sheet(ref.sheet, here)
+                if s1 is None or not (1 <= r <= MAX_ROW and 1 <= c <= MAX_COL):
+                    out.append("#REF!")
+                else:
+                    out.append(_Target((s1,), (r, c, r, c)))
+            return out
         out = []
         for i, (ref, frame) in enumerate(tpl.refs):
             if frame == "cell":
@@ -1612,6 +1671,10 @@ class Engine:
 
     # --- running ------------------------------------------------------------------------
     def run(self) -> dict[tuple[str, int, int], Outcome]:
+        with paused_gc():
+            return self._run()
+
+    def _run(self) -> dict[tuple[str, int, int], Outcome]:
         import formulas  # noqa: F401  (registers the parser grammar before compiling)
 
         book = self.book
@@ -1642,7 +1705,7 @@ class Engine:
                 continue
             try:
                 targets = self._targets(tpl, c, shift)
-                comp = self._compile(tpl, c)
+                comp = tpl.compiled or self._compile(tpl, c)
             except _Unsupported as e:
                 out[key] = self._refused(c, f"unsupported: {e}")
                 continue
@@ -1650,12 +1713,14 @@ class Engine:
                 out[key] = self._refused(c, f"unsupported: {type(e).__name__} while parsing")
                 continue
             # cells that one compiled function evaluates alike (batched by column)
-            shape = (
-                tpl.text,
-                tpl.modes,
-                tpl.implicit,
-                tuple(i for i, t in enumerate(targets) if not isinstance(t, _Target)),
+            failed = (
+                tuple(i for i, t in enumerate(targets) if not isinstance(t, _Target))
+                if not _ONLY_TARGETS.issuperset(map(type, targets))  # an error code, say
+                else ()
             )
+            shape = tpl.shapes.get(failed)
+            if shape is None:  # one tuple per template and failed references, not per cell
+                shape = tpl.shapes[failed] = (tpl.text, tpl.modes, tpl.implicit, failed)
             plans[key] = _Plan(c, tpl, comp, targets, shape)
 
         # spilled ranges of array formulas belong to their anchor
@@ -1668,13 +1733,13 @@ class Engine:
                         if (p.cell.sheet, r, cc) != key:
                             owner[(p.cell.sheet, r, cc)] = key
         self._owner = owner
-        for s, r, c in list(plans) + list(owner) + [k for k in book.cells if k not in plans]:
-            self._rows_by_col.setdefault((s, c), []).append(r)
-        for rows in self._rows_by_col.values():
-            rows.sort()
-            # duplicates do no harm to the bisect but cost time
-        for k, rows in self._rows_by_col.items():
-            self._rows_by_col[k] = sorted(set(rows))
+        by_col = self._rows_by_col  # every cell with a formula, a value or a spilled value
+        for s, r, c in book.cells:
+            by_col.setdefault((s, c), []).append(r)
+        for s, r, c in owner:
+            by_col.setdefault((s, c), []).append(r)
+        for k, rows in by_col.items():
+            by_col[k] = sorted(set(rows))  # duplicates do no harm to the bisect but cost time
 
         graph: dict = {}
         tables = self._tables
@@ -1683,6 +1748,17 @@ class Engine:
             for i, t in enumerate(p.targets):
                 if not isinstance(t, _Target) or i in p.tpl.position_only:
                     continue  # ROW(3:3), ISREF(A1): where, not what — no dependency
+                r1, c1, r2, c2 = t.box
+                if r1 == r2 and c1 == c2 and len(t.sheets) == 1:  # one cell: no search
+                    dep = (t.sheets[0], r1, c1)
+                    if dep == key and key not in out:
+                        out[key] = self._refused(
+                            p.cell, "circular reference (the cell reads itself)"
+                        )
+                    dep = owner.get(dep, dep)
+                    if dep != key and (dep in plans or dep in out or dep in tables):
+                        deps.add(dep)
+                    continue
                 if (
                     key[0] in t.sheets
                     and _inside(key, self._bounded(key[0], t.box))
@@ -1702,11 +1778,11 @@ class Engine:
                             # understood) is a dependency too: its readers are not checked
                             if dep != key and (dep in plans or dep in out or dep in tables):
                                 deps.add(dep)
-            graph[key] = deps
+            graph[key] = tuple(deps)  # a tuple: a set per cell costs 216 bytes
         for key, t in self._tables.items():
             formula, subs = _table_parts(t, key)
             deps = {k for k in (formula, *(v for _, v in subs)) if k in plans or k in out}
-            graph[key] = deps
+            graph[key] = tuple(deps)
         self._graph = graph
 
         # cells with run-time references, and everything that depends on them, go last
@@ -1728,7 +1804,7 @@ class Engine:
                 book.cells[key], "unsupported: a data table whose formula reads OFFSET or INDIRECT"
             )
         late -= set(self._tables)
-        early = {k: d for k, d in graph.items() if k not in late}
+        early = {k: d for k, d in graph.items() if k not in late} if late else graph
         batches = self._batches(early) if self.batch else {}
         member_of = {m: b for b, members in batches.items() for m in members}
         order = None
@@ -1736,7 +1812,11 @@ class Engine:
             bgraph: dict = {}
             for key, deps in early.items():
                 node = member_of.get(key, key)
-                bgraph.setdefault(node, set()).update(member_of.get(d, d) for d in deps)
+                into = bgraph.get(node)
+                if into is None:
+                    into = bgraph[node] = set()
+                for d in deps:
+                    into.add(member_of.get(d, d))
             for node, deps in bgraph.items():
                 deps.discard(node)
             try:
@@ -1752,7 +1832,9 @@ class Engine:
             # and let each run-time reference compute what it reads first
             try:
                 late_order = list(
-                    graphlib.TopologicalSorter({k: graph[k] & late for k in late}).static_order()
+                    graphlib.TopologicalSorter(
+                        {k: [d for d in graph[k] if d in late] for k in late}
+                    ).static_order()
                 )
             except graphlib.CycleError:
                 sheet_pos = {s: i for i, s in enumerate(book.sheets)}
@@ -1809,7 +1891,9 @@ class Engine:
             above.add(k)
             stack.extend(graph.get(k, ()))
         order = list(
-            graphlib.TopologicalSorter({k: graph[k] & above for k in above}).static_order()
+            graphlib.TopologicalSorter(
+                {k: [d for d in graph[k] if d in above] for k in above}
+            ).static_order()
         )
         redo: list = []
         for k in order:
@@ -1905,6 +1989,8 @@ class Engine:
         """Cells reading a refused cell are not checked; cells reading a volatile one are
         volatile.  Dependency order makes one pass enough."""
         out = self._out
+        if not any(o.problem for o in out.values()):
+            return  # nothing refused or volatile: nothing to pass on
         try:
             order = list(graphlib.TopologicalSorter(self._graph).static_order())
         except graphlib.CycleError:
@@ -1994,17 +2080,20 @@ class Engine:
             if p is None:  # a data-table cell
                 continue
             tpl = p.tpl
-            if (
-                key in self._out
-                or p.cell.array_ref
-                or tpl.needs_ranges
-                or tpl.positional
-                or tpl.volatile
-                or tpl.unknown
-                or not _elementwise(tpl)
-            ):
+            if tpl.batchable is None:
+                tpl.batchable = not (
+                    tpl.needs_ranges
+                    or tpl.positional
+                    or tpl.volatile
+                    or tpl.unknown
+                    or not _elementwise(tpl)
+                )
+            if not tpl.batchable or key in self._out or p.cell.array_ref:
                 continue
-            if any(
+            if tpl.plain_refs:  # single cells without notes, or error codes
+                if any(type(t) is str for t in p.targets):
+                    continue
+            elif any(
                 not isinstance(t, _Target)
                 or len(t.sheets) != 1
                 or t.box[0] != t.box[2]
@@ -2019,7 +2108,7 @@ class Engine:
             if len(members) < 2:
                 continue
             mset = set(members)
-            if any(graph[m] & mset for m in members):  # a running total: keep cell by cell
+            if any(d in mset for m in members for d in graph[m]):  # a running total: one by one
                 continue
             batches[("batch", n)] = sorted(members)
         return batches
@@ -2032,16 +2121,17 @@ class Engine:
         values = self._values
         import schedula as sh
 
+        plans = self._plans
+        targets = [plans[m].targets for m in members]
+        empty = sh.EMPTY
         for i in comp.order:
             col = []
-            for m in members:
-                t = self._plans[m].targets[i]
-                col.append(
-                    _as_formula_value(values.get((t.sheets[0], t.box[0], t.box[1]), sh.EMPTY))
-                )
+            for ts in targets:
+                t = ts[i]
+                v = values.get((t.sheets[0], t.box[0], t.box[1]), empty)
+                col.append(_as_formula_value(v) if type(v) is tuple else v)
             arr = np.empty((k, 1), dtype=object)
-            for j, v in enumerate(col):
-                arr[j, 0] = v
+            arr[:, 0] = col  # scalars only: numbers, text, logical values, blanks, errors
             args.append(arr)
         try:
             res = np.asarray(comp.fn(*args), dtype=object)
@@ -2214,6 +2304,98 @@ def _shape_key(sheet: str, formula: str, row: int, col: int):
     return tuple(parts)
 
 
+_ONLY_TARGETS = frozenset({_Target})
+_ROLES: dict = {}  # skeleton -> per run of digits: True for a relative row, else False;
+# None when the skeleton has no fast key
+
+
+def _fast_shape_key(sheet: str, formula: str, row: int, col: int):
+    """A shape key read without the tokenizer, for formulas filled down a column: the
+    formula's skeleton (its text between runs of digits, see :func:`.refs.tokens`) with each
+    run that is the row of a relative reference counted from *row*, every other run as
+    written, and *col* when a reference has a relative column.  Equal keys mean the same
+    text but for relative rows moved by the same number of rows: the same shape.  None for
+    a formula the key does not cover (LET, ``E+``/``E-``, external books, a range glued to
+    a function); such formulas take :func:`_shape_key`."""
+    parts = _RUNS.split(formula)
+    if len(parts) == 1:
+        return None
+    skeleton = tuple(parts[0::2])
+    roles = _ROLES.get(skeleton, _NOTHING)
+    if roles is _NOTHING:
+        # LET and a mantissa's E+/E- are in the skeleton: one verdict for all its formulas
+        scientific_or_let = _SCIENTIFIC(formula) or "LET" in formula.upper()
+        roles = None if scientific_or_let else _run_roles(formula, len(parts) // 2)
+        if len(_ROLES) > 65_536:
+            _ROLES.clear()
+        _ROLES[skeleton] = roles
+    if roles is None:
+        return None
+    rel, by_col = roles
+    key: list = [sheet, skeleton, col if by_col else 0]
+    for run, relative in zip(parts[1::2], rel):
+        if relative:
+            r = int(run)
+            if not 1 <= r <= MAX_ROW:
+                return None
+            key.append(r - row)
+        else:
+            key.append(run)
+    return tuple(key)
+
+
+def _run_roles(formula: str, n_runs: int):
+    """(per run of digits: is it the row of a relative reference?, does a reference have a
+    relative column?) read from the tokens of *formula*; None when no fast key applies."""
+    try:
+        toks = tokens(formula)
+    except Exception:
+        return None
+    rel: list = []
+    by_col = False
+    for v, t, sub in toks:
+        n = len(_RUNS.split(v)) // 2
+        if t == "FUNC" and sub == "OPEN" and ":" in v:
+            return None
+        if not (t == "OPERAND" and sub == "RANGE"):
+            rel.extend([False] * n)
+            continue
+        if v.startswith(":"):
+            return None
+        ref = parse_ref(v)
+        if ref is None or ref.kind in ("name", "table"):
+            rel.extend([False] * n)
+            continue
+        if ref.book is not None:
+            return None
+        _book, _sheet, addr = split_sheet(v)
+        before = len(_RUNS.split(v[: len(v) - len(addr)])) // 2
+        rel.extend([False] * before)
+        pieces = addr.split(":")
+        flags = ((ref.abs_r1, ref.abs_c1), (ref.abs_r2, ref.abs_c2))
+        for piece, (abs_r, abs_c) in zip(pieces, flags):
+            digits = len(_RUNS.split(piece)) // 2
+            if digits > 1:
+                return None
+            rel.extend([not abs_r] * digits)
+            if ref.kind in ("cell", "area", "cols") and not abs_c:
+                by_col = True
+    if len(rel) != n_runs:
+        return None
+    return tuple(rel), by_col
+
+
+def _plain_refs(tpl: _Template) -> tuple:
+    """The Refs of a template whose references are all single cells written in the formula
+    (no names, tables, 3-D spans or other books), read as values; () otherwise."""
+    out = []
+    for ref, frame in tpl.refs:
+        if frame != "cell" or ref.kind != "cell" or ref.book is not None or ref.sheet2:
+            return ()
+        out.append(ref)
+    return tuple(out)
+
+
 def _returns_reference(formula: str) -> bool:
     """True when the whole formula is one call of a function that returns a reference."""
     try:
@@ -2357,6 +2539,8 @@ def _elementwise(tpl: _Template) -> bool:
 
 def _plain(x):
     """A formula-library value as a plain cell value."""
+    if type(x) is float:  # the common case first
+        return x if x - x == 0.0 else ERROR("#NUM!")  # inf - inf and nan - nan are nan
     import schedula as sh
     from formulas.tokens.operand import XlError
 

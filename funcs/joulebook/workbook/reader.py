@@ -8,6 +8,8 @@ bounded while reading.  Nothing in the workbook is executed or fetched.
 
 from __future__ import annotations
 
+import contextlib
+import gc
 import hashlib
 import posixpath
 import re
@@ -48,7 +50,7 @@ class Limits:
     max_text: int = 32_767  # Excel's own cell-text limit
 
 
-@dataclass
+@dataclass(slots=True)
 class Cell:
     sheet: str
     row: int
@@ -236,6 +238,29 @@ def _not_a_package(data: bytes) -> str:
     return "not a zip package; joulebook reads .xlsx/.xlsm workbooks"
 
 
+@contextlib.contextmanager
+def paused_gc():
+    """Python's cyclic garbage collector paused while a workbook is read or computed.
+
+    Reading and computing make one or more objects per cell, none of them in reference
+    cycles; the collector, triggered by the count of new objects, would walk every one of
+    them again and again (a 100,000-cell workbook took twice as long).  Reference counting
+    frees everything as before; the collector resumes afterwards as it was.  The objects
+    made meanwhile join the oldest generation without a walk (``gc.freeze`` then
+    ``gc.unfreeze`` moves every tracked object there), unless the program has frozen
+    objects of its own, which stay as they are."""
+    was = gc.isenabled()
+    gc.disable()
+    try:
+        yield
+    finally:
+        if gc.get_freeze_count() == 0:
+            gc.freeze()
+            gc.unfreeze()
+        if was:
+            gc.enable()
+
+
 def read_book(path: str | Path, limits: Limits | None = None) -> Book:
     """Read a saved workbook: formulas, shared and array formulas, names, cached values.
 
@@ -245,6 +270,11 @@ def read_book(path: str | Path, limits: Limits | None = None) -> Book:
         Not an .xlsx/.xlsm package (an .xls, a CSV, an encrypted file), over a limit, or
         malformed / unsafe XML.
     """
+    with paused_gc():
+        return _read_book(path, limits)
+
+
+def _read_book(path: str | Path, limits: Limits | None) -> Book:
     limits = limits or Limits()
     path = Path(path)
     data = path.read_bytes()
@@ -432,98 +462,174 @@ def _shared_strings(zf: zipfile.ZipFile, limits: Limits) -> list[str]:
     return out
 
 
-def _read_sheet(zf, part, sheet, book: Book, shared, limits: Limits, counts) -> None:
-    from openpyxl.formula.translate import Translator
-    from openpyxl.utils.cell import range_boundaries
+_M = NS[1:]  # element names as the parser gives them: "uri}local"
+_C, _F, _V, _IS, _T, _RPH, _ROW, _AUTOFILTER = (
+    _M + x for x in ("c", "f", "v", "is", "t", "rPh", "row", "autoFilter")
+)
 
-    masters: dict[str, tuple[str, str]] = {}  # shared-formula id -> (text, master ref)
-    data_tables: list[tuple[str, str, str]] = []  # (range, row input, column input)
+
+def _streaming_parser(handler):
+    """defusedxml's hardened expat parser (no entity declarations, no external references:
+    its refusals raise while parsing), handing elements to *handler*'s start/end/data
+    instead of building a tree: a sheet is read in one pass with nothing kept but cells."""
+    expat = SafeET.DefusedXMLParser().parser  # the defused handlers stay installed
+    expat.ordered_attributes = False
+    expat.StartElementHandler = handler.start
+    expat.EndElementHandler = handler.end
+    expat.CharacterDataHandler = handler.data
+    return expat
+
+
+class _SheetHandler:
+    """The cells of one sheet part, element by element (see :func:`_read_sheet`)."""
+
+    def __init__(self, sheet, book: Book, shared, limits: Limits, counts):
+        self.sheet, self.book, self.shared, self.limits, self.counts = (
+            sheet,
+            book,
+            shared,
+            limits,
+            counts,
+        )
+        self.masters: dict[str, tuple[str, str]] = {}  # shared-formula id -> (text, master ref)
+        self.data_tables: list[tuple[str, str, str]] = []  # (range, row input, column input)
+        self.c = None  # the attributes of the <c> being read
+        self.f = None  # its <f> attributes
+        self.f_text = self.v_text = None
+        self.has_v = False
+        self.inline = None  # the <t> texts of its inline string
+        self.buf = None  # text being collected
+        self.phonetic = 0  # depth inside <rPh> (phonetic runs are not the text)
+
+    def start(self, name, attrs):
+        if name == _C:
+            self.c, self.f, self.f_text, self.v_text, self.inline = attrs, None, None, None, None
+            self.has_v = False
+        elif self.c is None:
+            if name == _ROW and attrs.get("hidden") in ("1", "true"):
+                self.book.hidden_rows.setdefault(self.sheet, set()).add(int(attrs.get("r", "0")))
+            elif name == _AUTOFILTER:
+                self.book.filtered.add(self.sheet)
+        elif name == _F:
+            self.f, self.buf = attrs, []
+        elif name == _V:
+            self.buf, self.has_v = [], True
+        elif name == _IS:
+            self.inline = []
+        elif name == _RPH:
+            self.phonetic += 1
+        elif name == _T and self.inline is not None and not self.phonetic:
+            self.buf = []
+
+    def data(self, text):
+        if self.buf is not None:
+            self.buf.append(text)
+
+    def end(self, name):
+        if name == _C:
+            if self.c is not None:
+                self._cell()
+            self.c = None
+        elif self.c is None:
+            return
+        elif name == _F:
+            self.f_text, self.buf = "".join(self.buf or ()) or None, None
+        elif name == _V:
+            self.v_text, self.buf = "".join(self.buf or ()) or None, None
+        elif name == _RPH:
+            self.phonetic -= 1
+        elif name == _T and self.buf is not None and self.inline is not None:
+            self.inline.append("".join(self.buf))
+            self.buf = None
+
+    def _cell(self) -> None:
+        el, limits, counts, sheet = self.c, self.limits, self.counts, self.sheet
+        ref = el.get("r")
+        if ref is None:
+            return
+        row, col = split_ref(ref)
+        counts[0] += 1
+        if counts[0] > limits.max_cells:
+            raise BadInput(
+                f"more than {limits.max_cells} cells; raise the limit to read this workbook"
+            )
+        cell = Cell(sheet, row, col)
+        t = el.get("t", "n")
+        f = self.f
+        if f is not None:
+            counts[1] += 1
+            if counts[1] > limits.max_formulas:
+                raise BadInput(f"more than {limits.max_formulas} formula cells; raise the limit")
+            ftype = f.get("t", "normal")
+            text = self.f_text
+            if ftype == "shared":
+                from openpyxl.formula.translate import Translator
+
+                si = f.get("si")
+                if text:
+                    self.masters[si] = (text, ref)
+                elif si in self.masters:
+                    mt, mref = self.masters[si]
+                    text = Translator("=" + mt, origin=mref).translate_formula(ref)[1:]
+            if ftype == "array":
+                cell.array_ref = f.get("ref") or ref
+            if ftype == "dataTable":
+                # a What-If data table: every cell of its range is the table's formula
+                # recomputed with other inputs; written as Excel shows it, TABLE(row
+                # input, column input), so the engine can name it
+                one, two = f.get("r1") or "", f.get("r2") or ""
+                if f.get("dt2D") == "1":
+                    row_in, col_in = one, two
+                else:
+                    row_in, col_in = (one, "") if f.get("dtr") == "1" else ("", one)
+                self.data_tables.append((f.get("ref") or ref, row_in, col_in))
+                text = f"TABLE({row_in},{col_in})"
+            if text:
+                cell.raw_formula = text
+                cell.formula = normalise(text)
+        raw = self.v_text  # None for <v/> as for no <v> (the tree reader's .text)
+        if self.has_v or t == "inlineStr":
+            cell.has_cached = True
+            if t == "s" and raw is not None:
+                i = int(raw)
+                cell.cached = self.shared[i] if 0 <= i < len(self.shared) else ""
+            elif t in ("str",):
+                cell.cached = unescape_text(raw or "")[: limits.max_text]
+            elif t == "inlineStr":
+                cell.cached = unescape_text("".join(self.inline)) if self.inline else ""
+            elif t == "b":
+                cell.cached = raw == "1"
+            elif t == "e":
+                cell.cached = ("error", raw or "#N/A")
+            elif raw in (None, ""):
+                cell.has_cached = False  # an empty <v/>: nothing was saved
+            else:
+                cell.cached = float(raw)
+        if cell.formula is not None or cell.has_cached:
+            self.book.cells[(sheet, row, col)] = cell
+
+
+def _read_sheet(zf, part, sheet, book: Book, shared, limits: Limits, counts) -> None:
     try:
         fh = zf.open(part)
     except KeyError:
         raise BadInput(f"sheet {sheet!r}: part {part!r} is missing") from None
+    handler = _SheetHandler(sheet, book, shared, limits, counts)
     with fh:
         try:
-            for _ev, el in SafeET.iterparse(fh, events=("end",)):
-                if el.tag != NS + "c":
-                    if el.tag == NS + "row" and el.get("hidden") in ("1", "true"):
-                        book.hidden_rows.setdefault(sheet, set()).add(int(el.get("r", "0")))
-                    elif el.tag == NS + "autoFilter":
-                        book.filtered.add(sheet)
-                    continue
-                ref = el.get("r")
-                if ref is None:
-                    el.clear()
-                    continue
-                row, col = split_ref(ref)
-                counts[0] += 1
-                if counts[0] > limits.max_cells:
-                    raise BadInput(
-                        f"more than {limits.max_cells} cells; raise the limit to read this workbook"
-                    )
-                cell = Cell(sheet, row, col)
-                t = el.get("t", "n")
-                f = el.find(NS + "f")
-                v = el.find(NS + "v")
-                if f is not None:
-                    counts[1] += 1
-                    if counts[1] > limits.max_formulas:
-                        raise BadInput(
-                            f"more than {limits.max_formulas} formula cells; raise the limit"
-                        )
-                    ftype = f.get("t", "normal")
-                    text = f.text
-                    if ftype == "shared":
-                        si = f.get("si")
-                        if text:
-                            masters[si] = (text, ref)
-                        elif si in masters:
-                            mt, mref = masters[si]
-                            text = Translator("=" + mt, origin=mref).translate_formula(ref)[1:]
-                    if ftype == "array":
-                        cell.array_ref = f.get("ref") or ref
-                    if ftype == "dataTable":
-                        # a What-If data table: every cell of its range is the table's formula
-                        # recomputed with other inputs; written as Excel shows it, TABLE(row
-                        # input, column input), so the engine can name it
-                        one, two = f.get("r1") or "", f.get("r2") or ""
-                        if f.get("dt2D") == "1":
-                            row_in, col_in = one, two
-                        else:
-                            row_in, col_in = (one, "") if f.get("dtr") == "1" else ("", one)
-                        data_tables.append((f.get("ref") or ref, row_in, col_in))
-                        text = f"TABLE({row_in},{col_in})"
-                    if text:
-                        cell.raw_formula = text
-                        cell.formula = normalise(text)
-                if v is not None or t == "inlineStr":
-                    cell.has_cached = True
-                    raw = v.text if v is not None else None
-                    if t == "s" and raw is not None:
-                        i = int(raw)
-                        cell.cached = shared[i] if 0 <= i < len(shared) else ""
-                    elif t in ("str",):
-                        cell.cached = unescape_text(raw or "")[: limits.max_text]
-                    elif t == "inlineStr":
-                        is_ = el.find(NS + "is")
-                        cell.cached = _text_of(is_) if is_ is not None else ""
-                    elif t == "b":
-                        cell.cached = raw == "1"
-                    elif t == "e":
-                        cell.cached = ("error", raw or "#N/A")
-                    elif raw in (None, ""):
-                        cell.has_cached = False  # an empty <v/>: nothing was saved
-                    else:
-                        cell.cached = float(raw)
-                if cell.formula is not None or cell.has_cached:
-                    book.cells[(sheet, row, col)] = cell
-                el.clear()
+            expat = _streaming_parser(handler)
+            while chunk := fh.read(1 << 16):
+                expat.Parse(chunk, False)
+            expat.Parse(b"", True)
         except BadInput:
             raise
         except Exception as e:
             raise BadInput(
                 f"sheet {sheet!r} is not safe, well-formed XML ({type(e).__name__})"
             ) from None
+    data_tables = handler.data_tables
+    if data_tables:
+        from openpyxl.utils.cell import range_boundaries
     for box, row_in, col_in in data_tables:
         text = f"TABLE({row_in},{col_in})"
         try:

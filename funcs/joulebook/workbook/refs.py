@@ -15,6 +15,7 @@ References
 
 from __future__ import annotations
 
+import re
 from dataclasses import dataclass
 from functools import lru_cache
 
@@ -50,12 +51,90 @@ def col_letters(n: int) -> str:
     return s
 
 
-@lru_cache(maxsize=65_536)
+@lru_cache(maxsize=4_096)  # a column filled down is split afresh from its skeleton, quickly
 def tokens(formula: str) -> tuple:
-    """The tokens of *formula* (without its leading ``=``) as ``(value, type, subtype)``."""
-    from openpyxl.formula.tokenizer import Tokenizer
+    """The tokens of *formula* (without its leading ``=``) as ``(value, type, subtype)``.
 
-    return tuple((t.value, t.type, t.subtype) for t in Tokenizer("=" + formula).items)
+    Formulas filled down a column differ only in their runs of digits (``A2*2``, ``A3*2``):
+    the tokenizer's split of the first is kept by its *skeleton* (the text between the runs)
+    and the next one's tokens are that split with its own digits, the tokenizer not run
+    again.  The tokenizer decides nothing on the value of a run of digits (a number is a
+    number whatever its digits) except after a mantissa's ``E`` (``1E+5``), so formulas
+    holding ``E+``/``E-`` are always tokenized; a split is kept only when putting the
+    formula's own digits back gives exactly its tokens."""
+    parts = _RUNS.split(formula)
+    if len(parts) == 1 or _SCIENTIFIC(formula):
+        return _tokenized(formula)
+    skeleton = tuple(parts[0::2])
+    runs = parts[1::2]
+    split = _SPLITS.get(skeleton)
+    if split is not None:
+        return _filled(split, runs)
+    toks = _tokenized(formula)
+    split = tuple((tuple(_RUNS.split(v)[0::2]), t, sub) for v, t, sub in toks)
+    if sum(len(p) - 1 for p, _, _ in split) == len(runs) and _filled(split, runs) == toks:
+        if len(_SPLITS) > 65_536:
+            _SPLITS.clear()
+        _SPLITS[skeleton] = split
+    return toks
+
+
+def _tokenized(formula: str) -> tuple:
+    tokenizer = _TOKENIZER or _load_tokenizer()
+    return tuple((t.value, t.type, t.subtype) for t in tokenizer("=" + formula).items)
+
+
+_TOKENIZER = None
+
+
+def tokenizer():
+    """openpyxl's ``Tokenizer`` class, without importing openpyxl's workbook model."""
+    return _TOKENIZER or _load_tokenizer()
+
+
+def _load_tokenizer():
+    """openpyxl's formula tokenizer class.  When openpyxl is not imported yet, its tokenizer
+    module (which needs only ``re``) is loaded from openpyxl's own file, without the
+    package's ``__init__``, which imports the whole workbook model (about 0.1 s a check of a
+    workbook without shared formulas would pay for nothing)."""
+    global _TOKENIZER
+    import sys
+
+    mod = sys.modules.get("openpyxl.formula.tokenizer")
+    if mod is None:
+        import importlib.util
+        from pathlib import Path
+
+        spec = importlib.util.find_spec("openpyxl")  # found, not executed
+        path = Path(spec.origin).parent / "formula" / "tokenizer.py"
+        own = importlib.util.spec_from_file_location("joulebook._openpyxl_tokenizer", path)
+        mod = importlib.util.module_from_spec(own)
+        own.loader.exec_module(mod)
+    _TOKENIZER = mod.Tokenizer
+    return _TOKENIZER
+
+
+_RUNS = re.compile(r"([0-9]+)")  # runs of digits: the tokenizer's cache key, see tokens()
+_SPLITS: dict = {}  # skeleton -> the tokens' texts between runs of digits, type, subtype
+
+
+def _SCIENTIFIC(formula: str) -> bool:  # noqa: N802 - a predicate on the text
+    return "E+" in formula or "E-" in formula or "e+" in formula or "e-" in formula
+
+
+def _filled(split: tuple, runs: list) -> tuple:
+    out = []
+    k = 0
+    for pieces, t, sub in split:
+        if len(pieces) == 1:
+            out.append((pieces[0], t, sub))
+            continue
+        v = pieces[0]
+        for piece in pieces[1:]:
+            v += runs[k] + piece
+            k += 1
+        out.append((v, t, sub))
+    return tuple(out)
 
 
 @dataclass(frozen=True)
@@ -268,7 +347,7 @@ def our_name(func_token: str) -> str | None:
     name = name.upper()
     if not name.startswith("JB_") or len(name) < 4:
         return None
-    if not all(ch.isascii() and (ch.isalnum() or ch == "_") for ch in name) or name[3].isdigit():
+    if not (name.isascii() and name.replace("_", "").isalnum()) or name[3].isdigit():
         return None
     return name
 
@@ -285,6 +364,11 @@ def calls_ours(formula: str) -> bool:
 def normalise(formula: str) -> str:
     """*formula* with our functions as plain names (add-in link and ``_xludf.`` prefixes
     dropped); any other text as it was."""
+    upper = formula.upper()
+    if "JB_" not in upper:
+        return formula  # calls none of ours (every name of ours holds JB_)
+    if "_XLUDF." not in upper and "]!" not in formula and _names_upper(formula, upper):
+        return formula  # no prefix to drop and every JB_ word written in capitals already
     try:
         toks = tokens(formula)
     except Exception:
@@ -295,7 +379,22 @@ def normalise(formula: str) -> str:
     for v, t, sub in toks:
         name = our_name(v) if t == "FUNC" and sub == "OPEN" else None
         out.append(name + "(" if name else v)
-    return "".join(out)
+    text = "".join(out)
+    return formula if text == formula else text  # one string kept, not two equal ones
+
+
+def _names_upper(formula: str, upper: str) -> bool:
+    """True when every word starting with JB_ (in any case) is written in capitals."""
+    i = upper.find("JB_")
+    n = len(upper)
+    while i >= 0:
+        j = i + 3
+        while j < n and (upper[j].isalnum() or upper[j] == "_"):
+            j += 1
+        if formula[i:j] != upper[i:j]:
+            return False
+        i = upper.find("JB_", j)
+    return True
 
 
 def cell_refs(formula: str, here: str) -> list[tuple[str, int, int]]:
