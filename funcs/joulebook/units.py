@@ -494,6 +494,49 @@ def parse_unit(text: str, kind: str) -> Conv:
     return Conv(factor, offset, raw)
 
 
+def known_unit(text: str, kind: str) -> Conv | None:
+    """The conversion of *text* as a common unit of *kind*, or None — never loading pint.
+
+    For reading a unit a worksheet label names (``Temperature (°F)``): only the units the
+    seed holds (:mod:`.unitseed`) and the gauge units are known; any other word is None.
+
+    Parameters
+    ----------
+    text : str
+        A word that may be a unit.
+    kind : str
+        One of :data:`KINDS`.
+
+    Returns
+    -------
+    Conv or None
+        ``si = value * factor + offset``, or None when *text* is no common unit of *kind*.
+
+    References
+    ----------
+    .. [1] NIST Special Publication 811 (2008), *Guide for the Use of the International System
+       of Units*, Appendix B (conversion factors).
+
+    Examples
+    --------
+    >>> known_unit("°F", "temperature").offset
+    255.37222222222223
+    >>> known_unit("points", "pressure") is None
+    True
+    """
+    try:
+        raw = _spelled(str(text).strip())
+        if not raw or kind not in KINDS or kind == "dimensionless":
+            return None
+        if raw in _GAUGE:
+            return parse_unit(raw, "pressure") if kind == "pressure" else None
+        if (_to_pint(raw, kind), kind) in _SEED_CONVS:
+            return parse_unit(raw, kind)
+    except (BadInput, OutOfRange, ValueError, KeyError):
+        return None
+    return None
+
+
 def _wrong_kind(raw: str, kind: str, dimension: str) -> None:
     """Refuse a unit of another quantity (*dimension*: pint's words for the unit's own)."""
     got = kind_of_unit(raw, _quiet=True)

@@ -316,10 +316,15 @@ def _figure_system(argvals: dict, system):
     from ..states import is_state_text
 
     found: dict[str, str] = {}
-    for v in argvals.values():
-        if not isinstance(v, str):
+    for name, v in argvals.items():
+        if name == "units" or not isinstance(v, str):
             continue
-        pieces = v.split("|")[1:] if is_state_text(v) else [v]
+        if is_state_text(v):
+            pieces = v.split("|")[1:]
+        elif " in " in v:
+            pieces = [v]
+        else:
+            continue
         for piece in pieces:
             if " in " in piece:
                 sym, unit = piece.split(" in ", 1)

@@ -15,8 +15,7 @@ from __future__ import annotations
 
 import re
 
-from ..errors import JoulebookError
-from ..units import parse_unit
+from ..units import known_unit
 from .refs import parse_ref, tokens
 
 __all__ = ["label_unit", "same_unit", "unit_kind", "is_gauge", "comparisons", "GAUGE_WORDS"]
@@ -62,20 +61,18 @@ def label_unit(label: str, kind: str):
         for word in (text, text.split(",")[0].strip(), text.split()[-1] if text.split() else ""):
             if not word or word.lower() in ("abs", "absolute", "gauge", "g", "a"):
                 continue
-            try:
-                return parse_unit(word, kind)
-            except JoulebookError:
-                continue
+            conv = known_unit(word, kind)
+            if conv is not None:
+                return conv
     return None
 
 
 def unit_kind(unit: str) -> tuple[str, object] | None:
-    """(kind, conversion) of a unit text, the first kind it parses as."""
+    """(kind, conversion) of a unit text, or None when it names no quantity we convert."""
     for kind in _KINDS:
-        try:
-            return kind, parse_unit(unit, kind)
-        except JoulebookError:
-            continue
+        conv = known_unit(unit, kind)
+        if conv is not None:
+            return kind, conv
     return None
 
 
