@@ -13,7 +13,7 @@ from joulebook.cli import main
 from joulebook.workbook.audit import build_audit, render_html
 from joulebook.workbook.reader import read_book
 from joulebook.workbook.writer import patch_sheet_xml
-from wbtools import rewrite_part
+from wbtools import chromium, rewrite_part
 
 
 def _clean(ws):
@@ -131,40 +131,11 @@ def test_report_lists_inputs_with_units_and_sources(tmp_path):
 
 @pytest.mark.client
 def test_report_renders_in_chromium(tmp_path):
-    import shutil
-    import subprocess
-
-    browser = shutil.which("chromium") or shutil.which("chromium-browser")
-    assert browser, "Chromium is needed: apt-get install chromium (as .ci/run does)"
     src = _recalc(_build(tmp_path / "bad.xlsx", True), tmp_path)
     out = tmp_path / "audit.html"
     assert main(["audit", str(src), "-o", str(out)]) == 0
-    flags = [
-        "--headless",
-        "--no-sandbox",
-        "--disable-gpu",
-        "--disable-quic",
-        "--no-first-run",
-        "--disable-background-networking",
-        "--disable-component-update",
-        "--disable-sync",
-        f"--user-data-dir={tmp_path / 'chrome'}",
-    ]
-    shot = tmp_path / "audit.png"
-    subprocess.run(
-        [browser, *flags, f"--screenshot={shot}", "--window-size=900,1400", out.as_uri()],
-        check=True,
-        capture_output=True,
-        timeout=120,
-    )
+    shot, dom = chromium(out, tmp_path, "900,1400")
     assert shot.stat().st_size > 10_000
-    dom = subprocess.run(
-        [browser, *flags, "--dump-dom", out.as_uri()],
-        check=True,
-        capture_output=True,
-        text=True,
-        timeout=120,
-    ).stdout
     for part in ("Audit of bad-r.xlsx", "Vessel!B6", "sign slip", "fed as absolute", "Caution."):
         assert part in dom, part
 

@@ -16,6 +16,7 @@ from openpyxl.worksheet.formula import ArrayFormula
 from joulebook.cli import main
 from joulebook.workbook.audit import build_audit, render_html, to_json
 from joulebook.workbook.reader import read_book
+from wbtools import chromium
 
 WORKBOOKS = Path(__file__).resolve().parents[1] / "workbooks"
 AUDIT_CODE = Path(__file__).resolve().parents[1] / "funcs" / "joulebook" / "workbook"
@@ -208,39 +209,11 @@ def test_the_audit_has_no_function_names_in_its_code():
 @pytest.mark.client
 def test_planted_report_renders_in_chromium(planted, tmp_path):
     """A nested call, a spilled table and the calculation map, as a browser shows them."""
-    import shutil
-    import subprocess
-
-    browser = shutil.which("chromium") or shutil.which("chromium-browser")
-    assert browser, "Chromium is needed: apt-get install chromium (as .ci/run does)"
     _, a = planted
     out = tmp_path / "audit.html"
     out.write_text(render_html(a), encoding="utf-8")
-    flags = [
-        "--headless",
-        "--no-sandbox",
-        "--disable-gpu",
-        "--no-first-run",
-        "--disable-background-networking",
-        "--disable-component-update",
-        "--disable-sync",
-        f"--user-data-dir={tmp_path / 'chrome'}",
-    ]
-    shot = tmp_path / "audit.png"
-    subprocess.run(
-        [browser, *flags, f"--screenshot={shot}", "--window-size=1000,3000", out.as_uri()],
-        check=True,
-        capture_output=True,
-        timeout=120,
-    )
+    shot, dom = chromium(out, tmp_path)
     assert shot.stat().st_size > 20_000
-    dom = subprocess.run(
-        [browser, *flags, "--dump-dom", out.as_uri()],
-        check=True,
-        capture_output=True,
-        text=True,
-        timeout=120,
-    ).stdout
     for part in (
         "joulebook call 1",  # the nested call of B13
         'class="spill"',  # the spilled end state

@@ -137,3 +137,31 @@ def library_values(path: Path, sheets: list[str]) -> dict:
                     x = float(x)
                 got[(sheet, r1 + i, c1 + j)] = x
     return got
+
+
+def chromium(page: Path, tmp: Path, size: str = "1000,3000") -> tuple[Path, str]:
+    """Headless Chromium (the distribution's, as .ci/run installs it) on a local page:
+    (a screenshot, the DOM as the browser built it).  No network is touched."""
+    import shutil
+    import subprocess
+
+    browser = shutil.which("chromium") or shutil.which("chromium-browser")
+    assert browser, "Chromium is needed: apt-get install chromium (as .ci/run does)"
+    flags = [
+        "--headless",
+        "--no-sandbox",
+        "--disable-gpu",
+        "--disable-quic",
+        "--no-first-run",
+        "--disable-background-networking",
+        "--disable-component-update",
+        "--disable-sync",
+        f"--user-data-dir={tmp / 'chrome'}",
+    ]
+    shot = tmp / (page.stem + ".png")
+    run = dict(check=True, capture_output=True, timeout=120)
+    subprocess.run(
+        [browser, *flags, f"--screenshot={shot}", f"--window-size={size}", page.as_uri()], **run
+    )
+    dom = subprocess.run([browser, *flags, "--dump-dom", page.as_uri()], text=True, **run).stdout
+    return shot, dom
