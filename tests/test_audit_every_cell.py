@@ -223,3 +223,37 @@ def test_planted_report_renders_in_chromium(planted, tmp_path):
         "compares a gauge pressure",
     ):
         assert part in dom, part
+
+
+def test_review_findings_own_label_cut_off_range_omitted_mass_and_no_false_comparison(tmp_path):
+    """Slips a reviewer planted: a cell labelled in K that returns degC, an array range too
+    small for its table, a mass left out (results per unit mass), and a comparison whose
+    right side is a product (not one cell: no unit verdict on it)."""
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws.title = "S"
+    ws["A1"], ws["B1"] = "Start", '=JB_STATE("nitrogen","T in degC",B7,"P in bar",B2)'
+    ws["A2"], ws["B2"] = "Fill pressure (bar)", 8
+    ws["A3"], ws["B3"] = (
+        "Final temperature, K",
+        '=JB_PROCESS(B1,"rigid","P2 in bar",B4,"T2 in degC")',
+    )
+    ws["A4"], ws["B4"] = "End pressure (psia)", 12
+    ws["A5"], ws["B5"] = "Factor", 14.5
+    ws["A6"], ws["B6"] = "Check", '=IF(B4>B2*B5,"hi","ok")'
+    ws["A7"], ws["B7"] = "Fill temperature", 20
+    ws["A8"] = "Table"
+    ws["B8"] = ArrayFormula("B8:C11", '=JB_PROCESS_TABLE(B1,"rigid","P2 in bar",B2)')
+    src = tmp_path / "r.xlsx"
+    wb.save(src)
+    out = tmp_path / "r2.xlsx"
+    assert main(["recalc", str(src), "-o", str(out)]) == 0
+    a = build_audit(read_book(out), figures=False)
+    flags = {e.cell: " | ".join(e.flags) for e in a.entries}
+    assert "names K but the formula returns degC" in flags["B3"]
+    assert "labelled 'End pressure (psia)'" in flags["B3"]
+    assert "shows 4 × 2 of the 13 × 3 values" in flags["B8"]
+    assert flags["B6"] == ""
+    b3 = _e(a, "B3")
+    mass = next(i for i in b3.inputs if i.name == "mass")
+    assert mass.source.startswith("omitted: mass of the system (default 1")

@@ -66,3 +66,19 @@ def test_python_dash_m_joulebook_is_the_command():
         [sys.executable, "-m", "joulebook", "--help"], capture_output=True, text=True, timeout=120
     )
     assert out.returncode == 0 and "check" in out.stdout and not out.stderr
+
+
+def test_a_closed_pipe_is_no_internal_error():
+    """`joulebook functions | head -1`: the reader leaves early; exit 0, nothing on stderr
+    (common practice of command-line tools)."""
+    import subprocess
+    import sys
+
+    p = subprocess.Popen(
+        [sys.executable, "-m", "joulebook", "functions"],
+        stdout=subprocess.PIPE,
+        stderr=subprocess.PIPE,
+    )
+    p.stdout.close()  # before the command writes: its first write finds the pipe closed
+    err = p.stderr.read()
+    assert p.wait(timeout=60) == 0 and b"internal error" not in err, err

@@ -441,3 +441,20 @@ def test_cp_exceeds_cv_property(fluid, T, P):
     except JoulebookError:
         return
     assert cp > cv > 0
+
+
+def test_an_ods_file_is_named_as_such(tmp_path):
+    """Calc's own format is refused with what to do (save as .xlsx), not as a damaged file.
+    The package layout is OpenDocument's (OASIS OpenDocument 1.2, part 3: a first member
+    `mimetype` holding the media type)."""
+    import zipfile
+
+    from joulebook.errors import BadInput
+    from joulebook.workbook.reader import read_book
+
+    p = tmp_path / "calc.ods"
+    with zipfile.ZipFile(p, "w") as z:
+        z.writestr("mimetype", "application/vnd.oasis.opendocument.spreadsheet")
+        z.writestr("content.xml", "<office:document-content/>")
+    with pytest.raises(BadInput, match=r"OpenDocument spreadsheet \(\.ods\); save it as \.xlsx"):
+        read_book(p)

@@ -109,18 +109,20 @@ def test_check_reports_missing_values_then_passes_after_recalc(
 
     data = json.loads(rep.read_text())
     open_ = {(c["sheet"], c["cell"]): c["status"] for c in data["cells"] if c["status"] != "pass"}
-    # left: the deliberate cycle, and the out-of-range call in D1 (a joulebook error fails
-    # the check even though the file saved the same text); the spill cells E2:E3 that
-    # openpyxl wrote no <c> element for were inserted by the writer, so they hold values now
+    # left: the deliberate cycle, the out-of-range call in D1 (a joulebook error fails
+    # the check even though the file saved the same text) and D4 = 1/0 (an error value is
+    # no pass, even saved alike); the spill cells E2:E3 that openpyxl wrote no <c> element
+    # for were inserted by the writer, so they hold values now
     assert open_ == {
         ("Calc Sheet", "A5"): "circular",
         ("Calc Sheet", "A6"): "circular",
         ("Inputs", "D1"): "error",
+        ("Inputs", "D4"): "error value",
     }
     assert code == 1
-    assert data["summary"]["circular"] == 2
+    assert data["summary"]["circular"] == 2 and data["summary"]["saved_error_values"] == 1
     xml = junit.read_text()
-    assert 'errors="2"' in xml and 'failures="1"' in xml
+    assert 'errors="2"' in xml and 'failures="2"' in xml
     assert (_sha(fixture_book), _sha(recalculated)) == before  # check never writes its input
 
 

@@ -484,6 +484,7 @@ def _combined_junit(results: list, many: bool) -> str:
 _SARIF_RULES = {
     "differs": "the saved value differs from the recomputed one",
     "error": "the cell holds a joulebook or engine error",
+    "error value": "the cell holds a spreadsheet error value (#DIV/0!, #N/A …), as saved",
     "no cached value": "the file holds no saved value for the cell",
     "unsupported": "the cell uses a function or feature the engine does not evaluate",
     "not checked": "the cell reads a cell that could not be evaluated",
@@ -816,6 +817,13 @@ def main(argv: list[str] | None = None) -> int:
         return 0
     try:
         return ns.run(ns)
+    except BrokenPipeError:
+        # the reader went away (`joulebook functions | head -1`): stop quietly, as Unix tools
+        # do; stdout is pointed at devnull so the interpreter's final flush cannot fail again
+        import os
+
+        os.dup2(os.open(os.devnull, os.O_WRONLY), sys.stdout.fileno())
+        return 0
     except Exception as e:  # a defect of ours: exit 3 with the message, never a traceback
         print(f"joulebook: internal error ({type(e).__name__}): {e}", file=sys.stderr)
         return 3

@@ -434,6 +434,13 @@ def _sub_call(name, args, text, c: Cell, book, values, engine, whole: bool, resu
         for a in f.all_args
         if not (sources[a.name] == "omitted" and a.optional)
     ]
+    # a physical quantity left out takes the function's default: say which (a mass left out
+    # makes the results per unit mass)
+    inputs += [
+        Input(a.name, "(omitted)", "", f"omitted: {a.help}")
+        for a in f.args
+        if a.quantity and a.optional and sources[a.name] == "omitted"
+    ]
     if not whole:
         try:
             result = engine.evaluate(c.sheet, c.row, c.col, text, values)
@@ -493,9 +500,10 @@ def _status_flags(e: Entry, message: str) -> list[str]:
         note = row.note if row.note.startswith(row.status) else f"{row.status}: {row.note}"
         out.append(note[:220])
     elif row.status == "volatile":
-        out.append(f"volatile: {row.note[:160]} (recomputed here, not compared)")
-    if row.status == "pass" and isinstance(row.recomputed, tuple):
-        out.append(f"the cell holds the error value {row.recomputed[1]} (the file saved the same)")
+        note = row.note if row.note.startswith("volatile") else f"volatile: {row.note}"
+        out.append(f"{note[:160]} (recomputed here, not compared)")
+    elif row.status == "error value":
+        out.append(row.note)
     return out
 
 
@@ -743,6 +751,46 @@ _DU = re.compile(r"(Δu|du\b|delta u|internal energy)", re.IGNORECASE)
 _W = re.compile(r"(^\s*w\b|work)", re.IGNORECASE)
 
 
+def _own_label_flags(e: Entry) -> list[str]:
+    """A joulebook cell whose own label names another unit than the one it returns."""
+    if not e.label or not e.result_unit or not isinstance(e.result, float):
+        return []
+    got = eye.unit_kind(e.result_unit)
+    if got is None:
+        return []
+    named = eye.label_unit(e.label, got[0])
+    if named is None or eye.same_unit(named, got[1]):
+        return []
+    return [
+        f"the label '{e.label}' names {named.unit} but the formula returns "
+        f"{pretty_unit(e.result_unit)}: a reader takes the number in the wrong unit"
+    ]
+
+
+def _cut_off_flags(c: Cell, sc: SubCall, engine: Engine, values: dict) -> list[str]:
+    """An array range smaller than the table the call returns: rows or columns cut off."""
+    box = _box(c)
+    if box is None:
+        return []
+    try:
+        full = engine.evaluate(c.sheet, c.row, c.col, sc.text, values)
+    except Exception:
+        return []
+    if not isinstance(full, (list, np.ndarray)):
+        return []
+    from ..catalog import as_rows
+
+    rows = as_rows(full)
+    n, m = len(rows), max((len(r) for r in rows), default=0)
+    h, w = box[2] - box[0] + 1, box[3] - box[1] + 1
+    if n <= h and m <= w:
+        return []
+    return [
+        f"the array range {c.array_ref} shows {min(n, h)} × {min(m, w)} of the {n} × {m} "
+        f"values {sc.function} returns: rows or columns are cut off; widen the range"
+    ]
+
+
 def _hand_balance(book: Book, c: Cell, values: dict, label: str) -> list[str]:
     """A hand-typed heat cell (label Q / heat) built from a ΔU cell and a W cell must equal
     ΔU + W (heat in +, work by the system +)."""
@@ -900,6 +948,8 @@ def build_audit(
                 if g not in e.flags:
                     e.flags.append(g)
         e.flags += _comparison_flags(book, c, by_key)
+        if whole and calls:
+            e.flags += _own_label_flags(e) + _cut_off_flags(c, calls[0], engine, values)
         if not calls:
             e.flags += _hand_balance(book, c, values, label)
         # figures: one per distinct path
@@ -1232,7 +1282,7 @@ def render_html(a: Audit) -> str:
         ("differences", sum(e.status == "differs" for e in es)),
         (
             "errors (joulebook refusals and error values)",
-            sum(e.status == "error" or isinstance(e.result, tuple) for e in es),
+            sum(e.status in ("error", "error value") for e in es),
         ),
         ("unsupported / circular", sum(e.status in ("unsupported", "circular") for e in es)),
         ("not checked (a precedent was not evaluated)", sum(e.status == "not checked" for e in es)),
@@ -1247,9 +1297,7 @@ def render_html(a: Audit) -> str:
         counts=counts,
         sheets=sheets,
         badge=_badge,
-        status=lambda e: (
-            "error value" if e.status == "pass" and isinstance(e.result, tuple) else e.status
-        ),
+        status=lambda e: e.status,
         svg=lambda text: Markup(text),
         caution=CAUTION,
     )

@@ -240,10 +240,16 @@ def _points(si: dict, system) -> str:
     x, y = cv.from_si(np.array(V)), cp.from_si(np.array(P))
     p = _panel()
     p.limits(x, y)
-    p.area(x, y, base=None)
+    # a closed record (last point back at the first) encloses the net work; an open branch
+    # encloses nothing
+    closed = abs(x[-1] - x[0]) <= 0.02 * (np.ptp(x) or 1) and abs(y[-1] - y[0]) <= 0.02 * (
+        np.ptp(y) or 1
+    )
+    if closed:
+        p.area(x, y, base=None)
     p.line(x, y, _BLUE, width=1.4, dots=True)
     p.xlabel, p.ylabel = f"V [{uv}]", f"P [{up}]"
-    p.title = "measured P–V points; enclosed area = net work"
+    p.title = "measured P–V points" + ("; enclosed area = net work" if closed else "")
     return _svg([p], 380, 280, "measured P–V points")
 
 

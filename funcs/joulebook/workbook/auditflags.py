@@ -107,11 +107,17 @@ def comparisons(formula: str) -> list[tuple[str, str, str]]:
         toks = [t for t in tokens(formula) if t[1] != "WHITE-SPACE"]
     except Exception:
         return []
+
+    def bound(tok) -> bool:  # a side ends here: start or end, a separator, a parenthesis
+        return tok is None or tok[1] in ("SEP", "FUNC", "PAREN")
+
     out = []
     for i, (v, t, _sub) in enumerate(toks):
         if t == "OPERATOR-INFIX" and v in _COMPARE and 0 < i < len(toks) - 1:
             left, right = toks[i - 1], toks[i + 1]
-            if left[1] == "OPERAND" and right[1] == "OPERAND":
+            before = toks[i - 2] if i >= 2 else None
+            after = toks[i + 2] if i + 2 < len(toks) else None
+            if left[1] == "OPERAND" and right[1] == "OPERAND" and bound(before) and bound(after):
                 out.append((left[0], v, right[0]))
     return out
 

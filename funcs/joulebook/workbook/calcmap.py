@@ -36,6 +36,15 @@ _FILL = {
 }
 
 
+_LEGEND = (
+    ("input", "input"),
+    ("ours", "joulebook"),
+    ("formula", "formula"),
+    ("check", "comparison"),
+    ("flagged", "flagged"),
+)
+
+
 def _e(x) -> str:
     return html.escape(str(x), quote=True)
 
@@ -69,7 +78,7 @@ def calc_map(nodes: list[Node], title: str) -> str:
     for c, ns in cols.items():
         for i, n in enumerate(ns):
             pos[n.key] = (10 + c * (_W + _GX), 30 + i * (_H + _GY))
-    width = 20 + (max(cols) + 1) * (_W + _GX) - _GX
+    width = max(20 + (max(cols) + 1) * (_W + _GX) - _GX, 700)
     height = 40 + max(len(v) for v in cols.values()) * (_H + _GY) + (16 if left_out else 0)
     out = [
         f'<svg xmlns="http://www.w3.org/2000/svg" class="calcmap" width="{width}" '
@@ -81,6 +90,13 @@ def calc_map(nodes: list[Node], title: str) -> str:
         f'<text x="10" y="18" font-size="12" font-weight="bold">{_e(title)}: inputs → '
         "joulebook cells → checks</text>",
     ]
+    lx = 330  # the legend, on the title's line
+    for kind, word in _LEGEND:
+        out.append(
+            f'<rect x="{lx}" y="8" width="12" height="12" rx="2" fill="{_FILL[kind]}" '
+            f'stroke="#8a9aa2"/><text x="{lx + 16}" y="18" font-size="10">{word}</text>'
+        )
+        lx += 18 + 6 * len(word)
     for n in nodes:
         x2, y2 = pos[n.key]
         for p in n.precedents:

@@ -21,9 +21,8 @@ class Row:
     formula: str
     cached: object
     recomputed: object
-    status: (
-        str  # pass, differs, no cached value, error, volatile, unsupported, not checked, circular
-    )
+    status: str  # pass, differs, no cached value, error, error value, volatile, unsupported,
+    # not checked, circular
     note: str = ""
 
 
@@ -84,7 +83,9 @@ def compare(book: Book, outcomes: dict, rtol: float = 1e-9, atol: float = 1e-12)
             # is "values") is a failed cell even when the file saved the same
             status, note = "error", "joulebook error in the value: " + o.message[:200]
         elif status == "pass" and isinstance(o.value, tuple):
-            note = "the cell holds an error value (the file saved the same)"
+            # the same error as saved is no pass: a sheet of #DIV/0! must not go green
+            status = "error value"
+            note = f"the cell holds the error value {o.value[1]} (the file saved the same)"
         if o.note:
             note = (note + "; " if note else "") + o.note
         rows.append(
@@ -99,13 +100,14 @@ RELAX = {"error": "allow_errors", "unsupported": "allow_unsupported"}
 
 def failing(rows: list[Row], allow_errors: bool = False, allow_unsupported: bool = False):
     """The rows that fail a strict check: anything but pass, except what was relaxed —
-    joulebook errors and engine errors (--allow-errors); unsupported cells and the cells
-    not checked because of them (--allow-unsupported)."""
+    joulebook errors, engine errors and cells holding an error value the file saved alike
+    (--allow-errors); unsupported cells and the cells not checked because of them
+    (--allow-unsupported)."""
     out = []
     for r in rows:
         if r.status == "pass":
             continue
-        if allow_errors and r.status == "error":
+        if allow_errors and r.status in ("error", "error value"):
             continue
         if allow_unsupported and (
             r.status == "unsupported" or (r.status == "not checked" and "(unsupported" in r.note)
@@ -119,9 +121,7 @@ def summary(rows: list[Row]) -> dict:
     out = {"cells": len(rows)}
     for r in rows:
         out[r.status] = out.get(r.status, 0) + 1
-    out["saved_error_values"] = sum(
-        1 for r in rows if r.status == "pass" and isinstance(r.recomputed, tuple)
-    )
+    out["saved_error_values"] = sum(1 for r in rows if r.status == "error value")
     out["errors_in_values"] = sum(
         1
         for r in rows
@@ -156,7 +156,7 @@ def to_junit(book: Book, rows: list[Row], bad: list[Row] | None = None) -> str:
     """JUnit XML: one test case per cell; the failing ones (*bad*, by default every cell not
     passing) are failures (values) or errors (cells that could not be checked)."""
     bad_ids = {id(r) for r in (rows if bad is None else bad) if r.status != "pass"}
-    value_kinds = ("differs", "no cached value", "error")
+    value_kinds = ("differs", "no cached value", "error", "error value")
     fails = sum(id(r) in bad_ids and r.status in value_kinds for r in rows)
     errs = sum(id(r) in bad_ids and r.status not in value_kinds for r in rows)
     out = [

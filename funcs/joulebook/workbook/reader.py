@@ -287,6 +287,11 @@ def _read_book(path: str | Path, limits: Limits | None) -> Book:
         _check_package(zf, limits)
         wb = _parse(zf, "xl/workbook.xml")
         if wb is None:
+            if "mimetype" in zf.namelist() and b"opendocument" in zf.read("mimetype")[:100]:
+                raise BadInput(
+                    f"{path.name}: an OpenDocument spreadsheet (.ods); save it as .xlsx "
+                    "(File → Save As → Excel 2007-365) and check that"
+                )
             raise BadInput(f"{path.name}: no xl/workbook.xml: not an Excel workbook package")
         rels = _parse(zf, "xl/_rels/workbook.xml.rels")
         targets = {}
