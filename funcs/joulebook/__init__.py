@@ -59,6 +59,11 @@ __all__ = [
 _API = frozenset(__all__) - {"__version__", "call", "registry"}
 
 
+def __dir__() -> list[str]:
+    """The names served on first use are listed too (tab completion finds State, call …)."""
+    return sorted(set(globals()) | set(__all__))
+
+
 def __getattr__(name: str) -> Any:
     """Names served on first use, so ``import joulebook`` stays light.
 

@@ -178,7 +178,11 @@ def _recalc(ns: argparse.Namespace) -> int:
         f"{len(changed)} changed from the saved values"
         + (f", {len(new)} had no saved value" if new else "")
         + (f", {len(kept)} left as saved" if kept else "")
-        + (f", {s['errors_in_values']} hold error values" if s["errors_in_values"] else "")
+        + (
+            f", {_n(s['errors_in_values'], 'holds an error value', 'hold error values')}"
+            if s["errors_in_values"]
+            else ""
+        )
     )
     for title, group in (("changed", changed), ("left as saved", kept)):
         for r in group[:_SHOWN]:
@@ -625,11 +629,13 @@ def _audit(ns: argparse.Namespace) -> int:
             print(e.cell_text(), file=sys.stderr)
             return 2
         print(f"wrote {ns.xlsx}: a copy of the workbook with a 'joulebook audit' sheet")
-    s = report.summary
+    es = report.entries
+    passes = sum(e.status == "pass" for e in es)
+    differs = sum(e.status == "differs" for e in es)
     print(
         f"wrote {out} ({len(text) // 1024} KiB, {time.perf_counter() - t0:.1f} s): "
-        f"{len(report.entries)} formula cells, {s.get('pass', 0)} passes, "
-        f"{s.get('differs', 0)} differences, {len(report.flags)} flags"
+        f"{_n(len(es), 'formula cell')}, {_n(passes, 'pass', 'passes')}, "
+        f"{_n(differs, 'difference')}, {_n(len(report.flags), 'flag')}"
     )
     if ns.fail_on_flags and report.flags:
         for e, f in report.flags:
@@ -807,6 +813,11 @@ def build_parser() -> argparse.ArgumentParser:
         g.add_argument("--root", default=".", help="project root (default: current folder)")
         g.set_defaults(run=run)
     return p
+
+
+def _n(n: int, one: str, many: str | None = None) -> str:
+    """``1 flag``, ``2 flags``: a count with its noun."""
+    return f"{n} {one if n == 1 else (many or one + 's')}"
 
 
 def main(argv: list[str] | None = None) -> int:
