@@ -37,6 +37,7 @@ from .check import Row, compare, fmt, summary
 from .engine import Engine
 from .reader import Book, Cell, col_letters
 from .refs import cell_refs, our_name, parse_ref, texts, tokens
+from .status import STATUSES, Status
 
 __all__ = ["Input", "Line", "SubCall", "Entry", "Audit", "build_audit", "render_html", "to_json"]
 
@@ -481,14 +482,14 @@ def _status_flags(e: Entry, message: str) -> list[str]:
     row, out = e.row, []
     if row is None:
         return ["not recalculated by the engine"]
-    if row.status == "differs":
+    if row.status is Status.DIFFERS:
         out.append(
             f"saved value {fmt(row.cached)} differs from the recomputed {fmt(row.recomputed)}: "
             "the workbook was not recalculated, or its inputs changed"
         )
-    elif row.status == "no cached value":
+    elif row.status is Status.NO_CACHED_VALUE:
         out.append("no saved value in the file: open and recalculate before sending it out")
-    elif row.status == "error":
+    elif row.status is Status.ERROR:
         what = message or row.note or fmt(row.recomputed)
         if isinstance(row.recomputed, str) and row.recomputed.startswith("OutOfRange:"):
             out.append(
@@ -496,14 +497,21 @@ def _status_flags(e: Entry, message: str) -> list[str]:
             )
         else:
             out.append("the formula returns an error: " + what[:200])
-    elif row.status in ("unsupported", "not checked", "circular"):
-        note = row.note if row.note.startswith(row.status) else f"{row.status}: {row.note}"
+    elif row.status in (Status.UNSUPPORTED, Status.NOT_CHECKED, Status.CIRCULAR):
+        note = row.note if row.note.startswith(row.status.value) else f"{row.status}: {row.note}"
         out.append(note[:220])
-    elif row.status == "volatile":
+    elif row.status is Status.VOLATILE:
         note = row.note if row.note.startswith("volatile") else f"volatile: {row.note}"
         out.append(f"{note[:160]} (recomputed here, not compared)")
-    elif row.status == "error value":
+    elif row.status is Status.ERROR_VALUE:
         out.append(row.note)
+    elif row.status in (
+        Status.UNIT_CLASH,
+        Status.REFUSAL_USED,
+        Status.BLANK_INPUT,
+        Status.OUTSIDE_MODEL,
+    ):
+        out.append(f"{row.status}: {row.note}"[:400])
     return out
 
 
@@ -909,7 +917,7 @@ def build_audit(
             "",
             "",
             row,
-            status=row.status if row is not None else "not checked",
+            status=row.status if row is not None else Status.NOT_CHECKED,
             note=row.note if row is not None else "",
             calls=calls,
         )
@@ -1236,16 +1244,22 @@ def _badge(e: Entry) -> str:
     return _BADGE.get(e.status, "bad")
 
 
+#: the badge of each status (the one Status list): green only for a pass; amber for cells
+#: whose value could not be compared; red for every other verdict
 _BADGE = {
-    "pass": "pass",
-    "differs": "bad",
-    "error": "bad",
-    "circular": "bad",
-    "unsupported": "bad",
-    "not checked": "warn",
-    "no cached value": "warn",
-    "volatile": "warn",
+    s: (
+        "pass"
+        if s is Status.PASS
+        else "warn"
+        if s in (Status.NOT_CHECKED, Status.NO_CACHED_VALUE, Status.VOLATILE)
+        else "bad"
+    )
+    for s in STATUSES
 }
+
+
+#: the statuses of a value that recomputes but cannot be signed (design §3)
+_SIGNED = (Status.UNIT_CLASH, Status.REFUSAL_USED, Status.BLANK_INPUT, Status.OUTSIDE_MODEL)
 
 
 def render_html(a: Audit) -> str:
@@ -1279,10 +1293,14 @@ def render_html(a: Audit) -> str:
         ("formula cells audited", len(es)),
         ("of them calling joulebook", sum(1 for e in es if e.calls)),
         ("passes (recomputed = saved, not an error)", sum(_badge(e) == "pass" for e in es)),
-        ("differences", sum(e.status == "differs" for e in es)),
+        ("differences", sum(e.status == Status.DIFFERS for e in es)),
         (
             "errors (joulebook refusals and error values)",
-            sum(e.status in ("error", "error value") for e in es),
+            sum(e.status in (Status.ERROR, Status.ERROR_VALUE) for e in es),
+        ),
+        (
+            "unit clashes, refusals used, blank inputs, outside the model",
+            sum(e.status in _SIGNED for e in es),
         ),
         ("unsupported / circular", sum(e.status in ("unsupported", "circular") for e in es)),
         ("not checked (a precedent was not evaluated)", sum(e.status == "not checked" for e in es)),
