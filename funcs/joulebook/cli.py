@@ -506,9 +506,7 @@ def _sarif(results: list) -> str:
     cell (Sheet!A1) in the region's message."""
     import json
 
-    from .workbook.check import fmt
-
-    from .workbook.check import VALUE_STATUSES
+    from .workbook.check import VALUE_STATUSES, fmt
 
     rules = _sarif_rules()
     ids = list(rules)
@@ -561,8 +559,7 @@ def _sarif(results: list) -> str:
                         "name": "joulebook check",
                         "version": __version__,
                         "rules": [
-                            {"id": k, "shortDescription": {"text": v}}
-                            for k, v in rules.items()
+                            {"id": k, "shortDescription": {"text": v}} for k, v in rules.items()
                         ],
                     }
                 },

@@ -53,8 +53,14 @@ def _is_our_error_text(v) -> bool:
     return isinstance(v, str) and v.split(":", 1)[0] in _ERROR_LABELS
 
 
-def compare(book: Book, outcomes: dict, rtol: float = 1e-9, atol: float = 1e-12) -> list[Row]:
-    """One row per recomputed cell, in sheet and row order."""
+def compare(
+    book: Book, outcomes: dict, rtol: float = 1e-9, atol: float = 1e-12, signed: bool = True
+) -> list[Row]:
+    """One row per recomputed cell, in sheet and row order.
+
+    With *signed* (the default) a pass is a verdict a checker can sign: a cell computing on
+    a refusal or a blank required input, or mixing units, carries that status instead
+    (:func:`joulebook.workbook.verdict.refine`)."""
     order = {s: i for i, s in enumerate(book.sheets)}
     rows = []
     for key in sorted(outcomes, key=lambda k: (order.get(k[0], 0), k[1], k[2])):
@@ -94,6 +100,10 @@ def compare(book: Book, outcomes: dict, rtol: float = 1e-9, atol: float = 1e-12)
                 o.cause,
             )
         )
+    if signed:
+        from .verdict import refine
+
+        refine(book, outcomes, rows)
     return rows
 
 

@@ -40,7 +40,6 @@ from ..catalog import CATALOG
 from ..cellvalues import ERRORS_NAME, ErrorValue, error_style, message_of
 from ..cellvalues import cell as shared_cell
 from .reader import Book, Cell, paused_gc
-from .status import Status
 from .refs import (
     _RUNS,
     _SCIENTIFIC,
@@ -54,6 +53,7 @@ from .refs import (
     split_sheet,
     tokens,
 )
+from .status import Status
 
 __all__ = ["Engine", "Outcome", "ERROR", "VOLATILE"]
 
@@ -1766,7 +1766,9 @@ class Engine:
                     dep = (t.sheets[0], r1, c1)
                     if dep == key and key not in out:
                         out[key] = self._refused(
-                            p.cell, "circular reference (the cell reads itself)", kind=Status.CIRCULAR
+                            p.cell,
+                            "circular reference (the cell reads itself)",
+                            kind=Status.CIRCULAR,
                         )
                     dep = owner.get(dep, dep)
                     if dep != key and (dep in plans or dep in out or dep in tables):
@@ -1778,7 +1780,9 @@ class Engine:
                     and key not in out
                 ):
                     # the cell reads itself (SUM(3:3) in row 3): Excel's circular reference
-                    out[key] = self._refused(p.cell, "circular reference (the cell reads itself)", kind=Status.CIRCULAR)
+                    out[key] = self._refused(
+                        p.cell, "circular reference (the cell reads itself)", kind=Status.CIRCULAR
+                    )
                 for s in t.sheets:
                     r1, c1, r2, c2 = self._bounded(s, t.box)
                     for cc in range(c1, c2 + 1):
@@ -1995,7 +1999,8 @@ class Engine:
             before = now
         for key in changed:
             out[key] = self._refused(
-                plans[key].cell, "circular reference (through run-time references)",
+                plans[key].cell,
+                "circular reference (through run-time references)",
                 kind=Status.CIRCULAR,
             )
 
@@ -2014,7 +2019,9 @@ class Engine:
         v = c.cached if c.has_cached else None
         if v is not None:
             self._values[key] = v
-        return Outcome(v if v is not None else (shown or ERROR("#N/A")), problem, kind=kind, cause=cause)
+        return Outcome(
+            v if v is not None else (shown or ERROR("#N/A")), problem, kind=kind, cause=cause
+        )
 
     def _taint(self) -> None:
         """Cells reading a refused cell are not checked; cells reading a volatile one are

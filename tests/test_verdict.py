@@ -1,0 +1,302 @@
+"""A verdict a checker can sign (design §3): unit slips in ordinary arithmetic, refusals
+swallowed by SUM/MAX and blank-input chains are red with their reason; their clean twins
+and the demo workbooks pass with no such status.
+
+The workbooks are built here the way engineers build them (label | value | unit columns,
+units in labels, column headers), each planted slip beside a clean twin.  Unit facts are
+"common practice" (gauge = absolute − atmosphere; °C and K share a scale but not a zero;
+1 hp ≠ 1 kW; 1 Btu ≠ 1 kJ), and the conversion factors come from pint through the unit seed
+(tests/test_units.py checks the seed against pint).
+"""
+
+from pathlib import Path
+
+import pytest
+
+from joulebook.workbook.cellunits import clash_of, unit_of_text, units_in_label
+from joulebook.workbook.check import compare, failing, to_junit
+from joulebook.workbook.engine import Engine
+from joulebook.workbook.reader import read_book
+from joulebook.workbook.status import Status
+from joulebook.workbook.writer import write_copy
+from wbtools import build
+
+WORKBOOKS = Path(__file__).resolve().parent.parent / "workbooks"
+
+# the inputs of a sheet: label | value | unit, as an engineer lays them out
+_UNIT_COLUMN = {
+    "A1": "Item",
+    "B1": "Value",
+    "C1": "Unit",
+    "A2": "Suction pressure",
+    "B2": 2.5,
+    "C2": "barg",
+    "A3": "Discharge pressure",
+    "B3": 850,
+    "C3": "kPa",
+    "A4": "Ambient temperature",
+    "B4": 20,
+    "C4": "degC",
+    "A5": "Gas temperature",
+    "B5": 310,
+    "C5": "K",
+    "A6": "Motor power",
+    "B6": 15,
+    "C6": "kW",
+    "A7": "Pump power",
+    "B7": 10,
+    "C7": "hp",
+    "A8": "Heat in",
+    "B8": 500,
+    "C8": "kJ",
+    "A9": "Heat lost",
+    "B9": 120,
+    "C9": "Btu",
+    "A10": "Saturation pressure at 150 degC",
+    "B10": '=JB_PROP("water","P in bar","T in degC",150,"x",0)',
+    "C10": "bar",
+    "A11": "Gas mass",
+    "B11": 2,
+    "C11": "kg",
+    "A12": "Discharge pressure (absolute)",
+    "B12": 3.5,
+    "C12": "bar",
+    "A13": "Second heater",
+    "B13": 200,
+    "C13": "kJ",
+    "A14": "Spare motor",
+    "B14": 7.5,
+    "C14": "kW",
+    "A15": "Room temperature",
+    "B15": 25,
+    "C15": "degC",
+}
+
+# (cell, label, formula, what a checker would call it) — each slip of the issue
+SLIPS = [
+    ("E2", "Pressure rise", "=B10-B2", "bar"),  # a JB result in bar absolute minus barg
+    ("E3", "Total pressure", "=B2+B3", "barg"),  # barg + kPa
+    ("E4", "Temperature rise", "=B4-B5", "degC"),  # degC − K
+    ("E5", "Power margin", "=B6-B7", "kW"),  # kW − hp
+    ("E6", "Pressure sum", "=SUM(B2,B3)", "barg"),  # SUM over barg and kPa
+    ("E7", "Net heat", "=B8-B9", "kJ"),  # kJ − Btu
+    ("E8", "Energy per mass x dT", "=B11*(B4-B5)", "kg"),  # × over a degC − K slip
+    ("E9", "Higher pressure", '=IF(B2>B3,"suction","discharge")', ""),  # compared across units
+    ("E10", "Total power, hp", "=B6+B14", "hp"),  # kW + kW labelled hp
+]
+# the clean twins: the same arithmetic in consistent units
+CLEAN = [
+    ("E2", "Pressure rise", "=B10-B12", "bar"),
+    ("E3", "Total pressure", "=B3+B3", "kPa"),
+    ("E4", "Temperature rise", "=B15-B4", "degC"),
+    ("E5", "Power margin", "=B6-B14", "kW"),
+    ("E6", "Pressure sum", "=SUM(B3,B3)", "kPa"),
+    ("E7", "Net heat", "=B8-B13", "kJ"),
+    ("E8", "Mass times temperature rise", "=B11*(B15-B4)", ""),
+    ("E9", "Higher pressure", '=IF(B10>B12,"saturation","discharge")', ""),
+    ("E10", "Total power, kW", "=B6+B14", "kW"),
+    ("E11", "Gas temperature in degC", "=B5-273.15", "degC"),  # a conversion by hand
+    ("E12", "Discharge pressure in bar", "=B3/100", "bar"),
+    ("E13", "Specific heat input", "=B8/B11", "kJ/kg"),
+    ("E14", "Heat in, Btu", "=B8/1.05505585262", "Btu"),
+]
+
+
+def _saved(tmp: Path, name: str, cells: dict, names: dict | None = None) -> Path:
+    """The workbook as a spreadsheet program saves it: every formula with its value."""
+
+    def prepare(wb):
+        from openpyxl.workbook.defined_name import DefinedName
+
+        for n, v in (names or {}).items():
+            wb.defined_names[n] = DefinedName(n, attr_text=v)
+
+    src = build(tmp / f"{name}_src.xlsx", cells, prepare)
+    book = read_book(src)
+    out = write_copy(book, Engine(book).run(), tmp / f"{name}.xlsx")
+    return out
+
+
+def _rows(path: Path) -> dict:
+    book = read_book(path)
+    return {f"{r.sheet}!{r.cell}": r for r in compare(book, Engine(book).run())}
+
+
+def _sheet(formulas) -> dict:
+    cells = {f"Calc!{k}": v for k, v in _UNIT_COLUMN.items()}
+    for cell, label, formula, unit in formulas:
+        row = cell[1:]
+        cells[f"Calc!D{row}"] = label
+        cells[f"Calc!{cell}"] = formula
+        if unit:
+            cells[f"Calc!F{row}"] = unit
+    return cells
+
+
+@pytest.fixture(scope="module")
+def slips(tmp_path_factory):
+    return _rows(_saved(tmp_path_factory.mktemp("slips"), "slips", _sheet(SLIPS)))
+
+
+@pytest.fixture(scope="module")
+def clean(tmp_path_factory):
+    return _rows(_saved(tmp_path_factory.mktemp("clean"), "clean", _sheet(CLEAN)))
+
+
+@pytest.mark.parametrize("cell", [s[0] for s in SLIPS])
+def test_every_planted_unit_slip_is_a_unit_clash(slips, cell):
+    r = slips[f"Calc!{cell}"]
+    assert r.status is Status.UNIT_CLASH, (cell, r.status, r.note)
+    assert "not the same" in r.note or "another scale" in r.note
+
+
+def test_a_clash_names_both_operands_their_units_and_where_each_came_from(slips):
+    note = slips["Calc!E2"].note  # bar (a JB result) minus barg (a unit cell)
+    assert "bar (B10: JB_PROP's phrase 'P in bar')" in note
+    assert "barg (unit cell C2)" in note
+    assert "gauge and absolute pressure differ" in note
+    assert "another zero" in slips["Calc!E4"].note  # degC − K
+    assert "another scale" in slips["Calc!E5"].note  # kW − hp
+    assert "the cell's unit cell F10 says hp" in slips["Calc!E10"].note
+
+
+@pytest.mark.parametrize("cell", [s[0] for s in CLEAN])
+def test_every_clean_twin_passes(clean, cell):
+    r = clean[f"Calc!{cell}"]
+    assert r.status is Status.PASS, (cell, r.status, r.note)
+
+
+def test_a_check_fails_on_a_clash_unless_allowed(slips):
+    rows = list(slips.values())
+    assert {r.cell for r in failing(rows)} == {s[0] for s in SLIPS}
+    assert failing(rows, allow_unit_clash=True) == []
+    junit = to_junit(read_book(WORKBOOKS / "blocked_in_line.xlsx"), rows)
+    assert junit.count('<failure message="unit clash') == len(SLIPS)
+
+
+def test_units_in_labels_and_headers(tmp_path):
+    # common practice: 1 bar = 100 kPa, gauge = absolute − 1.01325 bar
+    cells = {
+        "L!A1": "Suction pressure (barg)",
+        "L!B1": 2,
+        "L!A2": "Discharge pressure [kPa]",
+        "L!B2": 800,
+        "L!A3": "Inlet temperature, degC",
+        "L!B3": 30,
+        "L!A4": "Outlet temperature in K",
+        "L!B4": 350,
+        "L!A5": "Ratio",
+        "L!B5": "=B2/B1",  # kPa / barg: a gauge pressure multiplied or divided is no unit told
+        "L!A6": "Lift",
+        "L!B6": "=B2-B1",  # slip: kPa − barg
+        "L!A7": "Rise",
+        "L!B7": "=B4-B3",  # slip: K − degC
+        "L!D1": "P1 [psig]",
+        "L!E1": "P2 [psig]",
+        "L!F1": "Rise",
+        "L!D2": 10,
+        "L!E2": 30,
+        "L!F2": "=E2-D2",  # clean: psig − psig under headers
+        "L!G1": "P3 [kPa]",
+        "L!G2": 250,
+        "L!H1": "Mixed",
+        "L!H2": "=G2-D2",  # slip: kPa − psig under headers
+        "L!A9": "Flow [scfm]",
+        "L!B9": 12,
+        "L!A10": "Flow doubled [scfm]",
+        "L!B10": "=B9*2",  # a unit joulebook does not know: "unit unknown", no verdict
+    }
+    rows = _rows(_saved(tmp_path, "labels", cells))
+    assert rows["L!B5"].status is Status.PASS
+    assert rows["L!B6"].status is Status.UNIT_CLASH and "(barg)" in rows["L!B6"].note
+    assert rows["L!B7"].status is Status.UNIT_CLASH and "another zero" in rows["L!B7"].note
+    assert rows["L!F2"].status is Status.PASS
+    assert rows["L!H2"].status is Status.UNIT_CLASH and "header D1" in rows["L!H2"].note
+    assert rows["L!B10"].status is Status.PASS
+    assert "unit unknown" in rows["L!B10"].note and "scfm" in rows["L!B10"].note
+
+
+def _refusal_cells(bad: bool) -> dict:
+    # JB_GAS_CP refuses a temperature below absolute zero (BadInput, "common practice")
+    t = -300 if bad else 25
+    return {
+        "R!A1": "Inlet temperature, degC",
+        "R!B1": t,
+        "R!A2": "cp of air at the inlet",
+        "R!B2": '=JB_GAS_CP("air",B1,"degC-bar-kJ")',
+        "R!A3": "Spare",
+        "R!B3": 1.0,
+        "R!A4": "Sum",
+        "R!B4": "=SUM(B2:B3)",
+        "R!A5": "Largest",
+        "R!B5": "=MAX(B2,B3)",
+        "R!A6": "Twice the sum",
+        "R!B6": "=B4*2",
+        "R!A8": "Final volume, m3",
+        "R!B8": None if bad else 2.0,
+        "R!A9": "Boundary work",
+        "R!B9": "=JB_WORK_ISOBARIC(500,1,B8)",
+        "R!A10": "Work plus spare",
+        "R!B10": "=SUM(B9,B3)",
+    }
+
+
+@pytest.mark.parametrize("style", [None, "values"])
+def test_a_refusal_skipped_by_sum_or_max_is_refusal_used(tmp_path, style):
+    names = {"JB_ERRORS": '"values"'} if style else None
+    rows = _rows(_saved(tmp_path, "bad", _refusal_cells(True), names))
+    b2 = rows["R!B2"]
+    assert b2.status is Status.ERROR
+    if style is None:  # text style: SUM and MAX skip the text and return a number
+        for cell in ("R!B4", "R!B5", "R!B6"):
+            assert rows[cell].status is Status.REFUSAL_USED, (cell, rows[cell].status)
+        assert "R!B2 holds the refusal 'BadInput" in rows["R!B4"].note
+        assert "reads R!B4, which reads R!B2" in rows["R!B6"].note
+    else:  # error values propagate: the readers are errors themselves, never a pass
+        for cell in ("R!B4", "R!B5", "R!B6"):
+            assert rows[cell].status is not Status.PASS, (cell, rows[cell].status)
+    rows_ok = _rows(_saved(tmp_path, "good", _refusal_cells(False), names))
+    assert all(r.status is Status.PASS for r in rows_ok.values()), [
+        (k, r.status, r.note) for k, r in rows_ok.items() if r.status is not Status.PASS
+    ]
+
+
+def test_a_blank_required_input_flowing_on_is_blank_input(tmp_path):
+    rows = _rows(_saved(tmp_path, "blank", _refusal_cells(True)))
+    assert rows["R!B9"].status is Status.BLANK_INPUT
+    assert "R!B8 blank" in rows["R!B9"].note
+    assert rows["R!B10"].status is Status.BLANK_INPUT
+    assert "reads R!B9" in rows["R!B10"].note
+    bad = failing(list(rows.values()))
+    assert {r.cell for r in bad} >= {"B4", "B5", "B6", "B9", "B10"}
+    let = failing(list(rows.values()), allow_errors=True, allow_refusals=True)
+    assert let == []
+
+
+def test_a_blank_call_nobody_reads_is_no_failure(tmp_path):
+    cells = {"R!A1": "Final volume, m3", "R!A2": "Boundary work"}
+    cells["R!B2"] = "=JB_WORK_ISOBARIC(500,1,B1)"
+    rows = _rows(_saved(tmp_path, "lone", cells))
+    assert rows["R!B2"].status is Status.PASS
+
+
+@pytest.mark.parametrize("path", sorted(WORKBOOKS.glob("*.xlsx")), ids=lambda p: p.stem)
+def test_the_demo_workbooks_hold_every_verdict(path):
+    rows = _rows(path)
+    assert rows and all(r.status is Status.PASS for r in rows.values()), [
+        (k, r.status, r.note) for k, r in rows.items() if r.status is not Status.PASS
+    ]
+
+
+def test_the_unit_algebra():
+    # common practice: gauge ≠ absolute; °C − °C is an interval; hp ≠ kW; kJ ≠ Btu
+    u = unit_of_text
+    assert clash_of("-", u("degC"), u("degC")) is None
+    assert clash_of("-", u("K"), u("K")) is None
+    assert "another zero" in clash_of("-", u("degC"), u("K"))
+    assert "gauge" in clash_of("+", u("psig"), u("psi"))
+    assert "another scale" in clash_of("-", u("kJ"), u("Btu"))
+    assert "dimension" in clash_of("+", u("kPa"), u("kJ"))
+    assert u("barg").offset == pytest.approx(101325.0)  # common practice: 1 atm reference
+    assert units_in_label("Heat [Btu]") == (["Btu"], True)
+    assert units_in_label("Heat W") == ([], False)  # a bare last word is no unit
