@@ -300,3 +300,57 @@ def test_the_unit_algebra():
     assert u("barg").offset == pytest.approx(101325.0)  # common practice: 1 atm reference
     assert units_in_label("Heat [Btu]") == (["Btu"], True)
     assert units_in_label("Heat W") == ([], False)  # a bare last word is no unit
+
+
+def test_units_from_number_formats(tmp_path):
+    # common practice: a number format such as 0.0 "bar" shows the unit beside the number
+    cells = {
+        "N!A1": "Suction",
+        "N!B1": 3,
+        "N!A2": "Discharge",
+        "N!B2": 250,
+        "N!A3": "Sum",
+        "N!B3": "=B1+B2",  # slip: barg + kPa, both told by their formats only
+        "N!A4": "Second stage",
+        "N!B4": 150,
+        "N!A5": "Sum of absolutes",
+        "N!B5": "=B2+B4",  # clean: kPa + kPa
+        "N!A6": "Flow",
+        "N!B6": "=B4*2",  # its own format writes a unit joulebook does not know
+    }
+    formats = {"B1": '0.0 "barg"', "B2": '0 "kPa"', "B4": '#,##0 "kPa";-#,##0 "kPa"'}
+    formats["B6"] = '0 "scfm"'
+
+    def styled(wb):
+        for ref, code in formats.items():
+            wb["N"][ref].number_format = code
+
+    src = build(tmp_path / "fmt_src.xlsx", cells, styled)
+    book = read_book(src)
+    rows = _rows(write_copy(book, Engine(book).run(), tmp_path / "fmt.xlsx"))
+    assert rows["N!B3"].status is Status.UNIT_CLASH
+    assert "number format of B1 ('barg')" in rows["N!B3"].note
+    assert rows["N!B5"].status is Status.PASS
+    assert rows["N!B6"].status is Status.PASS and "unit unknown" in rows["N!B6"].note
+
+
+def test_a_plain_arithmetic_check_never_imports_pint(tmp_path):
+    # the unit seed answers the common units (check's start-up is benchmarked)
+    import subprocess
+    import sys
+
+    plain = _sheet([c for c in SLIPS if "B10" not in c[2]])
+    del plain["Calc!B10"]  # the one joulebook call
+    path = _saved(tmp_path, "plain", plain)
+    code = (
+        "import sys\n"
+        "from joulebook.workbook.reader import read_book\n"
+        "from joulebook.workbook.engine import Engine\n"
+        "from joulebook.workbook.check import compare\n"
+        f"b = read_book({str(path)!r})\n"
+        "rows = compare(b, Engine(b).run())\n"
+        "assert any(r.status == 'unit clash' for r in rows)\n"
+        "print('pint' in sys.modules)\n"
+    )
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    assert out.stdout.strip() == "False"

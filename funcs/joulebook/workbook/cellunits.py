@@ -52,6 +52,8 @@ __all__ = [
     "CellUnits",
     "unit_of_text",
     "units_in_label",
+    "format_unit",
+    "number_format_units",
     "clash_of",
     "infer",
 ]
@@ -522,9 +524,76 @@ class _Formula:
 _COMPARE = {"<", ">", "<=", ">=", "=", "<>"}
 
 
+_MAIN = "{http://schemas.openxmlformats.org/spreadsheetml/2006/main}"
+_QUOTED = re.compile(r'"([^"]{1,24})"')
+
+
+def format_unit(code: str) -> str | None:
+    """The unit a number format writes after the number (``0.0 "bar"`` → ``bar``): the
+    quoted text of its first (positive) section, or None.
+
+    Examples
+    --------
+    >>> format_unit('#,##0.0 "kPa";-#,##0.0 "kPa"')
+    'kPa'
+    >>> format_unit("0.00") is None
+    True
+    """
+    first = code.split(";", 1)[0]
+    words = [w.strip() for w in _QUOTED.findall(first) if w.strip()]
+    return words[-1] if words else None
+
+
+def number_format_units(book: Book) -> dict:
+    """The unit each cell's number format writes, keyed (sheet, row, col): read from the
+    package's styles and, only when a style writes a unit, the cells' style indexes."""
+    import zipfile
+
+    from defusedxml import ElementTree as SafeET
+
+    try:
+        zf = zipfile.ZipFile(book.path)
+    except (OSError, zipfile.BadZipFile):
+        return {}
+    out: dict = {}
+    with zf:
+        try:
+            root = SafeET.fromstring(zf.read("xl/styles.xml"))
+        except Exception:
+            return {}
+        codes = {}
+        for nf in root.iter(_MAIN + "numFmt"):
+            unit = format_unit(nf.get("formatCode", ""))
+            if unit:
+                codes[nf.get("numFmtId")] = unit
+        xfs = root.find(_MAIN + "cellXfs")
+        styled = {}
+        for i, xf in enumerate(xfs if xfs is not None else ()):
+            if xf.get("numFmtId") in codes:
+                styled[str(i)] = codes[xf.get("numFmtId")]
+        if not styled:
+            return {}  # no style writes a unit: the sheets are not read again
+        from .reader import split_ref
+
+        for sheet, part in book.sheet_parts.items():
+            try:
+                fh = zf.open(part)
+            except KeyError:
+                continue
+            with fh:
+                for _ev, el in SafeET.iterparse(fh, events=("end",)):
+                    if el.tag == _MAIN + "c":
+                        st = el.get("s")
+                        if st in styled and el.get("r"):
+                            out[(sheet, *split_ref(el.get("r")))] = styled[st]
+                        el.clear()
+    return out
+
+
 class _Inference:
-    def __init__(self, book: Book, values: dict):
+    def __init__(self, book: Book, values: dict, formats: dict | None = None):
         self.book, self.values = book, values
+        self.formats = formats or {}
         self.units: dict = {}
         self.clashes: dict = {}
         self.unknown: dict = {}
@@ -545,7 +614,14 @@ class _Inference:
             return self._declared[key]
         sheet, r, c = key
         u: Unit | None = None
-        right = self._text_at(sheet, r, c + 1)
+        fmt_unit = self.formats.get(key)
+        if fmt_unit is not None:  # the number format writes it: 0.0 "bar"
+            u = unit_of_text(fmt_unit)
+            if u is not None:
+                u = replace(u, source=f"number format of {col_letters(c)}{r} ('{fmt_unit}')")
+            else:
+                self.unknown[key] = f"the number format of {col_letters(c)}{r} writes '{fmt_unit}'"
+        right = self._text_at(sheet, r, c + 1) if u is None and key not in self.unknown else None
         if right is not None and len(right) <= 16 and " " not in right.strip("[]() "):
             word = right.strip("[]() ")
             u = unit_of_text(word)
@@ -701,7 +777,7 @@ def infer(book: Book, values: dict, keys=None) -> CellUnits:
 
     *values* holds every cell's value (recomputed or saved).
     """
-    inf = _Inference(book, values)
+    inf = _Inference(book, values, number_format_units(book))
     todo = keys if keys is not None else [k for k, c in book.cells.items() if c.formula]
     for key in todo:
         inf.formula(key)
