@@ -33,6 +33,7 @@ from ..working import work_out
 from . import auditflags as eye
 from .auditfig import figure, pretty_unit
 from .calcmap import Node, calc_map
+from .cellunits import declared_units
 from .check import Row, compare, fmt, summary
 from .engine import Engine
 from .reader import Book, Cell, col_letters
@@ -680,9 +681,10 @@ def _gauge_refs(book: Book, c: Cell, formula: str) -> list[str]:
 # ordinary formulas: precedents, substitution, comparisons
 
 
-def _cell_unit(book: Book, key, by_key: dict) -> tuple[str, str]:
+def _cell_unit(book: Book, key, by_key: dict, declared=None) -> tuple[str, str]:
     """(unit, label) of a cell: the result unit of a joulebook cell, else a unit its label
-    names."""
+    names, else the unit its number format, unit cell or header writes (*declared*,
+    :func:`joulebook.workbook.cellunits.declared_units`)."""
     lab = _label(book, *key)
     e = by_key.get(key)
     if e is not None and e.function and e.result_unit:
@@ -691,6 +693,10 @@ def _cell_unit(book: Book, key, by_key: dict) -> tuple[str, str]:
         k = eye.unit_kind(text)
         if k is not None:
             return text, lab
+    if declared is not None:
+        unit, source = declared(key)
+        if unit:
+            return unit, (lab + "; " if lab else "") + "unit from the " + source
     return "", lab
 
 
@@ -886,6 +892,7 @@ def build_audit(
     entries: list[Entry] = []
     by_key: dict = {}
     drawn: dict[str, str] = {}  # figure hash -> where it was first drawn
+    declared = None  # units the sheet writes beside its inputs (read on first need)
     for i, c in enumerate(cells):
         key = (c.sheet, c.row, c.col)
         o = outcomes.get(key)
@@ -928,7 +935,9 @@ def build_audit(
             e.table_head, e.table = _table(book, c, values, _columns(top))
         else:
             for k in dict.fromkeys(cell_refs(c.formula, c.sheet)):
-                unit, lab = _cell_unit(book, k, by_key)
+                if declared is None:
+                    declared = declared_units(book, values)
+                unit, lab = _cell_unit(book, k, by_key, declared)
                 src = book.cells.get(k)
                 kind = "formula" if src is not None and src.formula else "cell"
                 e.inputs.append(

@@ -54,6 +54,7 @@ __all__ = [
     "units_in_label",
     "format_unit",
     "number_format_units",
+    "declared_units",
     "clash_of",
     "infer",
 ]
@@ -769,6 +770,19 @@ def _contradicts(inferred: Unit, own: Unit) -> str | None:
     if not _same_scale(inferred, own):
         return "same dimension, another scale"
     return None
+
+
+def declared_units(book: Book, values: dict):
+    """``unit(key) -> (unit text, where it came from)`` of a cell from what its neighbours
+    write (number format, unit cell, label, header), ``("", "")`` when none: the audit's
+    reading of the inputs it lists."""
+    inf = _Inference(book, values, number_format_units(book))
+
+    def unit(key) -> tuple[str, str]:
+        u = inf.declared(key)
+        return (u.text, u.source) if u is not None else ("", "")
+
+    return unit
 
 
 def infer(book: Book, values: dict, keys=None) -> CellUnits:

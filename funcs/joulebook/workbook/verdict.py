@@ -9,6 +9,8 @@ into, first match wins:
   style, even where SUM or MAX skipped it;
 - ``blank input``: a joulebook call it reads returned blank because a required argument is
   blank, and the result flowed on (the blank call itself carries it too when read);
+- ``outside the model``: the cell is one joulebook call and a validity check its catalog
+  entry declares does not hold (:mod:`joulebook.workbook.validity`);
 - ``unit clash``: its formula combines quantities whose units disagree, or gives a unit
   its own label contradicts (:mod:`joulebook.workbook.cellunits`).
 
@@ -172,15 +174,29 @@ def refine(book: Book, outcomes: dict, rows: list) -> list:
         r = rows_by_key.get(key)
         if r is not None and r.status is Status.PASS:
             r.status, r.note = status, reason[:400]
-    _unit_verdicts(book, outcomes, rows_by_key)
+    values = {k: c.cached for k, c in book.cells.items() if c.formula is None and c.has_cached}
+    values.update({k: o.value for k, o in outcomes.items()})
+    _validity_verdicts(book, values, rows_by_key)
+    _unit_verdicts(book, values, rows_by_key)
     return rows
 
 
-def _unit_verdicts(book: Book, outcomes: dict, rows_by_key: dict) -> None:
+def _validity_verdicts(book: Book, values: dict, rows_by_key: dict) -> None:
+    """A pass whose one joulebook call breaks a validity check of its catalog entry."""
+    from .validity import outside_model
+
+    for key, r in rows_by_key.items():
+        cell = book.cells.get(key)
+        if r.status is not Status.PASS or cell is None or not cell.formula:
+            continue
+        flags = outside_model(book, cell.formula, key[0], values, values.get(key))
+        if flags:
+            r.status, r.note = Status.OUTSIDE_MODEL, "; ".join(flags)[:400]
+
+
+def _unit_verdicts(book: Book, values: dict, rows_by_key: dict) -> None:
     from .cellunits import infer
 
-    values = {k: c.cached for k, c in book.cells.items() if c.formula is None and c.has_cached}
-    values.update({k: o.value for k, o in outcomes.items()})
     cu = infer(book, values)
     for key, text in cu.clashes.items():
         r = rows_by_key.get(key)
