@@ -354,3 +354,23 @@ def test_a_plain_arithmetic_check_never_imports_pint(tmp_path):
     )
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
     assert out.stdout.strip() == "False"
+
+
+@pytest.mark.parametrize("path", sorted(WORKBOOKS.glob("*.xls*")), ids=lambda p: p.stem)
+def test_workbooks_joulebook_makes_declare_real_error_values(path):
+    # design §3: a refusal must propagate through SUM and MAX in the spreadsheet too
+    from joulebook.cellvalues import ERRORS_NAME, error_style
+
+    assert error_style(read_book(path).names.get(ERRORS_NAME)) == "values"
+
+
+def test_a_workbook_without_the_name_keeps_the_text_style(tmp_path):
+    from joulebook.cellvalues import ERRORS_NAME, error_style
+    from joulebook.demo import new_workbook
+
+    plain = build(tmp_path / "plain.xlsx", {"S!A1": 1})
+    assert error_style(read_book(plain).names.get(ERRORS_NAME)) == "text"
+    wb = new_workbook()
+    wb.active["A1"] = 1
+    wb.save(tmp_path / "new.xlsx")
+    assert error_style(read_book(tmp_path / "new.xlsx").names.get(ERRORS_NAME)) == "values"

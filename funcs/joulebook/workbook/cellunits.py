@@ -37,6 +37,7 @@ True
 from __future__ import annotations
 
 import re
+from bisect import bisect_left
 from dataclasses import dataclass, replace
 from functools import lru_cache
 
@@ -600,6 +601,7 @@ class _Inference:
         self.unknown: dict = {}
         self.busy: set = set()
         self._declared: dict = {}
+        self._columns: dict | None = None  # (sheet, col) -> rows holding text, sorted
 
     # where a cell's unit is written
     def _text_at(self, sheet: str, r: int, c: int) -> str | None:
@@ -608,6 +610,25 @@ class _Inference:
             return None
         v = self.values.get((sheet, r, c), cell.cached)
         return v.strip() if isinstance(v, str) and v.strip() else None
+
+    def _texts_above(self, sheet: str, r: int, c: int) -> tuple[int, str] | None:
+        """(row, text) of the nearest text above (sheet, r, c) in its column, or None."""
+        if self._columns is None:
+            cols: dict = {}
+            for k, cell in self.book.cells.items():
+                v = self.values.get(k, cell.cached)
+                if isinstance(v, str) and v.strip():
+                    cols.setdefault((k[0], k[2]), []).append(k[1])
+            self._columns = {k: sorted(rows) for k, rows in cols.items()}
+        rows = self._columns.get((sheet, c))
+        if not rows:
+            return None
+        i = bisect_left(rows, r)
+        if i == 0:
+            return None
+        rr = rows[i - 1]
+        text = self._text_at(sheet, rr, c)
+        return (rr, text) if text is not None else None
 
     def declared(self, key) -> Unit | None:
         """The unit a cell's neighbours write for it (unit column, label, header)."""
@@ -637,15 +658,12 @@ class _Inference:
                 if bad:
                     self.unknown[key] = f"the label {col_letters(c - 1)}{r} names '{bad}'"
         if u is None and key not in self.unknown:
-            for rr in range(r - 1, 0, -1):
-                text = self._text_at(sheet, rr, c)
-                if text is not None:
-                    u, bad = _label_unit(text, f"header {col_letters(c)}{rr} '{text[:40]}'")
-                    if bad:
-                        self.unknown[key] = f"the header {col_letters(c)}{rr} names '{bad}'"
-                    break
-                if (sheet, rr, c) in self.book.cells and r - rr > 50:
-                    break
+            above = self._texts_above(sheet, r, c)
+            if above is not None:  # the nearest text above: the column header
+                rr, text = above
+                u, bad = _label_unit(text, f"header {col_letters(c)}{rr} '{text[:40]}'")
+                if bad:
+                    self.unknown[key] = f"the header {col_letters(c)}{rr} names '{bad}'"
         self._declared[key] = u
         return u
 
