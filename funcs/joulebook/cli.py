@@ -278,6 +278,8 @@ def _check(ns: argparse.Namespace) -> int:
                     f"{fmt(r['cached'])[:18]:>18} {fmt(r['recomputed'])[:18]:>18}  "
                     f"{r['formula'][:60]}"
                 )
+                if r["status"] in _SIGNED_REASONS and r["note"]:  # why it cannot be signed
+                    print(f"{'':<24} {r['note'][:200]}")
             if len(bad) > ns.max_rows:
                 print(f"… {len(bad) - ns.max_rows} more (see --json)")
         relaxed = [
@@ -312,6 +314,10 @@ def _check(ns: argparse.Namespace) -> int:
     if ns.sarif and not _write_text(ns.sarif, _sarif(results)):
         return 2
     return code
+
+
+#: the statuses of a value that recomputes but cannot be signed: their reason is printed
+_SIGNED_REASONS = ("unit clash", "refusal used", "blank input", "outside the model")
 
 
 def _on_this_machine(jobs: list, n: int, bar: _Bar) -> list[dict]:
