@@ -83,6 +83,10 @@ SLIPS = [
     ("E8", "Energy per mass x dT", "=B11*(B4-B5)", "kg"),  # × over a degC − K slip
     ("E9", "Higher pressure", '=IF(B2>B3,"suction","discharge")', ""),  # compared across units
     ("E10", "Total power, hp", "=B6+B14", "hp"),  # kW + kW labelled hp
+    # a gauge pressure fed where the call reads kPa absolute (the default unit system)
+    ("E11", "Boundary work", "=JB_WORK_ISOBARIC(B2,0.1,0.3)", "kJ"),
+    # a temperature in K fed as "T in degC"
+    ("E12", "Enthalpy", '=JB_PROP("water","h in kJ/kg","T in degC",B5,"P in kPa",B3)', "kJ/kg"),
 ]
 # the clean twins: the same arithmetic in consistent units
 CLEAN = [
@@ -99,6 +103,8 @@ CLEAN = [
     ("E12", "Discharge pressure in bar", "=B3/100", "bar"),
     ("E13", "Specific heat input", "=B8/B11", "kJ/kg"),
     ("E14", "Heat in, Btu", "=B8/1.05505585262", "Btu"),
+    ("E15", "Boundary work", "=JB_WORK_ISOBARIC(B3,0.1,0.3)", "kJ"),
+    ("E16", "Enthalpy", '=JB_PROP("water","h in kJ/kg","T in degC",B4,"P in kPa",B3)', "kJ/kg"),
 ]
 
 
@@ -158,6 +164,8 @@ def test_a_clash_names_both_operands_their_units_and_where_each_came_from(slips)
     assert "another zero" in slips["Calc!E4"].note  # degC − K
     assert "another scale" in slips["Calc!E5"].note  # kW − hp
     assert "the cell's unit cell F10 says hp" in slips["Calc!E10"].note
+    assert "reads P in kPa (K-kPa-kJ), but it holds barg (unit cell C2)" in slips["Calc!E11"].note
+    assert "reads value1 as 'T in degC', but it holds K (unit cell C5)" in slips["Calc!E12"].note
 
 
 @pytest.mark.parametrize("cell", [s[0] for s in CLEAN])

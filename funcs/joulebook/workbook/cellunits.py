@@ -497,7 +497,7 @@ class _Formula:
 
     def call(self, name: str, ours: str | None, args: list[_Val]) -> _Val:
         if ours:
-            return _Val(self.inf.call_unit(ours, args))
+            return _Val(self.inf.call_unit(ours, args, self.clashes))
         if name not in _KEEP:
             return _Val(None)
         picked = args[1:] if name == "CHOOSE" else args
@@ -749,15 +749,23 @@ class _Inference:
             return _Val(None, cells=cells)
         return _Val(None)
 
-    def call_unit(self, name: str, args: list[_Val]) -> Unit | None:
+    def call_unit(self, name: str, args: list[_Val], clashes: list[str]) -> Unit | None:
         """A joulebook call's result unit: the wanted phrase's unit, else the result
-        quantity's unit in the call's unit system."""
+        quantity's unit in the call's unit system.  An argument whose cell holds another
+        unit than the call reads it in is added to *clashes*."""
         try:
             f = lookup(name)
         except JoulebookError:
             return None
         names = [a.name for a in f.all_args]
         given = {n: a for n, a in zip(names, args)}
+        system_text = given.get("units")
+        text = system_text.text if system_text is not None else None
+        try:
+            system = unit_system(text if isinstance(text, str) and text else None)
+        except JoulebookError:
+            return None
+        clashes += _argument_clashes(f, given, system, text or DEFAULT_SYSTEM)
         if f.result == "asked":
             want = given.get("want")
             phrase = want.text if want is not None else None
@@ -767,17 +775,55 @@ class _Inference:
             return replace(u, source=f"{name}'s phrase '{phrase}'") if u else None
         if f.result in ("text", "number"):
             return None
-        system_text = given.get("units")
-        text = system_text.text if system_text is not None else None
         try:
-            system = unit_system(text if isinstance(text, str) and text else None)
             unit_text = system.unit(f.result)
-        except (JoulebookError, KeyError):
+        except KeyError:
             return None
         u = unit_of_text(unit_text)
         if u is None:
             return None
         return replace(u, source=f"{name} in {text or DEFAULT_SYSTEM}")
+
+
+#: a value argument and the phrase argument that names its unit ("T in degC", value)
+_SPEC_OF = {"value1": "spec1", "value2": "spec2", "value": "given", "end_value": "end_spec"}
+
+
+def _argument_clashes(f, given: dict, system, system_text: str) -> list[str]:
+    """Arguments of a joulebook call whose cells hold another unit than the call reads them
+    in: the unit system's unit of the argument's quantity, or its phrase's unit."""
+    out = []
+    for a in f.args:
+        v = given.get(a.name)
+        if v is None or v.literal:
+            continue
+        have = v.unit if v.unit is not None else (v.cells[0] if v.cells else None)
+        if have is None:
+            continue
+        if a.quantity:
+            try:
+                unit_text = system.unit(a.quantity)
+            except KeyError:
+                continue
+            how = f"{f.name} reads {a.name} in {unit_text} ({system_text})"
+        elif a.name in _SPEC_OF:
+            spec = given.get(_SPEC_OF[a.name])
+            phrase = spec.text if spec is not None else None
+            if not isinstance(phrase, str) or " in " not in phrase:
+                continue
+            unit_text = phrase.split(" in ", 1)[1].strip()
+            how = f"{f.name} reads {a.name} as '{phrase}'"
+        else:
+            continue
+        want = unit_of_text(unit_text)
+        if want is None:
+            continue
+        if a.quantity == "temperature_difference" or want.interval:
+            have = replace(have, interval=True)  # a difference: scale only, not the zero
+        why = clash_of(",", have, want)
+        if why is not None:
+            out.append(f"{how}, but it holds {have.text} ({have.source}): {why}")
+    return out
 
 
 def _contradicts(inferred: Unit, own: Unit) -> str | None:
