@@ -382,3 +382,33 @@ def test_a_workbook_without_the_name_keeps_the_text_style(tmp_path):
     wb.active["A1"] = 1
     wb.save(tmp_path / "new.xlsx")
     assert error_style(read_book(tmp_path / "new.xlsx").names.get(ERRORS_NAME)) == "values"
+
+
+def test_a_result_computed_from_a_slip_is_red_down_the_chain(tmp_path):
+    # the chain: a unit slip, through MAX, into a further result — every cell red
+    cells = {
+        "C!A1": "Vessel pressure",
+        "C!B1": 8.0,
+        "C!C1": "barg",
+        "C!A2": "Relief set pressure",
+        "C!B2": 1100.0,
+        "C!C2": "kPa",
+        "C!A3": "Margin",
+        "C!B3": "=B2-B1",  # the slip: kPa − barg
+        "C!C3": "kPa",
+        "C!A4": "Largest margin",
+        "C!B4": "=MAX(B3,0)",
+        "C!C4": "kPa",
+        "C!A5": "Margin in bar",
+        "C!B5": "=B4/100",
+        "C!C5": "bar",
+        "C!A6": "Unrelated",
+        "C!B6": "=B2*2",
+        "C!C6": "kPa",
+    }
+    rows = _rows(_saved(tmp_path, "chain", cells))
+    assert rows["C!B3"].status is Status.UNIT_CLASH
+    for cell in ("C!B4", "C!B5"):
+        assert rows[cell].status is Status.UNIT_CLASH, (cell, rows[cell].note)
+    assert rows["C!B5"].note.startswith("reads C!B4, which reads C!B3: C!B3 is unit clash")
+    assert rows["C!B6"].status is Status.PASS  # the clean twin beside it

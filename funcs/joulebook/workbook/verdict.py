@@ -14,6 +14,9 @@ into, first match wins:
 - ``unit clash``: its formula combines quantities whose units disagree, or gives a unit
   its own label contradicts (:mod:`joulebook.workbook.cellunits`).
 
+A pass reading a cell that is outside the model or a unit clash, directly or through
+other cells, carries that status too, its reason naming the chain.
+
 Only passing cells are refined: a cell that differs, errs or could not be evaluated keeps
 that status and its reason (a circular or unsupported cell gets no unit verdict).
 """
@@ -139,7 +142,37 @@ def refine(book: Book, outcomes: dict, rows: list) -> list:
         for c in book.formula_cells()
     }
     sources = _sources(book, outcomes)
-    tainted: dict = {}  # key -> (status, reason)
+    tainted, read_sources = _spread(boxes, sources)
+    for key in read_sources:
+        if sources[key][0] is Status.BLANK_INPUT:
+            tainted.setdefault(key, sources[key])
+    _mark(rows_by_key, tainted)
+    values = {k: c.cached for k, c in book.cells.items() if c.formula is None and c.has_cached}
+    values.update({k: o.value for k, o in outcomes.items()})
+    _validity_verdicts(book, values, rows_by_key)
+    _unit_verdicts(book, values, rows_by_key)
+    # a result computed from a cell outside its model or mixing units is no better
+    bad = {
+        k: (r.status, f"{_where(k)} is {r.status}: {r.note}"[:240])
+        for k, r in rows_by_key.items()
+        if r.status in (Status.OUTSIDE_MODEL, Status.UNIT_CLASH)
+    }
+    if bad:
+        _mark(rows_by_key, _spread(boxes, bad)[0])
+    return rows
+
+
+def _mark(rows_by_key: dict, tainted: dict) -> None:
+    for key, (status, reason) in tainted.items():
+        r = rows_by_key.get(key)
+        if r is not None and r.status is Status.PASS:
+            r.status, r.note = status, reason[:400]
+
+
+def _spread(boxes: dict, sources: dict) -> tuple[dict, set]:
+    """The formula cells reading a source, directly or through each other: key ->
+    (the source's status, the chain as a reason); and the sources read."""
+    tainted: dict = {}
     read_sources: set = set()
     frontier = dict(sources)
     while frontier:
@@ -151,10 +184,13 @@ def refine(book: Book, outcomes: dict, rows: list) -> list:
             if key in tainted or key in sources:
                 continue
             for s, r1, c1, r2, c2 in bx:
-                hit = next(
-                    (k for k in by_sheet.get(s, ()) if r1 <= k[1] <= r2 and c1 <= k[2] <= c2),
-                    None,
-                )
+                if r1 == r2 and c1 == c2:  # one cell: a look-up
+                    hit = (s, r1, c1) if (s, r1, c1) in frontier else None
+                else:
+                    hit = next(
+                        (k for k in by_sheet.get(s, ()) if r1 <= k[1] <= r2 and c1 <= k[2] <= c2),
+                        None,
+                    )
                 if hit is None:
                     continue
                 status, why = frontier[hit]
@@ -167,18 +203,7 @@ def refine(book: Book, outcomes: dict, rows: list) -> list:
                 break
         tainted.update(new)
         frontier = new
-    for key in read_sources:
-        if sources[key][0] is Status.BLANK_INPUT:
-            tainted.setdefault(key, sources[key])
-    for key, (status, reason) in tainted.items():
-        r = rows_by_key.get(key)
-        if r is not None and r.status is Status.PASS:
-            r.status, r.note = status, reason[:400]
-    values = {k: c.cached for k, c in book.cells.items() if c.formula is None and c.has_cached}
-    values.update({k: o.value for k, o in outcomes.items()})
-    _validity_verdicts(book, values, rows_by_key)
-    _unit_verdicts(book, values, rows_by_key)
-    return rows
+    return tainted, read_sources
 
 
 def _validity_verdicts(book: Book, values: dict, rows_by_key: dict) -> None:
