@@ -12,7 +12,7 @@ import pytest
 
 from joulebook import call
 from joulebook.catalog import CATALOG
-from joulebook.workbook.audit import build_audit
+from joulebook.workbook.audit import build_audit, render_html
 from joulebook.workbook.check import compare, failing
 from joulebook.workbook.engine import Engine
 from joulebook.workbook.reader import read_book
@@ -95,6 +95,8 @@ def test_the_audit_shows_the_verdict_red_with_its_reason(tmp_path):
     by = {e.cell: e for e in a.entries}
     assert by["B4"].status is Status.OUTSIDE_MODEL
     assert any("outside the model" in f and "hoop stress" in f for f in by["B4"].flags)
+    html = render_html(a)
+    assert "hoop stress" in html and "unit clashes, refusals used, blank inputs" in html
 
 
 def test_the_hoop_stress_figure():

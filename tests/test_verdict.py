@@ -412,3 +412,32 @@ def test_a_result_computed_from_a_slip_is_red_down_the_chain(tmp_path):
         assert rows[cell].status is Status.UNIT_CLASH, (cell, rows[cell].note)
     assert rows["C!B5"].note.startswith("reads C!B4, which reads C!B3: C!B3 is unit clash")
     assert rows["C!B6"].status is Status.PASS  # the clean twin beside it
+
+
+def test_outcomes_carry_their_status_typed(tmp_path):
+    # the engine's Outcome says what it is; nothing downstream parses its text
+    from wbtools import outcomes
+
+    cells = {
+        "T!A1": "=NOSUCHFUNC(1)",
+        "T!A2": "=A1+1",
+        "T!B1": "=B2+1",
+        "T!B2": "=B1+1",
+        "T!B3": "=B1*2",
+        "T!C1": "=NOW()",
+        "T!C2": "=C1+1",
+        "T!D1": "=1+1",
+    }
+    out = outcomes(build(tmp_path / "t.xlsx", cells))
+    assert out["T!A1"].kind is Status.UNSUPPORTED and out["T!A1"].kept
+    assert out["T!A2"].kind is Status.NOT_CHECKED and out["T!A2"].cause is Status.UNSUPPORTED
+    assert out["T!B1"].kind is Status.CIRCULAR
+    assert out["T!B3"].kind is Status.NOT_CHECKED and out["T!B3"].cause is Status.CIRCULAR
+    assert out["T!C1"].kind is Status.VOLATILE and not out["T!C1"].kept
+    assert out["T!C2"].kind is Status.VOLATILE
+    assert out["T!D1"].kind is None and out["T!D1"].problem == ""
+    book = read_book(build(tmp_path / "t2.xlsx", cells))
+    rows = compare(book, Engine(book).run())
+    let = {f"{r.sheet}!{r.cell}" for r in failing(rows, allow_unsupported=True)}
+    assert "T!A1" not in let and "T!A2" not in let  # unsupported, and not checked because of it
+    assert {"T!B1", "T!B2", "T!B3"} <= let  # circular, and not checked because of it
