@@ -441,3 +441,38 @@ def test_outcomes_carry_their_status_typed(tmp_path):
     let = {f"{r.sheet}!{r.cell}" for r in failing(rows, allow_unsupported=True)}
     assert "T!A1" not in let and "T!A2" not in let  # unsupported, and not checked because of it
     assert {"T!B1", "T!B2", "T!B3"} <= let  # circular, and not checked because of it
+
+
+def test_json_junit_and_sarif_carry_the_new_verdicts(tmp_path, capsys):
+    import json
+
+    from joulebook.cli import main
+
+    cells = _sheet(SLIPS[:2]) | _refusal_cells(True)
+    path = _saved(tmp_path, "reports", cells)
+    out = {k: tmp_path / f"r.{k}" for k in ("json", "xml", "sarif")}
+    code = main(
+        ["check", str(path), "--json", str(out["json"]), "--junit", str(out["xml"])]
+        + ["--sarif", str(out["sarif"])]
+    )
+    assert code == 1
+    said = capsys.readouterr().out
+    assert "unit clash" in said and "gauge and absolute pressure differ" in said  # the reason
+    statuses = {c["status"] for c in json.loads(out["json"].read_text())["cells"]}
+    assert {"unit clash", "refusal used", "blank input"} <= statuses
+    junit = out["xml"].read_text()
+    assert 'failure message="refusal used' in junit and 'failure message="blank input' in junit
+    sarif = json.loads(out["sarif"].read_text())
+    rules = [r["id"] for r in sarif["runs"][0]["tool"]["driver"]["rules"]]
+    assert {"unit clash", "refusal used", "blank input", "outside the model"} <= set(rules)
+    found = {r["ruleId"] for r in sarif["runs"][0]["results"]}
+    assert {"unit clash", "refusal used", "blank input"} <= found
+    for r in sarif["runs"][0]["results"]:
+        assert rules[r["ruleIndex"]] == r["ruleId"]
+    # relaxed by name, still counted
+    assert main(["check", str(path), "--allow-errors", "--allow-refusals"]) == 1
+    assert "unit clash" in capsys.readouterr().out
+    relaxed = ["--allow-errors", "--allow-refusals", "--allow-unit-clash"]
+    assert main(["check", str(path), *relaxed]) == 0
+    said = capsys.readouterr().out
+    assert "relaxed: errors, refusals, unit clash allowed" in said and "2 unit clash" in said
