@@ -139,3 +139,15 @@ def test_the_fitted_band(n, held):
     ps = [100e3 * (0.8 / v) ** n for v in vs]
     flags = violations(f, {"P_values": [[p] for p in ps], "V_values": [[v] for v in vs]}, n)
     assert (flags == []) is held, flags
+
+
+def test_each_branch_fit_of_a_card_is_checked():
+    # a loop whose compression branch is polytropic (n = 1.3) and whose expansion branch is
+    # flat (valve-open plateau, n ≈ 0): the second item fails, the first holds
+    f = next(f for f in CATALOG if f.validity and f.elementwise is False and f.family == "engine")
+    vs = [0.5, 0.4, 0.3, 0.2, 0.1, 0.2, 0.3, 0.4, 0.5]
+    comp = [100e3 * (0.5 / v) ** 1.3 for v in vs[:5]]
+    expa = [comp[-1] * (0.1 / v) ** 0.05 for v in vs[5:]]
+    si = {"P_values": [[p] for p in comp + expa], "V_values": [[v] for v in vs]}
+    flags = violations(f, si, None)
+    assert len(flags) == 1 and "expansion branch" in flags[0], flags

@@ -1683,6 +1683,17 @@ CATALOG: tuple[Func, ...] = (
         ),
         elementwise=False,
         working=Working(figure="points"),
+        validity=tuple(
+            Validity(
+                f"fitted polytropic exponent of the {branch} branch",
+                "JB_POLY_FIT_BRANCHES(P_values, V_values)",
+                "a polytropic compression or expansion of a gas",
+                low=1.0,
+                high=1.67,
+                item=i,
+            )
+            for i, branch in enumerate(("compression", "expansion"))
+        ),
     ),
     # ------------------------------------------------------------------ humid air
     Func(
