@@ -213,6 +213,8 @@ def test_units_in_labels_and_headers(tmp_path):
         "L!B9": 12,
         "L!A10": "Flow doubled [scfm]",
         "L!B10": "=B9*2",  # a unit joulebook does not know: "unit unknown", no verdict
+        "L!A11": "Flow margin",
+        "L!B11": "=B9-B2",
     }
     rows = _rows(_saved(tmp_path, "labels", cells))
     assert rows["L!B5"].status is Status.PASS
@@ -222,6 +224,8 @@ def test_units_in_labels_and_headers(tmp_path):
     assert rows["L!H2"].status is Status.UNIT_CLASH and "header D1" in rows["L!H2"].note
     assert rows["L!B10"].status is Status.PASS
     assert "unit unknown" in rows["L!B10"].note and "scfm" in rows["L!B10"].note
+    assert rows["L!B11"].status is Status.PASS  # reads an input of unknown unit: said, no verdict
+    assert rows["L!B11"].note.startswith("unit unknown: L!B9 — the label A9 names 'scfm'")
 
 
 def _refusal_cells(bad: bool) -> dict:

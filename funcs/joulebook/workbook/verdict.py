@@ -231,3 +231,16 @@ def _unit_verdicts(book: Book, values: dict, rows_by_key: dict) -> None:
         r = rows_by_key.get(key)
         if r is not None and not r.note:
             r.note = f"unit unknown: {why}, a unit joulebook does not know (no unit verdict)"
+    if not cu.unknown:
+        return
+    for key, r in rows_by_key.items():  # a formula reading an input of unknown unit says so
+        cell = book.cells.get(key)
+        if r.note or cell is None or not cell.formula:
+            continue
+        unknown = [k for k in cell_refs(cell.formula, key[0]) if k in cu.unknown]
+        if unknown:
+            k = unknown[0]
+            r.note = (
+                f"unit unknown: {_where(k)} — {cu.unknown[k]}, a unit joulebook does not "
+                "know (no unit verdict)"
+            )
