@@ -151,3 +151,17 @@ def test_each_branch_fit_of_a_card_is_checked():
     si = {"P_values": [[p] for p in comp + expa], "V_values": [[v] for v in vs]}
     flags = violations(f, si, None)
     assert len(flags) == 1 and "expansion branch" in flags[0], flags
+
+
+def test_the_audit_checks_a_call_nested_in_a_formula(tmp_path):
+    cells = {
+        "N!A1": "Twice the discharge temperature",
+        "N!B1": "=2*JB_POLY_T2_FROM_P(300,100,600,0.59)",
+    }
+    cells |= {"N!A2": "Its clean twin", "N!B2": "=2*JB_POLY_T2_FROM_P(300,100,600,1.3)"}
+    src = build(tmp_path / "n_src.xlsx", cells)
+    book = read_book(src)
+    saved = write_copy(book, Engine(book).run(), tmp_path / "n.xlsx")
+    by = {e.cell: e for e in build_audit(read_book(saved), figures=False).entries}
+    assert any(f.startswith("JB_POLY_T2_FROM_P: end temperature") for f in by["B1"].flags)
+    assert not [f for f in by["B2"].flags if "outside the model" in f]

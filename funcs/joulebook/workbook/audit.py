@@ -39,6 +39,7 @@ from .engine import Engine
 from .reader import Book, Cell, col_letters
 from .refs import cell_refs, our_name, parse_ref, texts, tokens
 from .status import STATUSES, Status
+from .validity import violations
 
 __all__ = ["Input", "Line", "SubCall", "Entry", "Audit", "build_audit", "render_html", "to_json"]
 
@@ -590,6 +591,18 @@ def _call_flags(sc: SubCall, c: Cell, book: Book) -> list[str]:
     return out
 
 
+def _validity_flags(sc: SubCall) -> list[str]:
+    """The catalog's validity checks of a call nested in a formula (workbook/validity.py)."""
+    f: Func = sc._f  # type: ignore[attr-defined]
+    if not f.validity:
+        return []
+    res = sc.result
+    units = sc._argvals.get("units")  # type: ignore[attr-defined]
+    if isinstance(res, float) and f.result not in ("text", "number", "asked"):
+        res = sc._system.conv(f.result).to_si(res)  # type: ignore[attr-defined]
+    return violations(f, sc._si, res, units if isinstance(units, str) else None)  # type: ignore[attr-defined]
+
+
 def _standard_atmosphere(v: float, kind: str, system, unit: str) -> bool:
     """101.325 kPa typed in is the standard atmosphere, a constant of the trade."""
     if kind != "pressure":
@@ -954,6 +967,8 @@ def build_audit(
         e.flags += _status_flags(e, o.message if o is not None else "")
         if o is not None and o.message and isinstance(result, tuple):
             e.flags.insert(0, f"the cell shows {result[1]}: {o.message}")
+        for sc in calls if not whole else ():  # a whole call's validity is its status
+            e.flags += [f"{sc.function}: {fl}" for fl in _validity_flags(sc)]
         for sc in calls:
             for fl in _call_flags(sc, c, book):
                 if fl.startswith("note: "):
