@@ -51,7 +51,7 @@ def _cells(bad: bool) -> dict:
         "V!A6": "Fitted n",
         "V!B6": "=JB_POLY_FIT(D2:D6,E2:E6)",
         "V!A7": "Discharge temperature (K)",
-        "V!B7": f"=JB_POLY_T2_FROM_P(300,100,600,{0.59 if bad else 1.3})",
+        "V!B7": "=JB_POLY_T2_FROM_P(300,100,600,B6)",  # the fitted n feeds the discharge T
         "V!A8": "Stored energy of the test medium (kJ)",
         "V!B8": '=JB_STORED_ISENTROPIC("{}",2.5)'.format(
             "water | T = 20 degC | P = 30 bar" if bad else "nitrogen | T = 20 degC | P = 30 bar"

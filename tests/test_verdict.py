@@ -285,6 +285,15 @@ def test_a_blank_required_input_flowing_on_is_blank_input(tmp_path):
     assert let == []
 
 
+def test_a_deliberate_blank_is_no_blank_input(tmp_path):
+    # =IF(B1="","",JB_…): a row not filled in yet, blank on purpose; SUM over it is clean
+    cells = {"R!A1": "Final volume, m3", "R!A2": "Boundary work", "R!A3": "Total"}
+    cells["R!B2"] = '=IF(B1="","",JB_WORK_ISOBARIC(500,1,B1))'
+    cells["R!B3"] = "=SUM(B2,1)"
+    rows = _rows(_saved(tmp_path, "deliberate", cells))
+    assert rows["R!B2"].status is Status.PASS and rows["R!B3"].status is Status.PASS
+
+
 def test_a_blank_call_nobody_reads_is_no_failure(tmp_path):
     cells = {"R!A1": "Final volume, m3", "R!A2": "Boundary work"}
     cells["R!B2"] = "=JB_WORK_ISOBARIC(500,1,B1)"

@@ -111,12 +111,10 @@ class Unit:
     source: str = ""
 
     def shown(self) -> str:
-        """The unit as a checker reads it (Δ for an interval)."""
-        return ("Δ" if self.interval and self.offset_differs_from_zero else "") + self.text
-
-    @property
-    def offset_differs_from_zero(self) -> bool:
-        return bool(self.text) and self.text.lower() not in ("k", "r", "degr", "kelvin")
+        """The unit as a checker reads it (Δ before an interval of a scale with its own
+        zero: Δ°C, Δbarg)."""
+        own_zero = self.text.lower() not in ("k", "r", "degr", "kelvin")
+        return ("Δ" if self.interval and own_zero else "") + self.text
 
 
 @dataclass(frozen=True)

@@ -26,7 +26,7 @@ from __future__ import annotations
 from ..catalog import lookup
 from ..errors import INTERNAL_LABEL, BadInput, JoulebookError, NoConvergence, OutOfRange
 from .reader import Book, col_letters, split_ref
-from .refs import calls_ours, cell_refs, our_name, parse_ref, tokens
+from .refs import cell_refs, our_name, parse_ref, tokens
 from .status import Status
 
 __all__ = ["refine", "precedent_boxes"]
@@ -104,6 +104,23 @@ def precedent_boxes(
     return out
 
 
+def _one_call_of_ours(formula: str) -> bool:
+    """The formula is one joulebook call (its blank is the call's own)."""
+    try:
+        toks = [t for t in tokens(formula) if t[1] != "WHITE-SPACE"]
+    except Exception:
+        return False
+    if len(toks) < 2 or toks[0][1] != "FUNC" or not our_name(toks[0][0]):
+        return False
+    depth = 0
+    for i, (_v, t, sub) in enumerate(toks):
+        if t in ("FUNC", "PAREN", "ARRAY"):
+            depth += 1 if sub == "OPEN" else -1
+            if depth == 0:
+                return i == len(toks) - 1
+    return False
+
+
 def _sources(book: Book, outcomes: dict) -> dict:
     """Cells whose value must not flow on: key -> (status, reason)."""
     out: dict = {}
@@ -119,7 +136,7 @@ def _sources(book: Book, outcomes: dict) -> dict:
             continue
         cell = book.cells.get(key)
         if (o.value is None or o.value == "") and cell is not None and cell.formula:
-            if calls_ours(cell.formula):
+            if _one_call_of_ours(cell.formula):  # =IF(A1="","",JB_…) is a deliberate blank
                 blank = [
                     _where(k)
                     for k in cell_refs(cell.formula, key[0])
