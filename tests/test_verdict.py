@@ -215,6 +215,14 @@ def test_units_in_labels_and_headers(tmp_path):
         "L!B10": "=B9*2",  # a unit joulebook does not know: "unit unknown", no verdict
         "L!A11": "Flow margin",
         "L!B11": "=B9-B2",
+        "L!A12": "Vessel pressure, kPa (gauge)",
+        "L!B12": 300,
+        "L!A13": "Line pressure, kPa",
+        "L!B13": 400,
+        "L!A14": "Difference",
+        "L!B14": "=B13-B12",  # slip: kPa absolute − kPa gauge
+        "L!A15": "Rise, kPa (gauge)",
+        "L!B15": "=B12-B12",  # clean: a gauge difference
     }
     rows = _rows(_saved(tmp_path, "labels", cells))
     assert rows["L!B5"].status is Status.PASS
@@ -224,6 +232,8 @@ def test_units_in_labels_and_headers(tmp_path):
     assert rows["L!H2"].status is Status.UNIT_CLASH and "header D1" in rows["L!H2"].note
     assert rows["L!B10"].status is Status.PASS
     assert "unit unknown" in rows["L!B10"].note and "scfm" in rows["L!B10"].note
+    assert rows["L!B14"].status is Status.UNIT_CLASH and "kPag" in rows["L!B14"].note
+    assert rows["L!B15"].status is Status.PASS
     assert rows["L!B11"].status is Status.PASS  # reads an input of unknown unit: said, no verdict
     assert rows["L!B11"].note.startswith("unit unknown: L!B9 — the label A9 names 'scfm'")
 

@@ -183,7 +183,8 @@ def unit_of_text(text: str) -> Unit | None:
 # a unit written in a label: in brackets or parentheses, after " in ", after a comma/colon
 _BRACKETED = re.compile(r"[\[(]\s*([^\[\]()]{1,24}?)\s*[\])]")
 _AFTER_IN = re.compile(r"\bin\s+([^\s,;:()\[\]]{1,16})\s*$")
-_AFTER_COMMA = re.compile(r"[,:]\s*([^\s,;:()\[\]]{1,16})\s*$")
+_AFTER_COMMA = re.compile(r"[,:]\s*([^\s,;:()\[\]]{1,16})\s*(?:$|[(\[])")
+_GAUGE_WORDS = re.compile(r"\b(gauge|gage)\b|\(g\)", re.IGNORECASE)
 _NOT_UNITS = {"abs", "absolute", "gauge", "g", "a", "est", "estimated", "approx", "max", "min"}
 
 
@@ -218,6 +219,12 @@ def _label_unit(label: str, source: str) -> tuple[Unit | None, str]:
     for w in words:
         u = unit_of_text(w)
         if u is not None:
+            if (
+                not u.offset
+                and u.dims == _kind_dims().get("pressure")
+                and _GAUGE_WORDS.search(label)
+            ):  # "kPa (gauge)": the gauge unit
+                u = unit_of_text(w + "g") or u
             return replace(u, source=source), ""
     if bracketed and words:
         return None, words[0]
