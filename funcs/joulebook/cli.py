@@ -163,7 +163,7 @@ def _recalc(ns: argparse.Namespace) -> int:
     except JoulebookError as e:
         print(e.cell_text(), file=sys.stderr)
         return 2
-    rows = compare(book, outcomes)
+    rows = compare(book, outcomes, signed=False)  # what changed; no verdict is signed here
     s = summary(rows)
     kept = [r for r in rows if _kept(r)]
     changed = [
