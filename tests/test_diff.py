@@ -1,0 +1,416 @@
+"""joulebook diff: fixture pairs of revisions, each giving exactly the expected changes and
+causes (JSON), the reports, the command's exit codes and bad input.
+
+The fixtures are scenarios of our own: a small pressure-design sheet whose saved values are
+written by the engine (as a spreadsheet program saves them), then revised one way at a time.
+Expected shares are worked by hand from the sheet's own arithmetic (common practice: the
+effect of one input is the result's move with that input put back).
+"""
+
+import json
+import re
+import shutil
+
+import pytest
+
+from joulebook.cli import main
+from joulebook.workbook.diff import diff_books, render_html, schema, to_json, to_markdown
+from joulebook.workbook.engine import Engine
+from joulebook.workbook.reader import read_book
+from joulebook.workbook.status import Status
+from joulebook.workbook.writer import write_copy
+from wbtools import build, with_saved
+
+BASE = {
+    "Design!A1": "Fill temperature [degC]",
+    "Design!B1": 18,
+    "Design!C1": "degC",
+    "Design!A2": "Wall thickness [mm]",
+    "Design!B2": 9.5,
+    "Design!C2": "mm",
+    "Design!A3": "Design pressure [bar]",
+    "Design!B3": "=B1*0.2+B2*0.5+1",
+    "Design!C3": "bar",
+    "Design!A4": "Test pressure [bar]",
+    "Design!B4": "=B3*1.43",
+    "Design!A6": "Nozzle",
+    "Design!B6": "Load [kN]",
+    "Design!A7": 1,
+    "Design!B7": "=A7*B$2",
+    "Design!A8": 2,
+    "Design!B8": "=A8*B$2",
+    "Design!A9": "Total load [kN]",
+    "Design!B9": "=SUM(B7:B8)",
+}
+
+
+def saved(tmp_path, name: str, cells: dict, edit: dict | None = None):
+    """The workbook of *cells*, its formulas' saved values computed as a program saves
+    them; *edit* then types saved values over (a property library's other numbers)."""
+    raw = build(tmp_path / f"raw_{name}.xlsx", cells)
+    book = read_book(raw)
+    path = write_copy(book, Engine(book).run(), tmp_path / f"{name}.xlsx", force=True)
+    if edit:
+        path = with_saved(path, tmp_path / f"{name}_edited.xlsx", edit)
+    return path
+
+
+def changes(tmp_path, old_cells, new_cells, old_edit=None, new_edit=None):
+    old = saved(tmp_path, "old", old_cells, old_edit)
+    new = saved(tmp_path, "new", new_cells, new_edit)
+    d = diff_books(read_book(old), read_book(new))
+    doc = json.loads(to_json(d))
+    _validate(doc)
+    return d, doc["changes"]
+
+
+def _validate(doc):
+    jsonschema = pytest.importorskip("jsonschema")  # a test dependency (pyproject [test])
+    jsonschema.validate(doc, schema())
+
+
+def brief(cs):
+    """(kind, what, sheet, cell, old, new, causes) of each change, in report order (numbers
+    to 9 decimals: the sheet's arithmetic in binary floating point)."""
+
+    def r(v):
+        return round(v, 9) if isinstance(v, float) else v
+
+    return [
+        (c["kind"], c["what"], c["sheet"], c["cell"], r(c["old"]), r(c["new"]), c.get("causes"))
+        for c in cs
+    ]
+
+
+def shift_rows(cells: dict, at: int) -> dict:
+    """*cells* with a row inserted at *at*, references moved as a spreadsheet program moves
+    them (the fixtures' formulas hold only plain A1 references)."""
+
+    def move(m):
+        r = int(m.group(3))
+        return f"{m.group(1)}{m.group(2)}{r + 1 if r >= at else r}"
+
+    out = {}
+    for k, v in cells.items():
+        sheet, _, a = k.partition("!")
+        col, row = re.match(r"([A-Z]+)(\d+)", a).groups()
+        if isinstance(v, str) and v.startswith("="):
+            v = re.sub(r"([A-Z]+)(\$?)(\d+)", move, v)
+        out[f"{sheet}!{col}{int(row) + 1 if int(row) >= at else int(row)}"] = v
+    return out
+
+
+def shift_cols(cells: dict, at: int) -> dict:
+    from openpyxl.utils import column_index_from_string as number
+    from openpyxl.utils import get_column_letter as letters
+
+    def move(m):
+        c = number(m.group(1))
+        return f"{letters(c + 1 if c >= at else c)}{m.group(2)}"
+
+    out = {}
+    for k, v in cells.items():
+        sheet, _, a = k.partition("!")
+        col, row = re.match(r"([A-Z]+)(\d+)", a).groups()
+        if isinstance(v, str) and v.startswith("="):
+            v = re.sub(r"([A-Z]+)(\$?\d+)", move, v)
+        c = number(col)
+        out[f"{sheet}!{letters(c + 1 if c >= at else c)}{row}"] = v
+    return out
+
+
+# ---------------------------------------------------------------------------------------
+# the fixture pairs
+
+
+def test_identical_revisions_have_no_changes(tmp_path):
+    d, cs = changes(tmp_path, BASE, BASE)
+    assert cs == [] and not d.unrelated and d.results_compared and d.aligned == 1.0
+
+
+def test_changed_input(tmp_path):
+    new = dict(BASE, **{"Design!B1": 20})
+    d, cs = changes(tmp_path, BASE, new)
+    assert brief(cs) == [
+        ("result", "cell", "Design", "B3", 9.35, 9.75, ["Design!B1"]),
+        ("result", "cell", "Design", "B4", 13.3705, 13.9425, ["Design!B1"]),
+        ("input", "cell", "Design", "B1", 18, 20, None),
+    ]
+    b3 = cs[0]
+    assert b3["label"] == "Design pressure [bar]" and b3["unit"] == "bar"
+    assert b3["delta"] == pytest.approx(0.4) and b3["delta_pct"] == pytest.approx(0.4 / 9.35 * 100)
+    # B3 = 0.2·B1 + …: putting 18 back takes 0.2·2 = 0.4 bar off, the whole move (by hand)
+    assert b3["shares"] == [
+        {
+            "cell": "Design!B1",
+            "label": "Fill temperature [degC]",
+            "effect": pytest.approx(0.4),
+            "share": pytest.approx(1.0),
+        }
+    ]
+    assert b3["status"] == Status.PASS and b3["interaction"] is None
+    assert cs[2]["unit"] == "degC" and cs[2]["delta"] == 2
+    assert d.runs == 2  # NEW as it is, then the one change put back
+
+
+def test_two_inputs_ranked_by_share(tmp_path):
+    new = dict(BASE, **{"Design!B1": 20, "Design!B2": 10})
+    d, cs = changes(tmp_path, BASE, new)
+    b3 = next(c for c in cs if c["cell"] == "B3")
+    # 0.2·(20−18) = 0.4 bar and 0.5·(10−9.5) = 0.25 bar (by hand): the larger first
+    assert b3["causes"] == ["Design!B1", "Design!B2"]
+    assert [s["effect"] for s in b3["shares"]] == [pytest.approx(0.4), pytest.approx(0.25)]
+    assert [s["share"] for s in b3["shares"]] == [
+        pytest.approx(0.4 / 0.65),
+        pytest.approx(0.25 / 0.65),
+    ]
+    assert b3["interaction"] is None and b3["unexplained_part"] is None
+    b7 = next(c for c in cs if c["cell"] == "B7")
+    assert b7["causes"] == ["Design!B2"]
+
+
+def test_interacting_changes_are_said_to_interact(tmp_path):
+    old = dict(BASE, **{"Design!B3": "=B1*B2/10"})
+    new = dict(old, **{"Design!B1": 36, "Design!B2": 19})
+    d, cs = changes(tmp_path, old, new)
+    b3 = next(c for c in cs if c["cell"] == "B3")
+    # 18·9.5/10 = 17.1 → 36·19/10 = 68.4: singly 68.4 − 18·19/10 = 34.2 and
+    # 68.4 − 36·9.5/10 = 34.2; together 51.3, so 17.1 is the interaction (by hand)
+    assert sorted(b3["causes"]) == ["Design!B1", "Design!B2"]
+    assert [s["effect"] for s in b3["shares"]] == [pytest.approx(34.2)] * 2
+    assert b3["interaction"] == pytest.approx(-17.1)
+    assert "interact" in to_markdown(d)
+
+
+def test_changed_formula(tmp_path):
+    new = dict(BASE, **{"Design!B3": "=B1*0.2+B2*0.55+1"})
+    d, cs = changes(tmp_path, BASE, new)
+    assert brief(cs) == [
+        ("result", "cell", "Design", "B3", 9.35, 9.825, ["Design!B3"]),
+        ("result", "cell", "Design", "B4", 13.3705, 14.04975, ["Design!B3"]),
+        ("formula", "cell", "Design", "B3", "=B1*0.2+B2*0.5+1", "=B1*0.2+B2*0.55+1", None),
+    ]
+
+
+def test_inserted_row_above_a_block(tmp_path):
+    new = shift_rows(BASE, 3)
+    new["Design!A3"] = "Corrosion allowance [mm]"
+    new["Design!B3"] = 1.5
+    d, cs = changes(tmp_path, BASE, new)
+    # one change: the row; every cell below it moved down without being "changed"
+    assert brief(cs) == [
+        ("inserted", "row", "Design", "3:3", None, "Corrosion allowance [mm] | 1.5", None)
+    ]
+
+
+def test_inserted_row_inside_a_summed_block_moves_the_total(tmp_path):
+    new = shift_rows(BASE, 8)
+    new["Design!A8"] = 1.5
+    new["Design!B8"] = "=A8*B$2"
+    new["Design!B10"] = "=SUM(B7:B9)"
+    d, cs = changes(tmp_path, BASE, new)
+    # the new row continues the copied-down formula: extended, and the cause of the total
+    assert brief(cs) == [
+        ("result", "cell", "Design", "B10", 28.5, 42.75, ["Design!A8", "Design!B8"]),
+        ("extended", "row", "Design", "A8:B8", None, "1.5 | =A8*B$2", None),
+    ]
+
+
+def test_inserted_column(tmp_path):
+    new = shift_cols(BASE, 2)
+    new["Design!B1"] = "checked"
+    new["Design!B2"] = "checked"
+    d, cs = changes(tmp_path, BASE, new)
+    assert brief(cs) == [("inserted", "column", "Design", "B:B", None, "checked", None)]
+
+
+def test_sheet_renamed(tmp_path):
+    old = dict(BASE, **{"Notes!A1": "scenario of our own"})
+    new = {k.replace("Design!", "Vessel!"): v for k, v in BASE.items()}
+    new["Notes!A1"] = "scenario of our own"
+    d, cs = changes(tmp_path, old, new)
+    assert brief(cs) == [("renamed", "sheet", "Vessel", None, "Design", "Vessel", None)]
+
+
+def test_formula_copied_one_row_further(tmp_path):
+    new = dict(BASE)
+    new["Design!A9"], new["Design!B9"] = 3, "=A9*B$2"
+    new["Design!A10"], new["Design!B10"] = "Total load [kN]", "=SUM(B7:B8)"
+    d, cs = changes(tmp_path, BASE, new)
+    assert brief(cs) == [("extended", "row", "Design", "A9:B9", None, "3 | =A9*B$2", None)]
+
+
+def test_saved_value_overwritten_by_hand(tmp_path):
+    new = dict(BASE, **{"Design!B3": 9.8})
+    d, cs = changes(tmp_path, BASE, new)
+    assert brief(cs) == [
+        ("result", "cell", "Design", "B4", 13.3705, 14.014, ["Design!B3"]),
+        ("formula", "cell", "Design", "B3", "=B1*0.2+B2*0.5+1", 9.8, None),
+    ]
+    assert "a formula replaced by a typed value (it saved 9.35)" in cs[1]["note"]
+    assert cs[0]["shares"][0]["share"] == pytest.approx(1.0)
+
+
+def test_result_moved_by_a_property_library_change(tmp_path):
+    # OLD saved other numbers for B3 and B4 (an earlier library), nothing else differs
+    d, cs = changes(tmp_path, BASE, BASE, old_edit={"Design!B3": 9.3, "Design!B4": 13.299})
+    assert brief(cs) == [
+        ("unexplained", "cell", "Design", "B3", 9.3, 9.35, []),
+        ("result", "cell", "Design", "B4", 13.299, 13.3705, ["Design!B3"]),
+    ]
+    assert cs[0]["status"] == "pass"  # NEW holds: the move came from elsewhere
+    assert "moved without a cause" in to_markdown(d).lower()
+
+
+def test_clean_twin_of_the_property_change_is_quiet(tmp_path):
+    # the same edit in both revisions: no move, nothing unexplained
+    edit = {"Design!B3": 9.3}
+    d, cs = changes(tmp_path, BASE, BASE, old_edit=edit, new_edit=edit)
+    assert cs == []
+
+
+def test_stale_save_in_new_is_unexplained_with_its_verdict(tmp_path):
+    d, cs = changes(tmp_path, BASE, BASE, new_edit={"Design!B3": 9.9})
+    assert brief(cs) == [("unexplained", "cell", "Design", "B3", 9.35, 9.9, [])]
+    assert cs[0]["status"] == Status.DIFFERS and cs[0]["recomputed"] == pytest.approx(9.35)
+
+
+def test_joulebook_call_arguments_changed(tmp_path):
+    call = '=JB_PROP("water","rho in kg/m3","T in degC",B1,"P in bar",{p})'
+    old = dict(BASE, **{"Design!A5": "Density [kg/m3]", "Design!B5": call.format(p=5)})
+    new = dict(old, **{"Design!B5": call.format(p=8)})
+    d, cs = changes(tmp_path, old, new)
+    f = next(c for c in cs if c["kind"] == "formula")
+    assert f["calls"] == [{"function": "JB_PROP", "argument": 6, "old": "5", "new": "8"}]
+    moved = next(c for c in cs if c["cell"] == "B5" and c["kind"] == "result")
+    assert moved["causes"] == ["Design!B5"] and moved["unit"] == "kg/m3"
+    # liquid water is nearly incompressible: 3 bar more raises its density a little (IAPWS-95
+    # by CoolProp; the sign and size are common practice, about 0.45 kg/m³ per 10 bar)
+    assert 0 < moved["delta"] < 0.5
+
+
+def test_defined_names_and_tables(tmp_path):
+    from openpyxl.workbook.defined_name import DefinedName
+    from openpyxl.worksheet.table import Table
+
+    def prep(ref, box):
+        def go(wb):
+            wb.defined_names["WALL"] = DefinedName("WALL", attr_text=ref)
+            wb["Design"].add_table(Table(displayName="Loads", ref=box))
+
+        return go
+
+    cells = {"Design!D1": "a", "Design!E1": "b", "Design!D2": 1, "Design!E2": 2}
+    cells.update({"Design!D3": 3, "Design!E3": 4, **BASE})
+    old = build(tmp_path / "o.xlsx", cells, prep("Design!$B$2", "D1:E2"))
+    new = build(tmp_path / "n.xlsx", cells, prep("Design!$B$1", "D1:E3"))
+    d = diff_books(read_book(old), read_book(new))
+    got = [(c.kind, c.what, c.cell, c.old, c.new) for c in d.changes]
+    assert ("formula", "name", "WALL", "Design!$B$2", "Design!$B$1") in got
+    assert ("extended", "table", "Loads", "D1:E2 [a, b]", "D1:E3 [a, b]") in got
+    assert len(got) == 2
+
+
+def test_deleted_row_reported_once_in_old_addresses(tmp_path):
+    old = shift_rows(BASE, 3)
+    old["Design!A3"] = "Corrosion allowance [mm]"
+    old["Design!B3"] = 1.5
+    d, cs = changes(tmp_path, old, BASE)
+    assert brief(cs) == [
+        ("deleted", "row", "Design", "3:3", "Corrosion allowance [mm] | 1.5", None, None)
+    ]
+
+
+# ---------------------------------------------------------------------------------------
+# bad input
+
+
+def test_unrelated_workbooks_say_so(tmp_path):
+    other = {"Log!A1": "pump hours", "Log!C4": 17, "Log!D9": "=C4*3"}
+    d, cs = changes(tmp_path, BASE, other)
+    assert d.unrelated and cs == []
+    assert "unrelated" in d.notes[0]
+
+
+def test_related_twin_is_not_unrelated(tmp_path):
+    d, _ = changes(tmp_path, BASE, dict(BASE, **{"Design!B1": 19}))
+    assert not d.unrelated and d.aligned > 0.9
+
+
+def test_without_saved_values_results_are_not_compared(tmp_path):
+    old = build(tmp_path / "o.xlsx", BASE)  # openpyxl saves no values of formulas
+    new = build(tmp_path / "n.xlsx", dict(BASE, **{"Design!B1": 20}))
+    d = diff_books(read_book(old), read_book(new))
+    assert not d.results_compared
+    assert [(c.kind, c.cell) for c in d.changes] == [("input", "B1")]
+    assert "results were not compared" in d.notes[0]
+
+
+def test_cli_exit_codes_and_outputs(tmp_path, capsys):
+    old = saved(tmp_path, "old", BASE)
+    new = saved(tmp_path, "new", dict(BASE, **{"Design!B1": 20}))
+    before = (old.read_bytes(), new.read_bytes())
+    out = tmp_path / "out"
+    out.mkdir()
+    html, js, md = out / "diff.html", out / "diff.json", out / "diff.md"
+    argv = ["diff", str(old), str(new), "-o", str(html), "--json", str(js)]
+    assert main(argv + ["--summary", str(md), "--audit", "--fail-on", "formulas"]) == 0
+    text = html.read_text()
+    assert main(argv + ["--fail-on", "inputs", "--force"]) == 1
+    assert main(argv + ["--fail-on", "results", "--force"]) == 1
+    assert main(argv + ["--fail-on", "any", "--force"]) == 1
+    assert main(["diff", str(old), str(old), "--fail-on", "any"]) == 0
+    assert (old.read_bytes(), new.read_bytes()) == before  # inputs never modified
+    _validate(json.loads(js.read_text()))
+    # summary first, then the moved results; each kind marked by a symbol and a word
+    assert text.index('id="summary"') < text.index('id="moved"') < text.index('id="sheet-1"')
+    assert "Δ moved" in text and "✎ input" in text
+    audit = out / "diff.audit.html"
+    anchor = re.search(r'href="diff\.audit\.html#([^"]+)">Design!B3<', text).group(1)
+    assert f'id="{anchor}"' in audit.read_text()
+    assert "Design!B3" in md.read_text() and "Fill temperature" in md.read_text()
+    assert not list(out.glob(".joulebook-*"))  # atomic writes leave no temporary file
+
+
+def test_html_escapes_workbook_text(tmp_path):
+    new = dict(BASE, **{"Design!A1": "<script>alert(1)</script> [degC]", "Design!B1": 20})
+    old = dict(BASE, **{"Design!A1": "<script>alert(1)</script> [degC]"})
+    d, _ = changes(tmp_path, old, new)
+    text = render_html(d)
+    assert "<script>alert" not in text and "&lt;script&gt;" in text
+
+
+@pytest.mark.parametrize("which", ["old", "new"])
+def test_unreadable_input_exits_2_naming_the_file(tmp_path, capsys, which):
+    good = saved(tmp_path, "good", BASE)
+    bad = tmp_path / "broken.xlsx"
+    bad.write_bytes(b"PK\x03\x04 not really a zip")
+    args = [str(bad), str(good)] if which == "old" else [str(good), str(bad)]
+    assert main(["diff", *args]) == 2
+    assert "broken.xlsx" in capsys.readouterr().err
+
+
+def test_protected_workbook_exits_2_naming_the_file(tmp_path, capsys):
+    msoffcrypto = pytest.importorskip("msoffcrypto")  # a test dependency (pyproject [test])
+    import io
+
+    from msoffcrypto.format.ooxml import OOXMLFile
+
+    good = saved(tmp_path, "good", BASE)
+    locked = tmp_path / "locked.xlsx"
+    buf = io.BytesIO()
+    with open(good, "rb") as fh:
+        OOXMLFile(fh).encrypt("secret", buf)
+    locked.write_bytes(buf.getvalue())
+    assert msoffcrypto is not None
+    assert main(["diff", str(good), str(locked)]) == 2
+    assert "locked.xlsx" in capsys.readouterr().err
+
+
+def test_outputs_never_overwrite_inputs(tmp_path, capsys):
+    old = saved(tmp_path, "old", BASE)
+    new = tmp_path / "new.xlsx"
+    shutil.copy(old, new)
+    before = new.read_bytes()
+    assert main(["diff", str(old), str(new), "--json", str(new), "--force"]) == 2
+    assert new.read_bytes() == before
