@@ -51,6 +51,7 @@ class Parsed:
     toks: tuple  # the formula's tokens, or ()
     refs: tuple  # (index of the token, Ref) of each reference operand of the formula
     value: object  # the constant of a non-formula cell
+    skeleton: tuple | None = None  # content_key for aligning, once made
 
 
 def parse_cell(c: Cell) -> Parsed:
@@ -71,25 +72,33 @@ def parse_cell(c: Cell) -> Parsed:
 
 
 def _ref_part(ref: Ref, row: int, col: int, axis: str) -> tuple:
-    """The reference in relative form seen from (row, col), with the other axis dropped
-    (*axis* "row" keeps rows, "col" columns, "both" both)."""
-    k = ref.key(row, col)
-    if ref.kind in ("name", "table"):
-        return k
-    kind, book, sheet, sheet2, r1, c1, r2, c2 = k
-    if axis == "row":
-        return (kind, book, sheet, sheet2, r1, r2)
-    if axis == "col":
-        return (kind, book, sheet, sheet2, c1, c2)
-    return k
+    """The reference in relative form seen from (row, col) (*axis* "both"), or its skeleton
+    for aligning (any other *axis*): absolute parts kept, relative ones only marked, since an
+    inserted row or column between a cell and what it reads changes the offset though not
+    the formula."""
+    if ref.kind in ("name", "table") or axis == "both":
+        return ref.key(row, col)
+    return (
+        ref.kind,
+        ref.book,
+        ref.sheet,
+        ref.sheet2,
+        ref.r1 if ref.abs_r1 else None,
+        ref.c1 if ref.abs_c1 else None,
+        ref.r2 if ref.abs_r2 else None,
+        ref.c2 if ref.abs_c2 else None,
+    )
 
 
-def content_key(p: Parsed, row: int, col: int, axis: str) -> tuple:
-    """What a cell holds, in a form that survives an inserted row (*axis* "col") or an
-    inserted column (*axis* "row"), or neither ("both": the formula's full relative shape)."""
+def content_key(p: Parsed, row: int, col: int, axis: str = "align") -> tuple:
+    """What a cell holds: for aligning (*axis* "align") a form that survives inserted rows
+    and columns (the same wherever the cell stands), or ("both") the formula's full relative
+    shape."""
     if not p.formula:
         v = p.value
         return ("v", round(v, 12) if isinstance(v, float) else v)
+    if axis != "both" and p.skeleton is not None:
+        return p.skeleton
     at = dict(p.refs)
     parts = []
     for i, (v, t, sub) in enumerate(p.toks):
@@ -98,7 +107,10 @@ def content_key(p: Parsed, row: int, col: int, axis: str) -> tuple:
             parts.append(_ref_part(ref, row, col, axis))
         elif t != "WHITE-SPACE":
             parts.append(v.upper() if t in ("FUNC", "OPERAND") and sub != "TEXT" else v)
-    return ("f", tuple(parts))
+    key = ("f", tuple(parts))
+    if axis != "both":
+        p.skeleton = key
+    return key
 
 
 def similar(a: Counter, b: Counter) -> float:
@@ -242,9 +254,9 @@ def _align_sheet(so: str, sn: str, oc: dict, nc: dict) -> SheetMap:
     ocol = [Counter() for _ in range(m.old_cols)]
     ncol = [Counter() for _ in range(m.new_cols)]
     for (r, c), p in oc.items():
-        ocol[c - 1][content_key(p, r, c, "col")] += 1
+        ocol[c - 1][content_key(p, r, c)] += 1
     for (r, c), p in nc.items():
-        ncol[c - 1][content_key(p, r, c, "col")] += 1
+        ncol[c - 1][content_key(p, r, c)] += 1
     okeys = [hash(frozenset(x.items())) for x in ocol]
     nkeys = [hash(frozenset(x.items())) for x in ncol]
     for i, j in match_sequences(okeys, nkeys, ocol, ncol, similar):
@@ -256,10 +268,10 @@ def _align_sheet(so: str, sn: str, oc: dict, nc: dict) -> SheetMap:
     nrow: list[list] = [[] for _ in range(m.new_rows)]
     for (r, c), p in oc.items():
         if c in rank:
-            orow[r - 1].append((rank[c], content_key(p, r, c, "row")))
+            orow[r - 1].append((rank[c], content_key(p, r, c)))
     for (r, c), p in nc.items():
         if c in nrank:
-            nrow[r - 1].append((nrank[c], content_key(p, r, c, "row")))
+            nrow[r - 1].append((nrank[c], content_key(p, r, c)))
     okeys = [tuple(sorted(x)) for x in orow]
     nkeys = [tuple(sorted(x)) for x in nrow]
     obags = [Counter(x) for x in okeys]
@@ -369,6 +381,54 @@ def translate(al: Alignment, sheet: str, p: Parsed) -> str | None:
             continue
         out.append(_render(ref, prefix, r1, c1, r2, c2))
     return "".join(out)
+
+
+def same_moved(al: Alignment, old_sheet: str, po: Parsed, new_sheet: str, pn: Parsed) -> bool:
+    """True when OLD's formula, its references moved as the alignment moved their cells,
+    is NEW's formula token for token (a quick test; :func:`translate` writes the text)."""
+    if len(po.toks) != len(pn.toks) or len(po.refs) != len(pn.refs):
+        return False
+    for (i, a), (j, b) in zip(po.refs, pn.refs):
+        if i != j or a.kind != b.kind or a.book is not None or b.book is not None:
+            return False
+        if a.kind in ("name", "table"):
+            if a.text.upper() != b.text.upper() or a.sheet != b.sheet:
+                return False
+            continue
+        if (a.abs_r1, a.abs_c1, a.abs_r2, a.abs_c2) != (b.abs_r1, b.abs_c1, b.abs_r2, b.abs_c2):
+            return False
+        if a.sheet2 or b.sheet2:
+            return False
+        m = al.by_old(a.sheet or old_sheet)
+        if m is None or m.new != (b.sheet and _real(al, b.sheet) or new_sheet):
+            return False
+        if (a.sheet is None) != (b.sheet is None):
+            return False
+        if a.kind == "cell":
+            moved = (m.row(a.r1), m.col(a.c1), m.row(a.r1), m.col(a.c1))
+        else:
+            moved = (
+                m.row(a.r1, +1) if a.kind != "cols" else a.r1,
+                m.col(a.c1, +1) if a.kind != "rows" else a.c1,
+                m.row(a.r2, -1) if a.kind != "cols" else a.r2,
+                m.col(a.c2, -1) if a.kind != "rows" else a.c2,
+            )
+        if moved != (b.r1, b.c1, b.r2, b.c2):
+            return False
+    at = {i for i, _ in po.refs}
+    for i, ((v, t, _s), (w, u, _)) in enumerate(zip(po.toks, pn.toks)):
+        if i in at:
+            continue
+        if t != u or (v != w and v.upper() != w.upper()):
+            return False
+    return True
+
+
+def _real(al: Alignment, name: str) -> str | None:
+    for s in al.new.sheets:
+        if s.upper() == name.upper():
+            return s
+    return None
 
 
 def _new_name(al: Alignment, old_name: str) -> str:

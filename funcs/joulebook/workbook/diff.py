@@ -25,6 +25,7 @@ from .align import (
     align,
     content_key,
     formula_text,
+    same_moved,
     translate,
 )
 from .check import compare
@@ -352,6 +353,18 @@ class _Graph:
             self._add(ref, sheet, upper, deps)
         return deps
 
+    def upstream_all(self, keys) -> set:
+        """Every cell one of *keys* reads, directly or not."""
+        seen: set = set()
+        todo = [d for k in keys for d in self.pre.get(k, ())]
+        while todo:
+            k = todo.pop()
+            if k in seen:
+                continue
+            seen.add(k)
+            todo.extend(self.pre.get(k, ()))
+        return seen
+
     def upstream(self, key) -> set:
         """Every cell *key* reads, directly or not (not the cell itself)."""
         seen: set = set()
@@ -422,6 +435,7 @@ def diff_books(old: Book, new: Book, causes: bool = True) -> Diff:
     al = align(old, new)
     changes: list[Change] = []
     reverts: dict[tuple, _Revert] = {}  # NEW cell -> how OLD had it
+    units: dict = {}  # a change put back as one: id -> (shown as, label, its NEW cells)
     moved: dict[tuple, tuple] = {}  # NEW formula cell -> (old saved, new saved)
     aligned_cells = 0
     for s in al.renamed.items():
@@ -430,51 +444,53 @@ def diff_books(old: Book, new: Book, causes: bool = True) -> Diff:
         changes.append(Change("inserted", "sheet", s, None, None, s))
     for s in al.removed_sheets:
         changes.append(Change("deleted", "sheet", s, None, s, None))
+    new_rows, new_cols = _index(new)
+    old_rows, old_cols = _index(old)
 
     for m in al.sheets:
         # rows and columns inserted or deleted: one change each run
-        new_rows_with = {r for (s, r, _c) in new.cells if s == m.new and _content(new, (s, r, _c))}
-        old_rows_with = {r for (s, r, _c) in old.cells if s == m.old and _content(old, (s, r, _c))}
-        new_cols_with = {c for (s, _r, c) in new.cells if s == m.new and _content(new, (s, _r, c))}
-        old_cols_with = {c for (s, _r, c) in old.cells if s == m.old and _content(old, (s, _r, c))}
         matched_new_rows = set(m.rows.values())
         matched_new_cols = set(m.cols.values())
-        ins_rows = sorted(r for r in new_rows_with if r not in matched_new_rows)
-        del_rows = sorted(r for r in old_rows_with if r not in m.rows)
-        ins_cols = sorted(c for c in new_cols_with if c not in matched_new_cols)
-        del_cols = sorted(c for c in old_cols_with if c not in m.cols)
-        extended_rows = {r for r in ins_rows if _extends_row(al, new, m.new, r)}
-        for run in _runs([r for r in ins_rows if r in extended_rows]):
-            cells = [k for k in new.cells if k[0] == m.new and run[0] <= k[1] <= run[-1]]
-            c1 = min(k[2] for k in cells)
-            c2 = max(k[2] for k in cells)
-            a, b = f"{col_letters(c1)}{run[0]}", f"{col_letters(c2)}{run[-1]}"
-            changes.append(
-                Change(
+        ins_rows = sorted(r for (s, r) in new_rows if s == m.new and r not in matched_new_rows)
+        del_rows = sorted(r for (s, r) in old_rows if s == m.old and r not in m.rows)
+        ins_cols = sorted(c for (s, c) in new_cols if s == m.new and c not in matched_new_cols)
+        del_cols = sorted(c for (s, c) in old_cols if s == m.old and c not in m.cols)
+        extended_rows = {r for r in ins_rows if _extends_row(al, new_rows[(m.new, r)])}
+        for run in _runs(ins_rows):
+            cells = [k for r in run for k in new_rows[(m.new, r)]]
+            ext = run[0] in extended_rows and all(r in extended_rows for r in run)
+            if ext:
+                c1 = min(k[2] for k in cells)
+                c2 = max(k[2] for k in cells)
+                a, b = f"{col_letters(c1)}{run[0]}", f"{col_letters(c2)}{run[-1]}"
+                where = a if a == b else f"{a}:{b}"
+                ch = Change(
                     "extended",
                     "row",
                     m.new,
-                    a if a == b else f"{a}:{b}",
+                    where,
                     None,
-                    _row_text(new, m.new, run[0]),
-                    label=label_of(new, cells[0]) if cells else "",
+                    _row_text(new, new_rows[(m.new, run[0])]),
+                    label=_row_label(new, new_rows[(m.new, run[0])]),
                     note="a copied-down formula carried one row further"
                     if len(run) == 1
                     else f"copied-down formulas carried {len(run)} rows further",
                 )
-            )
-        for run in _runs([r for r in ins_rows if r not in extended_rows]):
-            changes.append(
-                Change(
+            else:
+                where = f"{run[0]}:{run[-1]}"
+                ch = Change(
                     "inserted",
                     "row",
                     m.new,
-                    f"{run[0]}:{run[-1]}",
+                    where,
                     None,
-                    _row_text(new, m.new, run[0]),
-                    label=_row_label(new, m.new, run[0]),
+                    _row_text(new, new_rows[(m.new, run[0])]),
+                    label=_row_label(new, new_rows[(m.new, run[0])]),
                 )
-            )
+            changes.append(ch)
+            units[("rows", m.new, run[0])] = (f"{m.new}!{where}", ch.label, cells)
+            for k in cells:
+                reverts[k] = _Revert(None, None, remove=True)
         for run in _runs(del_rows):
             changes.append(
                 Change(
@@ -482,24 +498,27 @@ def diff_books(old: Book, new: Book, causes: bool = True) -> Diff:
                     "row",
                     m.old,
                     f"{run[0]}:{run[-1]}",
-                    _row_text(old, m.old, run[0]),
+                    _row_text(old, old_rows[(m.old, run[0])]),
                     None,
-                    label=_row_label(old, m.old, run[0]),
+                    label=_row_label(old, old_rows[(m.old, run[0])]),
                 )
             )
         for run in _runs(ins_cols):
             a, b = col_letters(run[0]), col_letters(run[-1])
-            changes.append(
-                Change(
-                    "inserted",
-                    "column",
-                    m.new,
-                    f"{a}:{b}",
-                    None,
-                    _col_text(new, m.new, run[0]),
-                    label=_col_text(new, m.new, run[0]),
-                )
+            cells = [k for c in run for k in new_cols[(m.new, c)] if k not in reverts]
+            ch = Change(
+                "inserted",
+                "column",
+                m.new,
+                f"{a}:{b}",
+                None,
+                _col_text(new, new_cols[(m.new, run[0])]),
+                label=_col_text(new, new_cols[(m.new, run[0])]),
             )
+            changes.append(ch)
+            units[("cols", m.new, run[0])] = (f"{m.new}!{a}:{b}", ch.label, cells)
+            for k in cells:
+                reverts[k] = _Revert(None, None, remove=True)
         for run in _runs(del_cols):
             a, b = col_letters(run[0]), col_letters(run[-1])
             changes.append(
@@ -508,65 +527,68 @@ def diff_books(old: Book, new: Book, causes: bool = True) -> Diff:
                     "column",
                     m.old,
                     f"{a}:{b}",
-                    _col_text(old, m.old, run[0]),
+                    _col_text(old, old_cols[(m.old, run[0])]),
                     None,
-                    label=_col_text(old, m.old, run[0]),
+                    label=_col_text(old, old_cols[(m.old, run[0])]),
                 )
             )
-        for k in new.cells:
-            if k[0] != m.new or not _content(new, k):
-                continue
-            if k[1] not in matched_new_rows or k[2] not in matched_new_cols:
-                reverts[k] = _Revert(None, None, remove=True)
         # cell by cell over the matched rows and columns
         seen_new: set = set()
-        for ko, co in old.cells.items():
-            if ko[0] != m.old or not _content(old, ko):
+        for r in sorted(r for (s, r) in old_rows if s == m.old):
+            nr = m.rows.get(r)
+            if nr is None:
                 continue
-            r, c = m.rows.get(ko[1]), m.cols.get(ko[2])
-            if r is None or c is None:
+            for ko in old_rows[(m.old, r)]:
+                nc = m.cols.get(ko[2])
+                if nc is None:
+                    continue
+                kn = (m.new, nr, nc)
+                seen_new.add(kn)
+                co = old.cells[ko]
+                if not _content(new, kn):
+                    changes.append(
+                        Change(
+                            "deleted",
+                            "cell",
+                            m.old,
+                            _addr(ko),
+                            _cell_text(co),
+                            None,
+                            label=label_of(old, ko),
+                        )
+                    )
+                    continue
+                aligned_cells += 1
+                _compare_cell(al, ko, co, kn, new.cells[kn], changes, reverts, moved)
+        for (s, r), keys in new_rows.items():
+            if s != m.new or r not in matched_new_rows:
                 continue
-            kn = (m.new, r, c)
-            seen_new.add(kn)
-            cn = new.cells.get(kn)
-            if cn is None or not _content(new, kn):
+            for kn in keys:
+                if kn in seen_new or kn[2] not in matched_new_cols:
+                    continue
+                kind = "extended" if _extends_cell(al, kn) else "inserted"
+                lab = label_of(new, kn)
                 changes.append(
                     Change(
-                        "deleted",
+                        kind,
                         "cell",
-                        m.old,
-                        _addr(ko),
-                        _cell_text(co),
+                        m.new,
+                        _addr(kn),
                         None,
-                        label=label_of(old, ko),
+                        _cell_text(new.cells[kn]),
+                        label=lab,
+                        unit=unit_of(new, kn, lab),
                     )
                 )
-                continue
-            aligned_cells += 1
-            _compare_cell(al, ko, co, kn, cn, changes, reverts, moved)
-        for kn, cn in new.cells.items():
-            if kn[0] != m.new or kn in seen_new or not _content(new, kn):
-                continue
-            if kn[1] not in matched_new_rows or kn[2] not in matched_new_cols:
-                continue
-            kind = "extended" if _extends_cell(al, new, kn) else "inserted"
-            changes.append(
-                Change(
-                    kind,
-                    "cell",
-                    m.new,
-                    _addr(kn),
-                    None,
-                    _cell_text(cn),
-                    label=label_of(new, kn),
-                    unit=unit_of(new, kn, label_of(new, kn)),
-                )
-            )
-            reverts[kn] = _Revert(None, None, remove=True)
+                reverts[kn] = _Revert(None, None, remove=True)
     changes.extend(_names_and_tables(al))
+    in_unit = {k for _, _, ks in units.values() for k in ks}
+    for k in reverts:
+        if k not in in_unit:
+            units[("cell", k)] = (_where(k), label_of(new, k), [k])
 
-    n_old = sum(_content(old, k) for k in old.cells)
-    n_new = sum(_content(new, k) for k in new.cells)
+    n_old = sum(len(v) for v in old_rows.values())
+    n_new = sum(len(v) for v in new_rows.values())
     share = aligned_cells / max(n_old, n_new) if max(n_old, n_new) else 1.0
     unrelated = max(n_old, n_new) > 0 and (share < UNRELATED or not al.sheets)
     saved = _has_saved(old) and _has_saved(new)
@@ -585,9 +607,20 @@ def diff_books(old: Book, new: Book, causes: bool = True) -> Diff:
         )
     d = Diff(old, new, changes, share, False, saved, notes)
     if saved and moved:
-        _explain(al, d, reverts, moved, causes)
+        _explain(al, d, reverts, units, moved, causes)
     d.changes.sort(key=_order(al))
     return d
+
+
+def _index(book: Book) -> tuple[dict, dict]:
+    """The cells holding something, by (sheet, row) and by (sheet, column), in order."""
+    rows: dict = {}
+    cols: dict = {}
+    for k in sorted(book.cells, key=lambda k: (k[0], k[1], k[2])):
+        if _content(book, k):
+            rows.setdefault((k[0], k[1]), []).append(k)
+            cols.setdefault((k[0], k[2]), []).append(k)
+    return rows, cols
 
 
 def _order(al: Alignment):
@@ -638,27 +671,20 @@ def _plain(v) -> str:
     return str(v)
 
 
-def _row_text(book: Book, sheet: str, r: int) -> str:
-    cells = sorted((k for k in book.cells if k[0] == sheet and k[1] == r), key=lambda k: k[2])
-    return " | ".join(_plain(_cell_text(book.cells[k])) for k in cells if _content(book, k))[:200]
+def _row_text(book: Book, keys: list) -> str:
+    return " | ".join(_plain(_cell_text(book.cells[k])) for k in keys)[:200]
 
 
-def _row_label(book: Book, sheet: str, r: int) -> str:
-    cells = sorted((k for k in book.cells if k[0] == sheet and k[1] == r), key=lambda k: k[2])
-    for k in cells:
+def _row_label(book: Book, keys: list) -> str:
+    for k in keys:
         t = _text(book.cells[k])
         if t:
             return t
     return ""
 
 
-def _col_text(book: Book, sheet: str, c: int) -> str:
-    cells = sorted((k for k in book.cells if k[0] == sheet and k[2] == c), key=lambda k: k[1])
-    for k in cells:
-        t = _text(book.cells[k])
-        if t:
-            return t
-    return ""
+def _col_text(book: Book, keys: list) -> str:
+    return _row_label(book, keys)
 
 
 def _shape(al: Alignment, key) -> tuple | None:
@@ -668,7 +694,7 @@ def _shape(al: Alignment, key) -> tuple | None:
     return content_key(p, key[1], key[2], "both")
 
 
-def _extends_cell(al: Alignment, book: Book, key) -> bool:
+def _extends_cell(al: Alignment, key) -> bool:
     """A NEW formula with the same relative form as the one above or below it."""
     sh = _shape(al, key)
     if sh is None:
@@ -677,15 +703,16 @@ def _extends_cell(al: Alignment, book: Book, key) -> bool:
     return sh in (_shape(al, (s, r - 1, c)), _shape(al, (s, r + 1, c)))
 
 
-def _extends_row(al: Alignment, book: Book, sheet: str, r: int) -> bool:
-    """An inserted row each of whose formulas continues the formula above or below it."""
-    keys = [k for k in book.cells if k[0] == sheet and k[1] == r and _content(book, k)]
+def _extends_row(al: Alignment, keys: list) -> bool:
+    """An inserted row each of whose formulas continues the formula above or below it, the
+    constants beside them standing where the row above or below had one too."""
+    book = al.new
     fs = [k for k in keys if book.cells[k].formula is not None]
-    if not fs or not all(_extends_cell(al, book, k) for k in fs):
+    if not fs or not all(_extends_cell(al, k) for k in fs):
         return False
-    for k in keys:  # constants beside them: only where the row above or below had one too
-        if book.cells[k].formula is None:
-            if not (_content(book, (sheet, r - 1, k[2])) or _content(book, (sheet, r + 1, k[2]))):
+    for s, r, c in keys:
+        if book.cells[(s, r, c)].formula is None:
+            if not (_content(book, (s, r - 1, c)) or _content(book, (s, r + 1, c))):
                 return False
     return True
 
@@ -693,10 +720,10 @@ def _extends_row(al: Alignment, book: Book, sheet: str, r: int) -> bool:
 def _compare_cell(al, ko, co: Cell, kn, cn: Cell, changes, reverts, moved) -> None:
     po, pn = al.old_parsed[ko], al.new_parsed[kn]
     new = al.new
-    label = label_of(new, kn)
     if not po.formula and not pn.formula:
         a, b = co.cached, cn.cached
         if not _same(a, b) or isinstance(a, bool) != isinstance(b, bool):
+            label = label_of(new, kn)
             ch = Change(
                 "input",
                 "cell",
@@ -711,6 +738,11 @@ def _compare_cell(al, ko, co: Cell, kn, cn: Cell, changes, reverts, moved) -> No
             changes.append(ch)
             reverts[kn] = _Revert(None, co.cached)
         return
+    if po.formula and pn.formula and same_moved(al, ko[0], po, kn[0], pn):
+        if co.has_cached and cn.has_cached and not _same(co.cached, cn.cached):
+            moved[kn] = (co.cached, cn.cached)
+        return
+    label = label_of(new, kn)
     old_text = translate(al, ko[0], po) if po.formula else None
     if pn.formula:
         new_text = formula_text(pn)
@@ -844,84 +876,79 @@ def _table_text(t) -> str:
 # why each result moved
 
 
-def _explain(al: Alignment, d: Diff, reverts: dict, moved: dict, rank: bool) -> None:
+def _explain(al: Alignment, d: Diff, reverts: dict, units: dict, moved: dict, rank: bool) -> None:
     new = al.new
     g = _Graph(new, al.new_parsed)
+    moved_set = set(moved)
     changed = set(reverts)
-    # the causes of each moved cell: changes among its precedents (or itself, a formula)
-    up: dict = {}
-    for k in moved:
-        up[k] = g.upstream(k)
-    roots = {
-        k
-        for k in moved
-        if k not in changed and not (up[k] & changed) and not (up[k] & moved.keys())
-    }
-    causes: dict = {}
-    for k in moved:
-        cs = sorted((up[k] | {k}) & changed) + sorted(up[k] & roots)
-        causes[k] = cs
-    labels = {k: label_of(new, k) for k in set().union(*causes.values(), moved)}
-    # the NEW revision recomputed as it is, then with changes put back
-    need = set(moved)
-    for k in moved:
-        need |= up[k]
-    for k, rv in reverts.items():  # what a formula put back reads
-        if rv.formula and k in need:
-            for dep in g.reads(k[0], rv.formula):
-                need |= {dep} | g.upstream(dep)
-    sub = (
-        new if g.dynamic else replace(new, cells={k: new.cells[k] for k in need if k in new.cells})
-    )
+    down = {u: g.downstream(ks) for u, (_, _, ks) in units.items()}
+    touched = set().union(*down.values()) if down else set()
+    # a result that moved though nothing it reads changed, nor anything it reads moved
+    roots = moved_set - changed - touched - g.downstream(moved_set)
+    for r in sorted(roots):
+        units[("root", r)] = (_where(r), label_of(new, r), [r])
+        down[("root", r)] = g.downstream([r])
+    causes: dict = {k: [] for k in moved}
+    for u, ds in down.items():
+        own = set(units[u][2]) if u[0] != "root" else set()
+        for k in (ds | own) & moved_set:
+            causes[k].append(u)
+    # NEW recomputed as it is, then with changes put back (only what they reach; the cells
+    # they read held at their values)
+    needed = moved_set | g.upstream_all(moved_set)
+    region = set(moved_set)  # every moved result gets its verdict
+    for u in causes_units(causes):
+        region |= (down[u] | set(units[u][2])) & needed
     effects: dict = {}
     base: dict = {}
     all_back: dict = {}
     statuses: dict = {}
-    if rank:
+    if rank and roots:
+        # the verdict of each result that moved by itself: NEW recomputed as it is where the
+        # unexplained moves reach (a stale save shows as differs)
+        reach_roots = set(roots)
+        for r in roots:
+            reach_roots |= down[("root", r)] & needed
+        sub = _region(new, g, reach_roots, {}, set(), reverts, roots, moved)
         out = Engine(sub).run()
         d.runs += 1
-        rows = compare(sub, out, RTOL, ATOL)
-        statuses = {(r.sheet, r.cell): Status(r.status) for r in rows}
-        base = {k: o.value for k, o in out.items()}
-        # changes that share no moved result go back in one run
-        groups: list[set] = []
-        conflicts: dict = {}
-        for cs in causes.values():
-            for c in cs:
-                conflicts.setdefault(c, set()).update(x for x in cs if x != c)
-        for c in sorted(conflicts):
-            for grp in groups:
-                if not (grp & conflicts[c]):
-                    grp.add(c)
-                    break
-            else:
-                groups.append({c})
-        if len(groups) + 1 > MAX_RUNS:
+        statuses = {
+            (r.sheet, r.cell): Status(r.status)
+            for r in compare(sub, {k: out[k] for k in reach_roots if k in out}, RTOL, ATOL)
+        }
+        base = {k: o.value for k, o in out.items() if k in roots}
+    if rank and region:
+        groups = _groups(causes)
+        if groups is None or len(groups) + 1 > MAX_RUNS:
             d.notes.append(
-                f"{len(conflicts)} changes feed the moved results together: causes listed "
-                "without their shares (more than {MAX_RUNS} recalculations)"
+                "too many changes feed the moved results together: their causes are listed "
+                f"without shares (more than {MAX_RUNS} recalculations)"
             )
             rank = False
         else:
             for grp in groups:
-                res = Engine(_put_back(sub, new, grp, reverts, moved, roots)).run()
+                reach = set()
+                for u in grp:
+                    reach |= (down[u] | set(units[u][2])) & needed
+                cells = {k for u in grp for k in units[u][2]}
+                res = Engine(_region(new, g, reach, {}, cells, reverts, roots, moved)).run()
                 d.runs += 1
-                for k, cs in causes.items():
-                    for c in cs:
-                        if c in grp and k in res:
-                            effects[(k, c)] = res[k].value
-            if any(len(cs) > 1 for cs in causes.values()):
-                everything = set().union(*causes.values())
-                res = Engine(_put_back(sub, new, everything, reverts, moved, roots)).run()
+                for k, us in causes.items():
+                    for u in us:
+                        if u in grp and k in res:
+                            effects[(k, u)] = res[k].value
+            if any(len(us) > 1 for us in causes.values()):
+                cells = {k for u in causes_units(causes) for k in units[u][2]}
+                res = Engine(_region(new, g, region, {}, cells, reverts, roots, moved)).run()
                 d.runs += 1
                 all_back = {k: res[k].value for k in moved if k in res}
             else:
-                all_back = {k: effects.get((k, cs[0])) for k, cs in causes.items() if cs}
+                all_back = {k: effects.get((k, us[0])) for k, us in causes.items() if us}
     for k, (o, n) in moved.items():
         a = label_of(new, k)
-        cs = causes[k]
+        us = causes[k]
         ch = Change(
-            "result" if cs else "unexplained",
+            "result" if us else "unexplained",
             "cell",
             k[0],
             _addr(k),
@@ -933,28 +960,29 @@ def _explain(al: Alignment, d: Diff, reverts: dict, moved: dict, rank: bool) -> 
             recomputed=_shown(base.get(k)) if k in base else None,
         )
         _delta(ch, o, n)
-        if not cs:
+        if not us:
             ch.note = (
                 "moved though nothing among its precedents changed: a property library or "
                 "joulebook version, a value typed over the saved result, or a stale save"
             )
-        total = _num(base.get(k, n)) if rank else None
+        total = _num(n) if rank else None  # the move as saved
         oldv = _num(o)
-        for c in cs:
-            cause = Cause(_where(c), labels.get(c, ""))
-            if rank and total is not None and _num(effects.get((k, c))) is not None:
-                cause.effect = total - _num(effects[(k, c)])  # type: ignore[operator]
+        for u in sorted(us, key=lambda u: units[u][0]):
+            cause = Cause(units[u][0], units[u][1])
+            single = _num(effects.get((k, u)))
+            if rank and total is not None and single is not None:
+                cause.effect = total - single
                 move = total - oldv if oldv is not None else None
                 cause.share = cause.effect / move if move else None
             ch.causes.append(cause)
-        if rank and cs and total is not None and oldv is not None:
+        if rank and us and total is not None and oldv is not None:
             ch.causes.sort(key=lambda x: -abs(x.effect) if x.effect is not None else 0.0)
             back = _num(all_back.get(k))
             if back is not None:
                 together = total - back
-                single = sum(x.effect for x in ch.causes if x.effect is not None)
-                if len(cs) > 1 and abs(together - single) > INTERACT * max(abs(together), ATOL):
-                    ch.interaction = together - single
+                single_sum = sum(x.effect for x in ch.causes if x.effect is not None)
+                if len(us) > 1 and abs(together - single_sum) > INTERACT * max(abs(together), ATOL):
+                    ch.interaction = together - single_sum
                 rest = back - oldv
                 if abs(rest) > ATOL + 1e-6 * max(abs(oldv), abs(total)):
                     ch.unexplained_part = rest
@@ -965,25 +993,73 @@ def _explain(al: Alignment, d: Diff, reverts: dict, moved: dict, rank: bool) -> 
         d.changes.append(ch)
 
 
-def _put_back(sub: Book, new: Book, group: set, reverts: dict, moved: dict, roots: set) -> Book:
-    cells = dict(sub.cells)
-    for k in group:
+def causes_units(causes: dict) -> set:
+    """Every change that is a cause of some moved result."""
+    return set().union(*causes.values()) if causes else set()
+
+
+def _groups(causes: dict) -> list[set] | None:
+    """Changes put back together: no moved result has two causes in one group (a greedy
+    colouring of the changes that share a result); None past MAX_RUNS groups."""
+    conflicts: dict = {}
+    for us in {frozenset(us) for us in causes.values()}:
+        for u in us:
+            conflicts.setdefault(u, set()).update(x for x in us if x != u)
+    groups: list[set] = []
+    for u in sorted(conflicts, key=lambda u: (-len(conflicts[u]), repr(u))):
+        for grp in groups:
+            if not (grp & conflicts[u]):
+                grp.add(u)
+                break
+        else:
+            if len(groups) >= MAX_RUNS:
+                return None
+            groups.append({u})
+    return groups
+
+
+def _region(
+    new: Book, g: _Graph, compute: set, held: dict, back: set, reverts: dict, roots, moved
+) -> Book:
+    """A book of the cells to *compute*, the cells they read held at their values (*held*,
+    else as saved), and the cells of *back* put back as OLD had them.  With run-time
+    references (OFFSET, INDIRECT) the whole of NEW is computed."""
+    if g.dynamic:
+        cells = dict(new.cells)
+    else:
+        cells = {k: new.cells[k] for k in compute if k in new.cells}
+        reads = set()
+        for k in compute:
+            reads |= g.pre.get(k, set())
+        for k in back:
+            rv = reverts.get(k)
+            if rv is not None and rv.formula:
+                reads |= g.reads(k[0], rv.formula)
+        for k in reads - compute:
+            c = new.cells.get(k)
+            if c is None:
+                continue
+            if k in held:
+                cells[k] = Cell(c.sheet, c.row, c.col, None, None, held[k], True)
+            elif c.formula is not None:
+                cells[k] = Cell(c.sheet, c.row, c.col, None, None, c.cached, c.has_cached)
+            else:
+                cells[k] = c
+    for k in back:
+        c = new.cells.get(k)
         if k in roots:  # a result that moved by itself: held at its OLD saved value
-            c = new.cells[k]
             cells[k] = Cell(c.sheet, c.row, c.col, None, None, moved[k][0], True)
             continue
         rv = reverts.get(k)
-        if rv is None:
+        if rv is None or c is None:
             continue
         if rv.remove:
             cells.pop(k, None)
-            continue
-        c = new.cells[k]
-        if rv.formula is not None and "#REF!" not in rv.formula:
+        elif rv.formula is not None and "#REF!" not in rv.formula:
             cells[k] = Cell(c.sheet, c.row, c.col, rv.formula, None, rv.value, True, rv.formula)
         else:
             cells[k] = Cell(c.sheet, c.row, c.col, None, None, rv.value, True)
-    return replace(sub, cells=cells)
+    return replace(new, cells=cells)
 
 
 # ---------------------------------------------------------------------------------------
