@@ -283,8 +283,18 @@ def _align_sheet(so: str, sn: str, oc: dict, nc: dict) -> SheetMap:
 
 def align(old: Book, new: Book) -> Alignment:
     """Match the sheets, rows and columns of two revisions."""
-    old_parsed = {k: parse_cell(c) for k, c in old.cells.items()}
-    new_parsed = {k: parse_cell(c) for k, c in new.cells.items()}
+    seen: dict = {}  # formula text -> Parsed: a formula both revisions hold is read once
+
+    def parsed(c: Cell) -> Parsed:
+        if c.formula is None:
+            return Parsed(False, (), (), c.cached)
+        p = seen.get(c.formula)
+        if p is None:
+            p = seen[c.formula] = parse_cell(c)
+        return p
+
+    old_parsed = {k: parsed(c) for k, c in old.cells.items()}
+    new_parsed = {k: parsed(c) for k, c in new.cells.items()}
     ocells, ncells = _by_sheet(old, old_parsed), _by_sheet(new, new_parsed)
     new_upper = {s.upper(): s for s in new.sheets}
     pairs: list[tuple[str, str]] = []

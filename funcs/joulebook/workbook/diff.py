@@ -17,6 +17,7 @@ from __future__ import annotations
 import json
 import math
 from dataclasses import dataclass, field, replace
+from functools import lru_cache
 from importlib import resources
 
 from .align import (
@@ -161,17 +162,33 @@ def _unit_words(label: str) -> list[str]:
     return [w for w in out if 0 < len(w) <= 16]
 
 
+@lru_cache(maxsize=4096)
+def _is_unit(text: str) -> bool:
+    """True when *text* is a common unit of some quantity joulebook converts (the unit
+    seed only: pint is not loaded)."""
+    from ..units import KINDS as UNIT_KINDS
+    from ..units import known_unit
+
+    if not text or len(text) > 16:
+        return False
+    for kind in UNIT_KINDS:
+        try:
+            if known_unit(text, kind) is not None:
+                return True
+        except Exception:  # a word the unit reader refuses is no unit
+            continue
+    return False
+
+
 def unit_of(book: Book, key, label: str) -> str:
     """A unit for the cell: the text in the cell to its right when it names a unit, else one
-    its label names."""
-    from .auditflags import unit_kind
-
+    its label names (in square brackets, parentheses, after a comma or "in")."""
     s, r, c = key
     right = _text(book.cells.get((s, r, c + 1)))
-    if right and len(right) <= 16 and unit_kind(right) is not None:
+    if _is_unit(right):
         return right
     for w in _unit_words(label):
-        if unit_kind(w) is not None:
+        if _is_unit(w):
             return w
     i, j = label.rfind("["), label.rfind("]")
     if 0 <= i < j and 0 < j - i - 1 <= 16 and " " not in label[i + 1 : j].strip():
@@ -937,9 +954,15 @@ def _explain(al: Alignment, d: Diff, reverts: dict, units: dict, moved: dict, ra
                     for u in us:
                         if u in grp and k in res:
                             effects[(k, u)] = res[k].value
-            if any(len(us) > 1 for us in causes.values()):
-                cells = {k for u in causes_units(causes) for k in units[u][2]}
-                res = Engine(_region(new, g, region, {}, cells, reverts, roots, moved)).run()
+            multi = {k for k, us in causes.items() if len(us) > 1}
+            if multi:  # every change put back at once, where results have several causes
+                ab = {u for k in multi for u in causes[k]}
+                cells = {k for u in ab for k in units[u][2]}
+                reach = set()
+                for u in ab:
+                    reach |= down[u] | set(units[u][2])
+                reach &= multi | g.upstream_all(multi)
+                res = Engine(_region(new, g, reach, {}, cells, reverts, roots, moved)).run()
                 d.runs += 1
                 all_back = {k: res[k].value for k in moved if k in res}
             else:
