@@ -416,3 +416,32 @@ def test_outputs_never_overwrite_inputs(tmp_path, capsys):
     before = new.read_bytes()
     assert main(["diff", str(old), str(new), "--json", str(new), "--force"]) == 2
     assert new.read_bytes() == before
+
+
+def test_demo_writes_a_revision_and_its_review(tmp_path):
+    import openpyxl
+
+    from joulebook.demo import WORKBOOKS
+    from joulebook.demodiff import REVISED, review
+
+    wb = openpyxl.Workbook()
+    WORKBOOKS[REVISED](wb)
+    raw = tmp_path / "raw.xlsx"
+    wb.save(raw)
+    book = read_book(raw)
+    (tmp_path / "recalculated").mkdir()
+    old = write_copy(book, Engine(book).run(), tmp_path / "recalculated" / REVISED)
+    lines = []
+    r = review(old, tmp_path / "reports", echo=lines.append)
+    assert r["new"].parent == tmp_path / "revisions" and r["html"].exists()
+    doc = json.loads(r["json"].read_text())
+    _validate(doc)
+    got = {(c["cell"], c["old"], c["new"]) for c in doc["changes"] if c["kind"] == "input"}
+    assert got == {("B10", 15, 12), ("B14", 16, 20)}
+    assert doc["summary"]["unexplained"] == 0 and doc["summary"]["formula"] == 0
+    p2 = next(c for c in doc["changes"] if c["cell"] == "B19")
+    # a colder fill warms through more kelvin to the same 45 degC: the trapped pressure rises
+    # (common practice), all of it from the fill temperature
+    assert p2["kind"] == "result" and p2["causes"] == ["Line!B10"] and p2["delta"] > 0
+    assert p2["shares"][0]["share"] == pytest.approx(1.0) and p2["unit"] == "bar"
+    assert "revision B" in lines[0]

@@ -778,6 +778,6 @@ def run_demo(folder: str | Path = "joulebook-demo", echo=print) -> dict:
     # revision review: revision B of one demo workbook and its diff report (demodiff.py)
     from .demodiff import REVISED, review
 
-    review(folder / "recalculated" / REVISED, folder / "reports", echo)
+    review(folder / "recalculated" / REVISED, folder / "revisions", echo)
     echo(f"\nOpen the reports in a browser: {folder / 'reports'}")
     return results
