@@ -445,3 +445,31 @@ def test_demo_writes_a_revision_and_its_review(tmp_path):
     assert p2["kind"] == "result" and p2["causes"] == ["Line!B10"] and p2["delta"] > 0
     assert p2["shares"][0]["share"] == pytest.approx(1.0) and p2["unit"] == "bar"
     assert "revision B" in lines[0]
+
+
+def test_spilled_values_are_results_not_inputs(tmp_path):
+    from openpyxl.worksheet.formula import ArrayFormula
+
+    def arr(text):
+        def go(wb):
+            ws = wb["Design"]
+            ws["D1"] = ArrayFormula("D1:D2", text)
+
+        return go
+
+    cells = dict(BASE)
+    old = build(tmp_path / "o_raw.xlsx", cells, arr("=B1:B2*2"))
+    new = build(tmp_path / "n_raw.xlsx", dict(cells, **{"Design!B2": 10}), arr("=B1:B2*2"))
+    paths = []
+    for raw, name in ((old, "o.xlsx"), (new, "n.xlsx")):
+        book = read_book(raw)
+        paths.append(write_copy(book, Engine(book).run(), tmp_path / name))
+    d = diff_books(read_book(paths[0]), read_book(paths[1]))
+    got = [(c.kind, c.cell, c.old, c.new, [x.where for x in c.causes]) for c in d.changes]
+    # the spilled D2 moved (2·9.5 → 2·10): a result of the array formula, caused by B2 with
+    # its whole share (by hand), never an "input"; the anchor D1 (2·18) did not move
+    assert ("result", "D2", 19, 20, ["Design!B2"]) in got
+    d2 = next(c for c in d.changes if c.cell == "D2")
+    assert d2.causes[0].share == pytest.approx(1.0)
+    assert not [g for g in got if g[1] == "D1"]
+    assert [g[0] for g in got].count("input") == 1

@@ -463,6 +463,7 @@ def diff_books(old: Book, new: Book, causes: bool = True) -> Diff:
         changes.append(Change("deleted", "sheet", s, None, s, None))
     new_rows, new_cols = _index(new)
     old_rows, old_cols = _index(old)
+    old_spill, new_spill = _spilled(old), _spilled(new)
 
     for m in al.sheets:
         # rows and columns inserted or deleted: one change each run
@@ -562,6 +563,12 @@ def diff_books(old: Book, new: Book, causes: bool = True) -> Diff:
                 kn = (m.new, nr, nc)
                 seen_new.add(kn)
                 co = old.cells[ko]
+                if kn in new_spill or ko in old_spill:  # a value an array formula spilled
+                    cn = new.cells.get(kn)
+                    if cn is not None and kn in new_spill and not _same(co.cached, cn.cached):
+                        moved[kn] = (co.cached, cn.cached)
+                    aligned_cells += cn is not None
+                    continue
                 if not _content(new, kn):
                     changes.append(
                         Change(
@@ -581,7 +588,7 @@ def diff_books(old: Book, new: Book, causes: bool = True) -> Diff:
             if s != m.new or r not in matched_new_rows:
                 continue
             for kn in keys:
-                if kn in seen_new or kn[2] not in matched_new_cols:
+                if kn in seen_new or kn[2] not in matched_new_cols or kn in new_spill:
                     continue
                 kind = "extended" if _extends_cell(al, kn) else "inserted"
                 lab = label_of(new, kn)
@@ -627,6 +634,21 @@ def diff_books(old: Book, new: Book, causes: bool = True) -> Diff:
         _explain(al, d, reverts, units, moved, causes)
     d.changes.sort(key=_order(al))
     return d
+
+
+def _spilled(book: Book) -> set:
+    """The cells holding a value an array formula spilled (not its anchor)."""
+    out: set = set()
+    for k, c in book.cells.items():
+        if c.formula is not None and c.array_ref:
+            box = _box_of(c.array_ref)
+            if box is None or (box[2] - box[0] + 1) * (box[3] - box[1] + 1) > 1_000_000:
+                continue
+            for r in range(box[0], box[2] + 1):
+                for cc in range(box[1], box[3] + 1):
+                    if (k[0], r, cc) != k:
+                        out.add((k[0], r, cc))
+    return out
 
 
 def _index(book: Book) -> tuple[dict, dict]:
