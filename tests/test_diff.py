@@ -227,10 +227,11 @@ def test_inserted_column(tmp_path):
 
 
 def test_sheet_renamed(tmp_path):
-    old = dict(BASE, **{"Notes!A1": "scenario of our own"})
+    old = dict(BASE, **{"Notes!A1": "scenario of our own", "Notes!B1": "=Design!B3*2"})
     new = {k.replace("Design!", "Vessel!"): v for k, v in BASE.items()}
-    new["Notes!A1"] = "scenario of our own"
+    new["Notes!A1"], new["Notes!B1"] = "scenario of our own", "=Vessel!B3*2"
     d, cs = changes(tmp_path, old, new)
+    # the formula reading the renamed sheet is the same formula: no change but the name
     assert brief(cs) == [("renamed", "sheet", "Vessel", None, "Design", "Vessel", None)]
 
 
@@ -473,3 +474,18 @@ def test_spilled_values_are_results_not_inputs(tmp_path):
     assert d2.causes[0].share == pytest.approx(1.0)
     assert not [g for g in got if g[1] == "D1"]
     assert [g[0] for g in got].count("input") == 1
+
+
+@pytest.mark.client
+def test_html_report_renders_in_a_browser(tmp_path):
+    from wbtools import chromium
+
+    new = dict(BASE, **{"Design!B1": 20, "Design!B3": "=B1*0.2+B2*0.55+1"})
+    d, _ = changes(tmp_path, BASE, new)
+    page = tmp_path / "diff.html"
+    page.write_text(render_html(d), encoding="utf-8")
+    shot, dom = chromium(page, tmp_path, "1100,1400")
+    assert shot.stat().st_size > 10_000
+    # each kind is told by a symbol and a word, not by colour alone
+    assert "Δ moved" in dom and "✎ input" in dom and "ƒ formula" in dom
+    assert dom.index("Summary") < dom.index("Moved results")
