@@ -489,3 +489,16 @@ def test_html_report_renders_in_a_browser(tmp_path):
     # each kind is told by a symbol and a word, not by colour alone
     assert "Δ moved" in dom and "✎ input" in dom and "ƒ formula" in dom
     assert dom.index("Summary") < dom.index("Moved results")
+
+
+def test_internal_failure_exits_3_without_a_traceback(tmp_path, capsys, monkeypatch):
+    import joulebook.workbook.diff as diff_module
+
+    def broken(*args, **kwargs):
+        raise RuntimeError("planted defect")
+
+    monkeypatch.setattr(diff_module, "diff_books", broken)
+    old = saved(tmp_path, "old", BASE)
+    assert main(["diff", str(old), str(old)]) == 3
+    err = capsys.readouterr().err
+    assert "planted defect" in err and "Traceback" not in err
