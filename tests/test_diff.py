@@ -502,3 +502,26 @@ def test_internal_failure_exits_3_without_a_traceback(tmp_path, capsys, monkeypa
     assert main(["diff", str(old), str(old)]) == 3
     err = capsys.readouterr().err
     assert "planted defect" in err and "Traceback" not in err
+
+
+def test_a_formula_changed_down_a_column_is_one_change(tmp_path):
+    old = dict(BASE)
+    new = dict(BASE, **{"Design!B7": "=A7*B$2*1.1", "Design!B8": "=A8*B$2*1.1"})
+    d, cs = changes(tmp_path, old, new)
+    f = [c for c in cs if c["kind"] == "formula"]
+    # copied down alike: one change over B7:B8 (DESIGN §4: one group where a person reads)
+    assert [(c["cell"], c["old"], c["new"]) for c in f] == [("B7:B8", "=A7*B$2", "=A7*B$2*1.1")]
+    total = next(c for c in cs if c["cell"] == "B9")
+    # (1 + 2)·9.5·0.1 = 2.85 kN, all of it from the one edit put back whole (by hand)
+    assert total["causes"] == ["Design!B7:B8"] and total["delta"] == pytest.approx(2.85)
+    assert total["shares"][0]["share"] == pytest.approx(1.0)
+
+
+def test_moved_results_of_one_copied_down_formula_read_as_one(tmp_path):
+    new = dict(BASE, **{"Design!B2": 10})
+    d, cs = changes(tmp_path, BASE, new)
+    # JSON keeps every cell; the reports group B7:B8 (one formula copied down, one cause)
+    assert [c["cell"] for c in cs if c["kind"] == "result"] == ["B3", "B4", "B7", "B8", "B9"]
+    text = render_html(d)
+    assert "2 cells of one copied-down formula" in text
+    assert "`Design!B7:B8` (2 cells of one copied-down formula)" in to_markdown(d)

@@ -605,6 +605,7 @@ def diff_books(old: Book, new: Book, causes: bool = True) -> Diff:
                     )
                 )
                 reverts[kn] = _Revert(None, None, remove=True)
+    changes = _copied_down(al, changes, units)
     changes.extend(_names_and_tables(al))
     in_unit = {k for _, _, ks in units.values() for k in ks}
     for k in reverts:
@@ -634,6 +635,54 @@ def diff_books(old: Book, new: Book, causes: bool = True) -> Diff:
         _explain(al, d, reverts, units, moved, causes)
     d.changes.sort(key=_order(al))
     return d
+
+
+def _copied_down(al: Alignment, changes: list[Change], units: dict) -> list[Change]:
+    """Formula changes of consecutive cells of one column whose OLD and NEW formulas are each
+    one formula copied down become one change over the range (put back as one)."""
+    from .align import parse_cell
+
+    def shapes(ch: Change):
+        k = (ch.sheet, *_rc(ch.cell))
+        pn = al.new_parsed.get(k)
+        if pn is None or not pn.formula or not isinstance(ch.old, str) or ch.old[:1] != "=":
+            return None
+        po = parse_cell(Cell(k[0], k[1], k[2], ch.old[1:]))
+        return (content_key(po, k[1], k[2], "both"), content_key(pn, k[1], k[2], "both"))
+
+    out: list[Change] = []
+    runs: dict = {}  # (sheet, column) -> the open run: [first change, last row, shapes, cells]
+    for ch in sorted(
+        (c for c in changes if c.kind == "formula" and c.what == "cell"),
+        key=lambda c: (c.sheet, _rc(c.cell)[1], _rc(c.cell)[0]),
+    ):
+        r, c = _rc(ch.cell)
+        sh = shapes(ch)
+        run = runs.get((ch.sheet, c))
+        if run is not None and sh is not None and run[1] == r - 1 and run[2] == sh:
+            run[1] = r
+            run[3].append((ch.sheet, r, c))
+            continue
+        run = runs[(ch.sheet, c)] = [ch, r, sh, [(ch.sheet, r, c)]]
+        out.append(ch)
+    for first, last, _sh, cells in runs.values():
+        if len(cells) > 1:
+            r0, c0 = _rc(first.cell)
+            first.cell = f"{first.cell}:{col_letters(c0)}{last}"
+            first.note = (first.note + "; " if first.note else "") + (
+                f"one formula copied down over {len(cells)} cells (the first shown)"
+            )
+            units[("copied", first.sheet, r0, c0)] = (first.where, first.label, cells)
+    return [c for c in changes if not (c.kind == "formula" and c.what == "cell")] + out
+
+
+def _rc(addr: str) -> tuple[int, int]:
+    """(row, column) of a cell address such as ``B12`` (the first of a range)."""
+    a = addr.split(":")[0]
+    i = next(i for i, ch in enumerate(a) if ch.isdigit())
+    from .refs import col_number
+
+    return int(a[i:]), col_number(a[:i])
 
 
 def _spilled(book: Book) -> set:
@@ -1242,6 +1291,48 @@ def why(c: Change) -> str:
     return f"{head}: " + ", ".join(parts) + tail
 
 
+@dataclass
+class Shown:
+    """Moved results as a person reads them: a run of one copied-down formula with the same
+    causes is one line (its first cell shown, the range and the spread of its moves)."""
+
+    first: Change
+    where: str
+    count: int
+    low: float | None = None  # the smallest and largest move over the run
+    high: float | None = None
+
+
+def shown_moves(d: Diff) -> list[Shown]:
+    """The moved results, copied-down runs with the same causes grouped (DESIGN §4)."""
+    out: list[Shown] = []
+    last: tuple | None = None
+    for c in [c for c in d.changes if c.kind in ("unexplained", "result")]:
+        r, col = _rc(c.cell or "A1")
+        sig = (c.kind, c.sheet, col, tuple(x.where for x in c.causes), _formula_shape(d, c))
+        if out and last is not None and last[0] == sig and last[1] == r - 1 and sig[4]:
+            g = out[-1]
+            g.count += 1
+            g.where = f"{g.first.where}:{col_letters(col)}{r}"
+            if c.delta is not None and g.low is not None and g.high is not None:
+                g.low, g.high = min(g.low, c.delta), max(g.high, c.delta)
+            last = (sig, r)
+            continue
+        out.append(Shown(c, c.where, 1, c.delta, c.delta))
+        last = (sig, r)
+    return out
+
+
+def _formula_shape(d: Diff, c: Change):
+    from .align import parse_cell
+
+    r, col = _rc(c.cell or "A1")
+    cell = d.new.cells.get((c.sheet, r, col))
+    if cell is None or cell.formula is None:
+        return None
+    return content_key(parse_cell(cell), r, col, "both")
+
+
 def to_markdown(d: Diff) -> str:
     """A short Markdown summary for CI (counts, moved results and their causes)."""
     lines = [f"## joulebook diff: {d.old.path.name} → {d.new.path.name}", ""]
@@ -1263,12 +1354,13 @@ def to_markdown(d: Diff) -> str:
         for c in un:
             lines.append(f"- ⚠ `{c.where}` {why(c)}")
         lines.append("")
-    res = [c for c in d.changes if c.kind == "result"]
+    res = [g for g in shown_moves(d) if g.first.kind == "result"]
     if res:
         lines.append("**Moved results**")
         lines.append("")
-        for c in res[:50]:
-            lines.append(f"- `{c.where}` {why(c)}")
+        for g in res[:50]:
+            more = f" ({g.count} cells of one copied-down formula)" if g.count > 1 else ""
+            lines.append(f"- `{g.where}`{more} {why(g.first)}")
         if len(res) > 50:
             lines.append(f"- … and {len(res) - 50} more")
         lines.append("")
@@ -1323,7 +1415,7 @@ def render_html(d: Diff, audit_href: str | None = None, anchors: dict | None = N
         kinds=KINDS,
         counts=summary(d),
         marks=MARKS,
-        moved=[c for c in d.changes if c.kind in ("unexplained", "result")],
+        moved=shown_moves(d),
         by_sheet=by_sheet,
         fmt_value=fmt_value,
         fmt_delta=fmt_delta,
