@@ -525,3 +525,26 @@ def test_moved_results_of_one_copied_down_formula_read_as_one(tmp_path):
     text = render_html(d)
     assert "2 cells of one copied-down formula" in text
     assert "`Design!B7:B8` (2 cells of one copied-down formula)" in to_markdown(d)
+
+
+def test_a_deleted_row_is_the_cause_of_the_total_it_fed(tmp_path):
+    old = shift_rows(BASE, 8)
+    old["Design!A8"] = 1.5
+    old["Design!B8"] = "=A8*B$2"
+    old["Design!B10"] = "=SUM(B7:B9)"
+    d, cs = changes(tmp_path, old, BASE)
+    # OLD's SUM(B7:B9) less its row 8 is NEW's SUM(B7:B8): no formula change; the total
+    # moved by −1.5 × 9.5 = −14.25 kN (by hand), and the deletion (OLD's 8:8) is its cause
+    assert brief(cs) == [
+        ("result", "cell", "Design", "B9", 42.75, 28.5, ["Design!8:8"]),
+        ("deleted", "row", "Design", "8:8", "1.5 | =A8*B$2", None, None),
+    ]
+    assert "cannot be put back" in cs[0]["note"] and cs[0]["shares"][0]["effect"] is None
+
+
+def test_a_volatile_result_is_said_to_be_volatile(tmp_path):
+    cells = dict(BASE, **{"Design!A11": "Drawn at random", "Design!B11": "=RAND()"})
+    d, cs = changes(tmp_path, cells, cells, old_edit={"Design!B11": 0.25})
+    c = next(c for c in cs if c["cell"] == "B11")
+    assert c["kind"] == "unexplained" and c["status"] == Status.VOLATILE
+    assert "moves at every recalculation" in c["note"]

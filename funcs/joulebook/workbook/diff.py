@@ -282,7 +282,8 @@ class _Graph:
 
     def __init__(self, book: Book, parsed: dict):
         self.book = book
-        self.dynamic = False  # OFFSET, INDIRECT, a name not a plain range: read the whole book
+        # OFFSET, INDIRECT, a name not a plain range, a What-If data table: the whole book
+        self.dynamic = bool(book.data_tables)
         by_sheet: dict[str, list] = {}
         for k in book.cells:
             by_sheet.setdefault(k[0], []).append(k)
@@ -453,6 +454,7 @@ def diff_books(old: Book, new: Book, causes: bool = True) -> Diff:
     changes: list[Change] = []
     reverts: dict[tuple, _Revert] = {}  # NEW cell -> how OLD had it
     units: dict = {}  # a change put back as one: id -> (shown as, label, its NEW cells)
+    gone: dict = {}  # a deletion (no put-back): id -> (shown as, label, its OLD cells)
     moved: dict[tuple, tuple] = {}  # NEW formula cell -> (old saved, new saved)
     aligned_cells = 0
     for s in al.renamed.items():
@@ -510,6 +512,7 @@ def diff_books(old: Book, new: Book, causes: bool = True) -> Diff:
             for k in cells:
                 reverts[k] = _Revert(None, None, remove=True)
         for run in _runs(del_rows):
+            lab = _row_label(old, old_rows[(m.old, run[0])])
             changes.append(
                 Change(
                     "deleted",
@@ -518,9 +521,11 @@ def diff_books(old: Book, new: Book, causes: bool = True) -> Diff:
                     f"{run[0]}:{run[-1]}",
                     _row_text(old, old_rows[(m.old, run[0])]),
                     None,
-                    label=_row_label(old, old_rows[(m.old, run[0])]),
+                    label=lab,
                 )
             )
+            cells = [k for r in run for k in old_rows[(m.old, r)]]
+            gone[("rows", m.old, run[0])] = (f"{m.old}!{run[0]}:{run[-1]}", lab, cells)
         for run in _runs(ins_cols):
             a, b = col_letters(run[0]), col_letters(run[-1])
             cells = [k for c in run for k in new_cols[(m.new, c)] if k not in reverts]
@@ -539,6 +544,9 @@ def diff_books(old: Book, new: Book, causes: bool = True) -> Diff:
                 reverts[k] = _Revert(None, None, remove=True)
         for run in _runs(del_cols):
             a, b = col_letters(run[0]), col_letters(run[-1])
+            cells = [k for c in run for k in old_cols[(m.old, c)]]
+            lab = _col_text(old, old_cols[(m.old, run[0])])
+            gone[("cols", m.old, run[0])] = (f"{m.old}!{a}:{b}", lab, cells)
             changes.append(
                 Change(
                     "deleted",
@@ -570,17 +578,11 @@ def diff_books(old: Book, new: Book, causes: bool = True) -> Diff:
                     aligned_cells += cn is not None
                     continue
                 if not _content(new, kn):
+                    lab = label_of(old, ko)
                     changes.append(
-                        Change(
-                            "deleted",
-                            "cell",
-                            m.old,
-                            _addr(ko),
-                            _cell_text(co),
-                            None,
-                            label=label_of(old, ko),
-                        )
+                        Change("deleted", "cell", m.old, _addr(ko), _cell_text(co), None, label=lab)
                     )
+                    gone[("cell", ko)] = (_where(ko), lab, [ko])
                     continue
                 aligned_cells += 1
                 _compare_cell(al, ko, co, kn, new.cells[kn], changes, reverts, moved)
@@ -632,7 +634,7 @@ def diff_books(old: Book, new: Book, causes: bool = True) -> Diff:
         )
     d = Diff(old, new, changes, share, False, saved, notes)
     if saved and moved:
-        _explain(al, d, reverts, units, moved, causes)
+        _explain(al, d, reverts, units, moved, causes, gone)
     d.changes.sort(key=_order(al))
     return d
 
@@ -964,19 +966,36 @@ def _table_text(t) -> str:
 # why each result moved
 
 
-def _explain(al: Alignment, d: Diff, reverts: dict, units: dict, moved: dict, rank: bool) -> None:
+def _explain(
+    al: Alignment,
+    d: Diff,
+    reverts: dict,
+    units: dict,
+    moved: dict,
+    rank: bool,
+    gone: dict | None = None,
+) -> None:
     new = al.new
     g = _Graph(new, al.new_parsed)
     moved_set = set(moved)
     changed = set(reverts)
     down = {u: g.downstream(ks) for u, (_, _, ks) in units.items()}
     touched = set().union(*down.values()) if down else set()
+    # deletions cannot be put back: what they fed in OLD, found in NEW, names them
+    by_deletion: dict = {}
+    if gone:
+        g_old = _Graph(al.old, al.old_parsed)
+        for u, (_, _, ks) in gone.items():
+            fed = {al.new_key(k) for k in g_old.downstream(ks)} & moved_set
+            for k in fed:
+                by_deletion.setdefault(k, []).append(u)
+            touched |= fed
     # a result that moved though nothing it reads changed, nor anything it reads moved
     roots = moved_set - changed - touched - g.downstream(moved_set)
     for r in sorted(roots):
         units[("root", r)] = (_where(r), label_of(new, r), [r])
         down[("root", r)] = g.downstream([r])
-    causes: dict = {k: [] for k in moved}
+    causes: dict = {k: list(by_deletion.get(k, ())) for k in moved}
     for u, ds in down.items():
         own = set(units[u][2]) if u[0] != "root" else set()
         for k in (ds | own) & moved_set:
@@ -986,7 +1005,8 @@ def _explain(al: Alignment, d: Diff, reverts: dict, units: dict, moved: dict, ra
     needed = moved_set | g.upstream_all(moved_set)
     region = set(moved_set)  # every moved result gets its verdict
     for u in causes_units(causes):
-        region |= (down[u] | set(units[u][2])) & needed
+        if u in units:
+            region |= (down[u] | set(units[u][2])) & needed
     effects: dict = {}
     base: dict = {}
     all_back: dict = {}
@@ -1006,7 +1026,7 @@ def _explain(al: Alignment, d: Diff, reverts: dict, units: dict, moved: dict, ra
         }
         base = {k: o.value for k, o in out.items() if k in roots}
     if rank and region:
-        groups = _groups(causes)
+        groups = _groups({k: [u for u in us if u in units] for k, us in causes.items()})
         if groups is None or len(groups) + 1 > MAX_RUNS:
             d.notes.append(
                 "too many changes feed the moved results together: their causes are listed "
@@ -1025,7 +1045,7 @@ def _explain(al: Alignment, d: Diff, reverts: dict, units: dict, moved: dict, ra
                     for u in us:
                         if u in grp and k in res:
                             effects[(k, u)] = res[k].value
-            multi = {k for k, us in causes.items() if len(us) > 1}
+            multi = {k for k, us in causes.items() if len(us) > 1 and all(u in units for u in us)}
             if multi:  # every change put back at once, where results have several causes
                 ab = {u for k in multi for u in causes[k]}
                 cells = {k for u in ab for k in units[u][2]}
@@ -1061,15 +1081,19 @@ def _explain(al: Alignment, d: Diff, reverts: dict, units: dict, moved: dict, ra
             )
         total = _num(n) if rank else None  # the move as saved
         oldv = _num(o)
-        for u in sorted(us, key=lambda u: units[u][0]):
-            cause = Cause(units[u][0], units[u][1])
+        shown = {**(gone or {}), **units}
+        lost = any(u not in units for u in us)
+        for u in sorted(us, key=lambda u: shown[u][0]):
+            cause = Cause(shown[u][0], shown[u][1])
             single = _num(effects.get((k, u)))
-            if rank and total is not None and single is not None:
+            if rank and not lost and total is not None and single is not None:
                 cause.effect = total - single
                 move = total - oldv if oldv is not None else None
                 cause.share = cause.effect / move if move else None
             ch.causes.append(cause)
-        if rank and us and total is not None and oldv is not None:
+        if lost:
+            ch.note = "a deletion among its causes cannot be put back: no shares"
+        elif rank and us and total is not None and oldv is not None:
             ch.causes.sort(key=lambda x: -abs(x.effect) if x.effect is not None else 0.0)
             back = _num(all_back.get(k))
             if back is not None:
@@ -1080,7 +1104,11 @@ def _explain(al: Alignment, d: Diff, reverts: dict, units: dict, moved: dict, ra
                 rest = back - oldv
                 if abs(rest) > ATOL + 1e-6 * max(abs(oldv), abs(total)):
                     ch.unexplained_part = rest
-        if ch.status is not None and ch.status is not Status.PASS:
+        if ch.status is Status.VOLATILE:
+            ch.note = (
+                "it depends on NOW, TODAY, RAND or RANDBETWEEN: it moves at every recalculation"
+            )
+        elif ch.status is not None and ch.status is not Status.PASS:
             ch.note = (ch.note + "; " if ch.note else "") + (
                 f"NEW's saved value does not hold: {ch.status} ({ch.status.describe()})"
             )
