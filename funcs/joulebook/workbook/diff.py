@@ -1004,7 +1004,7 @@ def _explain(
     # they read held at their values)
     needed = moved_set | g.upstream_all(moved_set)
     region = set(moved_set)  # every moved result gets its verdict
-    for u in causes_units(causes):
+    for u in _causes_units(causes):
         if u in units:
             region |= (down[u] | set(units[u][2])) & needed
     effects: dict = {}
@@ -1115,7 +1115,7 @@ def _explain(
         d.changes.append(ch)
 
 
-def causes_units(causes: dict) -> set:
+def _causes_units(causes: dict) -> set:
     """Every change that is a cause of some moved result."""
     return set().union(*causes.values()) if causes else set()
 
