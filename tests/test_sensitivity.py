@@ -136,8 +136,25 @@ def test_monte_carlo_agrees_with_the_analytic_standard_deviation(tmp_path):
     assert r.mc["std"] == pytest.approx(sd, rel=0.01)
     assert r.mc["mean"] == pytest.approx(2 * 10 - 3 * 4 + 1.5, abs=0.01)
     assert r.mc["draws"] == 100_000 and r.mc["refused"] == 0
-    assert r.mc["how"].startswith("vectorised")  # through the engine's column path
+    assert r.mc["how"].startswith("column path")  # each formula once per block of draws
     assert "disagrees" not in r.mc and r.ok
+
+
+def test_monte_carlo_of_a_range_over_varying_inputs_runs_in_bands_of_rows(tmp_path):
+    # SUM over a range that holds two varying inputs is not elementwise in the draws: the
+    # chain is copied in bands of rows instead (each copy's range moves with it)
+    path = build(
+        tmp_path / "sum.xlsx",
+        {"S!B1": 1.0, "S!B2": 2.0, "S!B3": "=SUM(B1:B2)*2", "S!B4": "=B3+$B$1"},
+    )
+    book = read_book(path)
+    us = [Uncertainty(("S", 1, 2), 0.1), Uncertainty(("S", 2, 2), 0.2)]
+    r = analyse(book, results=[("S", 4, 2)], uncertainties=us, mc=4000, seed=3).results[0]
+    assert r.mc["how"].startswith("bands of rows")
+    # y = 3·b1 + 2·b2: σ = √((3·0.1)² + (2·0.2)²) = 0.5 (JCGM 100:2008 §5.1.2, linear)
+    assert r.u_c == pytest.approx(0.5, rel=1e-6)
+    assert r.mc["std"] == pytest.approx(0.5, rel=0.05)
+    assert r.mc["mean"] == pytest.approx(3 * 1 + 2 * 2, abs=0.05)
 
 
 def test_product_and_quotient_and_their_uncertainty(tmp_path):

@@ -305,10 +305,18 @@ class Chain:
         self.bandable: dict = {}  # formula cell -> "" or why it cannot be copied in bands
         for c in book.formula_cells():
             self._add(c)
+        self._engine: Engine | None = None
         self.readers: dict = {}
         for k, deps in self.reads.items():
             for d in deps:
                 self.readers.setdefault(d, set()).add(k)
+
+    def engine(self) -> Engine:
+        """An engine that has recomputed the workbook (made once, on first use)."""
+        if self._engine is None:
+            self._engine = Engine(self.book)
+            self._engine.run()
+        return self._engine
 
     def _add(self, c: Cell) -> None:
         key = (c.sheet, c.row, c.col)
@@ -404,6 +412,13 @@ class Chain:
         """The formula cells on a path from any of *keys* to *result* (*result* included)."""
         up = self.upstream(result) | {result}
         return {k for k in self.downstream(keys) & up if k in self.reads}
+
+    def order(self, live: set) -> list:
+        """The formula cells of *live*, each after the cells of *live* it reads."""
+        import graphlib
+
+        graph = {k: [d for d in self.reads.get(k, ()) if d in live] for k in live}
+        return list(graphlib.TopologicalSorter(graph).static_order())
 
     def is_formula(self, key) -> bool:
         return key in self.reads
@@ -589,6 +604,31 @@ def _value_at(chain: Chain, live: set, result, changed: dict) -> tuple[float | N
     return (None, why) if why else (float(o.value), "")
 
 
+def _values_at(chain: Chain, live: set, result, key, points: list) -> tuple[list, str]:
+    """The result at each of *points* for input *key*: the path's formulas evaluated once
+    for all points (the engine's column path), else one sub-workbook run per point."""
+    order = chain.order(live)
+    try:
+        values, messages = chain.engine().evaluate_columns(order, {key: points})[result]
+    except ValueError:
+        pairs = [_value_at(chain, live, result, {key: p}) for p in points]
+        values = [y for y, _ in pairs]
+        messages = [w for _, w in pairs]
+    out = []
+    for p, v, msg in zip(points, values, messages):
+        why = msg or ("" if _is_number(v) else f"the result is {_shown(v)}")
+        if why:
+            return [], f"refused at {where(key)} = {p:.6g}: {why}"
+        out.append(float(v))
+    return out, ""
+
+
+def _shown(v) -> str:
+    if isinstance(v, tuple):
+        return f"the error value {v[1]}"
+    return repr(v)
+
+
 def _step(x: float) -> float:
     return 1e-4 * abs(x) if x != 0 else 1e-4
 
@@ -606,19 +646,11 @@ def coefficient(chain: Chain, result, key) -> tuple[float | None, float | None, 
     x = float(x)
     live = chain.between([key], result)
     h = _step(x)
-    d = []
-    for step in (h, h / 2):
-        ys = []
-        for sign in (1, -1):
-            y, why = _value_at(chain, live, result, {key: x + sign * step})
-            if why:
-                return (
-                    None,
-                    h,
-                    f"refused at {where(key)} = {x + sign * step:.6g}: {why}",
-                )
-            ys.append(y)
-        d.append((ys[0] - ys[1]) / (2 * step))
+    points = [x + h, x - h, x + h / 2, x - h / 2]
+    ys, problem = _values_at(chain, live, result, key, points)
+    if problem:
+        return None, h, problem
+    d = [(ys[0] - ys[1]) / (2 * h), (ys[2] - ys[3]) / h]
     y0 = chain.values.get(result)
     scale = max(abs(d[0]), abs(d[1]), abs(float(y0)) / max(abs(x), 1e-300) * 1e-9, 1e-300)
     if abs(d[0] - d[1]) > 1e-3 * scale:
@@ -692,6 +724,34 @@ def _draws(uncs: list[Uncertainty], x0: list[float], n: int, rng) -> list:
     return cols
 
 
+#: draws evaluated together by the column path (memory: one object per cell and draw)
+COLUMN_BLOCK = 20_000
+
+
+def _by_columns(chain: Chain, live: set, result, keys, cols, ys, refusals) -> str:
+    """Monte Carlo through :meth:`Engine.evaluate_columns`: each formula of the path once per
+    block of draws. Returns how it ran, or "" when the path cannot be run this way."""
+    order = chain.order(live)
+    eng = chain.engine()
+    n = len(ys)
+    for start in range(0, n, COLUMN_BLOCK):
+        stop = min(n, start + COLUMN_BLOCK)
+        try:
+            got = eng.evaluate_columns(
+                order, {k: [float(v) for v in c[start:stop]] for k, c in zip(keys, cols)}
+            )
+        except ValueError:
+            return ""
+        values, messages = got[result]
+        for j, (v, msg) in enumerate(zip(values, messages)):
+            if msg or not _is_number(v):
+                w = msg or f"the result is {v[1] if isinstance(v, tuple) else repr(v)}"
+                refusals[w] = refusals.get(w, 0) + 1
+            else:
+                ys[start + j] = float(v)
+    return f"column path: {len(live)} formula cells, each evaluated per block of {COLUMN_BLOCK:,} draws"
+
+
 def monte_carlo(chain: Chain, result, uncs: list[Uncertainty], n: int, seed: int = 1) -> dict:
     """Propagate the distributions of *uncs* to *result* with *n* draws (JCGM 101:2008).
 
@@ -717,7 +777,10 @@ def monte_carlo(chain: Chain, result, uncs: list[Uncertainty], n: int, seed: int
     cols = _draws(uncs, x0, n, rng)
     ys = np.full(n, np.nan)
     refusals: dict = {}
-    if why:
+    column = _by_columns(chain, live, result, keys, cols, ys, refusals)
+    if column:
+        how = column
+    elif why:
         if n > 2000:
             from ..errors import BadInput
 
@@ -765,7 +828,7 @@ def monte_carlo(chain: Chain, result, uncs: list[Uncertainty], n: int, seed: int
                     refusals[w] = refusals.get(w, 0) + 1
                 else:
                     ys[start + b] = float(o.value)
-        how = f"vectorised: {len(live)} formula cells × {n} draws in blocks of {per}"
+        how = f"bands of rows: {len(live)} formula cells × {n} draws, blocks of {per} draws"
     good = ys[np.isfinite(ys)]
     res: dict = {"draws": n, "refused": int(n - good.size), "how": how}
     if refusals:
