@@ -792,6 +792,11 @@ def build_parser() -> argparse.ArgumentParser:
 
     add_diff_parser(sub)
 
+    # joulebook sensitivity BOOK: coefficients and uncertainty (workbook/sensitivitycmd.py)
+    from .workbook.sensitivitycmd import add_parser as add_sensitivity_parser
+
+    add_sensitivity_parser(sub)
+
     x = sub.add_parser(
         "calc-extension",
         help="write the LibreOffice Calc extension (.oxt) of the worksheet functions",
