@@ -254,3 +254,18 @@ def test_package_renders_in_chromium(record, tmp_path):
     shot2, dom2 = chromium(out2, tmp_path, "1000,2400")
     assert shot2.stat().st_size > 20_000
     assert f"Every row ({N})" in dom2 and f"×{N}" in dom2 and "Sign-off" in dom2
+
+
+@pytest.mark.client
+def test_demo_writes_an_html_and_a_pdf_package_per_workbook(tmp_path):
+    from pypdf import PdfReader
+
+    from joulebook.demo import WORKBOOKS, run_demo
+
+    results = run_demo(tmp_path / "d", echo=lambda *a: None)
+    assert len(results) == len(WORKBOOKS)
+    for name, r in results.items():
+        assert r["report"].exists() and r["pdf"] == r["report"].with_suffix(".pdf"), name
+        pages = PdfReader(r["pdf"]).pages
+        assert 1 <= len(pages) <= 40, (name, len(pages))
+        assert f"page 1 of {len(pages)}" in pages[0].extract_text()

@@ -799,7 +799,7 @@ def build_parser() -> argparse.ArgumentParser:
     a.add_argument(
         "--pdf",
         help="also print the calculation package to this PDF (title block, numbered pages, "
-        "sign-off block; needs WeasyPrint: pip install 'joulebook[pdf]')",
+        "sign-off block; through WeasyPrint, which needs the Pango library)",
     )
     a.add_argument(
         "--paper",

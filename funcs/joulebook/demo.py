@@ -779,7 +779,9 @@ def run_demo(folder: str | Path = "joulebook-demo", echo=print, pdf: bool = True
         flags = len(audit.flags)
         echo(
             f"{path.name:36} {s['cells']:4d} cells, {s.get('pass', 0):4d} hold, "
-            f"{len(audit.entries):3d} formulas audited, {flags:2d} flags  -> {report}  "
+            f"{len(audit.entries):3d} formulas audited, {flags:2d} flags  -> {report}"
+            + (" and .pdf" if printed else "")
+            + "  "
             f"({time.perf_counter() - t0:.1f} s)"
         )
         results[path.name] = {

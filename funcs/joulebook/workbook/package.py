@@ -652,8 +652,8 @@ def write_pdf(html: str, path: Path, base: Path | None = None) -> int:
         from ..errors import BadInput
 
         raise BadInput(
-            "--pdf needs WeasyPrint and the Pango library: pip install 'joulebook[pdf]' "
-            f"and, on Debian, apt-get install libpango-1.0-0 libpangoft2-1.0-0 ({e})"
+            "a PDF needs WeasyPrint (pip install weasyprint) and the Pango library (Debian: "
+            f"apt-get install libpango-1.0-0 libpangoft2-1.0-0): {str(e)[:80]}"
         ) from None
     from ..files import atomic_write
 

@@ -1,7 +1,6 @@
 """The title block and document control of a calculation workbook.
 
-Where joulebook looks, first match wins for each field (docs/audit.md, "The calculation
-package"):
+Where joulebook looks, first match wins for each field (docs/package.md):
 
 1. a **defined name** of the workbook naming one cell, by any of the field's names below
    (case, underscores, dots and spaces ignored: ``CALC_NUMBER``, ``Calc.No``);
