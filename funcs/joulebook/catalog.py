@@ -111,6 +111,20 @@ _PROCESS_STEPS = (
     + (Step("phase2", "JB_PROCESS(state1, path, end_spec, end_value, 'phase2', mass)", "text"),)
 )
 
+#: a state's working: its properties read back through the property model (SI asked; the
+#: audit shows them in its working units)
+_STATE_STEPS = tuple(
+    Step(sym, f"JB_PROP(substance, '{sym} in {unit}', spec1, value1, spec2, value2)", kind)
+    for sym, unit, kind in (
+        ("T", "K", "temperature"),
+        ("P", "Pa", "pressure"),
+        ("v", "m3/kg", "specific_volume"),
+        ("u", "J/kg", "specific_energy"),
+        ("h", "J/kg", "specific_energy"),
+        ("s", "J/(kg*K)", "specific_entropy"),
+    )
+) + (Step("phase", "JB_PHASE(substance, spec1, value1, spec2, value2)", "text"),)
+
 FAMILIES = {
     "state": "States and real-fluid properties",
     "gas": "Ideal gases",
@@ -302,6 +316,7 @@ CATALOG: tuple[Func, ...] = (
         "state = (fluid, two independent properties)",
         (_REF_COOLPROP,),
         Example(("water", "T in degC", 25, "P in kPa", 200), "water | T = 25 degC | P = 200 kPa"),
+        working=Working(steps=_STATE_STEPS),
     ),
     Func(
         "JB_PROP",

@@ -415,9 +415,11 @@ def _working(f: Func, si: dict, kinds: dict, units_text) -> tuple[list[Line], ob
     for s in steps + ([res] if res else []):
         kind = s.kind if s is not res else (f.result if f.result not in ("asked",) else None)
         shown = "" if s.value is None else show(s.value, kind if kind != "number" else None)
-        out.append(
-            Line(s.symbol, s.formula, s.substituted, shown, s.error, s.formula.startswith("JB_"))
-        )
+        text = s.formula
+        if text.startswith("JB_") and kind and kind not in ("text", "number"):
+            # the call asks in SI; it is shown in the working's units: say so in its text
+            text = re.sub(r" in [^'\"]+(['\"])", rf" in {ws.unit(kind)}\1", text)
+        out.append(Line(s.symbol, text, s.substituted, shown, s.error, text.startswith("JB_")))
     return out, (res.value if res is not None else None)
 
 
@@ -768,10 +770,14 @@ def _own_label_flags(e: Entry) -> list[str]:
 
 
 def _cut_off_flags(c: Cell, sc: SubCall, engine: Engine, values: dict) -> list[str]:
-    """An array range smaller than the table the call returns: rows or columns cut off."""
+    """An array range smaller than the table the call returns: rows or columns cut off; a
+    table function entered in one cell shows only its first value."""
     box = _box(c)
-    if box is None:
+    table = isinstance(sc._f.example.value, list)  # type: ignore[attr-defined]
+    if box is None and not table:
         return []
+    if box is None:
+        box = (c.row, c.col, c.row, c.col)
     try:
         full = engine.evaluate(c.sheet, c.row, c.col, sc.text, values)
     except Exception:
@@ -785,6 +791,12 @@ def _cut_off_flags(c: Cell, sc: SubCall, engine: Engine, values: dict) -> list[s
     h, w = box[2] - box[0] + 1, box[3] - box[1] + 1
     if n <= h and m <= w:
         return []
+    if h == w == 1:
+        return [
+            f"{sc.function} returns a table of {n} × {m} values but is entered in one cell, "
+            f"which shows only its first value ({fmt(rows[0][0]) if rows and rows[0] else ''}): "
+            f"enter it as an array formula over {n} rows × {m} columns"
+        ]
     return [
         f"the array range {c.array_ref} shows {min(n, h)} × {min(m, w)} of the {n} × {m} "
         f"values {sc.function} returns: rows or columns are cut off; widen the range"
@@ -1026,12 +1038,18 @@ def _fingerprint(sc: SubCall) -> str:
         for st in w.steps:
             used |= names_in(st.expr)
     si = sc._si  # type: ignore[attr-defined]
-    payload = repr(
-        (
-            sorted((k, repr(si.get(k))) for k in used),
-            repr(_figure_system(sc._argvals, sc._system).units),  # type: ignore[attr-defined]
-        )
-    )
+    # the path, not the units it is asked in: one figure per path, drawn in the units of the
+    # first cell that asks for it
+    key = {k: si.get(k) for k in used if k != "end_spec"}
+    spec, value = si.get("end_spec"), si.get("end_value")
+    if "end_spec" in used and isinstance(spec, str) and isinstance(value, float):
+        sym, sep, unit = spec.partition(" in ")
+        try:
+            ph = parse_phrase(sym.strip().removesuffix("2") + sep + unit, sc._system)  # type: ignore[attr-defined]
+            key["end_value"] = (ph.symbol, float(f"{ph.conv.to_si(value):.10g}"))
+        except (JoulebookError, AttributeError):
+            key["end_spec"] = spec
+    payload = repr(sorted((k, repr(v)) for k, v in key.items()))
     return hashlib.sha256(payload.encode()).hexdigest()
 
 
