@@ -7,12 +7,14 @@ clean column is one entry with every row passing, and the same column with one s
 planted wrong lists that row on its own, red.
 """
 
+import re
 from datetime import date
 from pathlib import Path
 
 import openpyxl
 import pytest
 from openpyxl.workbook.defined_name import DefinedName
+from openpyxl.worksheet.formula import ArrayFormula
 
 from joulebook.cli import main
 from joulebook.workbook.audit import build_audit
@@ -269,3 +271,39 @@ def test_demo_writes_an_html_and_a_pdf_package_per_workbook(tmp_path):
         pages = PdfReader(r["pdf"]).pages
         assert 1 <= len(pages) <= 40, (name, len(pages))
         assert f"page 1 of {len(pages)}" in pages[0].extract_text()
+
+
+def _two_sheets(path: Path) -> Path:
+    """Inputs on one sheet, the calculation on another: a state, its end state spilled as a
+    table, a cell reading one value of the spill, an input with no label."""
+    wb = openpyxl.Workbook()
+    data = wb.active
+    data.title = "Data"
+    data["A1"], data["B1"] = "Fill temperature (degC)", 25
+    data["A2"], data["B2"] = "Mass [kg]", 2
+    data["D5"] = 3  # no label: named by its address
+    calc = wb.create_sheet("Calc")
+    calc["A1"], calc["B1"] = (
+        "Start state",
+        '=JB_STATE("water","T in degC",Data!B1,"x",0.0005)',
+    )
+    calc["A3"] = "End state"
+    calc["B4"] = ArrayFormula("B4:D16", '=JB_PROCESS_TABLE(B1,"rigid","P2 in bar",Data!D5,Data!B2)')
+    calc["A18"], calc["B18"] = "End temperature, plus 1 K", "=C5+1"
+    wb.save(path)
+    return _recalc(path)
+
+
+def test_map_and_inputs_across_sheets_with_a_spilled_result(tmp_path):
+    p = build_package(build_audit(read_book(_two_sheets(tmp_path / "two.xlsx")), figures=False))
+    svg = dict(p.maps)["Calc"]
+    assert ">Data!B1<" in svg and "Fill temperature (degC)" in svg  # a cross-sheet input
+    assert ">Data!D5<" in svg and "cell Data!D5" in svg  # no label: named by its address
+    assert ">B4:D16<" in svg  # the spilled result, as its range
+    assert ">C5<" not in svg  # the spilled cell B18 reads is the table's node, not an input
+    ins = [i.where for i in p.inputs]
+    assert ins == ["Data!B1", "Data!B2", "Data!D5"]  # no spilled cell among the inputs
+    b18 = next(it for it in p.items if it.entry.cell == "B18")
+    b4 = next(it for it in p.items if it.entry.cell == "B4")
+    node = {n: None for n in re.findall(r'href="#([^"]+)"', svg)}
+    assert b18.entry.anchor in node and b4.entry.anchor in node

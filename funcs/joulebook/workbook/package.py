@@ -276,11 +276,12 @@ def _inputs(book: Book, items: list[Item]) -> list[InputRow]:
                             (i.unit, f"the call's unit system ({sc.function}, {i.name})"),
                         )
     seen: dict[tuple, None] = {}
+    spilled = _spills(book, items)
     for it in items:
         for m in it.members:
             for k in cell_refs(m.formula.lstrip("="), m.sheet):
                 c = book.cells.get(k)
-                if c is None or c.formula is None:
+                if (c is None or c.formula is None) and k not in spilled:
                     seen.setdefault(k, None)
     keys = sorted(
         seen, key=lambda k: (book.sheets.index(k[0]) if k[0] in book.sheets else 0, k[2], k[1])
@@ -308,6 +309,25 @@ def _inputs(book: Book, items: list[Item]) -> list[InputRow]:
                 where = f"{k[0]}!{col_letters(k[2])}{k[1]}"
                 out.append(InputRow(where, lab, _cell_value(book, k), unit, src))
         i = j + 1
+    return out
+
+
+def _spills(book: Book, items: list[Item]) -> dict[tuple, Item]:
+    """Every cell of an array or spilled result, mapped to the item whose formula fills it."""
+    from .refs import parse_ref
+
+    out: dict[tuple, Item] = {}
+    for it in items:
+        for m in it.members:
+            c = book.cells.get(m.key)
+            if c is None or not c.array_ref or ":" not in c.array_ref:
+                continue
+            r = parse_ref(c.array_ref)
+            if r is None or r.kind != "area" or (r.r2 - r.r1 + 1) * (r.c2 - r.c1 + 1) > 100_000:
+                continue
+            for row in range(r.r1, r.r2 + 1):
+                for col in range(r.c1, r.c2 + 1):
+                    out.setdefault((m.sheet, row, col), it)
     return out
 
 
@@ -444,7 +464,8 @@ def _maps(book: Book, items: list[Item]) -> list[tuple[str, str]]:
     """One map per sheet (one per chain when a sheet's map is large): a group is one node,
     a precedent on another sheet is a node named by its sheet, an input by its label or its
     address."""
-    owner: dict[tuple, Item] = {m.key: it for it in items for m in it.members}
+    owner: dict[tuple, Item] = {**_spills(book, items)}  # a spilled cell is its formula's
+    owner.update({m.key: it for it in items for m in it.members})
     out = []
     for sheet in dict.fromkeys(it.entry.sheet for it in items):
         nodes: dict = {}
@@ -461,6 +482,9 @@ def _maps(book: Book, items: list[Item]) -> list[tuple[str, str]]:
                 else "formula"
             )
             ref = f"{it.span} ×{it.size}" if it.grouped else it.span
+            cell = book.cells.get(e.key)
+            if not it.grouped and cell is not None and cell.array_ref and ":" in cell.array_ref:
+                ref = cell.array_ref  # a spilled result: its whole range
             nodes[e.key] = Node(e.key, ref, e.label or "(no label)", kind, [], e.anchor)
             pre: dict = {}
             pinned = set(cell_refs(e.formula.lstrip("="), sheet)) & set(
