@@ -241,7 +241,7 @@ def _write_text(path: str, text: str) -> bool:
 
 
 def _check(ns: argparse.Namespace) -> int:
-    from .workbook.check import fmt
+    from .workbook.console import failing_rows, summary_words
 
     paths, unmatched = _workbook_paths(ns.books)
     for spec in unmatched:
@@ -268,13 +268,7 @@ def _check(ns: argparse.Namespace) -> int:
             continue
         bad = res["failing"]
         if bad:
-            print(f"{'cell':<24} {'status':<16} {'saved':>18} {'recomputed':>18}  formula")
-            for r in bad[: ns.max_rows]:
-                print(
-                    f"{r['sheet'] + '!' + r['cell']:<24} {r['status']:<16} "
-                    f"{fmt(r['cached'])[:18]:>18} {fmt(r['recomputed'])[:18]:>18}  "
-                    f"{r['formula'][:60]}"
-                )
+            print("\n".join(failing_rows(bad[: ns.max_rows])))
             if len(bad) > ns.max_rows:
                 print(f"… {len(bad) - ns.max_rows} more (see --json)")
         relaxed = [
@@ -284,7 +278,7 @@ def _check(ns: argparse.Namespace) -> int:
         ]
         print(
             (f"{res['path']}: " if many else "")
-            + ", ".join(f"{v} {k}" for k, v in res["summary"].items())
+            + summary_words(res["summary"])
             + f"; tolerance rtol={ns.rtol:g}, atol={ns.atol:g}"
             + (f"; relaxed: {', '.join(relaxed)} allowed" if relaxed else "")
             + f"; {len(bad)} failing"
@@ -452,8 +446,8 @@ def check_one(job, shown_as: str | None = None) -> dict:
 def _combined_json(results: list, ns, many: bool) -> str:
     import json
 
-    if not many and not results[0]["message"]:
-        return results[0]["json"]
+    # one shape for one workbook and for many: a list of workbooks (schema:
+    # joulebook/workbook/schemas/check.schema.json, docs/ci.md)
     books = []
     for r in results:
         if r["message"]:
