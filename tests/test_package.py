@@ -307,3 +307,16 @@ def test_map_and_inputs_across_sheets_with_a_spilled_result(tmp_path):
     b4 = next(it for it in p.items if it.entry.cell == "B4")
     node = {n: None for n in re.findall(r'href="#([^"]+)"', svg)}
     assert b18.entry.anchor in node and b4.entry.anchor in node
+
+
+def test_copies_false_works_out_the_first_row_and_the_failing_rows_only(record, tmp_path):
+    bad = with_saved(record, tmp_path / "record-bad.xlsx", {"Record!B251": 0.5})
+    a = build_audit(read_book(bad), figures=False, copies=False, maps=False)
+    by = {e.cell: e for e in a.entries}
+    assert by["B2"].calls[0].working  # the group's working, with the first row's numbers
+    assert by["B251"].calls[0].working  # a failing row is shown in full
+    assert by["B3"].calls[0].working == [] and by["B3"].status == "pass"
+    # the verdicts and flags of every row are the full audit's
+    full = {e.cell: (e.status, e.flags) for e in build_audit(read_book(bad), figures=False).entries}
+    assert {c: (e.status, e.flags) for c, e in by.items()} == full
+    assert a.maps == {}

@@ -607,7 +607,7 @@ def _audit(ns: argparse.Namespace) -> int:
         return 2
     bar = _progress()
     try:
-        report = build_audit(book, progress=_cells_only(bar))
+        report = build_audit(book, progress=_cells_only(bar), copies=False, maps=False)
     finally:
         bar.close()
     from .workbook.package import build_package, render_package, write_pdf

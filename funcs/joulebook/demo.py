@@ -764,7 +764,7 @@ def run_demo(folder: str | Path = "joulebook-demo", echo=print, pdf: bool = True
         s = summary(rows)
         report = folder / "reports" / (path.stem + ".html")
         report.parent.mkdir(parents=True, exist_ok=True)
-        audit = build_audit(checked, outcomes=outcomes)
+        audit = build_audit(checked, outcomes=outcomes, copies=False, maps=False)
         text = render_package(build_package(audit))
         html = text.encode("utf-8")
         atomic_write(report, lambda fh, html=html: fh.write(html))

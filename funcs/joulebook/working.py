@@ -182,6 +182,11 @@ def names_in(expr: str) -> set[str]:
     .. [1] Python Software Foundation, "ast — Abstract Syntax Trees", The Python Standard
        Library documentation (the parser the expressions go through; never ``eval``).
     """
+    return set(_names(expr))
+
+
+@lru_cache(maxsize=512)
+def _names(expr: str) -> frozenset[str]:
     out = set()
     for node in ast.walk(_parse(expr)):
         if isinstance(node, ast.Name) and node.id not in _CONST:
@@ -189,7 +194,7 @@ def names_in(expr: str) -> set[str]:
     for node in ast.walk(_parse(expr)):
         if isinstance(node, ast.Call):
             out.discard(node.func.id)  # type: ignore[attr-defined]
-    return out
+    return frozenset(out)
 
 
 def evaluate(expr: str, values: dict, call: Callable | None = None):

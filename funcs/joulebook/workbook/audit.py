@@ -423,7 +423,9 @@ def _working(f: Func, si: dict, kinds: dict, units_text) -> tuple[list[Line], ob
     return out, (res.value if res is not None else None)
 
 
-def _sub_call(name, args, text, c: Cell, book, values, engine, whole: bool, result):
+def _sub_call(
+    name, args, text, c: Cell, book, values, engine, whole: bool, result, worked: bool = True
+):
     f = lookup(name)
     argvals, sources = {}, {}
     for a, t in zip(f.all_args, args + [""] * (len(f.all_args) - len(args))):
@@ -458,7 +460,10 @@ def _sub_call(name, args, text, c: Cell, book, values, engine, whole: bool, resu
         si[a.name] = v
     qkinds = {a.name: a.quantity for a in f.all_args if a.quantity}  # numbers held in SI
     try:
-        lines, _ = _working(f, si, qkinds, units_text)
+        # a copied-down row's working is its group's first row's; worked out anyway where a
+        # step carries a plausibility band (a flag may hang on it)
+        band = f.working is not None and f.working.band
+        lines = _working(f, si, qkinds, units_text)[0] if worked or band else []
     except JoulebookError:
         lines = []
     sc = SubCall(
@@ -877,8 +882,14 @@ def build_audit(
     atol: float = 1e-12,
     figures: bool = True,
     progress=None,
+    copies: bool = True,
+    maps: bool = True,
 ) -> Audit:
-    """Every formula cell of *book* explained, with one status and its flags."""
+    """Every formula cell of *book* explained, with one status and its flags.
+
+    ``copies=False`` leaves out the working lines of a copied-down cell that is not the
+    first of its group (:mod:`.groups`; the package shows the working once per group);
+    ``maps=False`` leaves out the per-sheet maps (the package draws its own)."""
     engine = Engine(book)
     outcomes = outcomes if outcomes is not None else engine.run()
     rows = compare(book, outcomes, rtol, atol)
@@ -890,6 +901,14 @@ def build_audit(
     entries: list[Entry] = []
     by_key: dict = {}
     drawn: dict[str, str] = {}  # figure hash -> where it was first drawn
+    firsts = None
+    if not copies:
+        from .groups import runs
+
+        firsts = {
+            r.keys[0]
+            for r in runs(((c.sheet, c.row, c.col), c.raw_formula or c.formula) for c in cells)
+        }
     for i, c in enumerate(cells):
         key = (c.sheet, c.row, c.col)
         o = outcomes.get(key)
@@ -905,7 +924,18 @@ def build_audit(
         for j, (name, args, text) in enumerate(found):
             try:
                 calls.append(
-                    _sub_call(name, args, text, c, book, values, engine, whole and j == 0, result)
+                    _sub_call(
+                        name,
+                        args,
+                        text,
+                        c,
+                        book,
+                        values,
+                        engine,
+                        whole and j == 0,
+                        result,
+                        firsts is None or key in firsts or row is None or row.status != "pass",
+                    )
                 )
             except JoulebookError:
                 continue  # an unknown JB_ name: the engine's status names it
@@ -1004,7 +1034,8 @@ def build_audit(
         generated=_dt.datetime.now(_dt.timezone.utc).strftime("%Y-%m-%d %H:%M UTC"),
         library=f"joulebook {__version__}; {coolprop_version()}",
     )
-    audit.maps = _maps(audit)
+    if maps:
+        audit.maps = _maps(audit)
     return audit
 
 

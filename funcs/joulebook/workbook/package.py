@@ -262,7 +262,7 @@ def _label_unit(label: str) -> str:
     return ""
 
 
-def _inputs(book: Book, items: list[Item]) -> list[InputRow]:
+def _inputs(book: Book, items: list[Item], _refs) -> list[InputRow]:
     """Every cell a formula reads that is not a formula; a group's column of inputs as one
     row (its range, how many values, first and last)."""
     call_units: dict[tuple, tuple[str, str]] = {}
@@ -279,7 +279,7 @@ def _inputs(book: Book, items: list[Item]) -> list[InputRow]:
     spilled = _spills(book, items)
     for it in items:
         for m in it.members:
-            for k in cell_refs(m.formula.lstrip("="), m.sheet):
+            for k in _refs(m):
                 c = book.cells.get(k)
                 if (c is None or c.formula is None) and k not in spilled:
                     seen.setdefault(k, None)
@@ -359,7 +359,7 @@ def _unit_of(book: Book, k, lab: str, call_units: dict) -> tuple[str, str]:
     return "", "none written: a pure number, or a unit the workbook does not say"
 
 
-def _results(book: Book, items: list[Item], by_key: dict) -> tuple[list[ResultRow], str]:
+def _results(book: Book, items: list[Item], by_key: dict, _refs) -> tuple[list[ResultRow], str]:
     named = []
     for name, target in book.names.items():
         if RESULT_NAME.match(name):
@@ -373,7 +373,7 @@ def _results(book: Book, items: list[Item], by_key: dict) -> tuple[list[ResultRo
         read: set = set()
         for it in items:
             for m in it.members:
-                read.update(cell_refs(m.formula.lstrip("="), m.sheet))
+                read.update(_refs(m))
         chosen = [
             it.members[-1]
             for it in items
@@ -460,7 +460,7 @@ def _cautions(items: list[Item]) -> list[tuple[str, str]]:
 # maps
 
 
-def _maps(book: Book, items: list[Item]) -> list[tuple[str, str]]:
+def _maps(book: Book, items: list[Item], _refs) -> list[tuple[str, str]]:
     """One map per sheet (one per chain when a sheet's map is large): a group is one node,
     a precedent on another sheet is a node named by its sheet, an input by its label or its
     address."""
@@ -487,11 +487,9 @@ def _maps(book: Book, items: list[Item]) -> list[tuple[str, str]]:
                 ref = cell.array_ref  # a spilled result: its whole range
             nodes[e.key] = Node(e.key, ref, e.label or "(no label)", kind, [], e.anchor)
             pre: dict = {}
-            pinned = set(cell_refs(e.formula.lstrip("="), sheet)) & set(
-                cell_refs(it.members[-1].formula.lstrip("="), sheet)
-            )
+            pinned = set(_refs(e)) & set(_refs(it.members[-1]))
             for m in it.members:
-                for p in cell_refs(m.formula.lstrip("="), sheet):
+                for p in _refs(m):
                     src = owner.get(p)
                     if src is not None:
                         if src is not it:
@@ -582,12 +580,17 @@ def build_package(audit: Audit, paper: str = "a4") -> Package:
         raise BadInput(f"paper {paper!r} is not one of {', '.join(PAPERS)}")
     book = audit.book
     by_key = {e.key: e for e in audit.entries}
+    reads = {e.key: cell_refs(e.formula.lstrip("="), e.sheet) for e in audit.entries}
+
+    def _refs(e: Entry) -> list:
+        return reads[e.key]
+
     rs = runs((e.key, e.formula) for e in audit.entries)
     items = [_item(r, by_key) for r in rs]
     tb = read_title_block(book)
     refs, models = _references(items)
     listed = _listed(book)
-    results, how = _results(book, items, by_key)
+    results, how = _results(book, items, by_key, _refs)
     flags: list[tuple[Item, str, str]] = []
     for it in items:
         for f in it.entry.flags:
@@ -605,7 +608,7 @@ def build_package(audit: Audit, paper: str = "a4") -> Package:
         audit,
         tb,
         items,
-        _inputs(book, items),
+        _inputs(book, items, _refs),
         results,
         how,
         refs,
@@ -614,7 +617,7 @@ def build_package(audit: Audit, paper: str = "a4") -> Package:
         listed["assumptions"],
         _cautions(items),
         flags,
-        _maps(book, items),
+        _maps(book, items, _refs),
         tb.get("scope"),
         PAPERS[paper.lower()],
     )
