@@ -320,3 +320,14 @@ def test_copies_false_works_out_the_first_row_and_the_failing_rows_only(record, 
     full = {e.cell: (e.status, e.flags) for e in build_audit(read_book(bad), figures=False).entries}
     assert {c: (e.status, e.flags) for c, e in by.items()} == full
     assert a.maps == {}
+
+
+@pytest.mark.parametrize("name", ["air_standard_cycle.xlsx", "wet_steam_vessel.xlsx"])
+def test_maps_stay_legible_on_a4(name):
+    """A long chain wraps into bands of three columns: no map wider than about 1.5 times the
+    printed column (A4 less margins, 182 mm ≈ 690 px), so its 10-11 px text prints at 7 px or
+    more (common practice: 6-7 pt is the smallest legible print)."""
+    root = Path(__file__).resolve().parents[1] / "workbooks"
+    p = build_package(build_audit(read_book(root / name), figures=False, maps=False))
+    widths = [int(re.search(r'width="(\d+)"', svg).group(1)) for _, svg in p.maps]
+    assert widths and max(widths) <= 1040, widths

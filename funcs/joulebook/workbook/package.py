@@ -57,6 +57,8 @@ _HEAD_ROWS, _TAIL_ROWS = 120, 20
 PAPERS = {"a4": "A4", "letter": "letter"}
 #: nodes past which a sheet's map is split into one map per chain
 MAP_SPLIT = 24
+#: columns of depth side by side in a map (deeper ones continue below): legible on A4
+MAP_COLUMNS = 3
 RESULT_NAME = re.compile(r"^RESULTS?([_.]|$)", re.I)
 
 
@@ -530,7 +532,7 @@ def _maps(book: Book, items: list[Item], _refs) -> list[tuple[str, str]]:
         for i, chain in enumerate(chains):
             title = sheet if len(chains) == 1 else f"{sheet}, chain {i + 1} of {len(chains)}"
             ordered = sorted(chain, key=_node_order)
-            svg = calc_map(ordered, title)
+            svg = calc_map(ordered, title, wrap=MAP_COLUMNS)
             if svg:
                 out.append((title, svg))
     return out
