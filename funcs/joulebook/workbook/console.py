@@ -54,10 +54,11 @@ def failing_rows(rows: list[dict], width: int | None = None) -> list[str]:
     ...          "recomputed": "BadInput: Q_dot = -5 W is below 0 W; give a heat input of 0 W or more",
     ...          "formula": "JB_TIME_HEATING(B1,-5)"}]
     >>> print("\\n".join(failing_rows(rows, width=72)))
-    cell        status      saved            recomputed                formula
-    S!B2        error       1                BadInput: Q_dot = -5 W is JB_TIME_HEATING(B1,-5)
-                                             below 0 W; give a heat
-                                             input of 0 W or more
+    cell          status            saved           recomputed              formula
+    S!B2          error             1               BadInput: Q_dot = -5 W  JB_TIME_HEATING(B1,-5)
+                                                    is below 0 W; give a
+                                                    heat input of 0 W or
+                                                    more
     """
     width = width or max(80, min(shutil.get_terminal_size((120, 24)).columns, 200))
     cols = [("cell", 14), ("status", 18), ("saved", 16), ("recomputed", 24)]
