@@ -50,15 +50,28 @@ def _e(a, cell):
 
 
 def _call_units_agree(a) -> list:
-    """Working lines whose call asks in one unit and shows its value in another."""
+    """Working lines whose call asks in one unit and shows its value in another, or whose
+    own text (the catalog's phrases, not the workbook's arguments) asks in a unit other than
+    the working's (K, kPa, kJ …)."""
     bad = []
+    working = {"K", "kPa", "kJ", "kJ/kg", "kJ/(kg*K)", "m3/kg", "kg/m3", "m3", "kg"}
     for e in a.entries:
         for sc in e.calls:
             for ln in sc.working:
-                m = re.search(r" in ([^'\"]+)['\"]", ln.formula)
-                if ln.call and m and ln.value and not ln.value.endswith(pretty_unit(m.group(1))):
-                    bad.append((e.cell, ln.symbol, ln.formula, ln.value))
+                units = re.findall(r" in ([^'\"]+)['\"]", ln.formula)
+                if any(u not in working for u in units):
+                    bad.append((e.cell, ln.symbol, ln.formula))
+                if ln.call and units and ln.value:
+                    if not ln.value.endswith(pretty_unit(units[-1])):
+                        bad.append((e.cell, ln.symbol, ln.formula, ln.value))
     return bad
+
+
+def test_a_workbook_phrase_in_a_working_is_never_rewritten(piston):
+    """The start state's 'T in degC' (the workbook's argument, 25 in degC) stays as written
+    beside its value; only the catalog's own phrases follow the working's units."""
+    t = next(ln for ln in _e(piston, "B1").calls[0].working if ln.symbol == "T")
+    assert "'T in degC', 25" in t.substituted and "'T in K'" in t.formula
 
 
 def test_call_text_asks_in_the_unit_its_value_is_shown_in(piston):
@@ -70,7 +83,9 @@ def test_call_text_asks_in_the_unit_its_value_is_shown_in(piston):
     assert _call_units_agree(piston) == []
 
 
-@pytest.mark.parametrize("name", ["piston_on_stops.xlsx", "wet_steam_vessel.xlsx"])
+@pytest.mark.parametrize(
+    "name", ["piston_on_stops.xlsx", "wet_steam_vessel.xlsx", "receiver_pneumatic_test.xlsx"]
+)
 def test_demo_working_lines_agree_with_their_units(name):
     assert _call_units_agree(build_audit(read_book(WORKBOOKS / name), figures=False)) == []
 
@@ -100,3 +115,14 @@ def test_table_function_in_one_cell_is_flagged_and_as_an_array_is_not(piston):
     assert any("entered in one cell" in f and "13 rows" in f for f in one.flags), one.flags
     arr = _e(piston, "B10")
     assert not any("entered in one cell" in f for f in arr.flags), arr.flags
+
+
+def test_hydrotest_working_has_its_numbers_substituted():
+    a = build_audit(read_book(WORKBOOKS / "receiver_pneumatic_test.xlsx"), figures=False)
+    e = next(e for e in a.entries if e.function == "JB_TEST_HYDRO_ENERGY")
+    lines = {ln.symbol: ln for ln in e.calls[0].working}
+    assert set(lines) >= {"m", "u1", "u2", "E_liquid", "P", "dP"}
+    assert all(not ln.error and ln.value for ln in lines.values())
+    liquid = lines["E_liquid"]
+    assert liquid.formula == "m·(u1 − u2)" and "kg·(" in liquid.substituted
+    assert lines["dP"].substituted.endswith("− 101.325 kPa")

@@ -1459,6 +1459,23 @@ CATALOG: tuple[Func, ...] = (
         (_REF_COOLPROP, _REF_IAPWS, _REF_THIN_WALL),
         Example(("water | T = 20 degC | P = 12 bar", 2), 0.6507293801249098, 1e-6),
         caution=True,
+        # the liquid's part worked out with its numbers; the wall's ½·c·V·ΔP² takes the
+        # compliance of the shape named (the equation above), so no closed-form result line
+        working=Working(
+            steps=(
+                Step("m", "V*JB_PROP(state, 'rho in kg/m3')", "mass"),
+                Step("u_1", "JB_PROP(state, 'u in J/kg')", "specific_energy"),
+                Step(
+                    "u_2",
+                    "JB_PROCESS(state, 'isentropic', 'P2 in Pa', P_amb, 'u2 in J/kg')",
+                    "specific_energy",
+                ),
+                Step("E_liquid", "m*(u_1 - u_2)", "energy"),
+                Step("P", "JB_PROP(state, 'P in Pa')", "pressure"),
+                Step("dP", "P - P_amb", "pressure"),
+            ),
+            defaults=(("P_amb", 101325.0),),
+        ),
     ),
     Func(
         "JB_TEST_TNT",

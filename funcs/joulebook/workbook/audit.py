@@ -403,6 +403,44 @@ def _display(system):
     return show
 
 
+def _one_call(text: str) -> bool:
+    """Whether a working expression is one catalog call and nothing else."""
+    if not text.startswith("JB_") or not text.endswith(")") or "(" not in text:
+        return False
+    depth = 0
+    for i, ch in enumerate(text):
+        depth += ch == "("
+        depth -= ch == ")"
+        if depth == 0 and ch == ")":
+            return i == len(text) - 1
+    return False
+
+
+_PHRASE = re.compile(r"(['\"][^'\"]*? in )([^'\"]+)(['\"])")
+
+
+def _in_units(text: str, system) -> str:
+    """A working expression with each quoted unit phrase it writes (``'Q in J'``,
+    ``'P2 in Pa'``: the catalog's, asking in SI) in *system*'s unit of its quantity, as its
+    values are shown; a phrase that does not parse stays as written.  Phrases a workbook
+    passes in are arguments, substituted later, and never rewritten."""
+
+    def swap(m: re.Match) -> str:
+        sym = m.group(1)[1:-4].strip()
+        try:
+            ph = parse_phrase(f"{sym.removesuffix('2').removesuffix('1')} in {m.group(2)}")
+            kind = ph.kind
+        except (JoulebookError, AttributeError, KeyError):
+            found = eye.unit_kind(m.group(2))  # a symbol of a result (dU): its unit's kind
+            if found is None:
+                return m.group(0)
+            kind = found[0]
+        unit = system.unit(kind)
+        return m.group(1) + (unit or m.group(2)) + m.group(3)
+
+    return _PHRASE.sub(swap, text)
+
+
 def _working(f: Func, si: dict, kinds: dict, units_text) -> tuple[list[Line], object]:
     """The working lines of a call, and the value of its result line (SI) or None."""
     w = f.working
@@ -410,16 +448,14 @@ def _working(f: Func, si: dict, kinds: dict, units_text) -> tuple[list[Line], ob
         return [], None
     ws = unit_system(WORKING_SYSTEM)
     show = _display(ws)
-    steps, res = work_out(w, si, working_call(units_text), show, kinds)
+    steps, res = work_out(
+        w, si, working_call(units_text), show, kinds, text=lambda e: _in_units(e, ws)
+    )
     out = []
     for s in steps + ([res] if res else []):
         kind = s.kind if s is not res else (f.result if f.result not in ("asked",) else None)
         shown = "" if s.value is None else show(s.value, kind if kind != "number" else None)
-        text = s.formula
-        if text.startswith("JB_") and kind and kind not in ("text", "number"):
-            # the call asks in SI; it is shown in the working's units: say so in its text
-            text = re.sub(r" in [^'\"]+(['\"])", rf" in {ws.unit(kind)}\1", text)
-        out.append(Line(s.symbol, text, s.substituted, shown, s.error, text.startswith("JB_")))
+        out.append(Line(s.symbol, s.formula, s.substituted, shown, s.error, _one_call(s.formula)))
     return out, (res.value if res is not None else None)
 
 
