@@ -126,3 +126,13 @@ def test_hydrotest_working_has_its_numbers_substituted():
     liquid = lines["E_liquid"]
     assert liquid.formula == "m·(u1 − u2)" and "kg·(" in liquid.substituted
     assert lines["dP"].substituted.endswith("− 101.325 kPa")
+
+
+def test_a_spilled_table_is_the_result_not_its_first_heading(tmp_path):
+    from joulebook.workbook.package import build_package, render_package
+
+    html = render_package(
+        build_package(build_audit(read_book(WORKBOOKS / "piston_on_stops.xlsx"), figures=False))
+    )
+    assert "Result:</strong> the table below, 12 rows × 5 columns" in html
+    assert "Result:</strong> V in m3" not in html
