@@ -331,3 +331,36 @@ def test_maps_stay_legible_on_a4(name):
     p = build_package(build_audit(read_book(root / name), figures=False, maps=False))
     widths = [int(re.search(r'width="(\d+)"', svg).group(1)) for _, svg in p.maps]
     assert widths and max(widths) <= 1040, widths
+
+
+def _runs_book(path: Path, rows: int) -> Path:
+    """A copied-down check of a gauge pressure against a relief set in absolute (a planted
+    slip the audit flags on each row whose headings it reads)."""
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws.title = "Runs"
+    ws["A1"], ws["B1"], ws["C1"] = "Gauge pressure (barg)", "Relief set (bar)", "Lifts?"
+    for r in range(2, rows + 2):
+        ws[f"A{r}"], ws[f"B{r}"] = 4 + r, 10
+        ws[f"C{r}"] = f'=IF(A{r}>B{r},"lifts","holds")'
+    wb.save(path)
+    return _recalc(path)
+
+
+@pytest.mark.parametrize("rows", [3, 5])
+def test_a_flag_of_the_first_row_says_how_many_rows_raise_it(tmp_path, rows):
+    """A group's flag is raised once, with the number of its rows that raise it, counted
+    from the audit's own verdicts: never claimed for every row when some do not raise it."""
+    a = build_audit(read_book(_runs_book(tmp_path / "runs.xlsx", rows)), figures=False)
+    raising = sum(any("compares a gauge pressure" in f for f in e.flags) for e in a.entries)
+    assert raising >= 1
+    p = build_package(a)
+    (it,) = p.items
+    assert it.size == rows and it.span == f"C2:C{rows + 1}"
+    (note,) = [f for _, _, f in p.flags]
+    if raising == rows:
+        assert note.endswith(f"(on each of the {rows} rows)"), note
+    else:
+        assert note.endswith(f"(on {raising} of the {rows} rows, the first among them)"), note
+    # the inputs each row reads from its own cells, by their labels
+    assert it.columns == ["Gauge pressure (barg)", "Relief set (bar)"]

@@ -84,7 +84,7 @@ class Item:
     rows: list[GroupRow] = field(default_factory=list)
     elided: int = 0  # passing rows between the first and the last rows shown
     own: list[Entry] = field(default_factory=list)  # rows listed again on their own
-    shared_flags: list[str] = field(default_factory=list)  # raised on the first row
+    flag_rows: dict[str, int] = field(default_factory=dict)  # first row's flag -> rows raising it
 
     @property
     def size(self) -> int:
@@ -189,8 +189,9 @@ def _item(run: Run, by_key: dict[tuple, Entry]) -> Item:
     it = Item(head, members, run.span)
     if not it.grouped:
         return it
-    it.shared_flags = list(head.flags)
     shapes = {_shape(f) for f in head.flags}
+    raised = [{_shape(f) for f in m.flags} for m in members]
+    it.flag_rows = {f: sum(_shape(f) in r for r in raised) for f in head.flags}
     n = min(len(m.inputs) for m in members)
     varying = [
         i
@@ -223,12 +224,22 @@ def _item(run: Run, by_key: dict[tuple, Entry]) -> Item:
     return it
 
 
+def _rows_note(it: Item, flag: str) -> str:
+    n = it.flag_rows.get(flag, 1)
+    if n == it.size:
+        return f" (on each of the {it.size} rows)"
+    return f" (on {n} of the {it.size} rows, the first among them)"
+
+
 def _column_name(i) -> str:
-    """An input column's heading: the source cell's label, else the argument's name."""
+    """An input column's heading: the argument's name and its source cell's label; an
+    ordinary formula's input (named by a cell that moves row to row) by the label alone, else
+    its column."""
     m = re.search(r"\((.+)\)$", i.source)
-    if i.source.startswith(("cell", "formula")) and m:
-        return f"{i.name} · {m.group(1)}" if not i.name.startswith(i.source[5:]) else m.group(1)
-    return i.name
+    label = m.group(1) if m and i.source.startswith(("cell", "formula")) else ""
+    if "!" in i.name:
+        return label or "column " + re.sub(r"\d+$", "", i.name.split("!")[-1])
+    return f"{i.name} · {label}" if label else i.name
 
 
 # ---------------------------------------------------------------------------------------
@@ -599,9 +610,7 @@ def build_package(audit: Audit, paper: str = "a4") -> Package:
             where = (
                 f"{it.entry.sheet}!{it.span}" if it.grouped else f"{it.entry.sheet}!{it.entry.cell}"
             )
-            flags.append(
-                (it, where, f + (f" (on each of the {it.size} rows)" if it.grouped else ""))
-            )
+            flags.append((it, where, f + (_rows_note(it, f) if it.grouped else "")))
         for m in it.own:
             for f in m.flags:
                 if f not in it.entry.flags:
