@@ -364,3 +364,19 @@ def test_a_flag_of_the_first_row_says_how_many_rows_raise_it(tmp_path, rows):
         assert note.endswith(f"(on {raising} of the {rows} rows, the first among them)"), note
     # the inputs each row reads from its own cells, by their labels
     assert it.columns == ["Gauge pressure (barg)", "Relief set (bar)"]
+
+
+@pytest.mark.client
+def test_pdf_keeps_each_figure_on_its_entrys_page(tmp_path):
+    """An entry and its P–V / T–s figures print on one page (they fit on one)."""
+    from pypdf import PdfReader
+
+    root = Path(__file__).resolve().parents[1] / "workbooks"
+    html, pdf = tmp_path / "piston.html", tmp_path / "piston.pdf"
+    assert (
+        main(["audit", str(root / "piston_on_stops.xlsx"), "-o", str(html), "--pdf", str(pdf)]) == 0
+    )
+    pages = [p.extract_text() for p in PdfReader(pdf).pages]
+    for heading in ("Piston!B19 — Heat until the piston lifts", "Piston!B20 — "):
+        (page,) = [t for t in pages if heading in t]
+        assert "P [bar]" in page and "T [degC]" in page, heading
