@@ -380,3 +380,17 @@ def test_pdf_keeps_each_figure_on_its_entrys_page(tmp_path):
     for heading in ("Piston!B19 — Heat until the piston lifts", "Piston!B20 — "):
         (page,) = [t for t in pages if heading in t]
         assert "P [bar]" in page and "T [degC]" in page, heading
+
+
+def test_weasyprint_is_imported_only_for_a_pdf(record, tmp_path):
+    import subprocess
+    import sys
+
+    code = (
+        "import sys; from joulebook.cli import main; "
+        f"main(['audit', {str(record)!r}, '-o', {str(tmp_path / 'r.html')!r}]); "
+        "print('weasyprint' in sys.modules)"
+    )
+    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
+    assert out.stdout.strip().splitlines()[-1] == "False"
+    assert (tmp_path / "r.html").exists()
