@@ -642,8 +642,9 @@ def _audit(ns: argparse.Namespace) -> int:
     differs = sum(e.status == "differs" for e in es)
     print(
         f"wrote {out} ({len(text) // 1024} KiB, {time.perf_counter() - t0:.1f} s): "
-        f"{_n(len(es), 'formula cell')}, {_n(passes, 'pass', 'passes')}, "
-        f"{_n(differs, 'difference')}, {_n(len(report.flags), 'flag')}"
+        f"{_n(len(es), 'formula cell')} in {_n(len(package.items), 'entry', 'entries')} "
+        f"(copied-down cells grouped), {_n(passes, 'pass', 'passes')}, "
+        f"{_n(differs, 'difference')}, {_n(len(package.flags), 'flag')}"
     )
     if ns.fail_on_flags and report.flags:
         for e, f in report.flags:
