@@ -791,5 +791,9 @@ def run_demo(folder: str | Path = "joulebook-demo", echo=print, pdf: bool = True
             "entries": len(audit.entries),
             "pdf": printed,
         }
+    # revision review: revision B of one demo workbook and its diff report (demodiff.py)
+    from .demodiff import REVISED, review
+
+    review(folder / "recalculated" / REVISED, folder / "revisions", echo)
     echo(f"\nOpen the reports in a browser: {folder / 'reports'}")
     return results
