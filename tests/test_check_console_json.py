@@ -15,7 +15,7 @@ from joulebook.cli import main
 
 
 def _schema() -> dict:
-    text = resources.files("joulebook.workbook").joinpath("schemas/check.schema.json")
+    text = resources.files("joulebook.workbook").joinpath("check.schema.json")
     return json.loads(text.read_text(encoding="utf-8"))
 
 

@@ -447,7 +447,7 @@ def _combined_json(results: list, ns, many: bool) -> str:
     import json
 
     # one shape for one workbook and for many: a list of workbooks (schema:
-    # joulebook/workbook/schemas/check.schema.json, docs/ci.md)
+    # joulebook/workbook/check.schema.json, docs/ci.md)
     books = []
     for r in results:
         if r["message"]:
