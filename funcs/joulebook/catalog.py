@@ -111,6 +111,20 @@ _PROCESS_STEPS = (
     + (Step("phase2", "JB_PROCESS(state1, path, end_spec, end_value, 'phase2', mass)", "text"),)
 )
 
+#: a state's working: its properties read back through the property model (SI asked; the
+#: audit shows them in its working units)
+_STATE_STEPS = tuple(
+    Step(sym, f"JB_PROP(substance, '{sym} in {unit}', spec1, value1, spec2, value2)", kind)
+    for sym, unit, kind in (
+        ("T", "K", "temperature"),
+        ("P", "Pa", "pressure"),
+        ("v", "m3/kg", "specific_volume"),
+        ("u", "J/kg", "specific_energy"),
+        ("h", "J/kg", "specific_energy"),
+        ("s", "J/(kg*K)", "specific_entropy"),
+    )
+) + (Step("phase", "JB_PHASE(substance, spec1, value1, spec2, value2)", "text"),)
+
 FAMILIES = {
     "state": "States and real-fluid properties",
     "gas": "Ideal gases",
@@ -302,6 +316,7 @@ CATALOG: tuple[Func, ...] = (
         "state = (fluid, two independent properties)",
         (_REF_COOLPROP,),
         Example(("water", "T in degC", 25, "P in kPa", 200), "water | T = 25 degC | P = 200 kPa"),
+        working=Working(steps=_STATE_STEPS),
     ),
     Func(
         "JB_PROP",
@@ -1444,6 +1459,23 @@ CATALOG: tuple[Func, ...] = (
         (_REF_COOLPROP, _REF_IAPWS, _REF_THIN_WALL),
         Example(("water | T = 20 degC | P = 12 bar", 2), 0.6507293801249098, 1e-6),
         caution=True,
+        # the liquid's part worked out with its numbers; the wall's ½·c·V·ΔP² takes the
+        # compliance of the shape named (the equation above), so no closed-form result line
+        working=Working(
+            steps=(
+                Step("m", "V*JB_PROP(state, 'rho in kg/m3')", "mass"),
+                Step("u_1", "JB_PROP(state, 'u in J/kg')", "specific_energy"),
+                Step(
+                    "u_2",
+                    "JB_PROCESS(state, 'isentropic', 'P2 in Pa', P_amb, 'u2 in J/kg')",
+                    "specific_energy",
+                ),
+                Step("E_liquid", "m*(u_1 - u_2)", "energy"),
+                Step("P", "JB_PROP(state, 'P in Pa')", "pressure"),
+                Step("dP", "P - P_amb", "pressure"),
+            ),
+            defaults=(("P_amb", 101325.0),),
+        ),
     ),
     Func(
         "JB_TEST_TNT",

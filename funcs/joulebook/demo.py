@@ -735,12 +735,16 @@ def _freeze_times(path: Path) -> None:
     atomic_write(path, write)
 
 
-def run_demo(folder: str | Path = "joulebook-demo", echo=print) -> dict:
-    """Build, recalculate, check and audit every demo workbook into *folder*."""
+def run_demo(folder: str | Path = "joulebook-demo", echo=print, pdf: bool = True) -> dict:
+    """Build, recalculate, check and audit every demo workbook into *folder*: an HTML
+    calculation package per workbook, and its PDF (``pdf=True``, when WeasyPrint and its
+    Pango library are there; otherwise one line says how to get them)."""
+    from .errors import BadInput
     from .files import atomic_write
-    from .workbook.audit import build_audit, render_html
+    from .workbook.audit import build_audit
     from .workbook.check import compare, summary
     from .workbook.engine import Engine
+    from .workbook.package import build_package, render_package, write_pdf
     from .workbook.reader import read_book
     from .workbook.writer import write_copy
 
@@ -760,13 +764,24 @@ def run_demo(folder: str | Path = "joulebook-demo", echo=print) -> dict:
         s = summary(rows)
         report = folder / "reports" / (path.stem + ".html")
         report.parent.mkdir(parents=True, exist_ok=True)
-        audit = build_audit(checked, outcomes=outcomes)
-        html = render_html(audit).encode("utf-8")
+        audit = build_audit(checked, outcomes=outcomes, copies=False, maps=False)
+        text = render_package(build_package(audit))
+        html = text.encode("utf-8")
         atomic_write(report, lambda fh, html=html: fh.write(html))
+        printed = None
+        if pdf:
+            try:
+                write_pdf(text, report.with_suffix(".pdf"))
+                printed = report.with_suffix(".pdf")
+            except BadInput as e:
+                echo(f"no PDF: {e.message}")
+                pdf = False
         flags = len(audit.flags)
         echo(
             f"{path.name:36} {s['cells']:4d} cells, {s.get('pass', 0):4d} hold, "
-            f"{len(audit.entries):3d} formulas audited, {flags:2d} flags  -> {report}  "
+            f"{len(audit.entries):3d} formulas audited, {flags:2d} flags  -> {report}"
+            + (" and .pdf" if printed else "")
+            + "  "
             f"({time.perf_counter() - t0:.1f} s)"
         )
         results[path.name] = {
@@ -774,6 +789,7 @@ def run_demo(folder: str | Path = "joulebook-demo", echo=print) -> dict:
             "report": report,
             "flags": flags,
             "entries": len(audit.entries),
+            "pdf": printed,
         }
     # revision review: revision B of one demo workbook and its diff report (demodiff.py)
     from .demodiff import REVISED, review
