@@ -328,7 +328,7 @@ def blowdown(
             y0,
             method="DOP853",
             rtol=1e-10,
-            atol=[1e-12 * y for y in y0],
+            atol=[1e-12 * y0[0], 1e-3, 1e-9][: len(y0)],
             events=reached,
             dense_output=True,
         )
