@@ -9,6 +9,10 @@ headings name the system's units).
 
 from __future__ import annotations
 
+from functools import lru_cache
+
+import numpy as np
+
 from . import states
 from .errors import BadInput
 from .processes import blockedin, blowdown, cushion, gasfire, wall
@@ -183,7 +187,8 @@ def time_fire_gas_table(state1, D, L, wall_t, P_set, fire, q, UA_in, f_y, P_amb,
 # blowdown
 
 
-def _blowdown(state1, V, d, P_target, Cd, P_back, m_wall, UA_wall, points=0):
+@lru_cache(maxsize=64)  # the time, T_min and table of one case share one integration
+def _blowdown(state1, V, d, P_target, Cd, P_back, m_wall, UA_wall):
     med, p1 = _state(state1, "state1")
     if (m_wall is None) != (UA_wall is None):
         raise BadInput("give m_wall and UA_wall together for heat from the wall (or neither)")
@@ -205,7 +210,6 @@ def _blowdown(state1, V, d, P_target, Cd, P_back, m_wall, UA_wall, points=0):
         1.0 if Cd is None else Cd,
         STANDARD_ATMOSPHERE if P_back is None else P_back,
         w,
-        points,
     )
 
 
@@ -218,12 +222,13 @@ def blowdown_t_min(state1, V, d, P_target, Cd, P_back, m_wall, UA_wall, *, syste
 
 
 def time_blowdown_table(state1, V, d, P_target, Cd, P_back, m_wall, UA_wall, points, *, system):
-    res = _blowdown(state1, V, d, P_target, Cd, P_back, m_wall, UA_wall, _points(points))
+    res = _blowdown(state1, V, d, P_target, Cd, P_back, m_wall, UA_wall)
+    rows = [res.row(t) for t in np.linspace(0.0, res.t_end, _points(points))]  # type: ignore[misc]
     u = system.unit
     head = [f"t in {u('time')}", f"P in {u('pressure')}", f"T in {u('temperature')}"]
     head += [f"m in {u('mass')}", f"T_wall in {u('temperature')}"]
     out: list[list] = [head]
-    for t, P, T, m, Tw in res.rows:
+    for t, P, T, m, Tw in rows:
         out.append(
             [
                 system.conv("time").from_si(t),

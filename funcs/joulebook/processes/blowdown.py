@@ -94,6 +94,8 @@ class Blowdown:
         Minimum gas temperature on the way (K).
     rows : list of tuple
         (t, P, T, m, T_wall or None) at the times asked for.
+    row : callable, optional
+        The row (t, P, T, m, T_wall or None) at any time t from 0 to t_end (dense output).
 
     References
     ----------
@@ -108,9 +110,12 @@ class Blowdown:
     t_end: float
     T_min: float
     rows: list
+    row: Callable[[float], tuple] | None = None
 
 
-def nozzle_flux(med, p: Point, P_back: float) -> tuple[float, bool]:
+def nozzle_flux(
+    med, p: Point, P_back: float, near: float | None = None
+) -> tuple[float, bool, float]:
     r"""Mass flux of an isentropic nozzle from stagnation state *p* to the back pressure.
 
     .. math:: G = \max_{P_b \le P_t \le P} \rho(P_t, s)\,\sqrt{2\,(h - h(P_t, s))}
@@ -123,11 +128,14 @@ def nozzle_flux(med, p: Point, P_back: float) -> tuple[float, bool]:
         The stagnation (vessel) state.
     P_back : float
         Back pressure (Pa, absolute).
+    near : float, optional
+        A throat pressure ratio P_t/P expected nearby (the last one): the search starts within
+        ±5 % of it and widens to the whole range when the maximum lies at that window's edge.
 
     Returns
     -------
-    tuple of (float, bool)
-        G (kg/(s·m²)) and whether the flow is choked.
+    tuple of (float, bool, float)
+        G (kg/(s·m²)), whether the flow is choked, and the throat ratio P_t/P.
 
     References
     ----------
@@ -138,30 +146,42 @@ def nozzle_flux(med, p: Point, P_back: float) -> tuple[float, bool]:
     >>> from joulebook.media import medium
     >>> air = medium("air | k = 1.4")
     >>> p = air.point("T", 300.0, "P", 5e5)
-    >>> G, choked = nozzle_flux(air, p, 101325.0)
-    >>> round(float(G), 2), choked   # P·√(k/(R·T))·(2/(k + 1))^3
-    (1166.68, True)
+    >>> G, choked, ratio = nozzle_flux(air, p, 101325.0)
+    >>> round(G, 2), choked, round(ratio, 4)   # P·√(k/(R·T))·(2/(k + 1))^3; (2/(k + 1))^3.5
+    (1166.68, True, 0.5283)
     """
     from scipy.optimize import minimize_scalar
 
     if not P_back < p.P:
-        return 0.0, False
+        return 0.0, False, 1.0
     h, s = p.h, p.s
 
     def flux(Pt: float) -> float:
         q = med.point("P", Pt, "s", s)
         return math.sqrt(2.0 * max(h - q.h, 0.0)) / q.v
 
-    res = minimize_scalar(
-        lambda Pt: -flux(Pt),
-        bounds=(P_back, p.P),
-        method="bounded",
-        options={"xatol": 1e-10 * p.P},
-    )
+    def best(lo: float, hi: float):
+        return minimize_scalar(
+            lambda Pt: -flux(Pt),
+            bounds=(lo, hi),
+            method="bounded",
+            options={"xatol": 1e-7 * p.P},  # G is flat at its maximum: error ~ (δP/P)²
+        )
+
+    res = None
+    if near is not None:
+        lo, hi = max(P_back, (near - 0.05) * p.P), min(p.P, (near + 0.05) * p.P)
+        if lo < hi:
+            res = best(lo, hi)
+            edge = 1e-3 * (hi - lo)
+            if (res.x - lo < edge and lo > P_back) or hi - res.x < edge:
+                res = None  # the maximum lies beyond the window
+    if res is None:
+        res = best(P_back, p.P)
     G_back = flux(P_back)
     if G_back >= -res.fun:
-        return float(G_back), False
-    return float(-res.fun), True
+        return float(G_back), False, P_back / p.P
+    return float(-res.fun), True, float(res.x) / p.P
 
 
 def ideal_choked_pressure(t: float, P1: float, T1: float, k: float, R: float, CdA_V: float):
@@ -301,9 +321,11 @@ def blowdown(
             return med.point("v", 1.0 / y[0], "s", s1)
         return med.point("v", 1.0 / y[0], "u", y[1])
 
+    last = [None]  # the throat ratio of the last call, where the next search starts
+
     def rhs(t, y):
         p = state(y)
-        G, _ = nozzle_flux(med, p, P_back)
+        G, _, last[0] = nozzle_flux(med, p, P_back, last[0])
         drho = -CdA * G / V
         if wall is None:
             return [drho]
@@ -319,7 +341,7 @@ def blowdown(
     reached.direction = -1  # type: ignore[attr-defined]
 
     y0 = [1.0 / p1.v] if wall is None else [1.0 / p1.v, p1.u, p1.T]
-    G0, _ = nozzle_flux(med, p1, P_back)
+    G0, _, last[0] = nozzle_flux(med, p1, P_back)
     tau = V / (CdA * G0 * p1.v)  # time to empty at the first rate
     try:
         sol = solve_ivp(
@@ -327,7 +349,7 @@ def blowdown(
             (0.0, 1e4 * tau),
             y0,
             method="DOP853",
-            rtol=1e-10,
+            rtol=1e-9,
             atol=[1e-12 * y0[0], 1e-3, 1e-9][: len(y0)],
             events=reached,
             dense_output=True,
@@ -343,12 +365,14 @@ def blowdown(
         )
     t_end = float(sol.t_events[0][0])
     T_min = _min_temperature(sol, state, t_end, wall is None)
-    rows = []
-    for t in np.linspace(0.0, t_end, points) if points else ():
+
+    def row(t: float) -> tuple:
         y = sol.sol(t) if t < t_end else sol.y_events[0][0]
         p = state(y)
-        rows.append((float(t), p.P, p.T, float(V * y[0]), None if wall is None else float(y[2])))
-    return Blowdown(t_end, T_min, rows)
+        return (float(t), p.P, p.T, float(V * y[0]), None if wall is None else float(y[2]))
+
+    rows = [row(t) for t in np.linspace(0.0, t_end, points)] if points else []
+    return Blowdown(t_end, T_min, rows, row)
 
 
 def _min_temperature(sol, state, t_end: float, adiabatic: bool) -> float:
