@@ -510,3 +510,46 @@ def test_glycol_fill_with_a_pocket_matches_the_gas_law():
     with pytest.raises(BadInput, match="kappa"):
         call("JB_BLOCKED_IN_CUSHION_P2", "water | T = 20 degC | P = 3 bar", 294.15, 0.5, 0,
              None, None, None, None, None, None, None, kappa)  # fmt: skip
+
+
+def _glycol_book(path: Path, T_fill: float) -> Path:
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws.title = "Loop"
+    ws["A1"] = "Glycol heating loop G-4 (invented scenario)"
+    ws["A3"], ws["B3"], ws["C3"] = "Fill temperature", T_fill, "degC"
+    ws["A4"], ws["B4"], ws["C4"] = "Fill pressure (absolute)", 3, "bar"
+    ws["A5"], ws["B5"] = (
+        "Fill state",
+        '=JB_STATE("ethylene glycol 40 %","T in degC",B3,"P in bar",B4)',
+    )
+    ws["A6"], ws["B6"], ws["C6"] = "Density", '=JB_PROP(B5,"rho in kg/m3")', "kg/m3"
+    ws["A7"], ws["B7"], ws["C7"] = "Temperature after heating", 60, "degC"
+    ws["A8"], ws["B8"], ws["C8"] = "Loop volume", 0.5, "m3"
+    ws["A9"], ws["B9"], ws["C9"] = "Expansion tank gas volume", 0.05, "m3"
+    ws["A10"], ws["C10"] = "Pressure after heating (absolute)", "bar"
+    ws["B10"] = '=JB_BLOCKED_IN_CUSHION_P2(B5,B7,B8,B9,,,,,,,,,"degC-bar-kJ")'
+    wb.save(path)
+    return path
+
+
+@pytest.mark.parametrize("T_fill, clean", [(20.0, True), (-30.0, False)])
+def test_audit_of_a_glycol_fill_and_a_fill_below_its_freezing_point(tmp_path, T_fill, clean):
+    # clean twin: every cell passes with no flag; planted fault: a 40 % solution at −30 °C is
+    # below its freezing point (about −24 °C, ASHRAE glycol tables, from memory): refused, and
+    # the cells that use it are not shown as passes
+    from joulebook.cli import main
+    from joulebook.workbook.audit import build_audit
+    from joulebook.workbook.reader import read_book
+
+    src = _glycol_book(tmp_path / "g.xlsx", T_fill)
+    out = tmp_path / "g-r.xlsx"
+    assert main(["recalc", str(src), "-o", str(out)]) == 0
+    a = build_audit(read_book(out), figures=False)
+    status = {e.cell: e.row.status for e in a.entries}
+    assert set(status) == {"B5", "B6", "B10"}
+    if clean:
+        assert set(status.values()) == {"pass"}
+        assert [f for e in a.entries for f in e.flags] == []
+    else:
+        assert all(s != "pass" for s in status.values()), status
