@@ -178,6 +178,19 @@ def test_blowdown_with_heat_from_the_wall_matches_an_independent_integration():
           conditions=cond, source=src)  # fmt: skip
 
 
+def test_blowdown_refuses_condensation_in_the_vessel_and_not_above_it():
+    # CO2 from 30 bar, 40 °C expands isentropically into its dome near 8 bar (CoolProp's
+    # saturation line): refused there; its clean twin stops at 15 bar, still vapour
+    state = "CO2 | T = 40 degC | P = 30 bar"
+    with pytest.raises(OutOfRange, match="condense"):
+        call("JB_BLOWDOWN_T_MIN", state, 1, 0.01, 600)
+    T = call("JB_BLOWDOWN_T_MIN", state, 1, 0.01, 1500)
+    s1 = PropsSI("S", "T", 313.15, "P", 30e5, "CO2")
+    check(T, PropsSI("T", "P", 15e5, "S", s1, "CO2"), rtol=1e-7, quantity="T_min",
+          conditions="CO2 30 → 15 bar, isentropic", source=CP_SRC)  # fmt: skip
+    assert T > PropsSI("T", "P", 15e5, "Q", 1, "CO2")  # above the dew point: vapour
+
+
 @pytest.mark.parametrize(
     "args, word",
     [

@@ -157,7 +157,10 @@ def nozzle_flux(
     h, s = p.h, p.s
 
     def flux(Pt: float) -> float:
-        q = med.point("P", Pt, "s", s)
+        try:
+            q = med.point("P", Pt, "s", s)
+        except OutOfRange:  # no fluid state at this throat pressure (e.g. below the triple
+            return 0.0  # point): the nozzle cannot pass flow there
         return math.sqrt(2.0 * max(h - q.h, 0.0)) / q.v
 
     def best(lo: float, hi: float):
@@ -318,8 +321,16 @@ def blowdown(
 
     def state(y) -> Point:
         if wall is None:
-            return med.point("v", 1.0 / y[0], "s", s1)
-        return med.point("v", 1.0 / y[0], "u", y[1])
+            p = med.point("v", 1.0 / y[0], "s", s1)
+        else:
+            p = med.point("v", 1.0 / y[0], "u", y[1])
+        if p.x is not None:
+            raise OutOfRange(
+                f"the gas in the vessel starts to condense near {fmt_value(round(p.P))} Pa, "
+                f"{fmt_value(round(p.T, 2))} K: a two-phase blowdown is outside this model "
+                "(choose a target above it)"
+            )
+        return p
 
     last = [None]  # the throat ratio of the last call, where the next search starts
 
@@ -342,6 +353,8 @@ def blowdown(
 
     y0 = [1.0 / p1.v] if wall is None else [1.0 / p1.v, p1.u, p1.T]
     G0, _, last[0] = nozzle_flux(med, p1, P_back)
+    if not G0 > 0:
+        raise OutOfRange("blowdown: no fluid state along the nozzle's isentrope passes flow")
     tau = V / (CdA * G0 * p1.v)  # time to empty at the first rate
     try:
         sol = solve_ivp(

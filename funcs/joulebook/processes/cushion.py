@@ -283,10 +283,14 @@ def _solve_up(g, lo: float, f: Fill, what: str) -> float:
     except OutOfRange as e:
         raise OutOfRange(f"blocked-in liquid: {e.message}") from None
     if g_hi < 0:
+        hint = ""
+        if getattr(f.med, "liquid", None) is not None and not f.kappa:
+            hint = (
+                "; a liquid incompressible in the data needs a stretching wall, a pocket or kappa"
+            )
         raise OutOfRange(
             f"blocked-in liquid: the pressure would pass {fmt_value(P_max / 1e6)} MPa (the "
-            "model's limit) before the contents fit the container; an incompressible-model "
-            "liquid needs a wall, a pocket or kappa"
+            f"model's limit) before the contents fit the container{hint}"
         )
     return brent(g, lo, hi, g_lo, g_hi, xtol=1e-6, rtol=1e-13, what=what)
 
