@@ -1714,6 +1714,9 @@ CATALOG: tuple[Func, ...] = (
         (_REF_COOLPROP, _REF_BLOWDOWN),
         Example(("nitrogen | T = 20 degC | P = 100 bar", 1, 0.01, 300), 204.87896890688066, 1e-6),
         caution=True,
+        notes="The gas in the vessel must stay gas: where it reaches its dew point the case is "
+        "refused (a two-phase blowdown is outside the model). The wall heats the gas only with "
+        "m_wall and UA_wall (carbon steel, c(T) of EN 1993-1-2); the outside is adiabatic.",
     ),
     Func(
         "JB_BLOWDOWN_T_MIN",
