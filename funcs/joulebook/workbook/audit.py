@@ -663,7 +663,7 @@ def _state_flags(argvals: dict) -> list[str]:
         else:
             return []
         med = st.medium
-        if med.ideal:
+        if med.ideal or getattr(med, "info", None) is None:  # no dome: ideal gas, liquid
             return []
         a, va, b, vb = st.si()
         p = med.point(a, va, b, vb, st.shows())
