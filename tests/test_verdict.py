@@ -481,8 +481,15 @@ def test_json_junit_and_sarif_carry_the_new_verdicts(tmp_path, capsys):
     assert code == 1
     said = capsys.readouterr().out
     assert "unit clash" in said and "gauge and absolute pressure differ" in said  # the reason
-    statuses = {c["status"] for c in json.loads(out["json"].read_text())["cells"]}
+    report = json.loads(out["json"].read_text())
+    statuses = {c["status"] for c in report["workbooks"][0]["cells"]}
     assert {"unit clash", "refusal used", "blank input"} <= statuses
+    import importlib.resources
+
+    import jsonschema
+
+    schema = importlib.resources.files("joulebook.workbook") / "check.schema.json"
+    jsonschema.validate(report, json.loads(schema.read_text(encoding="utf-8")))
     junit = out["xml"].read_text()
     assert 'failure message="refusal used' in junit and 'failure message="blank input' in junit
     sarif = json.loads(out["sarif"].read_text())
