@@ -960,7 +960,7 @@ CATALOG: tuple[Func, ...] = (
             _END_VALUE,
             Arg(
                 "want",
-                "P2 T2 v2 V2 x2 u2 h2 s2 phase2 W Q dU dH, with unit, e.g. 'P2 in MPa'",
+                "P2 T2 v2 V2 x2 u2 h2 s2 phase2 W Q dU dH (P means P2), with unit, e.g. 'P2 in MPa'",
                 type="text",
             ),
             _MASS,
@@ -2023,19 +2023,51 @@ def _run(f: Func, si_args, system):
         result = f.impl(*si_args, system=system)
     except JoulebookError:
         raise
-    except (ValueError, ArithmeticError) as e:
+    except ArithmeticError as e:  # overflow, division by an underflowed number
+        raise OutOfRange(_beyond(f, si_args, system)) from e
+    except ValueError as e:
         # a property-library failure we did not foresee: report it as ours, never as a number
         raise OutOfRange(
             f"{f.name}: the model could not evaluate these inputs ({type(e).__name__})"
         ) from e
-    return _result(f, result, system)
+    try:
+        return _result(f, result, system)
+    except _NotFinite:
+        raise OutOfRange(_beyond(f, si_args, system)) from None
+
+
+class _NotFinite(OutOfRange):
+    """A result (or a value of a table) that is NaN or inf."""
+
+
+def _beyond(f: Func, si_args, system) -> str:
+    """The message of a result beyond any finite number, naming the input furthest from 1."""
+    worst = None
+    for arg, x in zip(f.args, si_args):
+        if arg.type != "number" or type(x) is not float or x == 0.0:
+            continue
+        size = abs(math.log10(abs(x)))
+        if worst is None or size > worst[0]:
+            worst = (size, arg, x)
+    if worst is None:
+        return f"{f.name}: the result is beyond any finite number for these inputs"
+    size, arg, x = worst
+    conv = system.conv(arg.quantity) if arg.quantity else None
+    unit = f" {conv.unit}" if conv is not None and conv.unit else ""
+    shown = fmt_value(conv.from_si(x) if conv is not None else x) + unit
+    rule = (
+        "a model carries magnitudes from 1e-100 to 1e100"
+        if size > 100
+        else "the inputs together put it beyond any finite number"
+    )
+    return f"{f.name}: no finite result with {arg.name} = {shown}; {rule}"
 
 
 def _result(f: Func, value, system):
     if type(value) is float:
         out = value if f.result in _AS_IS else system.conv(f.result).from_si(value)
         if out - out != 0.0:  # NaN or inf must never reach a cell
-            raise OutOfRange(f"{f.name}: the result is not a finite number")
+            raise _NotFinite(f"{f.name}: the result is not a finite number")
         return out
     if isinstance(value, (np.floating, int)) and not isinstance(value, bool):
         return _result(f, float(value), system)
@@ -2043,7 +2075,7 @@ def _result(f: Func, value, system):
         for row in value:
             for x in row if isinstance(row, list) else [row]:
                 if isinstance(x, float) and x - x != 0.0:
-                    raise OutOfRange(f"{f.name}: a value of the table is not a finite number")
+                    raise _NotFinite(f"{f.name}: a value of the table is not a finite number")
     return value
 
 

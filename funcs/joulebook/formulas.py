@@ -15,7 +15,7 @@ from functools import lru_cache
 import numpy as np
 
 from . import __version__, firstlaw, states
-from .errors import BadInput, BlankInput, JoulebookError, OutOfRange, message_in
+from .errors import BadInput, BlankInput, JoulebookError, OutOfRange, fmt_value, message_in
 from .media import RealMedium, medium
 from .processes import (
     blockedin,
@@ -464,6 +464,8 @@ _PROC_KIND = {
     "dH": "energy",
     "phase2": "text",
 }
+#: a property of the end state written without its 2 ("P in bar" is P2 in want and end_spec)
+_END_STATE_SYMS = frozenset(("P", "T", "v", "V", "x", "u", "h", "s"))
 _PROC_ALIAS = {"ΔU": "dU", "ΔH": "dH", "DU": "dU", "DH": "dH", "phase": "phase2"}
 _PROC_PHRASE = re.compile(r"^\s*(?P<sym>[A-Za-zΔ][A-Za-z0-9]*)\s*(?:in\s+(?P<unit>.+?))?\s*$")
 
@@ -474,10 +476,12 @@ def _proc_phrase(text: str, arg: str, allowed: tuple, system: UnitSystem):
         raise BadInput(f"{arg} must be text such as 'T2 in degC' (got {text!r})")
     m = _PROC_PHRASE.match(text)
     sym = _PROC_ALIAS.get(m.group("sym"), m.group("sym")) if m else None
-    if arg == "end_spec" and sym in ("V", "v", "P", "T", "x"):
-        sym += "2"  # the end spec can only mean the end state: "T in degC" is T2
+    if sym in _END_STATE_SYMS:
+        sym += "2"  # the end spec and the wanted state can only mean the end: "T in degC" is T2
     if sym not in allowed:
-        raise BadInput(f"{arg} {text!r}: use one of {' '.join(allowed)}, optionally 'in unit'")
+        raise BadInput(
+            f"{arg} {text!r}: use one of {' '.join(allowed)} (P means P2), optionally 'in unit'"
+        )
     kind = _PROC_KIND[sym]
     if kind == "text":
         return sym, None
@@ -700,6 +704,9 @@ def _heat_rate(Q_dot, UA, T_source):
 
 
 def _rigid_time(state1, V, target, target_value, rate, system, points=0):
+    if not V > 0:  # an empty vessel holds no contents to heat: no time, refused
+        c = system.conv("volume")
+        raise BadInput(f"V = {fmt_value(c.from_si(V))} {c.unit}: the vessel volume must be above 0")
     med, p1, _ = _liquid_state(state1, "state1")
     sym, value = _target(target, target_value, system)
     return timing.rigid_heating(med, p1, V / p1.v, sym, value, rate, points)
@@ -846,6 +853,13 @@ def engine_mep(W_cycle, V_d, *, system):
 
 
 def compressor_efficiency(clearance, P_suction, P_discharge, n, *, system):
+    if P_discharge < P_suction:  # said in the user's unit; the core says it again in Pa
+        c = system.conv("pressure")
+        raise BadInput(
+            f"P_discharge = {fmt_value(c.from_si(P_discharge))} {c.unit} is below P_suction = "
+            f"{fmt_value(c.from_si(P_suction))} {c.unit}: a compressor discharges at or above "
+            "its suction pressure"
+        )
     return engines.volumetric_efficiency(clearance, P_suction, P_discharge, n)
 
 

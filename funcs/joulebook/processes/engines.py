@@ -178,7 +178,7 @@ def volumetric_efficiency(c: float, P_s: float, P_d: float, n: float) -> float:
     c : float
         Clearance ratio V_c/V_d.
     P_s, P_d : float
-        Suction and discharge pressure (Pa, absolute).
+        Suction and discharge pressure (Pa, absolute), P_d ≥ P_s.
     n : float
         Polytropic exponent of the re-expansion.
 
@@ -203,6 +203,11 @@ def volumetric_efficiency(c: float, P_s: float, P_d: float, n: float) -> float:
         raise BadInput("P_suction and P_discharge are absolute and must be above 0")
     if not 1 <= n <= 1.7:
         raise BadInput(f"n = {fmt_value(n)}: the re-expansion exponent lies in 1 to 1.7")
+    if P_d < P_s:
+        raise BadInput(
+            f"P_discharge = {fmt_value(P_d)} Pa is below P_suction = {fmt_value(P_s)} Pa: a "
+            "compressor discharges at or above its suction pressure"
+        )
     eta = 1 + c - c * (P_d / P_s) ** (1 / n)
     if eta <= 0:
         raise OutOfRange(

@@ -7,8 +7,9 @@ of u alone, so the equation separates and the time to reach a target is the inte
 
     t = m · ∫ du / Q̇(u)      from u1 to u2,
 
-taken with Gauss–Legendre quadrature [2]_ on the equation of state, piece by piece between the
-phase boundaries the path crosses (where the integrand has a kink).  The heat rate is
+taken with adaptive Gauss–Kronrod quadrature [3]_ on the equation of state, piece by piece
+between the phase boundaries the path crosses (where the integrand has a kink); adaptive,
+because 1/Q̇ grows without bound as the contents approach a source temperature.  The heat rate is
 Q̇ = Q̇_const + UA·(T_source − T) + Q̇_fire(A_wet), each term optional.
 
 **Fire exposure** [1]_: Q̇ = C·F·A^0.82 with A the wetted area (m²), F the environment factor
@@ -34,6 +35,8 @@ References
    exposure, wetted surface, environment factor F); recalled from memory.
 .. [2] G. H. Golub, J. H. Welsch, "Calculation of Gauss quadrature rules", Math. Comp. 23
    (1969) 221–230 (the nodes and weights, numpy.polynomial.legendre.leggauss).
+.. [3] R. Piessens, E. de Doncker-Kapenga, C. W. Überhuber, D. K. Kahaner, *QUADPACK: A
+   Subroutine Package for Automatic Integration*, Springer, 1983 (scipy.integrate.quad).
 """
 
 from __future__ import annotations
@@ -42,7 +45,7 @@ import math
 
 import numpy as np
 
-from ..errors import BadInput, OutOfRange, fmt_value
+from ..errors import BadInput, NoConvergence, OutOfRange, fmt_value
 from ..roots import brent
 
 __all__ = [
@@ -285,13 +288,15 @@ def rigid_heating(med, p1, m: float, end_sym: str, end_value: float, rate, point
     ------
     OutOfRange
         The target is not reached on the isochore, or the heat rate falls to zero first.
+    NoConvergence
+        The time integral does not converge (a target at the very state where Q̇ = 0).
 
     References
     ----------
     .. [1] API Standard 521, *Pressure-relieving and Depressuring Systems*, §4.4.13.2 (fire
        exposure, wetted surface, environment factor F); recalled from memory.
-    .. [2] G. H. Golub, J. H. Welsch, "Calculation of Gauss quadrature rules", Math. Comp. 23
-       (1969) 221–230 (the nodes and weights, numpy.polynomial.legendre.leggauss).
+    .. [2] R. Piessens, E. de Doncker-Kapenga, C. W. Überhuber, D. K. Kahaner, *QUADPACK: A
+       Subroutine Package for Automatic Integration*, Springer, 1983 (scipy.integrate.quad).
 
     Examples
     --------
@@ -331,20 +336,42 @@ def rigid_heating(med, p1, m: float, end_sym: str, end_value: float, rate, point
     def integral(a: float, b: float) -> float:
         total = 0.0
         for lo, hi in _pieces(a, b, breaks):
-            mid, half = (lo + hi) / 2, (hi - lo) / 2
-            total += half * sum(w * inv_rate(mid + half * x) for x, w in zip(_NODES, _WEIGHTS))
-        return float(total) * (1.0 if b >= a else -1.0)
+            total += _quad(inv_rate, lo, hi)
+        return total * (1.0 if b >= a else -1.0)
 
-    t = m * integral(u1, u2)
     if not points:
-        return t
-    table = []
-    for i in range(points):
-        u = u1 + (u2 - u1) * i / (points - 1)
-        pt = med.point("v", v, "u", u) if 0 < i < points - 1 else (p1 if i == 0 else p2)
-        table.append((m * integral(u1, u) if i else 0.0, pt, m * (u - u1)))
-    table[-1] = (t, p2, m * (u2 - u1))
+        return m * integral(u1, u2)
+    table = [(0.0, p1, 0.0)]
+    t, u_prev = 0.0, u1
+    for i in range(1, points):
+        u = u1 + (u2 - u1) * i / (points - 1) if i < points - 1 else u2
+        t += m * integral(u_prev, u)  # row by row: each piece integrated once
+        pt = med.point("v", v, "u", u) if i < points - 1 else p2
+        table.append((t, pt, m * (u - u1)))
+        u_prev = u
     return t, table
+
+
+def _quad(f, lo: float, hi: float) -> float:
+    """∫ f from lo to hi by adaptive Gauss–Kronrod quadrature (QUADPACK through scipy).
+
+    Adaptive, because the integrand 1/Q̇ grows without bound as the contents approach a
+    source temperature: a fixed rule is short there (7.6 % at 0.1 K from the source).
+    """
+    import warnings
+
+    from scipy.integrate import IntegrationWarning, quad
+
+    with warnings.catch_warnings():
+        warnings.simplefilter("error", IntegrationWarning)
+        try:
+            val, _err = quad(f, lo, hi, epsabs=0.0, epsrel=1e-10, limit=400)
+        except IntegrationWarning:
+            raise NoConvergence(
+                "the time integral did not converge to 1e-10: the target lies too close to "
+                "the state where the heat rate falls to zero"
+            ) from None
+    return float(val)
 
 
 def batch_time(c_of_T, m: float, T1: float, T2: float, UA: float, T_source: float) -> float:

@@ -436,7 +436,7 @@ def JB_HEAT_RIGID_GAS(gas, m, T_1, T_2, W_other=None, units=None, caller=None):
 @_xw.arg('path', ndim=2, err_to_str=True, doc="rigid, isobaric, isothermal, isentropic, 'polytropic n = 1.3', 'linear slope = 500 kPa/m3', 'stops P = 4 bar' or 'stops V = 0.02 m3' [text]")
 @_xw.arg('end_spec', ndim=2, err_to_str=True, doc="end condition with unit: V2, v2, P2, T2, x2, Q or W, e.g. 'T2 in degC' [text]")
 @_xw.arg('end_value', ndim=2, err_to_str=True, doc='value of the end condition, in its unit [number or range]')
-@_xw.arg('want', ndim=2, err_to_str=True, doc="P2 T2 v2 V2 x2 u2 h2 s2 phase2 W Q dU dH, with unit, e.g. 'P2 in MPa' [text]")
+@_xw.arg('want', ndim=2, err_to_str=True, doc="P2 T2 v2 V2 x2 u2 h2 s2 phase2 W Q dU dH (P means P2), with unit, e.g. 'P2 in MPa' [text]")
 @_xw.arg('mass', ndim=2, err_to_str=True, doc="mass of the system (default 1 of the mass unit) (optional) [number or range; mass in the units argument's unit (kg by default)]")
 @_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
 def JB_PROCESS(state1, path, end_spec, end_value, want, mass=None, units=None, caller=None):

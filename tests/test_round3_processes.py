@@ -1,0 +1,149 @@
+"""Issue 27, round 3 (processes and messages): heating near the source temperature, the
+compressor with discharge below suction, overflowing inputs, the end state's wanted quantity
+without its 2.
+
+Every check names its source beside it: a closed form derived beside the check, the
+independent library iapws 1.5.5 (IAPWS-95) integrated here with scipy, or "hand".
+"""
+
+import math
+
+import numpy as np
+import pytest
+
+from joulebook import call
+from joulebook.errors import BadInput, OutOfRange
+from refcheck import check
+
+IAPWS = "iapws 1.5.5 (PyPI), independent IAPWS-95 implementation"
+AIR = "air | k = 1.4 | T = 300 K | P = 100 kPa"
+
+
+# ------------------------------------------------------------------ item 8: heating near the source
+
+
+@pytest.mark.parametrize("T_2", [390.0, 399.9, 399.999])
+def test_heating_through_ua_near_the_source_matches_the_closed_form(T_2):
+    # closed form (constant cv, rigid): m·cv·dT/dt = UA·(Ts − T) ⇒ t = m·cv/UA·ln(ΔT0/ΔT1);
+    # the fixed 48-point rule was 0.18 % short at 0.1 K from the source, far more closer
+    m = call("JB_PROP", AIR, "rho in kg/m3") * 1.0
+    cv = call("JB_PROP", AIR, "cv in J/(kg*K)")
+    ref = m * cv / 50.0 * math.log(100.0 / (400.0 - T_2))
+    t = call("JB_TIME_HEATING", AIR, 1, "T in K", T_2, None, 0.05, 400)
+    check(t, ref, rtol=1e-9, quantity="t [s]",
+          conditions=f"1 m3 of air (k = 1.4) 300 → {T_2} K, UA 50 W/K from 400 K",
+          source="closed form t = m·cv/UA·ln(ΔT0/ΔT1) (hand)")  # fmt: skip
+
+
+def test_heating_water_to_a_thousandth_of_a_kelvin_below_the_source():
+    # issue 27's case: water 20 → 89.999 °C from a 90 °C source through 1 kW/K (was −21 %).
+    # Along the isochore du = cv dT, so t = m/UA·∫ cv dT/(Ts − T) = m/UA·∫ cv dy with
+    # y = −ln(Ts − T): Simpson over iapws states in y, where the integrand is smooth
+    from iapws import IAPWS95
+    from scipy.integrate import simpson
+
+    rho = IAPWS95(T=293.15, P=0.101325).rho
+    y = np.linspace(-math.log(70.0), -math.log(0.001), 121)
+    cv = np.array([IAPWS95(T=363.15 - math.exp(-yy), rho=rho).cv for yy in y]) * 1e3
+    ref = rho * 1.0 / 1000.0 * simpson(cv, x=y)
+    t = call("JB_TIME_HEATING", "water | T = 20 degC | P = 1 atm", 1, "T in degC", 89.999,
+             None, 1, 90, "T=degC")  # fmt: skip
+    check(t, ref, rtol=1e-6, quantity="t [s]",
+          conditions="1 m3 liquid-full rigid vessel, 20 → 89.999 °C, UA 1 kW/K from 90 °C",
+          source=IAPWS + ", Simpson in ln(Ts − T) over 121 states (scipy)")  # fmt: skip
+
+
+def test_heating_table_near_the_source_ends_at_the_time_and_rises():
+    rows = call("JB_TIME_HEATING_TABLE", AIR, 1, "T in K", 399.99, None, 0.05, 400, 6)
+    t_end = call("JB_TIME_HEATING", AIR, 1, "T in K", 399.99, None, 0.05, 400)
+    assert rows[-1][0] == pytest.approx(t_end, rel=1e-12)
+    times = [r[0] for r in rows[1:]]
+    assert times[0] == 0.0 and all(b > a for a, b in zip(times, times[1:]))
+    # closed form at each row's temperature (hand, as above)
+    m = call("JB_PROP", AIR, "rho in kg/m3")
+    cv = call("JB_PROP", AIR, "cv in J/(kg*K)")
+    for t, T in ((r[0], r[1]) for r in rows[2:]):
+        ref = m * cv / 50.0 * math.log(100.0 / (400.0 - T))
+        assert t == pytest.approx(ref, rel=1e-9), (T, t, ref)
+
+
+@pytest.mark.parametrize("V", [0, 0.0, -1])
+def test_heating_an_empty_vessel_is_refused(V):
+    with pytest.raises(BadInput, match=r"V = .*(must be above 0|must not be below 0)"):
+        call("JB_TIME_HEATING", "water | T = 20 degC | P = 1 atm", V, "T in K", 333.15, 10)
+
+
+def test_heating_a_vessel_of_one_litre_is_not_refused():
+    # clean twin of the empty vessel: 1 L at 10 W, t = m·Δu/Q (iapws as in test_daily_cases)
+    from iapws import IAPWS95
+
+    w1 = IAPWS95(T=293.15, P=0.101325)
+    w2 = IAPWS95(T=333.15, rho=w1.rho)
+    t = call("JB_TIME_HEATING", "water | T = 20 degC | P = 1 atm", 1, "T in K", 333.15, 0.01,
+             None, None, "V=L")  # fmt: skip
+    check(t, w1.rho * 1e-3 * (w2.u - w1.u) * 1e3 / 10.0, rtol=1e-6, quantity="t [s]",
+          conditions="1 L liquid-full rigid vessel, 20 → 60 °C at 10 W", source=IAPWS)  # fmt: skip
+
+
+# ------------------------------------------------------------------ item 10: the compressor
+
+
+def test_compressor_with_discharge_below_suction_is_refused():
+    with pytest.raises(BadInput, match=r"P_discharge = 100 kPa is below P_suction = 400 kPa"):
+        call("JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY", 0.05, 400, 100, 1.3)
+    with pytest.raises(BadInput, match=r"P_discharge = 1 bar is below P_suction = 4 bar"):
+        call("JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY", 0.05, 4, 1, 1.3, "P=bar")
+
+
+def test_compressor_at_and_above_suction_pressure_is_answered():
+    # hand: η_v = 1 + c − c·r^(1/n); r = 1 gives exactly 1 (no re-expansion loss)
+    assert call("JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY", 0.05, 400, 400, 1.3) == 1.0
+    assert call("JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY", 0.05, 100, 400, 1.3) == pytest.approx(
+        1.05 - 0.05 * 4 ** (1 / 1.3), rel=1e-12
+    )
+
+
+# ------------------------------------------------------------------ item 16: overflowing inputs
+
+
+@pytest.mark.parametrize(
+    "name, args, shown",
+    [
+        ("JB_POLY_P2", (100, 1e300, 0.5, 1.3), "V_1 = 1e+300 m3"),
+        ("JB_POLY_P2", (100, 1, 1e-300, 1.3), "V_2 = 1e-300 m3"),
+        ("JB_BALANCE_DELTA_KE", (1, 1e300, 0), "vel_1 = 1e+300 m/s"),
+        ("JB_WETTED_AREA", ("horizontal", 1e300, 5, 0.5), "D = 1e+300 m"),
+        ("JB_ENGINE_VOLUME", (90, 1e300, 0.1, 0.2, 1e-4), "bore = 1e+300 m"),
+    ],
+)
+def test_an_overflow_names_the_argument_its_value_and_the_range(name, args, shown):
+    with pytest.raises(OutOfRange) as e:
+        call(name, *args)
+    msg = str(e.value)
+    assert shown in msg and "1e-100 to 1e100" in msg, msg
+    assert "Error" not in msg and "not a finite number" not in msg, msg
+
+
+def test_the_same_functions_with_inputs_of_a_physical_size_answer():
+    # clean twins of the overflows above (hand: P2 = P1·(V1/V2)^n; ΔKE = m·(v2² − v1²)/2)
+    assert call("JB_POLY_P2", 100, 1, 0.5, 1.3) == pytest.approx(100 * 2**1.3, rel=1e-12)
+    assert call("JB_BALANCE_DELTA_KE", 2, 10, 0) == pytest.approx(-0.1, rel=1e-12)  # kJ
+
+
+# ------------------------------------------------------------------ item 17: "P in bar" as want
+
+
+@pytest.mark.parametrize(
+    "plain, with_2",
+    [("P in bar", "P2 in bar"), ("T in degC", "T2 in degC"), ("h in kJ/kg", "h2 in kJ/kg"),
+     ("v in m3/kg", "v2 in m3/kg"), ("s", "s2")],
+)  # fmt: skip
+def test_process_want_without_the_2_is_the_end_state(plain, with_2):
+    a = ("water | T = 20 degC | P = 1 bar", "rigid", "T in degC", 40)
+    assert call("JB_PROCESS", *a, plain, 1) == call("JB_PROCESS", *a, with_2, 1)
+
+
+def test_process_want_of_an_unknown_symbol_is_still_refused():
+    with pytest.raises(BadInput, match="P means P2"):
+        call("JB_PROCESS", "water | T = 20 degC | P = 1 bar", "rigid", "T in degC", 40,
+             "Z in bar", 1)  # fmt: skip
