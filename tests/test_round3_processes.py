@@ -147,3 +147,83 @@ def test_process_want_of_an_unknown_symbol_is_still_refused():
     with pytest.raises(BadInput, match="P means P2"):
         call("JB_PROCESS", "water | T = 20 degC | P = 1 bar", "rigid", "T in degC", 40,
              "Z in bar", 1)  # fmt: skip
+
+
+# ------------------------------------------------------------------ item 12: a compressor card
+
+
+def _card(n_c=1.33, n_e=1.24, noise=0.005, seed=1, step=1.0):
+    """A synthetic compressor card of our own: slider-crank volume (bore 100 mm, stroke
+    80 mm, rod 160 mm, clearance 20 cm³), re-expansion P·V^1.24 from 4 bar at top dead
+    centre down to 1 bar, a suction plateau at 1 bar, compression P·V^1.33 from 1 bar at
+    bottom dead centre up to 4 bar, a discharge plateau at 4 bar; valve flutter of ±2 % on
+    both plateaus and multiplicative noise on every pressure (seeded)."""
+    from joulebook.processes import engines
+
+    th = np.arange(0.0, 360.0, step)
+    V = np.array([engines.volume(t, 0.1, 0.08, 0.16, 2e-5) for t in th])
+    P = np.where(
+        th <= 180,
+        np.maximum(4e5 * (V.min() / V) ** n_e, 1e5),
+        np.minimum(1e5 * (V.max() / V) ** n_c, 4e5),
+    )
+    on_plateau = np.isclose(P, 4e5) | np.isclose(P, 1e5)
+    P = P * np.where(on_plateau, 1 + 0.02 * np.sin(0.7 * th), 1.0)
+    P = P * (1 + noise * np.random.default_rng(seed).standard_normal(P.size))
+    return P / 1e3, V  # kPa, m3
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_branch_fits_of_a_compressor_card_leave_out_the_valve_plateaus(seed):
+    # the card is built with n = 1.33 (compression) and 1.24 (re-expansion); 0.5 % noise:
+    # recovered within ±0.02 (our tolerance, several times the scatter over 20 seeds)
+    P, V = _card(seed=seed)
+    n_c, n_e, r2_c, r2_e = call("JB_POLY_FIT_BRANCHES", [[p] for p in P], [[v] for v in V])[0]
+    assert n_c == pytest.approx(1.33, abs=0.02)
+    assert n_e == pytest.approx(1.24, abs=0.02)
+    assert r2_c > 0.999 and r2_e > 0.999
+
+
+def test_branch_fits_of_a_noise_free_card_are_exact_to_the_break_sample():
+    # hand: without noise the only error is the sample where the polytrope meets the plateau
+    P, V = _card(noise=0.0)
+    n_c, n_e, r2_c, r2_e = call("JB_POLY_FIT_BRANCHES", [[p] for p in P], [[v] for v in V])[0]
+    assert n_c == pytest.approx(1.33, abs=1e-3) and n_e == pytest.approx(1.24, abs=1e-9)
+
+
+def test_whole_branch_fits_of_the_card_would_be_far_off():
+    # the planted fault of the old behaviour: the plateaus fitted with the polytropes give
+    # exponents of about 0.46 and 0.25 (the issue saw 0.59 and 0.44 on its card)
+    from joulebook.processes.polytropic import fit
+
+    P, V = _card()
+    falling = np.diff(np.r_[V, V[0]]) < 0
+    assert fit(P[falling], V[falling])[0] < 1.0 and fit(P[~falling], V[~falling])[0] < 1.0
+
+
+def test_branch_fits_of_an_engine_loop_without_plateaus_keep_every_polytropic_point():
+    # clean twin: an exact loop of two polytropes with constant-volume steps (hand: n = 1.3
+    # and 1.15, R² = 1); no plateau is cut from it
+    Vc = [0.5, 0.4, 0.3, 0.2, 0.1]
+    Ve = [0.1, 0.15, 0.25, 0.35, 0.5]
+    P = [100 * (0.5 / v) ** 1.3 for v in Vc] + [2000 * (0.1 / v) ** 1.15 for v in Ve]
+    n = call("JB_POLY_FIT_BRANCHES", [[p] for p in P], [[v] for v in Vc + Ve])[0]
+    assert n == pytest.approx([1.3, 1.15, 1.0, 1.0], rel=1e-9)
+
+
+def test_a_turning_point_belongs_to_one_branch_only():
+    # hand: a loop with no constant-volume step, compression n = 1.3 from V = 0.5 to 0.2,
+    # then the smallest volume 0.1 at 900 kPa, off the compression polytrope (808 kPa) and
+    # on the expansion n = 1.1: in the expansion branch only, both fits are exact
+    Vc = [0.5, 0.4, 0.3, 0.2]
+    Ve = [0.1, 0.2, 0.3, 0.4]
+    P = [100 * (0.5 / v) ** 1.3 for v in Vc] + [900 * (0.1 / v) ** 1.1 for v in Ve]
+    n_c, n_e, r2_c, _ = call("JB_POLY_FIT_BRANCHES", [[p] for p in P], [[v] for v in Vc + Ve])[0]
+    assert n_c == pytest.approx(1.3, rel=1e-9) and r2_c == pytest.approx(1.0, abs=1e-12)
+    assert n_e == pytest.approx(1.1, rel=1e-9)
+
+
+def test_branch_fits_with_too_few_polytropic_points_are_refused():
+    with pytest.raises(BadInput, match="at least 3"):
+        call("JB_POLY_FIT_BRANCHES", [[1], [2], [3], [2.5], [2], [1.5], [1.2]],
+             [[1], [0.5], [0.5], [0.6], [0.7], [0.8], [0.9]])  # fmt: skip

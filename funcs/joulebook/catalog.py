@@ -228,6 +228,10 @@ _REF_HEYWOOD = (
     "Heywood, Internal Combustion Engine Fundamentals (1988), §2.2–2.4: slider-crank volume, "
     "indicated work and power, mean effective pressure"
 )
+_REF_BREAK = (
+    "Hawkins, Point estimation of the parameters of piecewise regression models, Applied "
+    "Statistics 25 (1976) 51–57: the break point by least squares (from memory)"
+)
 _REF_HUMID = (
     "Herrmann, Kretzschmar & Gatley, ASHRAE RP-1485, HVAC&R Research 15 (2009) 961: real "
     "humid air (the property library's humid-air functions)"
@@ -1566,8 +1570,9 @@ CATALOG: tuple[Func, ...] = (
     Func(
         "JB_POLY_FIT_BRANCHES",
         "engine",
-        "Polytropic exponents of the compression and the expansion branch of a measured closed "
-        "loop, fitted apart: a row (n compression, n expansion).",
+        "Polytropic exponents of the compression and expansion branches of a measured closed "
+        "loop, fitted apart with valve plateaus (suction, discharge) left out: a row (n "
+        "compression, n expansion, R² compression, R² expansion).",
         (
             Arg(
                 "P_values",
@@ -1579,14 +1584,15 @@ CATALOG: tuple[Func, ...] = (
         ),
         "number",
         formulas.poly_fit_branches,
-        "ln P = ln C − n·ln V on each branch between the largest and smallest volume",
-        (_REF_WORK, _REF_HEYWOOD),
+        "ln P = ln C − n·ln V on each branch between the largest and smallest volume, its "
+        "constant-pressure ends (valve-open plateaus) cut at the least-squares break point",
+        (_REF_WORK, _REF_HEYWOOD, _REF_BREAK),
         Example(
             (
                 [[100], [180], [330], [700], [500], [280], [160], [110]],
                 [[0.5], [0.33], [0.2], [0.1], [0.13], [0.22], [0.36], [0.48]],
             ),
-            [[1.2009119087686027, 1.1814538008646367]],
+            [[1.2998649100391684, 1.1616191962568, 0.9979945461499561, 0.9993691574087468]],
             1e-6,
         ),
         elementwise=False,

@@ -745,7 +745,7 @@ def JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY(clearance, P_suction, P_discharge, n, un
 @_xw.arg('V_values', ndim=2, err_to_str=True, doc="volumes in the same order [range; volume in the units argument's unit (m3 by default)]")
 @_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
 def JB_POLY_FIT_BRANCHES(P_values, V_values, units=None, caller=None):
-    'Polytropic exponents of the compression and the expansion branch of a measured closed loop, fitted apart: a row (n compression, n expansion).'
+    'Polytropic exponents of the compression and expansion branches of a measured closed loop, fitted apart with valve plateaus (suction, discharge) left out: a row (n compression, n expansion, R² compression, R² expansion).'
     return _cell('JB_POLY_FIT_BRANCHES', P_values, V_values, units, caller=caller)
 
 
