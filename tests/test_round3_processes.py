@@ -227,3 +227,85 @@ def test_branch_fits_with_too_few_polytropic_points_are_refused():
     with pytest.raises(BadInput, match="at least 3"):
         call("JB_POLY_FIT_BRANCHES", [[1], [2], [3], [2.5], [2], [1.5], [1.2]],
              [[1], [0.5], [0.5], [0.6], [0.7], [0.8], [0.9]])  # fmt: skip
+
+
+# ------------------------------------------------------------------ item 11: a flashing liquid
+
+CANTERA = "cantera 3.2.0 (PyPI), independent pure-fluid model liquidvapor.yaml HFC-134a"
+
+
+@pytest.mark.parametrize(
+    "state, iapws_state",
+    [
+        ("water | T = 180 degC | x = 0", {"T": 453.15, "x": 0.0}),
+        ("water | T = 150 degC | P = 10 bar", {"T": 423.15, "P": 1.0}),
+        ("water | T = 150 degC | x = 0.3", {"T": 423.15, "x": 0.3}),
+    ],
+)
+def test_flashing_liquid_energy_of_water_against_iapws(state, iapws_state):
+    # state arithmetic with iapws: E = V·ρ1·(u1 − u2), state 2 at 101.325 kPa with s2 = s1
+    from iapws import IAPWS95
+
+    w1 = IAPWS95(**iapws_state)
+    w2 = IAPWS95(P=0.101325, s=w1.s)
+    ref = 2.0 * w1.rho * (w1.u - w2.u)  # kJ for 2 m3
+    check(call("JB_STORED_FLASHING_LIQUID", state, 2), ref, rtol=1e-6, quantity="E [kJ]",
+          conditions=f"2 m3 of {state.split('| ', 1)[1]}, isentropic to 1 atm",
+          source=IAPWS)  # fmt: skip
+
+
+def test_flashing_liquid_energy_of_r134a_against_cantera():
+    import cantera as ct
+
+    r = ct.PureFluid("liquidvapor.yaml", "HFC-134a")
+    r.TQ = 298.15, 0.0
+    v1, u1, s1 = r.v, r.int_energy_mass, r.entropy_mass
+    r.SP = s1, 101325.0
+    ref = (u1 - r.int_energy_mass) / v1  # J for 1 m3
+    ours = call("JB_STORED_FLASHING_LIQUID", "R134a | T = 25 degC | x = 0", 1, None, "E=J")
+    check(ours, ref, rtol=1e-5, quantity="E [J]",
+          conditions="1 m3 of saturated liquid R134a at 25 °C, isentropic to 1 atm",
+          source=CANTERA)  # fmt: skip
+
+
+def test_flashing_liquid_energy_by_hand_from_steam_tables():
+    # hand, steam-table values from memory (saturated water): at 180 °C v_f = 0.001127 m3/kg,
+    # u_f = 761.92 kJ/kg, s_f = 2.1393 kJ/(kg·K); at 100 °C u_f = 419.06, u_fg = 2087.0,
+    # s_f = 1.3072, s_fg = 6.0470. x2 = (2.1393 − 1.3072)/6.0470 = 0.13761,
+    # u2 = 419.06 + 0.13761·2087.0 = 706.25 kJ/kg, E = (761.92 − 706.25)/0.001127 kJ per m3
+    x2 = (2.1393 - 1.3072) / 6.0470
+    e = (761.92 - (419.06 + x2 * 2087.0)) / 0.001127
+    check(call("JB_STORED_FLASHING_LIQUID", "water | T = 180 degC | x = 0", 1), e, rtol=1e-2,
+          quantity="E [kJ]", conditions="1 m3 saturated liquid water at 180 °C, to 1 atm",
+          source="steam tables from memory, worked by hand")  # fmt: skip
+
+
+def test_stored_isentropic_of_a_liquid_refuses_naming_the_flashing_function():
+    # the case: 12 m3 of saturated liquid propane at 50 °C gave 307.7 MJ as a "gas"
+    for state in ("propane | T = 50 degC | x = 0", "water | T = 150 degC | x = 0.3",
+                  "water | T = 150 degC | P = 10 bar"):  # fmt: skip
+        with pytest.raises(OutOfRange, match="JB_STORED_FLASHING_LIQUID"):
+            call("JB_STORED_ISENTROPIC", state, 12)
+
+
+def test_stored_isentropic_of_a_gas_and_saturated_vapour_is_answered():
+    # clean twin: saturated vapour (x = 1) holds no liquid; the gas estimate answers, and the
+    # flashing function refuses it naming the gas estimate (iapws: E = m·(u1 − u2), s2 = s1)
+    from iapws import IAPWS95
+
+    w1 = IAPWS95(T=453.15, x=1.0)
+    w2 = IAPWS95(P=0.101325, s=w1.s)
+    e = call("JB_STORED_ISENTROPIC", "water | T = 180 degC | x = 1", 1)
+    check(e, w1.rho * (w1.u - w2.u), rtol=1e-6, quantity="E [kJ]",
+          conditions="1 m3 saturated steam at 180 °C, to 1 atm", source=IAPWS)  # fmt: skip
+    with pytest.raises(OutOfRange, match="JB_STORED_ISENTROPIC"):
+        call("JB_STORED_FLASHING_LIQUID", "water | T = 180 degC | x = 1", 1)
+    with pytest.raises(OutOfRange, match="JB_STORED_ISENTROPIC"):
+        call("JB_STORED_FLASHING_LIQUID", "nitrogen | P = 30 bar | T = 20 degC", 1)
+
+
+def test_a_liquid_below_its_boiling_point_does_not_flash():
+    with pytest.raises(OutOfRange, match="does not flash.*JB_TEST_HYDRO_ENERGY"):
+        call("JB_STORED_FLASHING_LIQUID", "water | T = 20 degC | P = 10 bar", 1)
+    with pytest.raises(OutOfRange, match="not above ambient"):
+        call("JB_STORED_FLASHING_LIQUID", "water | T = 90 degC | x = 0", 1)

@@ -654,6 +654,20 @@ failed:
     JB_STATE = Err.Description
 End Function
 
+Function JB_STORED_FLASHING_LIQUID(state, V, Optional P_amb, Optional units)
+    If (Not Application.CommandBars("Standard").Controls(1).Enabled) Then Exit Function
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_STORED_FLASHING_LIQUID = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STORED_FLASHING_LIQUID", Array(state, V, P_amb, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_STORED_FLASHING_LIQUID = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STORED_FLASHING_LIQUID", Array(state, V, P_amb, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_STORED_FLASHING_LIQUID = Err.Description
+End Function
+
 Function JB_STORED_IDEAL_ISENTROPIC(P, V, k, Optional P_amb, Optional units)
     If (Not Application.CommandBars("Standard").Controls(1).Enabled) Then Exit Function
     #If App = "Microsoft Excel" Then

@@ -232,6 +232,11 @@ _REF_BREAK = (
     "Hawkins, Point estimation of the parameters of piecewise regression models, Applied "
     "Statistics 25 (1976) 51–57: the break point by least squares (from memory)"
 )
+_REF_FLASHING = (
+    "CCPS, Guidelines for Vapor Cloud Explosion, Pressure Vessel Burst, BLEVE, and Flash Fire "
+    "Hazards, 2nd ed. (2010): expansion energy of a flashing liquid, isentropic to ambient; "
+    "Planas-Cuchi, Salla, Casal, J. Loss Prev. Process Ind. 17 (2004) 431 (from memory)"
+)
 _REF_HUMID = (
     "Herrmann, Kretzschmar & Gatley, ASHRAE RP-1485, HVAC&R Research 15 (2009) 961: real "
     "humid air (the property library's humid-air functions)"
@@ -1108,7 +1113,8 @@ CATALOG: tuple[Func, ...] = (
         "JB_STORED_ISENTROPIC",
         "stored",
         "Stored expansion energy of a gas volume: isentropic expansion to ambient on the real-fluid "
-        "equation of state, m·(u1 − u2s). An estimate: pressure tests are governed by the codes.",
+        "equation of state, m·(u1 − u2s); liquid contents: JB_STORED_FLASHING_LIQUID. An "
+        "estimate: pressure tests are governed by the codes.",
         (
             Arg(
                 "state",
@@ -1135,6 +1141,46 @@ CATALOG: tuple[Func, ...] = (
                     "JB_PROCESS(state, 'isentropic', 'P2 in Pa', P_amb, 'u2 in J/kg')",
                     "specific_energy",
                 ),
+            ),
+            defaults=(("P_amb", 101325.0),),
+        ),
+    ),
+    Func(
+        "JB_STORED_FLASHING_LIQUID",
+        "stored",
+        "Expansion energy of a liquid stored above its boiling point (liquefied gas, hot water) "
+        "that flashes on release: isentropic expansion of liquid and flash vapour to ambient, "
+        "m·(u1 − u2). An estimate, not the blast.",
+        (
+            Arg(
+                "state",
+                "state text of the contents from JB_STATE: liquid, or liquid and vapour (x < 1)",
+                type="text",
+            ),
+            Arg("V", "volume the contents fill (the vessel volume)", quantity="volume"),
+            _PAMB,
+        ),
+        "energy",
+        formulas.stored_flashing_liquid,
+        "E = m·(u1 − u2), s2 = s1, P2 = P_amb (liquid + flash vapour), m = V/v1",
+        (_REF_COOLPROP, _REF_FLASHING),
+        Example(("propane | T = 50 degC | x = 0", 12), 307667.04096917127, 1e-6),
+        caution=True,
+        notes="The energy of the expansion is not the blast it drives: only a part of it goes "
+        "into the pressure wave (the rest into fragments, and a fireball when the fluid burns). "
+        "The isentropic expansion is an upper bound of the mechanical energy released.",
+        working=Working(
+            "E",
+            "m*(u_1 - u_2)",
+            (
+                Step("m", "V*JB_PROP(state, 'rho in kg/m3')", "mass"),
+                Step("u_1", "JB_PROP(state, 'u in J/kg')", "specific_energy"),
+                Step(
+                    "u_2",
+                    "JB_PROCESS(state, 'isentropic', 'P2 in Pa', P_amb, 'u2 in J/kg')",
+                    "specific_energy",
+                ),
+                Step("x_2", "JB_PROCESS(state, 'isentropic', 'P2 in Pa', P_amb, 'x2')"),
             ),
             defaults=(("P_amb", 101325.0),),
         ),

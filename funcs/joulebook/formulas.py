@@ -617,9 +617,22 @@ def stored_isentropic(state, V, P_amb, *, system):
     med = st.medium
     a, va, b, vb = st.si()
     p1 = med.point(a, va, b, vb, st.shows())
+    if stored.holds_liquid(p1):  # a gas estimate: liquid contents flash (issue 27)
+        raise OutOfRange(
+            f"the contents are {stored.described(p1)}: a liquid that flashes is no gas "
+            "expansion; use JB_STORED_FLASHING_LIQUID (JB_TEST_HYDRO_ENERGY if it does not boil)"
+        )
     return stored.isentropic(
         med, p1, V, stored.STANDARD_ATMOSPHERE if P_amb is None else P_amb, st.shows()
     )
+
+
+def stored_flashing_liquid(state, V, P_amb, *, system):
+    med, p1, shows = _liquid_state(state, "state")
+    E, _x2 = stored.flashing_liquid(
+        med, p1, V, stored.STANDARD_ATMOSPHERE if P_amb is None else P_amb, shows
+    )
+    return E
 
 
 def stored_ideal_isentropic(P, V, k, P_amb, *, system):

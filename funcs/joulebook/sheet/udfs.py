@@ -14,7 +14,7 @@ from joulebook.sheet.cells import why as _why
 
 
 
-__all__ = ['JB_STATE', 'JB_PROP', 'JB_PHASE', 'JB_PROP_SAT', 'JB_GAS_CP', 'JB_GAS_CV', 'JB_GAS_K', 'JB_GAS_R', 'JB_GAS_MOLAR_MASS', 'JB_GAS_DELTA_H', 'JB_GAS_DELTA_U', 'JB_GAS_CP_MEAN', 'JB_GAS_DELTA_S', 'JB_SOLID_C', 'JB_SOLID_C_MEAN', 'JB_SOLID_DELTA_U', 'JB_SOLID_HEAT', 'JB_WORK_ISOBARIC', 'JB_WORK_ISOTHERMAL', 'JB_WORK_ISOTHERMAL_MASS', 'JB_WORK_POLYTROPIC', 'JB_WORK_POLYTROPIC_N', 'JB_WORK_LINEAR', 'JB_WORK_PV', 'JB_WORK_PATH', 'JB_WORK_ELECTRIC_IN', 'JB_WORK_SHAFT_IN', 'JB_POLY_EXPONENT', 'JB_POLY_FIT', 'JB_POLY_P2', 'JB_POLY_V2', 'JB_POLY_T2_FROM_V', 'JB_POLY_T2_FROM_P', 'JB_BALANCE_HEAT', 'JB_BALANCE_GAP', 'JB_BALANCE_DELTA_KE', 'JB_BALANCE_DELTA_PE', 'JB_HEAT_ISOBARIC_GAS', 'JB_HEAT_RIGID_GAS', 'JB_PROCESS', 'JB_PROCESS_TABLE', 'JB_PROCESS_PATH', 'JB_CYCLE_NET', 'JB_CYCLE_GAP', 'JB_CYCLE_EFFICIENCY', 'JB_STORED_ISENTROPIC', 'JB_STORED_IDEAL_ISENTROPIC', 'JB_STORED_ISOCHORIC', 'JB_BLOCKED_IN_P2', 'JB_RELIEF_THERMAL_FLOW', 'JB_TIME_HEATING', 'JB_TIME_HEATING_TABLE', 'JB_FIRE_HEAT', 'JB_WETTED_AREA', 'JB_TIME_FIRE', 'JB_TIME_FIRE_TABLE', 'JB_TIME_BATCH', 'JB_BALANCE_RATE', 'JB_TEST_PNEUMATIC_ENERGY', 'JB_TEST_HYDRO_ENERGY', 'JB_TEST_TNT', 'JB_TEST_DISTANCE', 'JB_ENGINE_VOLUME', 'JB_ENGINE_POWER', 'JB_ENGINE_MEP', 'JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY', 'JB_POLY_FIT_BRANCHES', 'JB_HUMID_AIR', 'JB_HUMID_CONDENSATE', 'JB_CHART_DOME', 'JB_CHART_ISOLINE', 'JB_CONVERT', 'JB_WHY', 'JB_ABOUT']
+__all__ = ['JB_STATE', 'JB_PROP', 'JB_PHASE', 'JB_PROP_SAT', 'JB_GAS_CP', 'JB_GAS_CV', 'JB_GAS_K', 'JB_GAS_R', 'JB_GAS_MOLAR_MASS', 'JB_GAS_DELTA_H', 'JB_GAS_DELTA_U', 'JB_GAS_CP_MEAN', 'JB_GAS_DELTA_S', 'JB_SOLID_C', 'JB_SOLID_C_MEAN', 'JB_SOLID_DELTA_U', 'JB_SOLID_HEAT', 'JB_WORK_ISOBARIC', 'JB_WORK_ISOTHERMAL', 'JB_WORK_ISOTHERMAL_MASS', 'JB_WORK_POLYTROPIC', 'JB_WORK_POLYTROPIC_N', 'JB_WORK_LINEAR', 'JB_WORK_PV', 'JB_WORK_PATH', 'JB_WORK_ELECTRIC_IN', 'JB_WORK_SHAFT_IN', 'JB_POLY_EXPONENT', 'JB_POLY_FIT', 'JB_POLY_P2', 'JB_POLY_V2', 'JB_POLY_T2_FROM_V', 'JB_POLY_T2_FROM_P', 'JB_BALANCE_HEAT', 'JB_BALANCE_GAP', 'JB_BALANCE_DELTA_KE', 'JB_BALANCE_DELTA_PE', 'JB_HEAT_ISOBARIC_GAS', 'JB_HEAT_RIGID_GAS', 'JB_PROCESS', 'JB_PROCESS_TABLE', 'JB_PROCESS_PATH', 'JB_CYCLE_NET', 'JB_CYCLE_GAP', 'JB_CYCLE_EFFICIENCY', 'JB_STORED_ISENTROPIC', 'JB_STORED_FLASHING_LIQUID', 'JB_STORED_IDEAL_ISENTROPIC', 'JB_STORED_ISOCHORIC', 'JB_BLOCKED_IN_P2', 'JB_RELIEF_THERMAL_FLOW', 'JB_TIME_HEATING', 'JB_TIME_HEATING_TABLE', 'JB_FIRE_HEAT', 'JB_WETTED_AREA', 'JB_TIME_FIRE', 'JB_TIME_FIRE_TABLE', 'JB_TIME_BATCH', 'JB_BALANCE_RATE', 'JB_TEST_PNEUMATIC_ENERGY', 'JB_TEST_HYDRO_ENERGY', 'JB_TEST_TNT', 'JB_TEST_DISTANCE', 'JB_ENGINE_VOLUME', 'JB_ENGINE_POWER', 'JB_ENGINE_MEP', 'JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY', 'JB_POLY_FIT_BRANCHES', 'JB_HUMID_AIR', 'JB_HUMID_CONDENSATE', 'JB_CHART_DOME', 'JB_CHART_ISOLINE', 'JB_CONVERT', 'JB_WHY', 'JB_ABOUT']
 
 
 @_xw.func(category='joulebook · States and real-fluid properties')
@@ -501,8 +501,18 @@ def JB_CYCLE_EFFICIENCY(Q_values, W_values, units=None, caller=None):
 @_xw.arg('P_amb', ndim=2, err_to_str=True, doc="absolute ambient pressure (default 101.325 kPa) (optional) [number or range; pressure in the units argument's unit (kPa by default)]")
 @_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
 def JB_STORED_ISENTROPIC(state, V, P_amb=None, units=None, caller=None):
-    'Stored expansion energy of a gas volume: isentropic expansion to ambient on the real-fluid equation of state, m·(u1 − u2s). An estimate: pressure tests are governed by the codes.'
+    'Stored expansion energy of a gas volume: isentropic expansion to ambient on the real-fluid equation of state, m·(u1 − u2s); liquid contents: JB_STORED_FLASHING_LIQUID. An estimate: pressure tests are governed by the codes.'
     return _cell('JB_STORED_ISENTROPIC', state, V, P_amb, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Stored expansion energy', call_in_wizard=False)
+@_xw.arg('state', ndim=2, err_to_str=True, doc='state text of the contents from JB_STATE: liquid, or liquid and vapour (x < 1) [text]')
+@_xw.arg('V', ndim=2, err_to_str=True, doc="volume the contents fill (the vessel volume) [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('P_amb', ndim=2, err_to_str=True, doc="absolute ambient pressure (default 101.325 kPa) (optional) [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_STORED_FLASHING_LIQUID(state, V, P_amb=None, units=None, caller=None):
+    'Expansion energy of a liquid stored above its boiling point (liquefied gas, hot water) that flashes on release: isentropic expansion of liquid and flash vapour to ambient, m·(u1 − u2). An estimate, not the blast.'
+    return _cell('JB_STORED_FLASHING_LIQUID', state, V, P_amb, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Stored expansion energy', call_in_wizard=False)
