@@ -79,13 +79,13 @@ failed:
     JB_BALANCE_RATE = Err.Description
 End Function
 
-Function JB_BLOCKED_IN_P2(state1, T_2, Optional shape, Optional D, Optional wall, Optional E, Optional nu, Optional alpha_wall, Optional units)
+Function JB_BLOCKED_IN_P2(state1, T_2, Optional shape, Optional D, Optional wall, Optional E_mod, Optional poisson, Optional alpha_wall, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_BLOCKED_IN_P2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BLOCKED_IN_P2", Array(state1, T_2, shape, D, wall, E, nu, alpha_wall, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_BLOCKED_IN_P2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BLOCKED_IN_P2", Array(state1, T_2, shape, D, wall, E_mod, poisson, alpha_wall, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_BLOCKED_IN_P2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BLOCKED_IN_P2", Array(state1, T_2, shape, D, wall, E, nu, alpha_wall, units, Nothing))
+        JB_BLOCKED_IN_P2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BLOCKED_IN_P2", Array(state1, T_2, shape, D, wall, E_mod, poisson, alpha_wall, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -723,13 +723,13 @@ failed:
     JB_TEST_DISTANCE = Err.Description
 End Function
 
-Function JB_TEST_HYDRO_ENERGY(state, V, Optional shape, Optional D, Optional wall, Optional E, Optional nu, Optional P_amb, Optional units)
+Function JB_TEST_HYDRO_ENERGY(state, V, Optional shape, Optional D, Optional wall, Optional E_mod, Optional poisson, Optional P_amb, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_TEST_HYDRO_ENERGY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TEST_HYDRO_ENERGY", Array(state, V, shape, D, wall, E, nu, P_amb, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_TEST_HYDRO_ENERGY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TEST_HYDRO_ENERGY", Array(state, V, shape, D, wall, E_mod, poisson, P_amb, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_TEST_HYDRO_ENERGY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TEST_HYDRO_ENERGY", Array(state, V, shape, D, wall, E, nu, P_amb, units, Nothing))
+        JB_TEST_HYDRO_ENERGY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TEST_HYDRO_ENERGY", Array(state, V, shape, D, wall, E_mod, poisson, P_amb, units, Nothing))
         Exit Function
     #End If
 failed:

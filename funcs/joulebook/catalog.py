@@ -252,10 +252,15 @@ _REF_SOLIDS = (
 _WALL = (
     Arg("D", "mean diameter of the wall", quantity="length", optional=True),
     Arg("wall", "wall thickness (below D/2)", quantity="length", optional=True),
+    # E_mod and poisson, not E and nu: in a units override E is an energy and nu a
+    # kinematic viscosity (the arguments were E and nu before issue 27; positions unchanged)
     Arg(
-        "E", "Young's modulus of the wall (steel about 200 GPa)", quantity="modulus", optional=True
+        "E_mod",
+        "Young's modulus of the wall (steel about 200 GPa)",
+        quantity="modulus",
+        optional=True,
     ),
-    Arg("nu", "Poisson's ratio of the wall, 0 to 0.5 (steel 0.3)", optional=True),
+    Arg("poisson", "Poisson's ratio ν of the wall, 0 to 0.5 (steel 0.3)", optional=True),
 )
 _HEATING_ARGS = (
     Arg("state1", "initial state text of the contents, from JB_STATE", type="text"),

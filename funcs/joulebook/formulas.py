@@ -665,7 +665,7 @@ def blocked_in_p2(state1, T_2, shape, D, wall, E, nu, alpha_wall, *, system):
 def _wall_compliance(shape, D, wall, E, nu) -> float:
     """The volumetric compliance of the container (0 for a rigid one), its data checked."""
     word = "rigid" if shape is None else str(shape).strip().lower()
-    data = (("D", D), ("wall", wall), ("E", E), ("nu", nu))
+    data = (("D", D), ("wall", wall), ("E_mod", E), ("poisson", nu))
     if word == "rigid":
         given = [n for n, v in data if v is not None]
         if given:

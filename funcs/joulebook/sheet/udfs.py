@@ -543,13 +543,13 @@ def JB_STORED_ISOCHORIC(P, V, k, P_amb=None, units=None, caller=None):
 @_xw.arg('shape', ndim=2, err_to_str=True, doc='rigid (default), cylinder (closed ends) or sphere (optional) [text]')
 @_xw.arg('D', ndim=2, err_to_str=True, doc="mean diameter of the wall (optional) [number or range; length in the units argument's unit (m by default)]")
 @_xw.arg('wall', ndim=2, err_to_str=True, doc="wall thickness (below D/2) (optional) [number or range; length in the units argument's unit (m by default)]")
-@_xw.arg('E', ndim=2, err_to_str=True, doc="Young's modulus of the wall (steel about 200 GPa) (optional) [number or range; modulus in the units argument's unit (GPa by default)]")
-@_xw.arg('nu', ndim=2, err_to_str=True, doc="Poisson's ratio of the wall, 0 to 0.5 (steel 0.3) (optional) [number or range]")
+@_xw.arg('E_mod', ndim=2, err_to_str=True, doc="Young's modulus of the wall (steel about 200 GPa) (optional) [number or range; modulus in the units argument's unit (GPa by default)]")
+@_xw.arg('poisson', ndim=2, err_to_str=True, doc="Poisson's ratio ν of the wall, 0 to 0.5 (steel 0.3) (optional) [number or range]")
 @_xw.arg('alpha_wall', ndim=2, err_to_str=True, doc="linear expansion coefficient of the wall (steel 1.2e-5 1/K) (optional) [number or range; expansion coefficient in the units argument's unit (1/K by default)]")
 @_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
-def JB_BLOCKED_IN_P2(state1, T_2, shape=None, D=None, wall=None, E=None, nu=None, alpha_wall=None, units=None, caller=None):
+def JB_BLOCKED_IN_P2(state1, T_2, shape=None, D=None, wall=None, E_mod=None, poisson=None, alpha_wall=None, units=None, caller=None):
     'Pressure after heating a blocked-in, liquid-full pipe or vessel to T_2: shape rigid (upper bound), cylinder or sphere (thin wall that stretches with P and T), solved on the equation of state. An estimate: relief is governed by the codes.'
-    return _cell('JB_BLOCKED_IN_P2', state1, T_2, shape, D, wall, E, nu, alpha_wall, units, caller=caller)
+    return _cell('JB_BLOCKED_IN_P2', state1, T_2, shape, D, wall, E_mod, poisson, alpha_wall, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Blocked-in liquid and thermal relief')
@@ -680,13 +680,13 @@ def JB_TEST_PNEUMATIC_ENERGY(P_test, V, P_amb=None, units=None, caller=None):
 @_xw.arg('shape', ndim=2, err_to_str=True, doc='rigid (default, liquid only), cylinder or sphere (optional) [text]')
 @_xw.arg('D', ndim=2, err_to_str=True, doc="mean diameter of the wall (optional) [number or range; length in the units argument's unit (m by default)]")
 @_xw.arg('wall', ndim=2, err_to_str=True, doc="wall thickness (below D/2) (optional) [number or range; length in the units argument's unit (m by default)]")
-@_xw.arg('E', ndim=2, err_to_str=True, doc="Young's modulus of the wall (steel about 200 GPa) (optional) [number or range; modulus in the units argument's unit (GPa by default)]")
-@_xw.arg('nu', ndim=2, err_to_str=True, doc="Poisson's ratio of the wall, 0 to 0.5 (steel 0.3) (optional) [number or range]")
+@_xw.arg('E_mod', ndim=2, err_to_str=True, doc="Young's modulus of the wall (steel about 200 GPa) (optional) [number or range; modulus in the units argument's unit (GPa by default)]")
+@_xw.arg('poisson', ndim=2, err_to_str=True, doc="Poisson's ratio ν of the wall, 0 to 0.5 (steel 0.3) (optional) [number or range]")
 @_xw.arg('P_amb', ndim=2, err_to_str=True, doc="absolute ambient pressure (default 101.325 kPa) (optional) [number or range; pressure in the units argument's unit (kPa by default)]")
 @_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
-def JB_TEST_HYDRO_ENERGY(state, V, shape=None, D=None, wall=None, E=None, nu=None, P_amb=None, units=None, caller=None):
+def JB_TEST_HYDRO_ENERGY(state, V, shape=None, D=None, wall=None, E_mod=None, poisson=None, P_amb=None, units=None, caller=None):
     "Stored energy of a hydrostatic test: the liquid's isentropic expansion on its equation of state plus the stretched wall's elastic energy (cylinder or sphere). An estimate: tests are governed by the codes."
-    return _cell('JB_TEST_HYDRO_ENERGY', state, V, shape, D, wall, E, nu, P_amb, units, caller=caller)
+    return _cell('JB_TEST_HYDRO_ENERGY', state, V, shape, D, wall, E_mod, poisson, P_amb, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Pressure tests')
