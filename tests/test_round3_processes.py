@@ -313,3 +313,14 @@ def test_a_liquid_below_its_boiling_point_does_not_flash():
         call("JB_STORED_FLASHING_LIQUID", "water | T = 20 degC | P = 10 bar", 1)
     with pytest.raises(OutOfRange, match="not above ambient"):
         call("JB_STORED_FLASHING_LIQUID", "water | T = 90 degC | x = 0", 1)
+
+
+def test_heating_to_a_billionth_of_a_kelvin_from_the_source_is_refused_not_guessed():
+    # the integrand's rounding (T from u to 1e-13) is larger than the distance to the source:
+    # no time can be stated to 1e-10, so it is refused, naming the target
+    from joulebook.errors import NoConvergence
+
+    with pytest.raises(NoConvergence, match=r"target T = 399\.999999999 K lies too close"):
+        call("JB_TIME_HEATING", AIR, 1, "T in K", 400 - 1e-9, None, 0.05, 400)
+    with pytest.raises(OutOfRange, match="never reached"):  # at the source: never reached
+        call("JB_TIME_HEATING", AIR, 1, "T in K", 400, None, 0.05, 400)

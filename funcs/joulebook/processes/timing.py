@@ -323,6 +323,8 @@ def rigid_heating(med, p1, m: float, end_sym: str, end_value: float, rate, point
         except (OutOfRange, BadInput):
             pass
     sign = 1.0 if u2 > u1 else -1.0
+    unit = {"T": " K", "P": " Pa"}.get(end_sym, "")
+    target = f"the target {end_sym} = {end_value:.12g}{unit}"
 
     def inv_rate(u: float) -> float:
         q = rate(med.point("v", v, "u", u))
@@ -336,7 +338,7 @@ def rigid_heating(med, p1, m: float, end_sym: str, end_value: float, rate, point
     def integral(a: float, b: float) -> float:
         total = 0.0
         for lo, hi in _pieces(a, b, breaks):
-            total += _quad(inv_rate, lo, hi)
+            total += _quad(inv_rate, lo, hi, target)
         return total * (1.0 if b >= a else -1.0)
 
     if not points:
@@ -352,7 +354,7 @@ def rigid_heating(med, p1, m: float, end_sym: str, end_value: float, rate, point
     return t, table
 
 
-def _quad(f, lo: float, hi: float) -> float:
+def _quad(f, lo: float, hi: float, target: str) -> float:
     """∫ f from lo to hi by adaptive Gauss–Kronrod quadrature (QUADPACK through scipy).
 
     Adaptive, because the integrand 1/Q̇ grows without bound as the contents approach a
@@ -368,8 +370,8 @@ def _quad(f, lo: float, hi: float) -> float:
             val, _err = quad(f, lo, hi, epsabs=0.0, epsrel=1e-10, limit=400)
         except IntegrationWarning:
             raise NoConvergence(
-                "the time integral did not converge to 1e-10: the target lies too close to "
-                "the state where the heat rate falls to zero"
+                f"{target} lies too close to the state where the heat rate falls to zero: the "
+                "time integral does not converge to 1e-10 (give a target farther from it)"
             ) from None
     return float(val)
 
