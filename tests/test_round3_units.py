@@ -189,3 +189,16 @@ def test_the_wall_messages_name_the_new_arguments():
         call("JB_BLOCKED_IN_P2", "water | T = 15 degC | P = 4 bar", 318.15, "cylinder", 0.1,
              0.005, 0, 0.3, None, "K-Pa-J")  # fmt: skip
     assert parse_phrase("E in kJ").kind == "energy"  # E stays an energy in phrases
+
+
+def test_the_new_spellings_are_seeded_so_labels_are_read_without_pint():
+    # a label such as "Pressure (kg/cm2g)" is read from the unit seed (hand: the same maps)
+    from joulebook.units import known_unit
+    from joulebook.unitseed import CONVS
+
+    assert CONVS[("millimeter_water", "pressure")] == (9.80665, 0.0)
+    assert CONVS[("meter_water", "pressure")] == (9806.65, 0.0)
+    assert CONVS[("kgf/(cm**2)", "pressure")] == (98066.5, 0.0)
+    c = known_unit("kg/cm2g", "pressure")
+    assert c is not None and (c.factor, c.offset) == (98066.5, 101325.0)
+    assert known_unit("psi", "pressure") is None  # ambiguous: no label reading
