@@ -35,6 +35,18 @@ def test_heating_through_ua_near_the_source_matches_the_closed_form(T_2):
           source="closed form t = m·cv/UA·ln(ΔT0/ΔT1) (hand)")  # fmt: skip
 
 
+@pytest.mark.parametrize("T_2", [260.0, 250.1, 250.0001])
+def test_cooling_through_ua_towards_a_cold_source_matches_the_closed_form(T_2):
+    # closed form as above with the source below: t = m·cv/UA·ln((T1 − Ts)/(T2 − Ts))
+    m = call("JB_PROP", AIR, "rho in kg/m3") * 1.0
+    cv = call("JB_PROP", AIR, "cv in J/(kg*K)")
+    ref = m * cv / 50.0 * math.log(50.0 / (T_2 - 250.0))
+    t = call("JB_TIME_HEATING", AIR, 1, "T in K", T_2, None, 0.05, 250)
+    check(t, ref, rtol=1e-9, quantity="t [s]",
+          conditions=f"1 m3 of air (k = 1.4) 300 → {T_2} K, UA 50 W/K from 250 K",
+          source="closed form t = m·cv/UA·ln(ΔT0/ΔT1) (hand)")  # fmt: skip
+
+
 def test_heating_water_to_a_thousandth_of_a_kelvin_below_the_source():
     # issue 27's case: water 20 → 89.999 °C from a 90 °C source through 1 kW/K (was −21 %).
     # Along the isochore du = cv dT, so t = m/UA·∫ cv dT/(Ts − T) = m/UA·∫ cv dy with
