@@ -320,6 +320,15 @@ def test_stored_isentropic_of_a_gas_and_saturated_vapour_is_answered():
         call("JB_STORED_FLASHING_LIQUID", "nitrogen | P = 30 bar | T = 20 degC", 1)
 
 
+def test_hydrostatic_test_energy_of_a_liquid_that_would_flash_is_refused():
+    # planted: water at 150 °C under test would flash on release (its energy is the flash,
+    # 51 MJ for 2 m3, not a test energy); the clean twin at 20 °C keeps its small energy
+    with pytest.raises(OutOfRange, match="JB_STORED_FLASHING_LIQUID"):
+        call("JB_TEST_HYDRO_ENERGY", "water | T = 150 degC | P = 12 bar", 2)
+    cold = call("JB_TEST_HYDRO_ENERGY", "water | T = 20 degC | P = 12 bar", 2)
+    assert 0 < cold < 1.0  # kJ: the compression energy of 2 m3 of water at 12 bar (hand: ~0.65)
+
+
 def test_a_liquid_below_its_boiling_point_does_not_flash():
     with pytest.raises(OutOfRange, match="does not flash.*JB_TEST_HYDRO_ENERGY"):
         call("JB_STORED_FLASHING_LIQUID", "water | T = 20 degC | P = 10 bar", 1)

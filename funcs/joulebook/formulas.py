@@ -836,6 +836,11 @@ def hydro_test_energy(state, V, shape, D, wall, E, nu, P_amb, *, system):
     if p1.x is not None or "liquid" not in p1.phase:
         raise BadInput(f"state is {p1.phase}: a hydrostatic test holds liquid")
     P_amb = P_amb or stored.STANDARD_ATMOSPHERE
+    if stored.flashes(med, p1, P_amb, shows):  # a hot liquid: its energy is a flash (issue 27)
+        raise OutOfRange(
+            f"state: the liquid at {fmt_value(p1.T - 273.15)} degC boils when released to "
+            "ambient pressure; its energy is that of a flashing liquid: JB_STORED_FLASHING_LIQUID"
+        )
     liquid = stored.isentropic(med, p1, V, P_amb, shows)
     c = _wall_compliance(shape, D, wall, E, nu)
     return liquid + pressuretests.container_energy(c, V, p1.P - P_amb)

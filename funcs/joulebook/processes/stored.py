@@ -47,6 +47,7 @@ __all__ = [
     "isochoric",
     "flashing_liquid",
     "holds_liquid",
+    "flashes",
     "described",
     "STANDARD_ATMOSPHERE",
 ]
@@ -147,6 +148,43 @@ def holds_liquid(p: Point) -> bool:
     if p.x is not None:
         return p.x < 1.0
     return any(w in p.phase for w in _LIQUID_WORDS)
+
+
+def flashes(med, p1: Point, P_amb: float = STANDARD_ATMOSPHERE, shows=None) -> bool:
+    """Whether liquid contents boil when expanded isentropically to ambient pressure.
+
+    Parameters
+    ----------
+    med : medium
+        The fluid.
+    p1 : Point
+        The stored state.
+    P_amb : float
+        Ambient pressure (Pa).
+    shows : dict, optional
+        Units the inputs were written in, for messages.
+
+    Returns
+    -------
+    bool
+        True when the contents hold liquid and the expanded state holds vapour.
+
+    References
+    ----------
+    .. [1] Center for Chemical Process Safety, *Guidelines for Vapor Cloud Explosion, Pressure
+       Vessel Burst, BLEVE, and Flash Fire Hazards*, 2nd ed., Wiley/AIChE, 2010 (from memory).
+
+    Examples
+    --------
+    >>> from joulebook.media import medium
+    >>> w = medium("water")
+    >>> flashes(w, w.point("T", 423.15, "P", 1.2e6)), flashes(w, w.point("T", 293.15, "P", 1.2e6))
+    (True, False)
+    """
+    if not holds_liquid(p1) or not p1.P > P_amb:
+        return False
+    p2 = med.point("P", P_amb, "s", p1.s, shows)
+    return p2.x is not None or not holds_liquid(p2)
 
 
 def described(p: Point) -> str:
