@@ -50,6 +50,7 @@ __all__ = [
     "Phrase",
     "convert",
     "kind_of_unit",
+    "typed_spellings",
     "DEFAULT_SYSTEM",
     "registry",
 ]
@@ -330,6 +331,30 @@ _AMBIGUOUS = {
     "bbl": "bbl is ambiguous (31.5 or 42 US gallons): write oil_bbl (42 US gal) or "
     "liquid_bbl (31.5 US gal)",
 }
+
+
+def typed_spellings() -> tuple[str, ...]:
+    """The units that the whole-unit spellings engineers type stand for, in the parser's form.
+
+    Each spelling (``PSIG``, ``bar(g)``, ``kg/cm2g``, ``mmH2O``) is read as one of these, so
+    the unit seed holds them all and a label naming one is read without pint.
+
+    Returns
+    -------
+    tuple of str
+        The units, sorted, e.g. ``'kgf/cm2g'``, ``'millimeter_water'``.
+
+    References
+    ----------
+    .. [1] NIST Special Publication 811 (2008), *Guide for the Use of the International System
+       of Units*, Appendix B (conversion factors).
+
+    Examples
+    --------
+    >>> "millimeter_water" in typed_spellings() and "kgf/cm2g" in typed_spellings()
+    True
+    """
+    return tuple(sorted({*_SPELLINGS.values(), *_EXACT_SPELLINGS.values()}))
 
 
 def _spelled(raw: str) -> str:

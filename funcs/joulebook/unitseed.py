@@ -448,7 +448,7 @@ def generate() -> tuple[dict, dict, dict]:
                 u.kind_of_unit(unit, _quiet=True)
         # the whole-unit spellings engineers type (kg/cm2g, mmH2O, Torr …), so that a label
         # naming one is read without pint too
-        for unit in sorted({*u._SPELLINGS.values(), *u._EXACT_SPELLINGS.values()}):
+        for unit in u.typed_spellings():
             kind = u.kind_of_unit(unit, _quiet=True)
             if kind is not None:
                 try:
