@@ -1647,7 +1647,10 @@ CATALOG: tuple[Func, ...] = (
             1e-6,
         ),
         elementwise=False,
-        working=Working(figure="points"),
+        working=Working(
+            figure="points",
+            columns=("n compression", "n expansion", "R² compression", "R² expansion"),
+        ),
     ),
     # ------------------------------------------------------------------ humid air
     Func(
