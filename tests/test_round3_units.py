@@ -202,3 +202,15 @@ def test_the_new_spellings_are_seeded_so_labels_are_read_without_pint():
     c = known_unit("kg/cm2g", "pressure")
     assert c is not None and (c.factor, c.offset) == (98066.5, 101325.0)
     assert known_unit("psi", "pressure") is None  # ambiguous: no label reading
+
+
+@pytest.mark.parametrize(
+    "phrase, meant",
+    [("Twetbulb in degC", "Twb"), ("Pres in psig", "P"), ("sigmaa in N/m", "sigma"),
+     ("lamda in W/(m*K)", "lambda")],
+)  # fmt: skip
+def test_an_unknown_property_names_the_symbol_meant_before_any_cut(phrase, meant):
+    with pytest.raises(BadInput) as e:
+        parse_phrase(phrase)
+    likely = str(e.value).split("did you mean", 1)[1].split("?", 1)[0]
+    assert meant in likely.replace(" or ", " ").split(), str(e.value)

@@ -966,14 +966,19 @@ def unit_system(text: str | None = None) -> UnitSystem:
 
 
 def _unknown_override(raw: str, sym: str, unit: str) -> str:
-    """The message of an override whose symbol is unknown: first the symbols the user most
-    likely means (those of the unit's quantity, those spelled alike), then all of them, so
-    that a message clipped to its length never loses the one needed."""
+    """The message of an override whose symbol is unknown."""
+    names = sorted(set(SYMBOLS) - {"Tsat", "Psat"}, key=str.lower)
+    return _unknown_symbol(f"units {raw!r}: unknown symbol {sym!r} in override", sym, unit, names)
+
+
+def _unknown_symbol(head: str, sym: str, unit: str | None, names) -> str:
+    """*head* and the symbols: first those the user most likely means (those of the unit's
+    quantity, those spelled alike), then the others, so that a message clipped to its
+    length never loses the one needed."""
     import difflib
 
-    names = sorted(set(SYMBOLS) - {"Tsat", "Psat"}, key=str.lower)
     kind = kind_of_unit(unit, _quiet=True) if unit else None
-    likely = [n for n in names if SYMBOLS[n] == kind]
+    likely = [n for n in names if SYMBOLS.get(n) == kind]
     likely += [
         n
         for n in difflib.get_close_matches(sym, names, n=4, cutoff=0.5)
@@ -981,7 +986,6 @@ def _unknown_override(raw: str, sym: str, unit: str) -> str:
         if n not in likely
     ]
     rest = [n for n in names if n not in likely]
-    head = f"units {raw!r}: unknown symbol {sym!r} in override"
     if likely:
         return f"{head}; did you mean {' or '.join(likely)}? Others: {' '.join(rest)}"
     return f"{head}; use one of {' '.join(names)}"
@@ -1068,8 +1072,9 @@ def parse_phrase(text: str, system: UnitSystem | None = None, allowed: tuple = (
     sym = m.group("sym")
     sym = _SYMBOL_ALIASES.get(sym, sym)
     if sym not in SYMBOLS or (allowed and sym not in allowed):
-        valid = " ".join(allowed) if allowed else " ".join(SYMBOLS)
-        raise BadInput(f"unknown property {m.group('sym')!r} in {text!r}; use one of {valid}")
+        head = f"unknown property {m.group('sym')!r} in {text!r}"
+        names = allowed or tuple(SYMBOLS)
+        raise BadInput(_unknown_symbol(head, m.group("sym"), m.group("unit"), names))
     kind = SYMBOLS[sym]
     unit = m.group("unit")
     if unit is None or unit == "":
