@@ -971,7 +971,9 @@ def _unknown_override(raw: str, sym: str, unit: str) -> str:
     return _unknown_symbol(f"units {raw!r}: unknown symbol {sym!r} in override", sym, unit, names)
 
 
-def _unknown_symbol(head: str, sym: str, unit: str | None, names) -> str:
+def _unknown_symbol(
+    head: str, sym: str, unit: str | None, names: tuple[str, ...] | list[str]
+) -> str:
     """*head* and the symbols: first those the user most likely means (those of the unit's
     quantity, those spelled alike), then the others, so that a message clipped to its
     length never loses the one needed."""
