@@ -153,6 +153,7 @@ def _recalc(ns: argparse.Namespace) -> int:
 
     from .errors import JoulebookError
     from .workbook.check import _same, compare, fmt, summary
+    from .workbook.roundtrip import CopyMismatch
     from .workbook.writer import write_copy
 
     book, outcomes = _load(ns.book)
@@ -163,6 +164,16 @@ def _recalc(ns: argparse.Namespace) -> int:
     except JoulebookError as e:
         print(e.cell_text(), file=sys.stderr)
         return 2
+    except OSError as e:  # a read-only folder, a full disk: the target is named
+        print(f"cannot write {ns.output}: {e.strerror or e}", file=sys.stderr)
+        return 2
+    except CopyMismatch as e:  # the proof of the copy failed: a defect of ours
+        print(
+            f"joulebook: internal error: nothing written to {ns.output}: the copy would "
+            f"differ from {ns.book} beyond the recomputed values ({e}); please report it",
+            file=sys.stderr,
+        )
+        return 3
     rows = compare(book, outcomes)
     s = summary(rows)
     kept = [r for r in rows if _kept(r)]

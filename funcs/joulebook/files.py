@@ -12,10 +12,12 @@ from pathlib import Path
 __all__ = ["atomic_write"]
 
 
-def atomic_write(target: Path, write) -> None:
+def atomic_write(target: Path, write, verify=None) -> None:
     """Call ``write(fileobj)`` on a temporary file beside *target*, then rename it into place.
 
-    A reader never sees a half-written file, and a failure leaves *target* as it was.
+    A reader never sees a half-written file, and a failure leaves *target* as it was.  When
+    *verify* is given it is called with the temporary file's path once it is complete; if it
+    raises, the file is removed and *target* left as it was.
 
     Parameters
     ----------
@@ -23,6 +25,8 @@ def atomic_write(target: Path, write) -> None:
         The file to write (its folder must exist).
     write : callable
         Called once with a binary file object.
+    verify : callable, optional
+        Called with the complete temporary file's path before it replaces *target*.
 
     Examples
     --------
@@ -47,6 +51,8 @@ def atomic_write(target: Path, write) -> None:
             write(fh)
             fh.flush()
             os.fsync(fh.fileno())
+        if verify is not None:
+            verify(Path(tmp))
         os.replace(tmp, target)
     except BaseException:
         try:

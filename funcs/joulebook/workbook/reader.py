@@ -48,6 +48,9 @@ class Limits:
     max_cells: int = 3_000_000
     max_formulas: int = 1_000_000
     max_text: int = 32_767  # Excel's own cell-text limit
+    max_range_cells: int = 250_000  # cells of one declared range (array, shared, data table)
+    max_formula_chars: int = 8_192  # Excel's own formula-length limit
+    max_nesting: int = 64  # Excel's own limit of nested function calls
 
 
 @dataclass(slots=True)
@@ -132,15 +135,18 @@ class Book:
         return [c for c in self.cells.values() if c.formula is not None]
 
 
-_REF = re.compile(r"^\$?([A-Za-z]{1,3})\$?(\d+)$")
+_REF = re.compile(r"^\$?([A-Za-z]{1,3})\$?([0-9]{1,7})$")
 
 
 def split_ref(ref: str) -> tuple[int, int]:
-    """'B12' -> (12, 2)."""
+    """'B12' -> (12, 2); a reference beyond XFD1048576 (Excel's last cell) is refused."""
     m = _REF.match(ref)
     if not m:
-        raise BadInput(f"cell reference {ref!r} is not like A1")
-    return int(m.group(2)), col_number(m.group(1))
+        raise BadInput(f"cell reference {ref[:40]!r} is not like A1")
+    row, col = int(m.group(2)), col_number(m.group(1))
+    if not (1 <= row <= 1_048_576 and col <= 16_384):
+        raise BadInput(f"cell reference {ref!r} lies outside A1:XFD1048576")
+    return row, col
 
 
 def _check_package(zf: zipfile.ZipFile, limits: Limits) -> None:
@@ -505,14 +511,20 @@ class _SheetHandler:
         self.inline = None  # the <t> texts of its inline string
         self.buf = None  # text being collected
         self.phonetic = 0  # depth inside <rPh> (phonetic runs are not the text)
+        self.row_no = 0  # the row being read: its r, or the one after the previous row
+        self.col_no = 0  # the column of the last cell read in it
 
     def start(self, name, attrs):
         if name == _C:
             self.c, self.f, self.f_text, self.v_text, self.inline = attrs, None, None, None, None
             self.has_v = False
         elif self.c is None:
-            if name == _ROW and attrs.get("hidden") in ("1", "true"):
-                self.book.hidden_rows.setdefault(self.sheet, set()).add(int(attrs.get("r", "0")))
+            if name == _ROW:
+                r = attrs.get("r")
+                self.row_no = int(r) if r and r.isdigit() else self.row_no + 1
+                self.col_no = 0
+                if attrs.get("hidden") in ("1", "true"):
+                    self.book.hidden_rows.setdefault(self.sheet, set()).add(self.row_no)
             elif name == _AUTOFILTER:
                 self.book.filtered.add(self.sheet)
         elif name == _F:
@@ -550,9 +562,12 @@ class _SheetHandler:
     def _cell(self) -> None:
         el, limits, counts, sheet = self.c, self.limits, self.counts, self.sheet
         ref = el.get("r")
-        if ref is None:
-            return
-        row, col = split_ref(ref)
+        if ref is None:  # a cell without r is the one after the previous (§18.3.1.4)
+            row, col = self.row_no, self.col_no + 1
+            ref = f"{col_letters(col)}{row}"
+        else:
+            row, col = split_ref(ref)
+        self.col_no = col
         counts[0] += 1
         if counts[0] > limits.max_cells:
             raise BadInput(
@@ -567,6 +582,25 @@ class _SheetHandler:
                 raise BadInput(f"more than {limits.max_formulas} formula cells; raise the limit")
             ftype = f.get("t", "normal")
             text = self.f_text
+            where = f"{sheet}!{ref}"
+            if text and len(text) > limits.max_formula_chars:
+                raise BadInput(
+                    f"{where}: formula of {len(text):,} characters; the limit is "
+                    f"{limits.max_formula_chars:,} (Excel's own)"
+                )
+            if text and _nesting(text) > limits.max_nesting:
+                raise BadInput(
+                    f"{where}: formula nests more than {limits.max_nesting} levels of "
+                    "parentheses (Excel's own limit)"
+                )
+            if ftype in ("array", "shared", "dataTable") and f.get("ref"):
+                box = declared_range(f.get("ref"), where, limits)
+                counts[0] += (box[2] - box[0] + 1) * (box[3] - box[1] + 1) - 1
+                if ftype == "array" and box[:2] != (row, col):
+                    raise BadInput(
+                        f"{where}: array formula range {f.get('ref')!r} does not start at its "
+                        "own cell"
+                    )
             if ftype == "shared":
                 from openpyxl.formula.translate import Translator
 
@@ -577,7 +611,7 @@ class _SheetHandler:
                     mt, mref = self.masters[si]
                     text = Translator("=" + mt, origin=mref).translate_formula(ref)[1:]
             if ftype == "array":
-                cell.array_ref = f.get("ref") or ref
+                cell.array_ref = _box_text(box) if f.get("ref") else ref
             if ftype == "dataTable":
                 # a What-If data table: every cell of its range is the table's formula
                 # recomputed with other inputs; written as Excel shows it, TABLE(row
@@ -612,6 +646,54 @@ class _SheetHandler:
                 cell.cached = float(raw)
         if cell.formula is not None or cell.has_cached:
             self.book.cells[(sheet, row, col)] = cell
+
+
+def _nesting(text: str) -> int:
+    """The deepest nesting of parentheses in a formula, outside its string literals."""
+    if text.count("(") <= 64:
+        return text.count("(")
+    depth = deepest = 0
+    quoted = False
+    for ch in text:
+        if ch == '"':
+            quoted = not quoted
+        elif quoted:
+            continue
+        elif ch == "(":
+            depth += 1
+            deepest = max(deepest, depth)
+        elif ch == ")":
+            depth -= 1
+    return deepest
+
+
+def _box_text(box: tuple[int, int, int, int]) -> str:
+    r1, c1, r2, c2 = box
+    a = f"{col_letters(c1)}{r1}"
+    return a if (r1, c1) == (r2, c2) else f"{a}:{col_letters(c2)}{r2}"
+
+
+def declared_range(text: str, where: str, limits: Limits) -> tuple[int, int, int, int]:
+    """The box (r1, c1, r2, c2) of a range a part declares (``ref="A1:B4"``), its corners
+    put in order (a reversed ``B4:A1`` is the same box), refused when it is not a range or
+    holds more cells than *limits* allow, before anything is allocated for it."""
+    a, _, b = text.partition(":")
+    try:
+        r1, c1 = split_ref(a.strip())
+        r2, c2 = split_ref((b or a).strip())
+    except BadInput:
+        raise BadInput(f"{where}: range {text[:40]!r} is not like A1:B4") from None
+    r1, r2 = min(r1, r2), max(r1, r2)
+    c1, c2 = min(c1, c2), max(c1, c2)
+    if r2 > 1_048_576 or c2 > 16_384:
+        raise BadInput(f"{where}: range {text[:40]!r} lies beyond the sheet's last cell XFD1048576")
+    n = (r2 - r1 + 1) * (c2 - c1 + 1)
+    if n > limits.max_range_cells:
+        raise BadInput(
+            f"{where}: range {text[:40]!r} declares {n:,} cells; the limit is "
+            f"{limits.max_range_cells:,}"
+        )
+    return r1, c1, r2, c2
 
 
 def _read_sheet(zf, part, sheet, book: Book, shared, limits: Limits, counts) -> None:
