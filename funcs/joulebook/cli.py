@@ -203,9 +203,7 @@ def _recalc(ns: argparse.Namespace) -> int:
             more = "see --json" if not ns.json else f"all in {ns.json}"
             print(f"  … and {len(group) - _SHOWN} more {title} ({more})")
     if ns.json:
-
-        def enc(v):
-            return {"error": v[1]} if isinstance(v, tuple) else v
+        from .workbook.check import json_value as enc
 
         def cell(r):
             return {
@@ -225,7 +223,7 @@ def _recalc(ns: argparse.Namespace) -> int:
             "no_saved_value": [cell(r) for r in new],
             "left_as_saved": [cell(r) for r in kept],
         }
-        if not _write_text(ns.json, json.dumps(report, indent=2, default=str)):
+        if not _write_text(ns.json, json.dumps(report, indent=2, default=str, allow_nan=False)):
             return 2
     return 0
 
@@ -472,7 +470,9 @@ def _combined_json(results: list, ns, many: bool) -> str:
         else:
             books.append({**json.loads(r["json"]), "exit": r["code"]})
     return json.dumps(
-        {"tolerance": {"rtol": ns.rtol, "atol": ns.atol}, "workbooks": books}, indent=2
+        {"tolerance": {"rtol": ns.rtol, "atol": ns.atol}, "workbooks": books},
+        indent=2,
+        allow_nan=False,
     )
 
 
@@ -576,7 +576,7 @@ def _sarif(results: list) -> str:
             }
         ],
     }
-    return json.dumps(log, indent=2, default=str)
+    return json.dumps(log, indent=2, default=str, allow_nan=False)
 
 
 def _summary_markdown(results: list) -> str:
@@ -670,6 +670,19 @@ def _demo(ns: argparse.Namespace) -> int:
     return 0 if results else 1
 
 
+def _tolerance(text: str) -> float:
+    """A tolerance: a finite number, zero or more (a NaN or infinite one would pass anything)."""
+    import math
+
+    try:
+        x = float(text)
+    except ValueError:
+        x = math.nan
+    if not (math.isfinite(x) and x >= 0):
+        raise argparse.ArgumentTypeError(f"{text!r} is not a finite number of 0 or more")
+    return x
+
+
 def build_parser() -> argparse.ArgumentParser:
     p = argparse.ArgumentParser(
         prog="joulebook",
@@ -733,8 +746,12 @@ def build_parser() -> argparse.ArgumentParser:
     )
     c.add_argument("--summary", help="write a Markdown table of the verdicts here (CI summaries)")
     c.add_argument("--sarif", help="write a SARIF 2.1.0 log of the failing cells here")
-    c.add_argument("--rtol", type=float, default=1e-9, help="relative tolerance (default 1e-9)")
-    c.add_argument("--atol", type=float, default=1e-12, help="absolute tolerance (default 1e-12)")
+    c.add_argument(
+        "--rtol", type=_tolerance, default=1e-9, help="relative tolerance (default 1e-9)"
+    )
+    c.add_argument(
+        "--atol", type=_tolerance, default=1e-12, help="absolute tolerance (default 1e-12)"
+    )
     c.add_argument("--json", help="write a JSON report here")
     c.add_argument("--junit", help="write a JUnit XML report here (for CI)")
     c.add_argument(

@@ -35,6 +35,30 @@ __all__ = [
 NS = "{http://schemas.openxmlformats.org/spreadsheetml/2006/main}"
 RNS = "{http://schemas.openxmlformats.org/officeDocument/2006/relationships}"
 PKG_RNS = "{http://schemas.openxmlformats.org/package/2006/relationships}"
+#: Strict Open XML (ISO/IEC 29500 Strict, which Excel can save) names the same elements
+#: in other namespaces: read by renaming them to the transitional ones
+_STRICT = {
+    "http://purl.oclc.org/ooxml/spreadsheetml/main": NS[1:-1],
+    "http://purl.oclc.org/ooxml/officeDocument/relationships": RNS[1:-1],
+}
+
+
+def _transitional(name: str) -> str:
+    """An element or attribute name ("{uri}local" or "uri}local") in the transitional
+    namespace when it is in a Strict one."""
+    for strict, trans in _STRICT.items():
+        if strict in name:
+            return name.replace(strict, trans, 1)
+    return name
+
+
+def _to_transitional(root):
+    """Rename every Strict element and attribute of a parsed part (in place)."""
+    for el in root.iter():
+        el.tag = _transitional(el.tag)
+        for k in [k for k in el.attrib if k.startswith("{http://purl.oclc.org/")]:
+            el.attrib[_transitional(k)] = el.attrib.pop(k)
+    return root
 
 
 @dataclass(frozen=True)
@@ -130,6 +154,7 @@ class Book:
     hidden_rows: dict[str, set[int]] = field(default_factory=dict)  # sheet -> hidden row numbers
     filtered: set[str] = field(default_factory=set)  # sheets with an AutoFilter
     data_tables: list[DataTable] = field(default_factory=list)  # What-If data tables
+    strict: bool = False  # saved in Strict Open XML (read as the transitional namespace)
 
     def formula_cells(self) -> list[Cell]:
         return [c for c in self.cells.values() if c.formula is not None]
@@ -170,16 +195,41 @@ def _check_package(zf: zipfile.ZipFile, limits: Limits) -> None:
         raise BadInput(
             f"workbook unpacks to {total // 2**20} MiB; the limit is {limits.max_total_bytes // 2**20} MiB"
         )
+    # every member is unpacked and its checksum checked once, so that check (which reads
+    # some parts) and recalc (which copies them all) agree on what is readable
+    for i in infos:
+        try:
+            with zf.open(i) as fh:
+                while fh.read(1 << 20):
+                    pass
+        except Exception as e:  # bad CRC, damaged deflate stream, unknown method, …
+            raise BadInput(
+                f"part {i.filename[:60]!r} cannot be unpacked ({type(e).__name__}: "
+                f"{str(e)[:80]}): a damaged or unsupported zip package"
+            ) from None
+
+
+def _is_strict(zf: zipfile.ZipFile) -> bool:
+    """True when xl/workbook.xml is in the Strict SpreadsheetML namespace (its first bytes)."""
+    try:
+        with zf.open("xl/workbook.xml") as fh:
+            head = fh.read(4096)
+    except KeyError:
+        return False
+    return b"http://purl.oclc.org/ooxml/spreadsheetml/main" in head
 
 
 def _parse(zf: zipfile.ZipFile, name: str):
     try:
         with zf.open(name) as fh:
-            return SafeET.parse(fh).getroot()
+            root = SafeET.parse(fh).getroot()
     except KeyError:
         return None
     except Exception as e:  # defusedxml refusals and malformed XML
         raise BadInput(f"part {name!r} is not safe, well-formed XML ({type(e).__name__})") from None
+    if root.tag.startswith("{http://purl.oclc.org/"):
+        _to_transitional(root)
+    return root
 
 
 def unescape_text(text: str) -> str:
@@ -291,6 +341,7 @@ def _read_book(path: str | Path, limits: Limits | None) -> Book:
         raise BadInput(f"{path.name}: {_not_a_package(data)}") from None
     with zf:
         _check_package(zf, limits)
+        strict = _is_strict(zf)
         wb = _parse(zf, "xl/workbook.xml")
         if wb is None:
             if "mimetype" in zf.namelist() and b"opendocument" in zf.read("mimetype")[:100]:
@@ -299,6 +350,11 @@ def _read_book(path: str | Path, limits: Limits | None) -> Book:
                     "(File → Save As → Excel 2007-365) and check that"
                 )
             raise BadInput(f"{path.name}: no xl/workbook.xml: not an Excel workbook package")
+        if wb.tag != NS + "workbook":
+            raise BadInput(
+                f"{path.name}: xl/workbook.xml is not a SpreadsheetML workbook (its root is "
+                f"{wb.tag[:80]!r}); joulebook reads the transitional and Strict namespaces"
+            )
         rels = _parse(zf, "xl/_rels/workbook.xml.rels")
         targets = {}
         ext_links = 0
@@ -343,6 +399,7 @@ def _read_book(path: str | Path, limits: Limits | None) -> Book:
             full_calc_on_load=calc is not None and calc.get("fullCalcOnLoad") in ("1", "true"),
             external_links=ext_links,
             local_names=local_names,
+            strict=strict,
         )
         for i, rid in enumerate(ext_ids, start=1):
             if rid in targets:
@@ -463,7 +520,9 @@ def _shared_strings(zf: zipfile.ZipFile, limits: Limits) -> list[str]:
     with fh:
         try:
             for _ev, el in SafeET.iterparse(fh, events=("end",)):
-                if el.tag == NS + "si":
+                if _transitional(el.tag) == NS + "si":
+                    if el.tag != NS + "si":
+                        _to_transitional(el)
                     out.append(_text_of(el)[: limits.max_text])
                     el.clear()
         except Exception as e:
@@ -511,10 +570,18 @@ class _SheetHandler:
         self.inline = None  # the <t> texts of its inline string
         self.buf = None  # text being collected
         self.phonetic = 0  # depth inside <rPh> (phonetic runs are not the text)
+        self.root = None  # the name of the part's root element
         self.row_no = 0  # the row being read: its r, or the one after the previous row
         self.col_no = 0  # the column of the last cell read in it
 
     def start(self, name, attrs):
+        if self.root is None:
+            self.root = name
+            if name != _M + "worksheet":
+                raise BadInput(
+                    f"sheet {self.sheet!r}: its root element is {name[:80]!r}, not a "
+                    "SpreadsheetML worksheet; its cells cannot be read"
+                )
         if name == _C:
             self.c, self.f, self.f_text, self.v_text, self.inline = attrs, None, None, None, None
             self.has_v = False
@@ -705,6 +772,10 @@ def _read_sheet(zf, part, sheet, book: Book, shared, limits: Limits, counts) -> 
     with fh:
         try:
             expat = _streaming_parser(handler)
+            if book.strict:  # element names renamed to the transitional namespace
+                start, end = handler.start, handler.end
+                expat.StartElementHandler = lambda n, a: start(_transitional(n), a)
+                expat.EndElementHandler = lambda n: end(_transitional(n))
             while chunk := fh.read(1 << 16):
                 expat.Parse(chunk, False)
             expat.Parse(b"", True)
