@@ -122,16 +122,21 @@ def _progress(quiet: bool = False) -> _Bar:
 
 def _load(path: str):
     from .errors import JoulebookError
+    from .runio import regular_file, shown
     from .workbook.engine import Engine
     from .workbook.reader import read_book
 
     try:
+        regular_file(Path(path))
         book = read_book(path)
     except (JoulebookError, OSError) as e:
         msg = (
-            e.cell_text() if isinstance(e, JoulebookError) else f"cannot read {path}: {e.strerror}"
+            e.cell_text()
+            if isinstance(e, JoulebookError)
+            else f"cannot read {shown(path)}: {e.strerror}"
         )
-        print(msg, file=sys.stderr)
+        name = shown(Path(path).name)
+        print(msg if name in msg else f"{shown(path)}: {msg}", file=sys.stderr)
         return None, None
     bar = _progress()
     try:
@@ -152,10 +157,16 @@ def _recalc(ns: argparse.Namespace) -> int:
     import json
 
     from .errors import JoulebookError
+    from .runio import guard_outputs, shown
     from .workbook.check import _same, compare, fmt, summary
     from .workbook.roundtrip import CopyMismatch
     from .workbook.writer import write_copy
 
+    try:
+        guard_outputs([ns.book], [("-o", ns.output), ("--json", ns.json)])
+    except JoulebookError as e:
+        print(e.cell_text(), file=sys.stderr)
+        return 2
     book, outcomes = _load(ns.book)
     if book is None:
         return 2
@@ -165,7 +176,7 @@ def _recalc(ns: argparse.Namespace) -> int:
         print(e.cell_text(), file=sys.stderr)
         return 2
     except OSError as e:  # a read-only folder, a full disk: the target is named
-        print(f"cannot write {ns.output}: {e.strerror or e}", file=sys.stderr)
+        print(f"cannot write {shown(ns.output)}: {e.strerror or e}", file=sys.stderr)
         return 2
     except CopyMismatch as e:  # the proof of the copy failed: a defect of ours
         print(
@@ -237,31 +248,42 @@ def _kept(r) -> bool:
 
 
 def _write_text(path: str, text: str) -> bool:
-    from pathlib import Path
+    from .runio import write_report
 
-    p = Path(path)
-    try:
-        p.parent.mkdir(parents=True, exist_ok=True)
-        p.write_text(text, encoding="utf-8")
-    except OSError as e:
-        print(f"cannot write {path}: {e.strerror}", file=sys.stderr)
-        return False
-    return True
+    return write_report(path, text)
 
 
 def _check(ns: argparse.Namespace) -> int:
+    from .errors import BadInput
+    from .runio import guard_outputs, shown
     from .workbook.check import fmt
 
     paths, unmatched = _workbook_paths(ns.books)
     for spec in unmatched:
-        print(f"{spec}: no such workbook (nor a folder or pattern matching any)", file=sys.stderr)
+        print(
+            f"{shown(spec)}: no such workbook (nor a folder or pattern matching any)",
+            file=sys.stderr,
+        )
     if not paths:
+        return 2
+    try:
+        guard_outputs(
+            paths,
+            [
+                ("--json", ns.json),
+                ("--junit", ns.junit),
+                ("--summary", ns.summary),
+                ("--sarif", ns.sarif),
+            ],
+        )
+    except BadInput as e:
+        print(e.cell_text(), file=sys.stderr)
         return 2
     jobs = [(str(p), ns.rtol, ns.atol, ns.allow_errors, ns.allow_unsupported) for p in paths]
     bar = _Bar(len(jobs), "workbooks", ns.quiet, least=2)
     try:
         if ns.cluster:
-            results = _on_cluster(ns.cluster, jobs, bar)
+            results = _on_cluster(ns.cluster, jobs, bar, ns.cluster_wait)
             if results is None:
                 return 2
         else:
@@ -344,13 +366,16 @@ def _on_this_machine(jobs: list, n: int, bar: _Bar) -> list[dict]:
     return results
 
 
-def _on_cluster(address: str, jobs: list, bar: _Bar) -> list[dict] | None:
+def _on_cluster(address: str, jobs: list, bar: _Bar, wait: float = 300.0) -> list[dict] | None:
     """Check each workbook on a Dask distributed cluster at *address*.
 
     The workbook's bytes travel with its job, so the workers need joulebook (the same
-    version) but not the files; each result is the one :func:`check_one` gives here."""
+    version) but not the files; each result is the one :func:`check_one` gives here.  A job
+    the cluster loses (its worker died, or no result came for *wait* seconds) is reported
+    as a workbook not checked (exit 2), never waited for forever."""
     try:
-        from distributed import Client, as_completed
+        from distributed import Client
+        from distributed import wait as dask_wait
     except ImportError:
         print("--cluster needs Dask distributed: pip install 'joulebook[cluster]'", file=sys.stderr)
         return None
@@ -370,17 +395,54 @@ def _on_cluster(address: str, jobs: list, bar: _Bar) -> list[dict] | None:
                 bar.step()
                 continue
             futures[client.submit(check_bytes, job, data, pure=False)] = i
-        for fut in as_completed(list(futures)):
-            results[futures[fut]] = fut.result()
-            bar.step()
+        pending = set(futures)
+        while pending:
+            done, pending = _next_done(dask_wait, pending, wait)
+            if not done:  # nothing came back in time: the work is lost, not waited for
+                for fut in pending:
+                    results[futures[fut]] = _unreadable(
+                        jobs[futures[fut]][0],
+                        f"not checked: the cluster at {address} returned no result for "
+                        f"{wait:g} s (workers lost or busy); see --cluster-wait",
+                    )
+                    fut.cancel()
+                break
+            for fut in done:
+                i = futures[fut]
+                try:
+                    results[i] = fut.result()
+                except Exception as e:  # a worker lost (KilledWorker), a cancelled job
+                    results[i] = _unreadable(
+                        jobs[i][0], f"not checked: lost on the cluster ({type(e).__name__})"
+                    )
+                bar.step()
     return results
+
+
+def _next_done(dask_wait, pending: set, wait: float):
+    """(done, still pending) once at least one job finished, or (empty, pending) after
+    *wait* seconds without any."""
+    try:
+        done, rest = dask_wait(list(pending), timeout=wait, return_when="FIRST_COMPLETED")
+    except Exception:  # TimeoutError; a scheduler gone (its connection closed)
+        return set(), pending
+    return set(done), set(rest)
 
 
 _CLUSTER_CONNECT = "15s"  # how long to keep trying to reach the scheduler
 
 
 def _unreadable(path: str, why: str, code: int = 2) -> dict:
-    return {"path": path, "code": code, "message": why, "failing": [], "summary": {}}
+    from .runio import shown, uri
+
+    return {
+        "path": shown(path),
+        "uri": uri(path),
+        "code": code,
+        "message": why,
+        "failing": [],
+        "summary": {},
+    }
 
 
 def check_bytes(job, data: bytes) -> dict:
@@ -431,16 +493,26 @@ def check_one(job, shown_as: str | None = None) -> dict:
 
     *shown_as* is the path the verdict names when the file checked is a copy."""
     from .errors import JoulebookError
+    from .runio import regular_file, shown, uri
     from .workbook.check import compare, failing, summary, to_json, to_junit
     from .workbook.engine import Engine
     from .workbook.reader import read_book
 
     path, rtol, atol, allow_errors, allow_unsupported = job
-    res = {"path": shown_as or path, "code": 0, "message": "", "failing": [], "summary": {}}
+    name = shown(shown_as or path)
+    res = {
+        "path": name,
+        "uri": uri(shown_as or path),
+        "code": 0,
+        "message": "",
+        "failing": [],
+        "summary": {},
+    }
     try:
+        regular_file(Path(path))
         book = read_book(path)
-        if shown_as:
-            book.path = Path(shown_as)
+        if shown_as or name != path:
+            book.path = Path(name)
         rows = compare(book, Engine(book).run(), rtol=rtol, atol=atol)
     except (JoulebookError, OSError) as e:
         why = e.cell_text() if isinstance(e, JoulebookError) else f"cannot read: {e.strerror}"
@@ -518,8 +590,10 @@ def _sarif(results: list) -> str:
 
     ids = list(_SARIF_RULES)
     artifacts, found = [], []
+    from .runio import uri as as_uri
+
     for i, r in enumerate(results):
-        uri = Path(r["path"]).as_posix()
+        uri = r.get("uri") or as_uri(r["path"])
         artifacts.append({"location": {"uri": uri}})
         where = {"artifactLocation": {"uri": uri, "index": i}}
         if r["message"]:
@@ -584,13 +658,15 @@ def _summary_markdown(results: list) -> str:
         "| workbook | verdict | cells | pass | failing |",
         "| --- | --- | ---: | ---: | ---: |",
     ]
+    from .runio import md_cell
+
     verdicts = {0: "holds", 1: "fails", 2: "could not be read", 3: "internal error"}
     for r in results:
         s = r["summary"]
-        name = Path(r["path"]).name.replace("|", "\\|")
+        name = md_cell(Path(r["path"]).name)
         lines.append(
             f"| {name} | {verdicts[r['code']]}"
-            + (f": {r['message']}" if r["message"] else "")
+            + (f": {md_cell(r['message'])}" if r["message"] else "")
             + f" | {s.get('cells', 0)} | {s.get('pass', 0)} | {len(r['failing'])} |"
         )
     return "\n".join(lines) + "\n"
@@ -601,44 +677,56 @@ def _audit(ns: argparse.Namespace) -> int:
 
     from .errors import BadInput
     from .files import atomic_write
+    from .runio import guard_outputs, regular_file, shown
     from .workbook.audit import build_audit, render_html
     from .workbook.reader import read_book
 
     out = Path(ns.output)
     t0 = time.perf_counter()
     try:
-        book = read_book(ns.book)
-        if out.resolve() == Path(ns.book).resolve():
-            raise BadInput("the report must not overwrite the workbook")
+        guard_outputs([ns.book], [("-o", ns.output), ("--json", ns.json), ("--xlsx", ns.xlsx)])
         if out.exists() and not ns.force:
-            raise BadInput(f"{out} exists; use --force to replace it")
+            raise BadInput(f"{shown(out)} exists; use --force to replace it")
+        regular_file(Path(ns.book))
+        book = read_book(ns.book)
     except (BadInput, OSError) as e:
-        print(
-            e.cell_text() if isinstance(e, BadInput) else f"cannot read {ns.book}: {e}",
-            file=sys.stderr,
+        msg = (
+            e.cell_text()
+            if isinstance(e, BadInput)
+            else f"cannot read {shown(ns.book)}: {e.strerror or e}"
         )
+        named = shown(Path(ns.book).name) in msg
+        print(msg if named else f"{shown(ns.book)}: {msg}", file=sys.stderr)
         return 2
     bar = _progress()
     try:
         report = build_audit(book, progress=_cells_only(bar))
     finally:
         bar.close()
-    text = render_html(report).encode("utf-8")
-    atomic_write(out, lambda fh: fh.write(text))
-    if ns.json:
-        from .workbook.audit import to_json
+    text = render_html(report).encode("utf-8", "backslashreplace")
+    target = out
+    try:
+        atomic_write(out, lambda fh: fh.write(text))
+        if ns.json:
+            from .workbook.audit import to_json
 
-        data = to_json(report).encode("utf-8")
-        atomic_write(Path(ns.json), lambda fh: fh.write(data))
-    if ns.xlsx:
-        from .workbook.audit import audit_rows
-        from .workbook.writer import add_sheet_copy
+            data = to_json(report).encode("utf-8", "backslashreplace")
+            target = Path(ns.json)
+            target.parent.mkdir(parents=True, exist_ok=True)
+            atomic_write(target, lambda fh: fh.write(data))
+        if ns.xlsx:
+            from .workbook.audit import audit_rows
+            from .workbook.writer import add_sheet_copy
 
-        try:
+            target = Path(ns.xlsx)
             add_sheet_copy(ns.book, ns.xlsx, "joulebook audit", audit_rows(report), force=ns.force)
-        except BadInput as e:
-            print(e.cell_text(), file=sys.stderr)
-            return 2
+    except BadInput as e:
+        print(e.cell_text(), file=sys.stderr)
+        return 2
+    except OSError as e:  # a read-only folder, a full disk: the target is named
+        print(f"cannot write {shown(target)}: {e.strerror or e}", file=sys.stderr)
+        return 2
+    if ns.xlsx:
         print(f"wrote {ns.xlsx}: a copy of the workbook with a 'joulebook audit' sheet")
     es = report.entries
     passes = sum(e.status == "pass" for e in es)
@@ -668,6 +756,19 @@ def _demo(ns: argparse.Namespace) -> int:
 
     results = run_demo(ns.folder)
     return 0 if results else 1
+
+
+def _seconds(text: str) -> float:
+    """A time in seconds: a finite number above 0."""
+    import math
+
+    try:
+        x = float(text)
+    except ValueError:
+        x = math.nan
+    if not (math.isfinite(x) and x > 0):
+        raise argparse.ArgumentTypeError(f"{text!r} is not a number of seconds above 0")
+    return x
 
 
 def _tolerance(text: str) -> float:
@@ -774,6 +875,14 @@ def build_parser() -> argparse.ArgumentParser:
         "needs joulebook[cluster] here and on the workers",
     )
     c.add_argument(
+        "--cluster-wait",
+        type=_seconds,
+        default=300.0,
+        metavar="SECONDS",
+        help="with --cluster: the longest wait for the next result before the workbooks "
+        "still out are reported as not checked (exit 2); default 300",
+    )
+    c.add_argument(
         "-q",
         "--quiet",
         action="store_true",
@@ -854,8 +963,14 @@ def main(argv: list[str] | None = None) -> int:
     if not getattr(ns, "run", None):
         parser.print_help()
         return 0
+    from .runio import QuietStream
+
+    out, err = sys.stdout, sys.stderr
+    sys.stdout, sys.stderr = QuietStream(out), QuietStream(err)
     try:
-        return ns.run(ns)
+        code = ns.run(ns)
+        sys.stdout.flush()  # a reader gone now changes nothing: the reports are written
+        return code
     except BrokenPipeError:
         # the reader went away (`joulebook functions | head -1`): stop quietly, as Unix tools
         # do; stdout is pointed at devnull so the interpreter's final flush cannot fail again
@@ -866,6 +981,8 @@ def main(argv: list[str] | None = None) -> int:
     except Exception as e:  # a defect of ours: exit 3 with the message, never a traceback
         print(f"joulebook: internal error ({type(e).__name__}): {e}", file=sys.stderr)
         return 3
+    finally:
+        sys.stdout, sys.stderr = out, err
 
 
 if __name__ == "__main__":  # pragma: no cover

@@ -13,10 +13,13 @@ import gc
 import hashlib
 import posixpath
 import re
+import struct
 import zipfile
+import zlib
 from dataclasses import dataclass, field
 from pathlib import Path
 
+from defusedxml import DefusedXmlException
 from defusedxml import ElementTree as SafeET
 
 from ..errors import BadInput
@@ -327,7 +330,32 @@ def read_book(path: str | Path, limits: Limits | None = None) -> Book:
         malformed / unsafe XML.
     """
     with paused_gc():
-        return _read_book(path, limits)
+        try:
+            return _read_book(path, limits)
+        except (BadInput, OSError, MemoryError):
+            raise
+        except _DAMAGED as e:  # malformed content the checks above did not name
+            from ..runio import shown
+
+            raise BadInput(
+                f"{shown(Path(path).name)}: cannot be read, damaged or unsupported content "
+                f"({type(e).__name__}: {str(e)[:80]})"
+            ) from None
+
+
+#: what malformed package content raises in the libraries the reader uses
+_DAMAGED = (
+    ValueError,  # int()/float() of a bad attribute, a bad escape
+    KeyError,
+    IndexError,
+    EOFError,
+    zipfile.BadZipFile,
+    zlib.error,
+    NotImplementedError,  # an unknown compression method
+    OverflowError,
+    RecursionError,
+    struct.error,
+)
 
 
 def _read_book(path: str | Path, limits: Limits | None) -> Book:
@@ -781,6 +809,15 @@ def _read_sheet(zf, part, sheet, book: Book, shared, limits: Limits, counts) -> 
             expat.Parse(b"", True)
         except BadInput:
             raise
+        except (ValueError, IndexError, KeyError, OverflowError) as e:
+            if isinstance(e, DefusedXmlException):  # an entity, a DTD: refused
+                raise BadInput(
+                    f"sheet {sheet!r} is not safe, well-formed XML ({type(e).__name__})"
+                ) from None
+            raise BadInput(  # raised by a cell: int() of a bad attribute, …
+                f"sheet {sheet!r} holds a cell that cannot be read ({type(e).__name__}: "
+                f"{str(e)[:60]})"
+            ) from None
         except Exception as e:
             raise BadInput(
                 f"sheet {sheet!r} is not safe, well-formed XML ({type(e).__name__})"
