@@ -561,8 +561,8 @@ def _shared_strings(zf: zipfile.ZipFile, limits: Limits) -> list[str]:
 
 
 _M = NS[1:]  # element names as the parser gives them: "uri}local"
-_C, _F, _V, _IS, _T, _RPH, _ROW, _AUTOFILTER = (
-    _M + x for x in ("c", "f", "v", "is", "t", "rPh", "row", "autoFilter")
+_C, _F, _V, _IS, _T, _RPH, _ROW, _AUTOFILTER, _SHEETDATA = (
+    _M + x for x in ("c", "f", "v", "is", "t", "rPh", "row", "autoFilter", "sheetData")
 )
 
 
@@ -601,8 +601,15 @@ class _SheetHandler:
         self.root = None  # the name of the part's root element
         self.row_no = 0  # the row being read: its r, or the one after the previous row
         self.col_no = 0  # the column of the last cell read in it
+        # a cell is a <c> of a <row> of the one <sheetData> of the <worksheet> (ECMA-376
+        # Part 1, §18.3.1.99), its value and formula its own children: as the writer finds it
+        self.depth = 0
+        self.in_data = False
+        self.data_seen = False
 
     def start(self, name, attrs):
+        self.depth += 1
+        d = self.depth
         if self.root is None:
             self.root = name
             if name != _M + "worksheet":
@@ -611,10 +618,16 @@ class _SheetHandler:
                     "SpreadsheetML worksheet; its cells cannot be read"
                 )
         if name == _C:
+            if d != 4 or not self.in_data:
+                return  # not a cell of the sheet's data
             self.c, self.f, self.f_text, self.v_text, self.inline = attrs, None, None, None, None
             self.has_v = False
         elif self.c is None:
-            if name == _ROW:
+            if name == _SHEETDATA and d == 2:
+                if self.data_seen:
+                    raise BadInput(f"sheet {self.sheet!r} has two <sheetData> parts of its cells")
+                self.in_data = self.data_seen = True
+            elif name == _ROW and d == 3 and self.in_data:
                 r = attrs.get("r")
                 self.row_no = int(r) if r and r.isdigit() else self.row_no + 1
                 self.col_no = 0
@@ -622,11 +635,11 @@ class _SheetHandler:
                     self.book.hidden_rows.setdefault(self.sheet, set()).add(self.row_no)
             elif name == _AUTOFILTER:
                 self.book.filtered.add(self.sheet)
-        elif name == _F:
+        elif d == 5 and name == _F:
             self.f, self.buf = attrs, []
-        elif name == _V:
+        elif d == 5 and name == _V:
             self.buf, self.has_v = [], True
-        elif name == _IS:
+        elif d == 5 and name == _IS:
             self.inline = []
         elif name == _RPH:
             self.phonetic += 1
@@ -638,15 +651,19 @@ class _SheetHandler:
             self.buf.append(text)
 
     def end(self, name):
-        if name == _C:
+        d = self.depth
+        self.depth -= 1
+        if name == _C and d == 4:
             if self.c is not None:
                 self._cell()
             self.c = None
         elif self.c is None:
+            if name == _SHEETDATA and d == 2:
+                self.in_data = False
             return
-        elif name == _F:
+        elif d == 5 and name == _F:
             self.f_text, self.buf = "".join(self.buf or ()) or None, None
-        elif name == _V:
+        elif d == 5 and name == _V:
             self.v_text, self.buf = "".join(self.buf or ()) or None, None
         elif name == _RPH:
             self.phonetic -= 1
@@ -740,6 +757,8 @@ class _SheetHandler:
             else:
                 cell.cached = float(raw)
         if cell.formula is not None or cell.has_cached:
+            if (sheet, row, col) in self.book.cells:
+                raise BadInput(f"{sheet}!{ref} appears twice in the sheet")
             self.book.cells[(sheet, row, col)] = cell
 
 

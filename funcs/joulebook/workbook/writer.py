@@ -105,6 +105,8 @@ def _patched_cell(xml: bytes, els: list[Element], i: int, value) -> bytes:
         ch = els[k]
         if ch.uri not in SML_NAMESPACES or ch.local not in ("f", "v", "is"):
             continue
+        if ch.depth != c.depth + 1:  # not the cell's own (the reader reads its own only)
+            continue
         if ch.local == "f":
             body.append(xml[at : ch.end])
             at = ch.end
