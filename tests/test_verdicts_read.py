@@ -146,3 +146,37 @@ def test_a_damaged_member_check_never_reads_is_unreadable_for_both(tmp_path, how
     twin = _damage(src, tmp_path / "twin.xlsx", "docProps/app.xml", None)
     assert main(["check", str(twin)]) == 1  # the clean twin is read (its 2 stale values fail)
     assert main(["recalc", str(twin), "-o", str(tmp_path / "o.xlsx")]) == 0
+
+
+def test_a_worksheet_part_outside_xl_worksheets_is_read(tmp_path):
+    """A part may lie anywhere; its relationship's type says it is a worksheet (ECMA-376
+    Part 2, §9.3: a relationship's target is any part name)."""
+    src = _book(tmp_path, "a.xlsx", _sheet())
+    moved = tmp_path / "moved.xlsx"
+    with zipfile.ZipFile(src) as zin, zipfile.ZipFile(moved, "w") as zout:
+        for info in zin.infolist():
+            data = zin.read(info)
+            name = info.filename
+            if name == SHEET:
+                name = "xl/data/receiver.xml"
+            data = data.replace(b"worksheets/sheet1.xml", b"data/receiver.xml")
+            zout.writestr(name, data)
+    assert read_book(moved).sheet_parts == {"Sheet": "xl/data/receiver.xml"}
+    assert len(read_book(moved).cells) == 9
+    assert main(["check", str(moved)]) == 1  # its two stale values, not "0 cells, holds"
+    out = tmp_path / "o.xlsx"
+    assert main(["recalc", str(moved), "-o", str(out)]) == 0
+    assert main(["check", str(out)]) == 0
+
+
+def test_a_sheet_whose_relationship_is_missing_is_unreadable(tmp_path, capsys):
+    src = _book(tmp_path, "a.xlsx", _sheet())
+    bad = tmp_path / "norel.xlsx"
+    with zipfile.ZipFile(src) as zin, zipfile.ZipFile(bad, "w") as zout:
+        for info in zin.infolist():
+            data = zin.read(info)
+            if info.filename == "xl/_rels/workbook.xml.rels":
+                data = data.replace(b'Id="rId1"', b'Id="rId99"')
+            zout.writestr(info, data)
+    assert main(["check", str(bad)]) == 2
+    assert "which the workbook does not hold" in capsys.readouterr().err

@@ -384,7 +384,7 @@ def _read_book(path: str | Path, limits: Limits | None) -> Book:
                 f"{wb.tag[:80]!r}); joulebook reads the transitional and Strict namespaces"
             )
         rels = _parse(zf, "xl/_rels/workbook.xml.rels")
-        targets = {}
+        targets, types = {}, {}
         ext_links = 0
         if rels is not None:
             for r in rels.iter(PKG_RNS + "Relationship"):
@@ -395,13 +395,23 @@ def _read_book(path: str | Path, limits: Limits | None) -> Book:
                     else posixpath.normpath(posixpath.join("xl", t))
                 )
                 targets[r.get("Id")] = part
+                types[r.get("Id")] = r.get("Type", "")
                 if r.get("Type", "").endswith("/externalLink"):
                     ext_links += 1
         sheets, parts = [], {}
         for s in wb.iter(NS + "sheet"):
             name = s.get("name")
             rid = s.get(RNS + "id")
-            if rid in targets and targets[rid].startswith("xl/worksheets/"):
+            if rid not in targets:
+                raise BadInput(
+                    f"{path.name}: sheet {str(name)[:40]!r} names relationship {str(rid)[:20]!r}, "
+                    "which the workbook does not hold: its cells cannot be read"
+                )
+            # a worksheet by its relationship's type (wherever its part lies); chart,
+            # dialog and macro sheets hold no cells of a calculation
+            if types[rid].endswith("/worksheet") or (
+                not types[rid] and targets[rid].startswith("xl/worksheets/")
+            ):
                 sheets.append(name)
                 parts[name] = targets[rid]
         names, local_names = {}, {}
