@@ -344,3 +344,26 @@ def test_recalc_json_equal_to_the_output_is_refused_before_any_work(tmp_path, ca
     assert _sha(out) == h
     with zipfile.ZipFile(out) as z:  # still the workbook, not report text
         assert "xl/workbook.xml" in z.namelist()
+
+
+def test_a_lone_surrogate_escape_is_read_reported_and_written(tmp_path, capsys):
+    # _xD800_ (ECMA-376 Part 1, §22.9.2.19) decodes to a lone surrogate, which UTF-8 cannot
+    # carry: the label and a formula showing it are read, reported and written back
+    sheet = _sheet().replace(b"Receiver R-7 (invented)", b"Receiver _xD800_ R-7")
+    sheet = sheet.replace(
+        b"</row></sheetData>",
+        b'</row><row r="6"><c r="B6" t="str"><f>A1</f><v>old</v></c></row></sheetData>',
+    )
+    src = _book(tmp_path, "sur.xlsx", sheet)
+    outs = {k: tmp_path / f"r.{k}" for k in ("json", "junit", "summary", "sarif")}
+    argv = ["check", src] + [x for k, p in outs.items() for x in (f"--{k}", p)]
+    assert _code(argv) == 1  # three stale values, no internal error
+    assert "Traceback" not in capsys.readouterr().err
+    cells = {c["cell"]: c for c in json.loads(outs["json"].read_text())["cells"]}
+    assert cells["B6"]["recomputed"] == "Receiver \ud800 R-7"
+    assert "<testsuite" in outs["junit"].read_text()
+    out = tmp_path / "o.xlsx"
+    assert _code(["recalc", src, "-o", out]) == 0
+    with zipfile.ZipFile(out) as z:
+        assert b"Receiver _xD800_ R-7" in z.read("xl/worksheets/sheet1.xml")
+    assert _code(["check", out]) == 0
