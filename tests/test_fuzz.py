@@ -1,6 +1,7 @@
 """A seeded fuzz of the file handling (issue 34, item 7): mutated workbooks through `check`
 and `recalc`, asserting for every mutant that no traceback appears, the exit code is 0, 1 or 2
-(3 is a defect of ours), the input never changes, a written copy re-reads equal to its input
+(3 is a defect of ours), check and recalc agree on whether it is readable, the input never
+changes, a written copy re-reads equal to its input
 except the cached values of formula cells, and memory stays under a cap.
 
 Mutants come from hand-made workbooks (tests/handmade.py, an invented receiver) by four kinds
@@ -241,11 +242,13 @@ def fuzz(tmp: Path, n: int, seed: int = SEED) -> Counter:
         figures["mutants"] += 1
         figures[f"mutants: {kind}"] += 1
         out = tmp / f"m{i}-out.xlsx"
+        codes = {}
         for verb, argv in (
             ("check", ["check", str(mutant), "--json", str(tmp / f"m{i}.json")]),
             ("recalc", ["recalc", str(mutant), "-o", str(out)]),
         ):
             code, text, peak = _run(argv)
+            codes[verb] = code
             figures["runs"] += 1
             figures[f"{kind} / {verb} / exit {code}"] += 1
             where = f"mutant {i} ({kind}, seed {seed}), {verb}: exit {code}: {text[-400:]}"
@@ -257,6 +260,8 @@ def fuzz(tmp: Path, n: int, seed: int = SEED) -> Counter:
                 diff = _same_but_cached(mutant, out)
                 assert not diff, f"{where}: {diff}"
                 figures["copies proved"] += 1
+        # check and recalc agree on what is readable
+        assert (codes["check"] == 2) == (codes["recalc"] == 2), f"mutant {i} ({kind}): {codes}"
         for p in (base, tmp / f"base-seed{i}.xlsx", mutant, out, tmp / f"m{i}.json"):
             if p.exists():
                 os.unlink(p)
