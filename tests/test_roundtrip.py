@@ -8,6 +8,7 @@ reversed array range.  The scenario (a receiver's pressure and volume, invented)
 """
 
 import hashlib
+import time
 import zipfile
 from pathlib import Path
 
@@ -165,8 +166,31 @@ def test_spilled_cells_missing_from_the_file_are_added_in_order(tmp_path):
     assert xml.index(b'<row r="9">') < xml.index(b'<row r="12"')
 
 
-def test_a_declared_range_over_the_limit_is_refused_before_allocation(tmp_path):
-    sheet = _sheet().replace(b"<f>B2*B3</f>", b'<f t="array" ref="B4:XFD1048576">B2*B3</f>')
-    src = _book(tmp_path, "huge.xlsx", sheet)
+@pytest.mark.parametrize(
+    "f",
+    [
+        b'<f t="array" ref="B4:XFD1048576">B2*B3</f>',
+        b'<f t="shared" si="0" ref="B4:XFD1048576">B2*B3</f>',
+        b'<f t="dataTable" ref="B4:XFD1048576" dt2D="1" r1="B2" r2="B3"/>',
+    ],
+    ids=["array", "shared", "dataTable"],
+)
+def test_a_declared_range_over_the_limit_is_refused_before_allocation(tmp_path, f):
+    # a 6 KB file declaring 17 billion cells: refused at once, before any list is made
+    src = _book(tmp_path, "huge.xlsx", _sheet().replace(b"<f>B2*B3</f>", f))
+    t = time.perf_counter()
     with pytest.raises(BadInput, match="declares 17,178,771,459 cells; the limit is 250,000"):
         read_book(src)
+    assert time.perf_counter() - t < 2.0
+
+
+def test_a_merged_range_of_the_whole_sheet_costs_nothing(tmp_path, capsys):
+    # merged cells are never expanded (nothing is allocated per merged cell): read at once
+    sheet = _sheet().replace(
+        b"</sheetData>",
+        b'</sheetData><mergeCells count="1"><mergeCell ref="A1:XFD1048576"/></mergeCells>',
+    )
+    src = _book(tmp_path, "merged.xlsx", sheet)
+    t = time.perf_counter()
+    assert main(["check", str(src)]) == 1  # its two stale values
+    assert time.perf_counter() - t < 10.0

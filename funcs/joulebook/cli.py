@@ -227,8 +227,8 @@ def _recalc(ns: argparse.Namespace) -> int:
             }
 
         report = {
-            "workbook": str(book.path),
-            "output": str(ns.output),
+            "workbook": shown(book.path),
+            "output": shown(ns.output),
             "summary": {**s, "changed": len(changed), "left_as_saved": len(kept)},
             "changed": [cell(r) for r in changed],
             "no_saved_value": [cell(r) for r in new],
