@@ -108,7 +108,7 @@ def _xml(rng, pkg: bytes, sheet: bytes) -> bytes:
     elif kind == 2 and el.attrs:  # replace an attribute's value
         name = rng.choice([k for k in el.attrs if "}" not in k] or ["r"])
         value = rng.choice(_GARBAGE)
-        tag = sheet[el.start : el.tag_end].decode()
+        tag = sheet[el.start : el.head(sheet)].decode()
         old = el.attrs.get(name)
         if old is not None:
             for q in ('"', "'"):
@@ -116,12 +116,12 @@ def _xml(rng, pkg: bytes, sheet: bytes) -> bytes:
                     tag = tag.replace(f"{name}{eq}{q}{old}{q}", f"{name}{eq}{q}{value}{q}", 1)
         else:
             tag = tag[:-1].rstrip("/") + f' {name}="{value}"' + ("/>" if el.empty else ">")
-        new = sheet[: el.start] + tag.encode() + sheet[el.tag_end :]
+        new = sheet[: el.start] + tag.encode() + sheet[el.head(sheet) :]
     else:  # replace the text inside a leaf element (a value, a formula, a string)
         if el.empty or el.children:
             return _xml(rng, pkg, sheet)
         text = rng.choice(_GARBAGE + ["1" * rng.randint(1, 400), "&amp;&lt;", "_x0000_"])
-        new = sheet[: el.tag_end] + text.encode() + sheet[el.close :]
+        new = sheet[: el.head(sheet)] + text.encode() + sheet[el.close :]
     return _repack(pkg, new)
 
 

@@ -194,3 +194,20 @@ def test_a_merged_range_of_the_whole_sheet_costs_nothing(tmp_path, capsys):
     t = time.perf_counter()
     assert main(["check", str(src)]) == 1  # its two stale values
     assert time.perf_counter() - t < 10.0
+
+
+def test_a_row_without_r_is_its_first_cells_row(tmp_path):
+    sheet = _sheet().replace(b'<row r="4">', b"<row>").replace(b'<row r="5">', b"<row>")
+    src = _book(tmp_path, "rows.xlsx", sheet)
+    assert _values(src)[(4, 2)] == 30.0 and _values(src)[(5, 3)] is True
+    out = tmp_path / "o.xlsx"
+    assert main(["recalc", str(src), "-o", str(out)]) == 0
+    assert _values(out)[(4, 2)] == 500.0 and _values(out)[(5, 2)] is True
+
+
+def test_a_cell_outside_its_row_is_refused(tmp_path, capsys):
+    # reader and writer would place it differently: refused, exit 2, by both verbs
+    src = _book(tmp_path, "astray.xlsx", _sheet().replace(b'<c r="B3">', b'<c r="B9">'))
+    assert main(["check", str(src)]) == 2
+    assert main(["recalc", str(src), "-o", str(tmp_path / "o.xlsx")]) == 2
+    assert "Sheet!B9 lies in row 3 of the sheet" in capsys.readouterr().err

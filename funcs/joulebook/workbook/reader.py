@@ -610,6 +610,7 @@ class _SheetHandler:
         self.phonetic = 0  # depth inside <rPh> (phonetic runs are not the text)
         self.root = None  # the name of the part's root element
         self.row_no = 0  # the row being read: its r, or the one after the previous row
+        self.row_given = False  # the row being read states its r
         self.col_no = 0  # the column of the last cell read in it
         # a cell is a <c> of a <row> of the one <sheetData> of the <worksheet> (ECMA-376
         # Part 1, §18.3.1.99), its value and formula its own children: as the writer finds it
@@ -639,7 +640,8 @@ class _SheetHandler:
                 self.in_data = self.data_seen = True
             elif name == _ROW and d == 3 and self.in_data:
                 r = attrs.get("r")
-                self.row_no = int(r) if r and r.isdigit() else self.row_no + 1
+                self.row_given = bool(r and r.isdigit())
+                self.row_no = int(r) if self.row_given else self.row_no + 1
                 self.col_no = 0
                 if attrs.get("hidden") in ("1", "true"):
                     self.book.hidden_rows.setdefault(self.sheet, set()).add(self.row_no)
@@ -689,6 +691,10 @@ class _SheetHandler:
             ref = f"{col_letters(col)}{row}"
         else:
             row, col = split_ref(ref)
+            if row != self.row_no:
+                if self.row_given or self.col_no:
+                    raise BadInput(f"{sheet}!{ref} lies in row {self.row_no} of the sheet")
+                self.row_no = row  # a row without r is its first cell's
         self.col_no = col
         counts[0] += 1
         if counts[0] > limits.max_cells:

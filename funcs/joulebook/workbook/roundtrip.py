@@ -17,17 +17,15 @@ Any difference raises :class:`CopyMismatch`: the copy is deleted, the target lef
 
 from __future__ import annotations
 
-import hashlib
 import math
 import zipfile
 from pathlib import Path
-from xml.sax.saxutils import unescape
 
 from defusedxml import ElementTree as SafeET
 
-from .reader import Book, read_book, split_ref, unescape_text
-from .writer import encode_value
-from .xmlspans import SML_NAMESPACES
+from .reader import Book, read_book, split_ref
+from .writer import expected_cached
+from .xmlspans import SML_NAMESPACES, cell_ref
 
 __all__ = ["CopyMismatch", "prove_copy", "expected_cached"]
 
@@ -35,19 +33,6 @@ __all__ = ["CopyMismatch", "prove_copy", "expected_cached"]
 class CopyMismatch(Exception):
     """The written copy differs from the input outside the recomputed values (a defect of
     joulebook, never of the workbook): nothing is written."""
-
-
-def expected_cached(value, max_text: int = 32_767):
-    """The saved value the reader gives back for *value* written by the writer."""
-    t, v = encode_value(value)
-    text = unescape(v.decode("utf-8", "surrogatepass"))
-    if t is None:
-        return float(text)
-    if t == b"b":
-        return text == "1"
-    if t == b"e":
-        return ("error", text)
-    return unescape_text(text)[:max_text]
 
 
 def _same(a, b) -> bool:
@@ -101,74 +86,102 @@ def _owned(book: Book, per_part: dict) -> dict[tuple[str, int, int], object]:
     return out
 
 
+_ROW, _CELL, _VALUE = 1, 2, 3  # the kinds of element the signature tells apart
+
+
+def _kind(name: str) -> int:
+    """The kind of an element named ``uri}local[}prefix]`` (0: any other)."""
+    uri, _, rest = name.partition("}")
+    if uri not in SML_NAMESPACES:
+        return 0
+    local = rest.partition("}")[0]
+    return {"row": _ROW, "c": _CELL, "v": _VALUE, "is": _VALUE}.get(local, 0)
+
+
 class _Signature:
-    """A hash of every element, attribute and text of a sheet part outside the owned cells'
-    values (their ``t`` attribute and ``<v>``/``<is>``); cells owned but not in *present*
-    (added by the writer) are skipped whole."""
+    """Every element (name with its prefix, attributes, depth) and text of a sheet part, in
+    order, outside the owned cells' values (their ``t`` attribute and ``<v>``/``<is>``);
+    cells owned but not in *present*, and rows not in *rows_present* (added by the writer),
+    are left out whole."""
 
     def __init__(self, owned: set[tuple[int, int]], present, rows_present):
-        self.h = hashlib.sha256()
+        self.out: list = []
         self.owned, self.present, self.rows_present = owned, present, rows_present
+        self.owned_rows = {r for r, _c in owned}
+        self.in_owned_row = False
+        self.row_given = True
         self.found: set[tuple[int, int]] = set()
         self.rows: set[int] = set()
+        self.kinds: dict[str, int] = {}
         self.added_row = False  # inside a row the writer added
         self.depth = 0
-        self.text: list[str] = []
         self.row = 0
         self.col = 0
         self.row_depth = -1
-        self.skip_at = -1  # depth below which events are not hashed
+        self.skip_at = -1  # depth below which nothing is recorded
         self.cell_at = -1  # depth of an owned cell being read
-
-    def _flush(self) -> None:
-        if self.text:
-            self.h.update(("T" + "".join(self.text)).encode("utf-8", "surrogatepass"))
-            self.text = []
 
     def start(self, name: str, attrs: dict) -> None:
         self.depth += 1
         d = self.depth
-        uri, _, rest = name.partition("}")
-        local = rest.partition("}")[0] if rest else name
+        kind = self.kinds.get(name)
+        if kind is None:
+            kind = self.kinds[name] = _kind(name)
         if self.added_row:  # every cell of an added row must be one written
-            if uri in SML_NAMESPACES and local == "c" and d == self.row_depth + 1:
+            if kind == _CELL and d == self.row_depth + 1:
                 ref = attrs.get("r")
-                self.col = split_ref(ref)[1] if ref else self.col + 1
+                self.col = cell_ref(ref)[1] if ref else self.col + 1
                 key = (self.row, self.col)
                 self.found.add(key)
                 if key not in self.owned:
-                    self.h.update(b"a cell the writer did not own, in a row it added")
+                    self.out.append("a cell the writer did not own, in a row it added")
             return
         if self.skip_at >= 0:
             return
-        attrs = dict(attrs)
-        if uri in SML_NAMESPACES and local == "row" and d == 3:
+        if kind == _ROW and d == 3:
             r = attrs.get("r")
-            self.row = int(r) if r and r.isdigit() else self.row + 1
+            self.row = int(r) if r and r.isdigit() else self.row + 1  # (a cell may say)
+            self.row_given = bool(r and r.isdigit())
             self.col, self.row_depth = 0, d
+            self.in_owned_row = self.row in self.owned_rows
             self.rows.add(self.row)
-            if self.rows_present is not None and self.row not in self.rows_present:
+            if (
+                self.rows_present is not None
+                and self.row_given  # the writer states r on every row it adds
+                and self.row not in self.rows_present
+            ):
                 self.added_row = True
                 return
-        elif uri in SML_NAMESPACES and local == "c" and d == self.row_depth + 1:
+        elif (
+            kind == _CELL and d == self.row_depth + 1 and (self.in_owned_row or not self.row_given)
+        ):
             ref = attrs.get("r")
-            self.col = split_ref(ref)[1] if ref else self.col + 1
+            if ref:
+                row, self.col = cell_ref(ref)
+                if not self.row_given and self.row != row:  # a row without r: its cell's
+                    self.rows.discard(self.row)
+                    self.row = row
+                    self.rows.add(row)
+                    self.in_owned_row = row in self.owned_rows
+                    self.row_given = True
+            else:
+                self.col += 1
+            if not self.in_owned_row:
+                self.out.append((d, name, attrs))
+                return
             key = (self.row, self.col)
             if key in self.owned:
                 self.found.add(key)
                 if self.present is not None and key not in self.present:
                     self.skip_at = d  # a cell the writer added
                     return
+                attrs = dict(attrs)
                 attrs.pop("t", None)
                 self.cell_at = d
-        elif (self.cell_at >= 0 and d == self.cell_at + 1 and uri in SML_NAMESPACES) and local in (
-            "v",
-            "is",
-        ):
+        elif kind == _VALUE and self.cell_at >= 0 and d == self.cell_at + 1:
             self.skip_at = d
             return
-        self._flush()
-        self.h.update(repr(("S", d, name, sorted(attrs.items()))).encode("utf-8", "surrogatepass"))
+        self.out.append((d, name, attrs))
 
     def end(self, name: str) -> None:
         d = self.depth
@@ -185,12 +198,15 @@ class _Signature:
             self.cell_at = -1
         if d == self.row_depth:
             self.row_depth = -1
-        self._flush()
-        self.h.update(repr(("E", d, name)).encode())
+        self.out.append(d)
 
     def data(self, text: str) -> None:
         if self.skip_at < 0 and not self.added_row:
-            self.text.append(text)
+            out = self.out
+            if out and type(out[-1]) is str:  # text split by the parser: one run
+                out[-1] += text
+            else:
+                out.append(text)
 
 
 def _signature(data: bytes, owned, present=None, rows=None):
@@ -202,8 +218,7 @@ def _signature(data: bytes, owned, present=None, rows=None):
     parser.EndElementHandler = sig.end
     parser.CharacterDataHandler = sig.data
     parser.Parse(data, True)
-    sig._flush()
-    return sig.h.digest(), sig.found, sig.rows
+    return sig.out, sig.found, sig.rows
 
 
 def _compare_parts(book: Book, tmp: Path, per_part: dict) -> None:

@@ -21,7 +21,7 @@ from ..errors import BadInput
 from ..files import atomic_write
 from .reader import Book
 from .refs import col_letters
-from .xmlspans import SML_NAMESPACES, Element, scan, tag_attrs
+from .xmlspans import SML_NAMESPACES, Element, cell_ref, scan, tag_attrs
 
 __all__ = ["write_copy", "patch_sheet_xml", "atomic_write", "encode_value", "xml_text"]
 
@@ -95,12 +95,12 @@ def _patched_cell(xml: bytes, els: list[Element], i: int, value) -> bytes:
     children replaced, every other attribute and child (``<f>``, ``extLst``) kept."""
     c = els[i]
     t, v = encode_value(value)
-    tag, close = _without(xml[c.start : c.tag_end], b"t")
+    tag, close = _without(xml[c.start : c.head(xml)], b"t")
     head = tag[:close].rstrip(b" \t\r\n") + (b' t="' + t + b'"' if t is not None else b"")
     new_v = _v(c.prefix, v)
     if c.empty:
         return head + b">" + new_v + b"</" + c.prefix + b"c>"
-    body, at, placed = [], c.tag_end, False
+    body, at, placed = [], c.head(xml), False
     for k in c.children:
         ch = els[k]
         if ch.uri not in SML_NAMESPACES or ch.local not in ("f", "v", "is"):
@@ -122,12 +122,11 @@ def _patched_cell(xml: bytes, els: list[Element], i: int, value) -> bytes:
     return head + b">" + b"".join(body) + rest + xml[c.close : c.end]
 
 
-def _position(els: list[Element], xml: bytes):
+def _position(els: list[Element], xml: bytes, wanted: set[int] | None = None):
     """The sheet's ``<sheetData>``, its rows and cells as the reader numbers them: a row's
     ``r`` or the one after the previous row; a cell's ``r`` or the column after the
-    previous cell's (ECMA-376 Part 1, §18.3.1.73 and §18.3.1.4)."""
-    from .reader import split_ref
-
+    previous cell's (ECMA-376 Part 1, §18.3.1.73 and §18.3.1.4); a row without ``r`` is
+    its first cell's row.  The reader refuses a cell outside its row."""
     data = next(
         (
             i
@@ -145,14 +144,26 @@ def _position(els: list[Element], xml: bytes):
         if row.local != "row" or row.uri not in SML_NAMESPACES:
             continue
         rr = row.attrs.get("r")
-        r = int(rr) if rr and rr.isdigit() else r + 1
+        mine = [
+            ci
+            for ci in row.children
+            if els[ci].local == "c"
+            and els[ci].uri in SML_NAMESPACES
+            and els[ci].depth == row.depth + 1
+        ]
+        if rr and rr.isdigit():
+            r = int(rr)
+        elif mine and els[mine[0]].attrs.get("r"):  # a row without r: its first cell's
+            r = cell_ref(els[mine[0]].attrs["r"])[0]
+        else:
+            r += 1
         cells, col = [], 0
-        for ci in row.children:
-            c = els[ci]
-            if c.local != "c" or c.uri not in SML_NAMESPACES or c.depth != row.depth + 1:
-                continue
-            ref = c.attrs.get("r")
-            col = split_ref(ref)[1] if ref else col + 1
+        if wanted is not None and r not in wanted:  # no cell of it is written
+            rows.append((r, ri, cells))
+            continue
+        for ci in mine:
+            ref = els[ci].attrs.get("r")
+            col = cell_ref(ref)[1] if ref else col + 1
             cells.append((col, ci))
         rows.append((r, ri, cells))
     return data, rows
@@ -165,7 +176,7 @@ def patch_sheet_xml(xml: bytes, values: dict[tuple[int, int], object], part: str
     program that saved only its anchor) are inserted in row and column order.
     """
     els = scan(xml, part or "sheet", keep={"worksheet", "sheetData", "row", "c", "f", "v", "is"})
-    data, rows = _position(els, xml)
+    data, rows = _position(els, xml, {r for r, _c in values})
     if data is None:
         raise BadInput(f"part {part or 'sheet'!r} has no <sheetData>: not a worksheet")
     edits: list[tuple[int, int, bytes]] = []  # (start, end, new bytes)
@@ -184,7 +195,7 @@ def patch_sheet_xml(xml: bytes, values: dict[tuple[int, int], object], part: str
 
 def _opened(xml: bytes, el: Element, inside: bytes) -> bytes:
     """An empty element (``<row r="5"/>``) opened to hold *inside*, its attributes kept."""
-    head = xml[el.start : el.tag_end]
+    head = xml[el.start : el.head(xml)]
     close = tag_attrs(head)[1]
     return head[:close] + b">" + inside + b"</" + el.prefix + el.local.encode() + b">"
 
@@ -254,8 +265,9 @@ def drop_full_calc(xml: bytes) -> bytes:
     fresh); every other byte kept."""
     for el in scan(xml, "xl/workbook.xml", keep={"calcPr"}):
         if el.uri in SML_NAMESPACES and "fullCalcOnLoad" in el.attrs:
-            tag, _ = _without(xml[el.start : el.tag_end], b"fullCalcOnLoad")
-            return xml[: el.start] + tag + xml[el.tag_end :]
+            end = el.head(xml)
+            tag, _ = _without(xml[el.start : end], b"fullCalcOnLoad")
+            return xml[: el.start] + tag + xml[end:]
     return xml
 
 
@@ -263,11 +275,39 @@ def _listed(book: Book, outcomes: dict) -> dict[str, dict[tuple[int, int], objec
     """The cached values to write, per sheet part: computed cells only (a cell the engine
     could not compute keeps what was saved)."""
     per_part: dict[str, dict[tuple[int, int], object]] = {}
-    for (sheet, r, c), o in outcomes.items():
+    for key, o in outcomes.items():
         if o.kept:  # not computed here (unsupported, circular, …): keep what was saved
             continue
-        per_part.setdefault(book.sheet_parts[sheet], {})[(r, c)] = o.value
+        cell = book.cells.get(key)
+        if cell is not None and cell.has_cached and same_value(cell.cached, o.value):
+            continue  # saved as it would be written: its bytes stay as they are
+        per_part.setdefault(book.sheet_parts[key[0]], {})[key[1:]] = o.value
     return per_part
+
+
+def expected_cached(value, max_text: int = 32_767):
+    """The saved value the reader gives back for *value* written by the writer."""
+    from xml.sax.saxutils import unescape
+
+    from .reader import unescape_text
+
+    t, v = encode_value(value)
+    text = unescape(v.decode("utf-8", "surrogatepass"))
+    if t is None:
+        return float(text)
+    if t == b"b":
+        return text == "1"
+    if t == b"e":
+        return ("error", text)
+    return unescape_text(text)[:max_text]
+
+
+def same_value(saved, value) -> bool:
+    """True when *value*, written, reads back as *saved* (a NaN as a NaN)."""
+    want = expected_cached(value)
+    if isinstance(saved, float) and isinstance(want, float) and saved != saved:
+        return want != want
+    return type(saved) is type(want) and saved == want
 
 
 def write_copy(book: Book, outcomes: dict, out: str | Path, force: bool = False) -> Path:

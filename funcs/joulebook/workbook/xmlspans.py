@@ -25,6 +25,7 @@ __all__ = [
     "Attr",
     "scan",
     "tag_attrs",
+    "cell_ref",
 ]
 
 SML = "http://schemas.openxmlformats.org/spreadsheetml/2006/main"
@@ -47,7 +48,7 @@ class Attr:
 @dataclass(slots=True)
 class Element:
     """An element's place in the part: ``start`` (its ``<``), ``tag_end`` (after its start
-    tag's ``>``), ``close`` (the ``</`` of its end tag, or ``tag_end`` when it is empty) and
+    tag's ``>``; see :meth:`head`), ``close`` (the ``</`` of its end tag, or ``tag_end`` when it is empty) and
     ``end`` (after its last byte).  ``prefix`` is b"x:" for ``<x:c>``, b"" for the default
     namespace; ``attrs`` as the parser gave them (namespaced ones as ``uri}local``)."""
 
@@ -63,6 +64,12 @@ class Element:
     close: int = -1
     end: int = -1
     children: list[int] = field(default_factory=list)
+
+    def head(self, data: bytes) -> int:
+        """The index after the ``>`` of this element's start tag in *data* (its part)."""
+        if self.tag_end < 0:
+            self.tag_end = _tag_end(data, self.start)
+        return self.tag_end
 
 
 def tag_attrs(tag: bytes) -> tuple[list[Attr], int]:
@@ -95,16 +102,41 @@ def tag_attrs(tag: bytes) -> tuple[list[Attr], int]:
 
 
 def _tag_end(data: bytes, start: int) -> int:
-    """The index after the ``>`` of the start tag beginning at *start* (quoted values skipped)."""
-    i, n = start + 1, len(data)
-    while i < n:
-        ch = data[i]
-        if ch == 0x3E:  # ">"
-            return i + 1
-        if ch in (0x22, 0x27):  # a quoted attribute value may hold ">"
-            i = data.index(bytes([ch]), i + 1)
-        i += 1
-    raise ValueError("unterminated start tag")
+    """The index after the ``>`` of the start tag beginning at *start* (quoted values, which
+    may hold ``>``, skipped)."""
+    i = start + 1
+    while True:
+        gt = data.index(b">", i)
+        dq = data.find(b'"', i, gt)
+        sq = data.find(b"'", i, gt)
+        if dq < 0 and sq < 0:
+            return gt + 1
+        q = dq if sq < 0 or (0 <= dq < sq) else sq
+        i = data.index(data[q : q + 1], q + 1) + 1  # after the closing quote
+
+
+_COLUMNS: dict[str, int] = {}  # "AB" -> 28, filled as references are read
+
+
+def cell_ref(ref: str) -> tuple[int, int]:
+    """(row, column) of a cell reference such as ``B12`` (checked as the reader checks it;
+    the column of letters seen before taken from a table)."""
+    letters = ref.rstrip("0123456789")
+    col = _COLUMNS.get(letters)
+    digits = ref[len(letters) :]
+    if col is None or not digits or len(digits) > 7 or digits[0] == "0":
+        from .reader import split_ref
+
+        row, col = split_ref(ref)
+        if len(_COLUMNS) < 20_000:
+            _COLUMNS[letters] = col
+        return row, col
+    row = int(digits)
+    if row > 1_048_576:
+        from .reader import split_ref
+
+        return split_ref(ref)  # refused there, by name
+    return row, col
 
 
 def _check_encoding(data: bytes, part: str) -> None:
@@ -140,36 +172,44 @@ def scan(data: bytes, part: str = "part", keep=None) -> list[Element]:
     parser.namespace_prefixes = True
     parser.ordered_attributes = False
     out: list[Element] = []
-    stack: list[int] = []  # indices of the open kept elements (-2: an element not kept)
+    open_: list[bool] = []  # per open element: kept or not
+    kept: list[int] = []  # indices of the open kept elements
+    names: dict[str, tuple[str, str, bytes] | None] = {}  # name -> (uri, local, prefix)
 
     def start(name: str, attrs: dict[str, str]) -> None:
-        bits = name.split("}")
-        uri, local = (bits[0], bits[1]) if len(bits) > 1 else ("", bits[0])
-        prefix = (bits[2] + ":").encode() if len(bits) > 2 else b""
-        if keep is not None and local not in keep:
-            stack.append(-2)
+        split = names.get(name, False)
+        if split is False:
+            bits = name.split("}")
+            uri, local = (bits[0], bits[1]) if len(bits) > 1 else ("", bits[0])
+            prefix = (bits[2] + ":").encode() if len(bits) > 2 else b""
+            split = names[name] = (
+                None if keep is not None and local not in keep else (uri, local, prefix)
+            )
+        if split is None:
+            open_.append(False)
             return
-        pos = parser.CurrentByteIndex
-        tag_end = _tag_end(data, pos)
-        empty = data[tag_end - 2] == 0x2F  # "/>"
-        parents = [i for i in stack if i >= 0]
-        parent = parents[-1] if parents else -1
-        el = Element(uri, local, prefix, attrs, pos, tag_end, empty, len(stack), parent)
-        if empty:
-            el.close = el.end = tag_end
+        parent = kept[-1] if kept else -1
+        el = Element(*split, attrs, parser.CurrentByteIndex, -1, False, len(open_), parent)
         if parent >= 0:
             out[parent].children.append(len(out))
-        stack.append(len(out))
+        open_.append(True)
+        kept.append(len(out))
         out.append(el)
 
     def end(name: str) -> None:
-        i = stack.pop()
-        if i < 0:
+        if not open_.pop():
             return
-        el = out[i]
-        if el.empty:
-            return
+        el = out[kept.pop()]
         pos = parser.CurrentByteIndex
+        # an empty element's end is reported after its "/>" (expat); an end tag at its "</"
+        if (
+            data[pos - 2 : pos] == b"/>"
+            and not el.children
+            and (data.find(b">", el.start) == pos - 1 or _tag_end(data, el.start) == pos)
+        ):
+            el.empty = True
+            el.tag_end = el.close = el.end = pos
+            return
         if data[pos : pos + 2] != b"</":
             raise ValueError(f"end tag of {el.local} not where the parser put it")
         el.close = pos
