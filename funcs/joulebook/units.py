@@ -377,8 +377,22 @@ def _clean(text: str) -> str:
     return t
 
 
+#: the longest unit text read: the unit parser (pint's) takes time growing with the square of
+#: a long word's length, and no unit is written in more characters than this
+MAX_UNIT_CHARS = 255
+
+
+def _too_long(text: str) -> None:
+    raise BadInput(
+        f"unit text of {len(text):,} characters ({text[:20]!r}…); the limit is "
+        f"{MAX_UNIT_CHARS} characters"
+    )
+
+
 def _to_pint(text: str, kind: str | None) -> str:
     """Rewrite an engineer's unit spelling into pint syntax."""
+    if len(text.strip()) > MAX_UNIT_CHARS:
+        _too_long(text.strip())
     t = _clean(text)
     # exponent glued to a unit: m3 -> m**3, ft3 -> ft**3, s2 -> s**2
     t = re.sub(r"([A-Za-z])(\d)", r"\1**\2", t)
@@ -442,6 +456,8 @@ def parse_unit(text: str, kind: str) -> Conv:
     if kind not in KINDS:
         raise BadInput(f"unknown quantity kind {kind!r}")
     raw = str(text).strip()
+    if len(raw) > MAX_UNIT_CHARS:
+        _too_long(raw)
     if raw == "" or raw in ("-", "1") and kind == "dimensionless":
         if kind == "dimensionless":
             return Conv(1.0, 0.0, "")
@@ -651,6 +667,10 @@ def kind_of_unit(text: str, _quiet: bool = False) -> str | None:
     >>> kind_of_unit("degF")
     'temperature'
     """
+    if len(str(text).strip()) > MAX_UNIT_CHARS:
+        if _quiet:
+            return None
+        _too_long(str(text).strip())
     raw = _spelled(str(text).strip())
     for word in _IDENT.findall(raw):
         if word in _AMBIGUOUS and not _quiet:
@@ -972,6 +992,11 @@ def parse_phrase(text: str, system: UnitSystem | None = None, allowed: tuple = (
     >>> p.symbol, p.unit
     ('h', 'kJ/kg')
     """
+    if len(str(text)) > MAX_UNIT_CHARS + 64:  # a symbol, "in" and a unit at most
+        raise BadInput(
+            f"quantity text of {len(str(text)):,} characters ({str(text)[:20]!r}…); the "
+            f"limit is {MAX_UNIT_CHARS + 64} characters"
+        )
     system = system or unit_system(None)
     m = _PHRASE.match(str(text))
     if not m:
