@@ -35,6 +35,13 @@ def test_a_saved_value_that_is_not_finite_never_passes(tmp_path, saved, capsys):
     (b4,) = [c for c in data["workbooks"][0]["cells"] if c["cell"] == "B4"]
     assert b4["status"] == "differs" and "not a finite number" in b4["note"]
     assert b4["cached"] == {"number": {"1e999": "inf", "-1e999": "-inf", "NaN": "nan"}[saved]}
+    # the report keeps to the shipped schema, non-finite numbers included
+    from importlib import resources
+
+    import jsonschema
+
+    schema = resources.files("joulebook.workbook").joinpath("check.schema.json")
+    jsonschema.validate(data, json.loads(schema.read_text(encoding="utf-8")))
     # the clean twin, 500 saved, holds
     twin = _book(tmp_path, "ok.xlsx", sheet.replace(f"<v>{saved}</v>".encode(), b"<v>500</v>"))
     assert main(["check", str(twin)]) == 0
