@@ -22,6 +22,7 @@ import numpy as np
 
 from . import formulas
 from .errors import BadInput, BlankInput, JoulebookError, OutOfRange, cell_text, fmt_value
+from .quantities import cell_values
 from .units import DEFAULT_SYSTEM, unit_system
 from .working import Step, Working
 
@@ -1924,6 +1925,7 @@ def _call(f: Func, values):
             raise BadInput("units must be a single text, not a range")
         units_text = _text(UNITS_ARG, u)
     system = unit_system(units_text)
+    values = cell_values(f, values, system)  # pint quantities and States from Python
 
     fargs = f.args
     prepared: list = []
