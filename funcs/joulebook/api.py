@@ -109,7 +109,10 @@ def Q_(value: QuantityLike, unit: str = "") -> Any:
         The magnitude.
     unit : str
         A unit pint reads (``"degC"``, ``"bar"``, ``"kJ/kg"``, ``"L"``), plus the project's
-        own definitions (``Btu_it``, ``TR``, ``scf``, ``inch_water``).  Empty: dimensionless.
+        own definitions (``Btu_it``, ``TR``, ``scf``, ``inch_water``) and gauge pressures
+        (``barg``, ``kPag``, ``MPag``, ``mbarg``, ``psig``, ``Pag``: offset units against
+        the atmosphere :func:`joulebook.units.set_gauge_atmosphere` states, 101.325 kPa by
+        default; like ``degC`` they are converted before arithmetic).  Empty: dimensionless.
 
     Returns
     -------
@@ -131,6 +134,8 @@ def Q_(value: QuantityLike, unit: str = "") -> Any:
     <Quantity(200.0, 'kilopascal')>
     >>> Q_(25, "degC").to("K")
     <Quantity(298.15, 'kelvin')>
+    >>> Q_(0.5, "barg").to("kPa")                        # doctest: +ELLIPSIS
+    <Quantity(151.325..., 'kilopascal')>
     """
     ureg = registry()
     if type(value).__module__.startswith("pandas"):

@@ -1876,7 +1876,8 @@ def call(name: str, *values):
 
     Scalars give a scalar; ranges (lists, tuples, numpy arrays) in scalar arguments broadcast
     like numpy and give an array whose failed elements hold their error text and whose
-    elements with a blank input are ``None``.
+    elements with a blank input are ``None``.  From Python an argument may also be a pint
+    quantity or a ``joulebook.State`` (:func:`joulebook.quantities.cell_values`).
 
     Raises
     ------
