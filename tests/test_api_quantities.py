@@ -113,6 +113,32 @@ def test_a_range_error_names_the_value_in_the_unit_given(T, shown):
     assert State("water", T=Q_(900, "degC"), P=Q_(1, "bar")).phase.startswith("gas above")
 
 
+def test_an_end_condition_out_of_range_is_named_in_the_start_state_s_units():
+    start = State("water", T=Q_(20, "degC"), P=Q_(1, "barg"), m=Q_(1, "kg"))
+    with pytest.raises(OutOfRange, match="2000 °C is outside the model's range 0 °C"):
+        start.rigid(T2=Q_(2000, "degC"))
+    # clean twin: an end condition inside the range
+    assert start.rigid(T2=Q_(25, "degC")).T2.m_as("degC") == pytest.approx(25.0, rel=1e-9)
+
+
+@pytest.mark.parametrize(
+    ("text", "T_unit", "P_unit"),
+    [
+        ("water | T = 25 degC | P = 2.01 barg", "degree_Celsius", "barg"),
+        ("water | T = 25 C | P = 302.325 kPa", "kelvin", "kilopascal"),  # pint: C is coulomb
+        ("water | T = 25 degC | P = 207 kPag @ 95.325 kPa", "degree_Celsius", "pascal"),
+    ],
+)
+def test_a_state_text_keeps_its_units_where_pint_reads_them_alike(text, T_unit, P_unit):
+    st = State.from_text(text)
+    assert str(st.T.units) == T_unit and str(st.P.units) == P_unit
+    # the same state whatever the spelling: 25 °C and 302.325 kPa absolute
+    assert st.P.m_as("kPa") == pytest.approx(302.325, rel=1e-9)
+    assert st.h.m_as("J/kg") == pytest.approx(
+        State("water", T=298.15, P=302325.0).h.magnitude, rel=1e-12
+    )
+
+
 # ---------------------------------------------------------------------------------------
 # joulebook.call takes quantities and States
 

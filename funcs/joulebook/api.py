@@ -236,6 +236,21 @@ def _conv_of(unit: Any) -> Conv:
 # states
 
 
+def _as_written(phrase: Any, value: float) -> Any:
+    """A state text's value as a quantity in its own unit when pint reads that unit to the
+    same SI value as the worksheet does (``25 degC``, ``2 barg``); else the SI number (a
+    worksheet-only spelling such as ``m3/kg`` or ``kPag @ 95 kPa`` is never guessed at)."""
+    si = float(phrase.conv.to_si(value))
+    if not phrase.unit or phrase.kind not in _SI or phrase.kind == "dimensionless":
+        return si
+    try:
+        q = registry().Quantity(value, phrase.unit)
+        same = abs(float(q.to(_SI[phrase.kind]).magnitude) - si) <= 1e-12 * max(abs(si), 1.0)
+    except Exception:  # pint does not read the worksheet spelling: keep the SI number
+        return si
+    return q if same else si
+
+
 def _spec_of(med: Any, p: Point) -> tuple[str, float, str, float]:
     """Two properties that fix *p* again on its medium (for properties not in a Point)."""
     if p.x is not None:
@@ -579,14 +594,15 @@ class State(StateLike):
         Examples
         --------
         >>> st = State.from_text("water | T = 25 degC | P = 200 kPa")
-        >>> st.P
-        <Quantity(200000.0, 'pascal')>
+        >>> st.P                                   # in the unit of the text, as pint reads it
+        <Quantity(200.0, 'kilopascal')>
         """
         from .states import parse_state
 
         parsed = parse_state(text)
-        a, va, b, vb = parsed.si()
-        given: dict[str, Any] = {a: va, b: vb}
+        given: dict[str, Any] = {}
+        for phrase, value in parsed.specs:
+            given[phrase.symbol] = _as_written(phrase, value)
         return cls(parsed.fluid, **given, m=m, V=V)
 
     def _mass(self, m: QuantityLike, V: QuantityLike) -> Any:
@@ -863,11 +879,13 @@ class State(StateLike):
         pts_arr = pts if isinstance(pts, np.ndarray) else np.asarray(pts, dtype=object)
         index = np.arange(pts_arr.size).reshape(pts_arr.shape)
 
+        shows = self._shows() or None  # messages in the units the state was given in
+
         def one(i: float, mm: float, target: float) -> solve.Result:
             p1 = pts_arr.reshape(-1)[int(i)]
             if sym == "V2":
-                return solve.solve(med, p1, mm, pth, "v2", target / mm)
-            return solve.solve(med, p1, mm, pth, sym, target)
+                return solve.solve(med, p1, mm, pth, "v2", target / mm, shows)
+            return solve.solve(med, p1, mm, pth, sym, target, shows)
 
         res = _each(one, index, mass, value)
         return Process._from(self, path, res)
