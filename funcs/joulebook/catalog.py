@@ -22,6 +22,7 @@ import numpy as np
 
 from . import formulas
 from .errors import BadInput, BlankInput, JoulebookError, OutOfRange, cell_text, fmt_value
+from .quantities import cell_values
 from .units import DEFAULT_SYSTEM, unit_system
 from .working import Step, Working
 
@@ -2291,7 +2292,8 @@ def call(name: str, *values):
 
     Scalars give a scalar; ranges (lists, tuples, numpy arrays) in scalar arguments broadcast
     like numpy and give an array whose failed elements hold their error text and whose
-    elements with a blank input are ``None``.
+    elements with a blank input are ``None``.  From Python an argument may also be a pint
+    quantity or a ``joulebook.State`` (:func:`joulebook.quantities.cell_values`).
 
     Raises
     ------
@@ -2344,6 +2346,7 @@ def _call(f: Func, values):
             raise BadInput("units must be a single text, not a range")
         units_text = _text(UNITS_ARG, u)
     system = unit_system(units_text)
+    values = cell_values(f, values, system)  # pint quantities and States from Python
 
     fargs = f.args
     prepared: list = []
