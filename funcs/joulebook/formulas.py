@@ -16,7 +16,7 @@ import numpy as np
 
 from . import __version__, firstlaw, states
 from .errors import BadInput, BlankInput, JoulebookError, OutOfRange, message_in
-from .media import RealMedium, medium
+from .media import RealMedium, is_if97_text, medium
 from .processes import (
     blockedin,
     cycles,
@@ -199,6 +199,10 @@ def saturation(substance, want, given, value, *, system: UnitSystem):
         return conv.from_si(_blend_saturation(text, gp.symbol, gp.conv.to_si(float(value)), sym))
     if sym in ("Tbubble", "Tdew", "Pbubble", "Pdew"):
         sym = sym[0] + "sat"  # a pure fluid's bubble and dew points are its saturation point
+    if isinstance(substance, str) and is_if97_text(substance):
+        from .substances import if97
+
+        return conv.from_si(if97.saturation(gp.symbol, gp.conv.to_si(float(value)), sym))
     info = fluids.fluid_info(substance)
     si = fluids.saturation(
         info.name, gp.symbol, gp.conv.to_si(float(value)), sym, shows={gp.symbol: gp.conv}

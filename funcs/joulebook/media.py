@@ -26,7 +26,15 @@ from .roots import brent
 from .substances import fluids, gases
 from .units import UnitSystem, unit_system
 
-__all__ = ["Point", "RealMedium", "IdealMedium", "medium", "split_substance", "IDEAL_TAG"]
+__all__ = [
+    "Point",
+    "RealMedium",
+    "IdealMedium",
+    "medium",
+    "split_substance",
+    "IDEAL_TAG",
+    "is_if97_text",
+]
 
 IDEAL_TAG = "(ideal gas)"
 _P0 = 101_325.0
@@ -362,6 +370,32 @@ class IdealMedium:
 
 _IDEAL_RE = re.compile(r"^(?P<name>.*?)\s*\(\s*ideal\s+gas\s*\)\s*$", re.IGNORECASE)
 _IF97_RE = re.compile(r"^\s*(water|steam|H2O)\s*\(\s*IF97\s*\)\s*$", re.IGNORECASE)
+
+
+def is_if97_text(text: str) -> bool:
+    """Does *text* name water by IAPWS-IF97 (``"water (IF97)"``)?
+
+    Parameters
+    ----------
+    text : str
+        Substance text.
+
+    Returns
+    -------
+    bool
+        True for ``water (IF97)``, ``steam (IF97)``, ``H2O (IF97)`` in any case.
+
+    References
+    ----------
+    .. [1] IAPWS R7-97(2012), *Revised Release on the IAPWS Industrial Formulation 1997 for
+       the Thermodynamic Properties of Water and Steam*.
+
+    Examples
+    --------
+    >>> is_if97_text("Water (IF97)"), is_if97_text("water")
+    (True, False)
+    """
+    return bool(_IF97_RE.match(str(text)))
 
 
 class _TabulatedMedium:
