@@ -34,8 +34,7 @@ def test_viscosity_conductivity_prandtl_of_water(T, P):
 def test_surface_tension_on_the_saturation_line_only():
     from iapws import IAPWS95
 
-    # the property library's correlation for water differs from the IAPWS 2014 release by
-    # about 0.1 % near room temperature
+    # water's sigma is the IAPWS 2014 release's equation (tests/test_props_round3.py)
     check(call("JB_PROP", "water", "sigma in N/m", "T in K", 298.15, "x", 0),
           IAPWS95(T=298.15, x=0).sigma, rtol=2e-3, quantity="sigma [N/m]",
           conditions="water, saturated at 298.15 K", source=IAPWS)  # fmt: skip

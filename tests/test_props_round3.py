@@ -140,3 +140,78 @@ def test_if97_saturation_properties_in_JB_PROP_SAT():
     )
     with pytest.raises(OutOfRange, match="647.096"):
         call("JB_PROP_SAT", IF97, "hf", "T in K", 650)
+
+
+# ---------------------------------------------------------------------------------------
+# item 5: water's surface tension by IAPWS R1-76(2014); items 6 and 15: transport ranges
+
+SURF_LIB = "iapws 1.5.5 (PyPI), _Tension (IAPWS R1-76(2014))"
+SURF_TABLE = "IAPWS R1-76(2014), table of surface tension values (from memory)"
+TRANSPORT_LIB = (
+    "iapws 1.5.5 (PyPI), IAPWS95 transport (IAPWS R12-08 viscosity, R15-11 conductivity)"
+)
+
+
+@pytest.mark.parametrize("T", [273.16, 300.0, 373.15, 450.0, 500.0, 580.0, 620.0, 645.0, 647.0])
+def test_water_surface_tension_is_the_iapws_release_equation(T):
+    from iapws._iapws import _Tension
+
+    ours = call("JB_PROP", "water", "sigma in N/m", "T in K", T, "x", 0)
+    check(ours, _Tension(T), rtol=1e-9, quantity="sigma [N/m]",
+          conditions=f"water, saturated at {T} K", source=SURF_LIB)  # fmt: skip
+    # the same on the vapour side and by pressure: sigma belongs to the saturation line
+    assert call("JB_PROP", "water", "sigma in N/m", "T in K", T, "x", 1) == ours
+
+
+@pytest.mark.parametrize("t, sigma", [(0.01, 75.65), (25.0, 71.97), (100.0, 58.91),
+                                      (200.0, 37.67), (300.0, 14.36), (370.0, 0.39)])  # fmt: skip
+def test_water_surface_tension_against_the_release_table(t, sigma):
+    ours = call("JB_PROP", "water", "sigma in mN/m", "T in degC", t, "x", 0)
+    # the table is rounded to 0.01 mN/m
+    assert abs(ours - sigma) <= 0.006, (ours, sigma, SURF_TABLE)
+    check(ours, sigma, rtol=0.006 / sigma, quantity="sigma [mN/m]",
+          conditions=f"water, saturated at {t} degC", source=SURF_TABLE)  # fmt: skip
+
+
+def test_water_viscosity_and_conductivity_refused_outside_their_releases():
+    # ranges: IAPWS R12-08 and R15-11, "range of validity" (from memory)
+    inside = [(1173.15, 1.0), (1173.15, 300.0), (873.15, 340.0), (433.15, 450.0), (373.15, 1000.0)]
+    for T, P in inside:
+        assert call("JB_PROP", "water", "mu in Pa*s", "T in K", T, "P in MPa", P) > 0
+    for T, P in ((1173.15, 100.0), (874.0, 250.0), (573.0, 687.0), (403.0, 785.0)):
+        assert call("JB_PROP", "water", "lambda in W/(m*K)", "T in K", T, "P in MPa", P) > 0
+    for want, T, P, match in (
+        ("mu", 1173.2, 1.0, "viscosity .IAPWS 2008. is valid to 1173.15 K"),
+        ("nu", 900.0, 320.0, "valid to 873.15 K at 300–350 MPa"),
+        ("mu", 400.0, 800.0, "valid to 373.15 K at 500–1000 MPa"),
+        ("lambda", 1200.0, 10.0, "conductivity .IAPWS 2011. is valid to 1173.15 K"),
+        ("lambda", 600.0, 300.0, "valid to 573 K at 250–687 MPa"),
+        ("lambda", 900.0, 200.0, "valid to 874 K at 100–250 MPa"),
+        ("Pr", 600.0, 300.0, "conductivity"),
+    ):
+        with pytest.raises(OutOfRange, match=match):
+            call("JB_PROP", "water", want, "T in K", T, "P in MPa", P)
+    # the equation of state itself goes further (1273 K): h is still answered there
+    assert call("JB_PROP", "water", "h in kJ/kg", "T in K", 1200, "P in MPa", 10) > 0
+
+
+@pytest.mark.parametrize("x", [0, 1])
+@pytest.mark.parametrize("T", [300.0, 373.15, 500.0, 640.0])
+def test_transport_of_saturated_liquid_and_vapour(T, x):
+    from iapws import IAPWS95
+
+    ref = IAPWS95(T=T, x=x)
+    phase = ref.Liquid if x == 0 else ref.Vapor
+    cond = f"water, T = {T} K, x = {x}"
+    args = ("T in K", T, "x", x)
+    check(call("JB_PROP", "water", "mu in Pa*s", *args), phase.mu, rtol=1e-6,
+          quantity="mu [Pa s]", conditions=cond, source=TRANSPORT_LIB)  # fmt: skip
+    # near the critical point both sides differ in the critical enhancement (about 1e-4)
+    check(call("JB_PROP", "water", "lambda in W/(m*K)", *args), phase.k,
+          rtol=1e-6 if T < 600 else 2e-3, quantity="lambda [W/(m K)]", conditions=cond,
+          source=TRANSPORT_LIB)  # fmt: skip
+    assert call("JB_PROP", "water", "nu in m2/s", *args) == pytest.approx(
+        phase.mu / phase.rho, rel=1e-6 if T < 600 else 1e-4
+    )
+    with pytest.raises(OutOfRange, match="two-phase"):
+        call("JB_PROP", "water", "mu", "T in K", T, "x", 0.5)

@@ -1189,9 +1189,10 @@ _TRANSPORT_WORDS = {
 
 def _transport(info: FluidInfo, st, want: str) -> float:
     """Transport properties from the property library's correlation for the fluid (for
-    water the IAPWS 2008 viscosity and 2011 thermal-conductivity formulations; the model of
-    each fluid is named in docs/functions.md); single-phase states, except the surface
-    tension, which exists only on the saturation line."""
+    water the IAPWS 2008 viscosity and 2011 thermal-conductivity formulations, refused
+    outside their ranges, and the IAPWS R1-76(2014) surface tension: substances/
+    waterrelease.py); single-phase states and the saturated liquid (x = 0) and vapour
+    (x = 1), except the surface tension, which exists only on the saturation line."""
     word = _TRANSPORT_WORDS[want]
     two = _is_two_phase(st)
     if want == "sigma":
@@ -1200,11 +1201,20 @@ def _transport(info: FluidInfo, st, want: str) -> float:
                 f"{info.name}: the {word} is defined on the saturation line only (give x "
                 "with T or P); this state is " + phase_word(info, st)
             )
-    elif two:
+    elif two and 0.0 < st.Q() < 1.0:  # x = 0 and 1 are the saturated liquid and vapour
         raise OutOfRange(
             f"{info.name}: the {word} is not defined for a two-phase state "
             f"(x = {fmt_value(st.Q())}); give the liquid (x = 0) or the vapour (x = 1)"
         )
+    if info.internal == "Water":
+        from . import waterrelease
+
+        if want == "sigma":
+            return waterrelease.surface_tension(st.T())
+        if want in ("mu", "nu", "Pr"):
+            waterrelease.check_transport_range("viscosity", st.T(), st.p())
+        if want in ("lambda", "Pr"):
+            waterrelease.check_transport_range("conductivity", st.T(), st.p())
     try:
         if want == "sigma":
             val = st.surface_tension()
