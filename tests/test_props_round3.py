@@ -7,6 +7,8 @@ check); psychrolib 2.5.0 (PyPI, ASHRAE Handbook—Fundamentals 2017 ch. 1 equati
 humid air.
 """
 
+import functools
+
 import pytest
 
 from joulebook import call
@@ -215,3 +217,61 @@ def test_transport_of_saturated_liquid_and_vapour(T, x):
     )
     with pytest.raises(OutOfRange, match="two-phase"):
         call("JB_PROP", "water", "mu", "T in K", T, "x", 0.5)
+
+
+# ---------------------------------------------------------------------------------------
+# item 9: IAPWS-95 (x, s), (x, h), (x, u) near the critical point fit more than one state
+
+IAPWS95_LIB = "iapws 1.5.5 (PyPI), IAPWS95 class (IAPWS R6-95(2018))"
+
+
+@functools.cache
+def _wet(T, x):
+    from iapws import IAPWS95
+
+    w = IAPWS95(T=T, x=x)
+    return {"s": w.s, "h": w.h, "u": w.u}
+
+
+def _iapws_roots(x, sym, y):
+    """How many wet states have quality x and *sym* = y, by a scan with iapws 1.5.5 closing
+    in on the critical point (independent of joulebook's scan)."""
+    Tc = 647.096
+    Ts = [275.7 + 10.0 * i for i in range(37)] + [Tc - 10 ** (1 - 0.1 * i) for i in range(45)]
+    d = [_wet(T, x)[sym] - y for T in sorted(Ts)]
+    return sum(1 for a, b in zip(d, d[1:]) if a * b < 0)
+
+
+def test_iapws95_x_s_near_the_critical_point_is_refused_as_ambiguous():
+    from iapws import IAPWS95
+
+    x, s = 0.44090896, 4.40442837
+    # the issue's two states: 617.84 K and 646.90 K fit (iapws 1.5.5, to 5e-6 kJ/(kg K))
+    for T in (617.84, 646.90):
+        assert IAPWS95(T=T, x=x).s == pytest.approx(s, abs=5e-6), IAPWS95_LIB
+    with pytest.raises(BadInput, match="fit [23] saturated states"):
+        call("JB_PROP", "water", "T in K", "x", x, "s in kJ/(kg*K)", s)
+
+
+@pytest.mark.parametrize("sym, unit", [("s", "kJ/(kg*K)"), ("h", "kJ/kg"), ("u", "kJ/kg")])
+def test_iapws95_x_y_sweep_answers_only_single_states(sym, unit):
+    from iapws import IAPWS95
+
+    answered = refused = 0
+    for T in (500.0, 600.0, 630.0, 640.0, 645.0, 646.5):
+        for x in (0.1, 0.5, 0.9):
+            y = getattr(IAPWS95(T=T, x=x), sym)
+            n = _iapws_roots(x, sym, y)
+            try:
+                got = call("JB_PROP", "water", "T in K", "x", x, f"{sym} in {unit}", y)
+            except BadInput as e:
+                assert "saturated states" in str(e)
+                assert n >= 2, (T, x, sym, "refused though iapws finds one state")
+                refused += 1
+                continue
+            assert n == 1, (T, x, sym, "answered though iapws finds", n)
+            check(got, T, rtol=1e-6, quantity="T [K]",
+                  conditions=f"water from x = {x}, {sym} = {y:.6g} {unit}",
+                  source=IAPWS95_LIB)  # fmt: skip
+            answered += 1
+    assert answered >= 6 and refused >= 1

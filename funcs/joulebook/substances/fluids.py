@@ -996,16 +996,20 @@ def _solve_x_y(info: FluidInfo, x: float, y_sym: str, y: float, shows):
         return getattr(st, name)() - y
 
     top = info.T_crit * (1 - 1e-6)
-    grid = np.linspace(info.T_triple, top, 120)
+    # near the critical point u, h and s of a wet state at fixed x turn back (a second
+    # state fits): the grid closes in on T_c geometrically so both roots are seen
+    near = info.T_crit - np.geomspace(0.2 * (info.T_crit - info.T_triple), 1e-6 * info.T_crit, 60)
+    grid = np.union1d(np.linspace(info.T_triple, top, 120), near[near > info.T_triple])
     roots = scan_roots(f, grid, what=f"{info.name} saturated state", xtol=1e-10)
     if not roots:
         raise OutOfRange(
             f"{info.name}: no saturated state has x = {fmt_value(x)} and {_show(y_sym, y, shows)}"
         )
     if len(roots) > 1:
+        at = ", ".join(_show("T", t, shows).split("= ")[1] for t in roots)
         raise BadInput(
             f"{info.name}: x = {fmt_value(x)} and {_show(y_sym, y, shows)} fit "
-            f"{len(roots)} saturated states; give T or P instead"
+            f"{len(roots)} saturated states (T = {at}); give T or P instead"
         )
     return _up(info.internal, 0, CP.QT_INPUTS, x, roots[0])
 
