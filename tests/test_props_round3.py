@@ -275,3 +275,117 @@ def test_iapws95_x_y_sweep_answers_only_single_states(sym, unit):
                   source=IAPWS95_LIB)  # fmt: skip
             answered += 1
     assert answered >= 6 and refused >= 1
+
+
+# ---------------------------------------------------------------------------------------
+# items 7 and 14: humid air solved and validated before anything is answered
+
+PSYCHRO = (
+    "psychrolib 2.5.0 (PyPI), ASHRAE Handbook Fundamentals 2017 ch. 1 (ideal-gas mixture, "
+    "no enhancement factor)"
+)
+ATM = 101.325
+
+
+def test_humid_air_dry_air_has_no_dew_point():
+    import psychrolib as p
+
+    p.SetUnitSystem(p.SI)
+    for spec in (("RH", 0), ("HR in kg/kg", 0)):
+        with pytest.raises(OutOfRange, match="no dew point"):
+            call("JB_HUMID_AIR", "Tdp in degC", ATM, "T in degC", 30, *spec)
+    # the wet bulb of dry air exists: psychrolib 2.5.0 agrees to 0.05 K
+    twb = call("JB_HUMID_AIR", "Twb in degC", ATM, "T in degC", 30, "RH", 0)
+    check(twb, p.GetTWetBulbFromRelHum(30.0, 0.0, 101325.0), rtol=5e-3,
+          quantity="Twb [degC]", conditions="dry air at 30 degC, 101.325 kPa",
+          source=PSYCHRO)  # fmt: skip
+    # a clean twin: a hair of moisture has a (very low) dew point
+    assert call("JB_HUMID_AIR", "Tdp in degC", ATM, "T in degC", 30, "RH", 0.01) < -25
+
+
+def test_humid_air_impossible_inputs_are_not_echoed():
+    with pytest.raises(OutOfRange, match="supersaturated"):
+        call("JB_HUMID_AIR", "T in degC", ATM, "T in degC", 30, "Tdp in degC", 40)
+    with pytest.raises(OutOfRange, match="supersaturated"):
+        call("JB_HUMID_AIR", "HR", ATM, "T in degC", 30, "HR", 0.5)
+    with pytest.raises(OutOfRange, match="supersaturated"):
+        call("JB_HUMID_AIR", "Tdp in degC", ATM, "T in degC", 30, "Tdp in degC", 40)
+    with pytest.raises(OutOfRange, match="above T"):
+        call("JB_HUMID_AIR", "T in degC", ATM, "T in degC", 30, "Twb in degC", 31)
+    # clean twins: possible states read back their inputs to the last digit
+    assert call("JB_HUMID_AIR", "T in degC", ATM, "T in degC", 30, "Tdp in degC", 20) == 30
+    assert call("JB_HUMID_AIR", "HR", ATM, "T in degC", 30, "HR", 0.01) == 0.01
+    # saturated air is possible (RH = 1 exactly)
+    assert call("JB_HUMID_AIR", "RH", ATM, "T in degC", 30, "Tdp in degC", 30) == (
+        pytest.approx(1.0, abs=1e-7)
+    )
+
+
+def test_humid_air_HR_in_kg_per_kg_and_g_per_kg():
+    args = (ATM, "T in degC", 25, "RH", 0.5)
+    hr = call("JB_HUMID_AIR", "HR", *args)
+    assert call("JB_HUMID_AIR", "HR in kg/kg", *args) == hr
+    assert call("JB_HUMID_AIR", "HR in g/kg", *args) == pytest.approx(1e3 * hr, rel=1e-12)
+    assert call("JB_HUMID_AIR", "RH", ATM, "T in degC", 25, "HR in g/kg", 1e3 * hr) == (
+        pytest.approx(0.5, rel=1e-9)
+    )
+    with pytest.raises(BadInput, match="dimensionless"):
+        call("JB_HUMID_AIR", "RH in kg/kg", *args)
+
+
+@pytest.mark.parametrize("T, RH", [(35.0, 0.3), (25.0, 0.6), (50.0, 0.1)])
+def test_humid_air_from_wet_bulb_and_enthalpy(T, RH):
+    import psychrolib as p
+
+    p.SetUnitSystem(p.SI)
+    args = (ATM, "T in degC", T, "RH", RH)
+    twb = call("JB_HUMID_AIR", "Twb in degC", *args)
+    h = call("JB_HUMID_AIR", "h in kJ/kg", *args)
+    check(twb, p.GetTWetBulbFromRelHum(T, RH, 101325.0), rtol=5e-3, quantity="Twb [degC]",
+          conditions=f"humid air at 101.325 kPa, T = {T} degC, RH = {RH}",
+          source=PSYCHRO)  # fmt: skip
+    # the state read back from (Twb, h): common practice (a round trip on the model)
+    back = (ATM, "Twb in degC", twb, "h in kJ/kg", h)
+    assert call("JB_HUMID_AIR", "T in degC", *back) == pytest.approx(T, abs=2e-5)
+    assert call("JB_HUMID_AIR", "RH", *back) == pytest.approx(RH, abs=1e-6)
+    # an h above the saturated air's at that wet bulb fits no state
+    with pytest.raises(OutOfRange, match="no state"):
+        call("JB_HUMID_AIR", "T in degC", ATM, "Twb in degC", twb, "h in kJ/kg", h + 50)
+
+
+@pytest.mark.parametrize("P", [1000.0, 2000.0, 5000.0, 10000.0])
+def test_humid_air_wet_bulb_above_1_MPa(P):
+    """The wet bulb satisfies the adiabatic-saturation balance
+    h_s(Twb) = h(T, W) + (W_s(Twb) − W)·h_w(Twb, P), with the liquid water's h_w from
+    iapws 1.5.5 (IAPWS-95) — the balance's definition (ASHRAE Handbook—Fundamentals 2017,
+    ch. 1, from memory)."""
+    from CoolProp.HumidAirProp import HAPropsSI
+    from iapws import IAPWS95
+
+    for T, RH in ((30.0, 0.5), (40.0, 0.9), (80.0, 0.1)):
+        args = (P, "T in degC", T, "RH", RH)
+        twb = call("JB_HUMID_AIR", "Twb in K", *args)
+        W = call("JB_HUMID_AIR", "HR", *args)
+        h = call("JB_HUMID_AIR", "h in J/kg", *args)
+        Pa = P * 1e3
+        ws = HAPropsSI("W", "P", Pa, "T", twb, "R", 1.0)
+        hs = HAPropsSI("H", "P", Pa, "T", twb, "W", ws)
+        hw = IAPWS95(T=twb, P=Pa / 1e6).h * 1e3
+        assert abs(hs - h - (ws - W) * hw) <= 1e-6 * abs(hs), (P, T, RH, IAPWS95_LIB)
+        tdp = call("JB_HUMID_AIR", "Tdp in K", *args)
+        assert tdp < twb < T + 273.15
+
+
+def test_humid_condensate_messages_name_their_arguments():
+    with pytest.raises(OutOfRange, match="P_2 = 20000 kPa"):
+        call("JB_HUMID_CONDENSATE", ATM, 303.15, 0.7, 20000, 308.15, 1)
+    with pytest.raises(OutOfRange, match="P_1 = 0.005 kPa"):
+        call("JB_HUMID_CONDENSATE", 0.005, 303.15, 0.7, 900, 308.15, 1)
+    with pytest.raises(OutOfRange, match="T_1 = 700 K"):
+        call("JB_HUMID_CONDENSATE", ATM, 700, 0.7, 900, 308.15, 1)
+    with pytest.raises(OutOfRange, match="P_2 = 5 kPa, T_2 = 308.15 K"):
+        call("JB_HUMID_CONDENSATE", ATM, 303.15, 0.7, 5, 308.15, 1)
+    with pytest.raises(OutOfRange, match="RH_1 = 1.5"):
+        call("JB_HUMID_CONDENSATE", ATM, 303.15, 1.5, 900, 308.15, 1)
+    # the clean twin
+    assert 0.14 < call("JB_HUMID_CONDENSATE", ATM, 303.15, 0.7, 901.325, 308.15, 1) < 0.16

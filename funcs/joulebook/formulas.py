@@ -864,9 +864,9 @@ def poly_fit_branches(P_values, V_values, *, system):
 def humid_air(want, P, spec1, value1, spec2, value2, *, system):
     if value1 is None or value2 is None:
         raise BadInput("give two properties with their values, e.g. 'T in degC', 25, 'RH', 0.5")
-    w = parse_phrase(want, system, humidair.OUTPUTS)
-    a = parse_phrase(spec1, system, humidair.INPUTS)
-    b = parse_phrase(spec2, system, humidair.INPUTS)
+    w = humidair.phrase(want, system, humidair.OUTPUTS)
+    a = humidair.phrase(spec1, system, humidair.INPUTS)
+    b = humidair.phrase(spec2, system, humidair.INPUTS)
     val = humidair.prop(
         w.symbol, P, a.symbol, a.conv.to_si(float(value1)), b.symbol, b.conv.to_si(float(value2))
     )
