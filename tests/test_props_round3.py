@@ -389,3 +389,62 @@ def test_humid_condensate_messages_name_their_arguments():
         call("JB_HUMID_CONDENSATE", ATM, 303.15, 1.5, 900, 308.15, 1)
     # the clean twin
     assert 0.14 < call("JB_HUMID_CONDENSATE", ATM, 303.15, 0.7, 901.325, 308.15, 1) < 0.16
+
+
+# ---------------------------------------------------------------------------------------
+# item 4: one blend name, one model, one reference state in every function
+
+BLENDS = ("R404A", "R407C", "R410A", "R507A")
+IIR = "IIR reference state: h = 200 kJ/kg, s = 1 kJ/(kg K) for saturated liquid at 0 degC (common practice)"
+
+
+@pytest.mark.parametrize("blend", BLENDS)
+def test_blend_name_is_one_model_in_JB_PROP_and_JB_PROP_SAT(blend):
+    for t in (-20.0, 0.0, 30.0):
+        for q, side in ((0, "f"), (1, "g")):
+            for sym, unit in (("h", "kJ/kg"), ("s", "kJ/(kg*K)"), ("v", "m3/kg")):
+                sat = call("JB_PROP_SAT", blend, f"{sym}{side} in {unit}", "T in degC", t)
+                prop = call("JB_PROP", blend, f"{sym} in {unit}", "T in degC", t, "x", q)
+                assert sat == pytest.approx(prop, rel=1e-12), (blend, t, sym, side)
+        P = call("JB_PROP_SAT", blend, "Pbubble in kPa", "T in degC", t)
+        assert call("JB_PROP", blend, "P in kPa", "T in degC", t, "x", 0) == pytest.approx(P)
+        assert call("JB_PROP_SAT", blend, "Tbubble in degC", "P in kPa", P) == (
+            pytest.approx(t, abs=1e-6)
+        )
+    # its reference state is the IIR one, the same in both functions
+    check(call("JB_PROP_SAT", blend, "hf in kJ/kg", "T in degC", 0), 200.0, rtol=1e-5,
+          quantity="hf [kJ/kg]", conditions=f"{blend}, bubble at 0 degC", source=IIR)  # fmt: skip
+    check(call("JB_PROP_SAT", blend, "sf in kJ/(kg*K)", "T in degC", 0), 1.0, rtol=1e-4,
+          quantity="sf [kJ/(kg K)]", conditions=f"{blend}, bubble at 0 degC", source=IIR)  # fmt: skip
+    with pytest.raises(BadInput, match="boils over a range"):
+        call("JB_PROP_SAT", blend, "Tsat", "P in kPa", 1000)
+
+
+def test_blend_isentropic_discharge_from_either_function_agrees():
+    # the case: suction sg from JB_PROP_SAT, discharge by JB_PROP (P, s)
+    sg = call("JB_PROP_SAT", "R410A", "sg in kJ/(kg*K)", "T in degC", 0)
+    P2 = call("JB_PROP_SAT", "R410A", "Pdew in kPa", "T in degC", 45)
+    T2 = call("JB_PROP", "R410A", "T in degC", "P in kPa", P2, "s in kJ/(kg*K)", sg)
+    s1 = call("JB_PROP", "R410A", "s in kJ/(kg*K)", "T in degC", 0, "x", 1)
+    assert call("JB_PROP", "R410A", "T in degC", "P in kPa", P2, "s in kJ/(kg*K)", s1) == T2
+    assert 60 < T2 < 85  # a discharge above the 45 degC condensing temperature (common practice)
+
+
+def test_the_audit_names_the_blend_model(tmp_path):
+    from joulebook.cli import main
+    from joulebook.workbook.audit import build_audit
+    from joulebook.workbook.reader import read_book
+    from wbtools import build
+
+    src = build(tmp_path / "blend.xlsx", {
+        "Cycle!A1": '=JB_PROP_SAT("R410A","sg in kJ/(kg*K)","T in degC",0)',
+        "Cycle!A2": '=JB_PROP("R410A","T in degC","P in kPa",2700,"s in kJ/(kg*K)",A1)',
+        "Cycle!A3": '=JB_PROP_SAT("R32 0.5, R125 0.5 (mass)","sg in kJ/(kg*K)","T in degC",0)',
+    })  # fmt: skip
+    out = tmp_path / "blend-r.xlsx"
+    assert main(["recalc", str(src), "-o", str(out)]) == 0
+    a = build_audit(read_book(out), figures=False)
+    model = {e.cell: e.model for e in a.entries}
+    assert "pseudo-pure" in model["A1"] and model["A1"] == model["A2"]
+    assert "IIR reference" in model["A1"]
+    assert "mixture model" in model["A3"] and "pseudo-pure" not in model["A3"]

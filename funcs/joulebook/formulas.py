@@ -194,12 +194,15 @@ def saturation(substance, want, given, value, *, system: UnitSystem):
         raise BadInput(f"given must be 'T in …' or 'P in …' (got {given!r})")
     from .substances import mixtures
 
-    text = mixtures.BLENDS.get(str(substance).strip().upper(), substance)
-    if mixtures.is_mixture_text(text):
-        return conv.from_si(_blend_saturation(text, gp.symbol, gp.conv.to_si(float(value)), sym))
-    if sym in ("Tbubble", "Tdew", "Pbubble", "Pdew"):
-        sym = sym[0] + "sat"  # a pure fluid's bubble and dew points are its saturation point
+    # a named blend (R410A) is its pseudo-pure equation of state here as in JB_PROP; a
+    # composition is the mixture model
+    if mixtures.is_mixture_text(substance):
+        return conv.from_si(
+            _blend_saturation(substance, gp.symbol, gp.conv.to_si(float(value)), sym)
+        )
     if isinstance(substance, str) and is_if97_text(substance):
+        if sym in ("Tbubble", "Tdew", "Pbubble", "Pdew"):
+            sym = sym[0] + "sat"  # water's bubble and dew points are its saturation point
         from .substances import if97
 
         return conv.from_si(if97.saturation(gp.symbol, gp.conv.to_si(float(value)), sym))

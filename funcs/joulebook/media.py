@@ -438,7 +438,8 @@ class MixtureMedium(_TabulatedMedium):
     Parameters
     ----------
     text : str
-        Mixture text, e.g. ``"methane 0.9, ethane 0.1"`` or a blend name ``"R410A"``.
+        Mixture text, e.g. ``"methane 0.9, ethane 0.1"`` or ``"R32 0.5, R125 0.5 (mass)"``
+        (a blend by name, ``"R410A"``, is its pseudo-pure equation of state instead).
 
     References
     ----------

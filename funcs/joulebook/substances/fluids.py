@@ -160,6 +160,12 @@ _EOS_TEXT = {
     "Ammonia": "Gao et al., J. Phys. Chem. Ref. Data 52, 013102 (2023)",
     "Methane": "Setzmann & Wagner, J. Phys. Chem. Ref. Data 20, 1061 (1991)",
     "Hydrogen": "Leachman et al., J. Phys. Chem. Ref. Data 38, 721 (2009), normal hydrogen",
+    **{
+        blend: "pseudo-pure equation of state of the blend with its bubble and dew lines (Lemmon, "
+        "Int. J. Thermophys. 24, 991 (2003)), IIR reference (h = 200 kJ/kg, s = 1 kJ/(kg K), "
+        "bubble at 0 degC)"
+        for blend in ("R404A", "R407C", "R410A", "R507A")
+    },
 }
 
 
@@ -1442,7 +1448,9 @@ def saturation(fluid: str, by: str, value: float, want: str, shows=None) -> floa
             f"got {_show(by, value, shows)}"
         )
     if not info.pure:
-        raise BadInput(f"{info.name} is a pseudo-pure mixture without a single saturation line")
+        return _blend_saturation(info, by, value, want)
+    if want in ("Tbubble", "Tdew", "Pbubble", "Pdew"):
+        want = want[0] + "sat"  # a pure fluid's bubble and dew points are its saturation point
     T = value if by == "T" else _tsat(info, value)
     if want == "Tsat":
         return T
@@ -1468,3 +1476,49 @@ def saturation(fluid: str, by: str, value: float, want: str, shows=None) -> floa
     if side == "g":
         return at(1.0)
     return at(1.0) - at(0.0)
+
+
+def _blend_saturation(info: FluidInfo, by: str, value: float, want: str) -> float:
+    """Bubble (x = 0, the f values) and dew (x = 1, the g values) points of a pseudo-pure
+    blend, on the same equation of state as its other states."""
+    if want in ("Tsat", "Psat"):
+        raise BadInput(
+            f"{info.name}: a blend boils over a range; ask Tbubble and Tdew (or Pbubble, Pdew), "
+            "or the f (bubble) and g (dew) properties"
+        )
+    CP = _coolprop()
+    key = CP.QT_INPUTS if by == "T" else CP.PQ_INPUTS
+
+    def at(q: float):
+        a, b = (q, value) if by == "T" else (value, q)
+        try:
+            return _up(info.internal, 2, key, a, b)
+        except ValueError:
+            _fresh_state(info.internal, 2)
+            raise OutOfRange(
+                f"{info.name}: no {'bubble' if q == 0 else 'dew'} point at "
+                f"{by} = {fmt_value(value)} {'K' if by == 'T' else 'Pa'}"
+            ) from None
+
+    if want in ("Tbubble", "Tdew", "Pbubble", "Pdew"):
+        if want[0] == by:
+            raise BadInput(f"{want} at given {by}: give the other of T and P")
+        st = at(0.0 if "bubble" in want else 1.0)
+        return st.T() if want[0] == "T" else st.p()
+    m = re.fullmatch(r"(v|u|h|s)(f|g|fg)", want)
+    if not m:
+        raise BadInput(
+            f"unknown saturation output {want!r}; use Tbubble Tdew Pbubble Pdew vf vg uf ug hf "
+            "hg sf sg hfg"
+        )
+    prop, side = m.groups()
+
+    def val(q: float) -> float:
+        st = at(q)
+        return 1.0 / st.rhomass() if prop == "v" else getattr(st, _READ[prop])()
+
+    if side == "f":
+        return val(0.0)
+    if side == "g":
+        return val(1.0)
+    return val(1.0) - val(0.0)

@@ -3,8 +3,10 @@ mixture model.
 
 A mixture is written as components and fractions, ``"methane 0.9, ethane 0.06, nitrogen
 0.03, CO2 0.01"`` (mole fractions), or ``"R32 0.5, R125 0.5 (mass)"`` for mass fractions.
-The fractions must add up to 1.  The refrigerant blends R404A, R407C, R410A and R507A are
-known by name with their nominal compositions [2]_.
+The fractions must add up to 1.  The refrigerant blends R404A, R407C, R410A and R507A by
+name are their pseudo-pure equations of state (substances/fluids.py) in every function, with
+their bubble and dew lines; written as a composition (:data:`BLENDS` holds the nominal ones
+[2]_) a blend is this mixture model instead, on its components' reference states.
 
 The model is the multi-fluid Helmholtz-energy mixture model of the GERG-2008 form [1]_: each
 component's reference equation of state with binary departure and reducing functions (the
