@@ -8,6 +8,7 @@ humid air.
 """
 
 import functools
+import math
 
 import pytest
 
@@ -448,3 +449,128 @@ def test_the_audit_names_the_blend_model(tmp_path):
     assert "pseudo-pure" in model["A1"] and model["A1"] == model["A2"]
     assert "IIR reference" in model["A1"]
     assert "mixture model" in model["A3"] and "pseudo-pure" not in model["A3"]
+
+
+# ---------------------------------------------------------------------------------------
+# items 2 and 3: a mixture's phase on its envelope; saturation near the critical locus
+
+NG4 = "methane 0.9, ethane 0.06, propane 0.03, n-butane 0.01"
+PR_SOURCE = (
+    "Peng–Robinson (Ind. Eng. Chem. Fundam. 15, 59, 1976) with Michelsen's tangent-plane "
+    "stability test (Fluid Phase Equilib. 9, 1, 1982), written for this test; critical "
+    "constants and acentric factors from memory, k_ij = 0"
+)
+# Tc [K], Pc [Pa], acentric factor (from memory)
+_PR_CONST = [(190.56, 4.599e6, 0.011), (305.32, 4.872e6, 0.099), (369.83, 4.248e6, 0.152),
+             (425.12, 3.796e6, 0.200)]  # fmt: skip
+
+
+def _pr_ln_phi(x, T, P, want_root):
+    R = 8.314462618
+    ai, bi = [], []
+    for Tc, Pc, w in _PR_CONST:
+        k = 0.37464 + 1.54226 * w - 0.26992 * w * w
+        alpha = (1 + k * (1 - math.sqrt(T / Tc))) ** 2
+        ai.append(0.45724 * R * R * Tc * Tc / Pc * alpha)
+        bi.append(0.07780 * R * Tc / Pc)
+    aij = [[math.sqrt(a * b) for b in ai] for a in ai]
+    a = sum(x[i] * x[j] * aij[i][j] for i in range(4) for j in range(4))
+    b = sum(xi * b_ for xi, b_ in zip(x, bi))
+    A, B = a * P / (R * T) ** 2, b * P / (R * T)
+    import numpy as np
+
+    roots = np.roots([1, -(1 - B), A - 3 * B * B - 2 * B, -(A * B - B * B - B**3)])
+    Zs = sorted(r.real for r in roots if abs(r.imag) < 1e-10 and r.real > B)
+    best = None
+    for Z in [Zs[0], Zs[-1]] if want_root == "both" else [Zs[0] if want_root == "liq" else Zs[-1]]:
+        s2 = math.sqrt(2)
+        lnphi = [
+            bi[i] / b * (Z - 1) - math.log(Z - B) - A / (2 * s2 * B)
+            * (2 * sum(x[j] * aij[i][j] for j in range(4)) / a - bi[i] / b)
+            * math.log((Z + (1 + s2) * B) / (Z + (1 - s2) * B))
+            for i in range(4)
+        ]  # fmt: skip
+        g = sum(xi * (math.log(xi) + lp) for xi, lp in zip(x, lnphi) if xi > 0)
+        if best is None or g < best[0]:
+            best = (g, lnphi)
+    return best[1]
+
+
+def _pr_two_phase(z, T, P):
+    """Michelsen's stability test on Peng–Robinson: True when a trial phase lowers the
+    Gibbs energy (tangent-plane distance < 0)."""
+    d = [math.log(zi) + lp for zi, lp in zip(z, _pr_ln_phi(z, T, P, "both"))]
+    for side in ("vap", "liq"):
+        K = [Pc / P * math.exp(5.373 * (1 + w) * (1 - Tc / T)) for Tc, Pc, w in _PR_CONST]
+        W = [zi * k if side == "vap" else zi / k for zi, k in zip(z, K)]
+        for _ in range(500):
+            s = sum(W)
+            w = [Wi / s for Wi in W]
+            lp = _pr_ln_phi(w, T, P, side)
+            W_new = [math.exp(di - lpi) for di, lpi in zip(d, lp)]
+            if max(abs(a - b) for a, b in zip(W_new, W)) < 1e-12:
+                W = W_new
+                break
+            W = W_new
+        trivial = max(abs(wi - zi) for wi, zi in zip([Wi / sum(W) for Wi in W], z)) < 1e-4
+        if not trivial and sum(W) > 1 + 1e-7:
+            return True
+    return False
+
+
+@pytest.mark.parametrize("T, P", [(220.0, 5.0e6), (230.0, 3.0e6), (200.0, 2.0e6),
+                                  (300.0, 5.0e6), (180.0, 5.0e6), (220.0, 10.0e6),
+                                  (260.0, 4.0e6), (150.0, 0.2e6)])  # fmt: skip
+def test_mixture_phase_of_T_P_against_a_stability_test(T, P):
+    z = (0.9, 0.06, 0.03, 0.01)
+    two = _pr_two_phase(z, T, P)
+    cond = f"natural gas (CH4 0.9, C2H6 0.06, C3H8 0.03, nC4 0.01) at {T} K, {P / 1e6} MPa"
+    if two:
+        with pytest.raises(BadInput, match="inside the phase envelope"):
+            call("JB_PROP", NG4, "rho in kg/m3", "T in K", T, "P in kPa", P / 1e3)
+    else:
+        assert call("JB_PROP", NG4, "rho in kg/m3", "T in K", T, "P in kPa", P / 1e3) > 0, (
+            cond,
+            PR_SOURCE,
+        )
+
+
+def test_the_issue_natural_gas_state_is_two_phase():
+    # 220 K lies between the critical (about 219 K) and the cricondentherm: two dew points
+    with pytest.raises(BadInput, match="dew point line 2 times"):
+        call("JB_PROP_SAT", NG4, "Pdew in kPa", "T in K", 220)
+    with pytest.raises(OutOfRange, match="no bubble point"):
+        call("JB_PROP_SAT", NG4, "Pbubble in kPa", "T in K", 220)
+    with pytest.raises(BadInput, match="two phases"):
+        call("JB_PROP", NG4, "rho in kg/m3", "T in K", 220, "P in kPa", 5000)
+    assert _pr_two_phase((0.9, 0.06, 0.03, 0.01), 220.0, 5e6), PR_SOURCE
+
+
+def test_mixture_saturation_near_the_critical_locus():
+    bubbles, dews = [], []
+    for P in (1000, 2000, 3000, 4000, 5000, 6000, 6200, 6400, 6600, 6800):
+        tb = call("JB_PROP_SAT", NG4, "Tbubble in K", "P in kPa", P)
+        td = call("JB_PROP_SAT", NG4, "Tdew in K", "P in kPa", P)
+        assert tb < td, (P, tb, td)  # bubble below dew at one pressure (common practice)
+        bubbles.append(tb)
+        dews.append(td)
+        if P not in (2000, 6600):
+            continue
+        # the points bound the two-phase region the phase check sees
+        with pytest.raises(BadInput, match="two phases"):
+            call("JB_PROP", NG4, "h", "T in K", (tb + td) / 2, "P in kPa", P)
+        assert call("JB_PROP", NG4, "h", "T in K", td + 0.5, "P in kPa", P) != 0
+        assert call("JB_PROP", NG4, "h", "T in K", tb - 0.5, "P in kPa", P) != 0
+    assert all(a < b for a, b in zip(bubbles, bubbles[1:]))  # Tbubble rises with P
+    # near the cricondenbar: no bubble point, two dew points, and above it no saturation
+    with pytest.raises(OutOfRange, match="no bubble point"):
+        call("JB_PROP_SAT", NG4, "Tbubble in K", "P in kPa", 7600)
+    with pytest.raises(BadInput, match="2 times"):
+        call("JB_PROP_SAT", NG4, "Tdew in K", "P in kPa", 7600)
+    for want in ("Tbubble", "Tdew"):
+        with pytest.raises(OutOfRange, match="cricondenbar"):
+            call("JB_PROP_SAT", NG4, f"{want} in K", "P in kPa", 7700)
+    with pytest.raises(OutOfRange, match="cricondentherm"):
+        call("JB_PROP_SAT", NG4, "Pdew in kPa", "T in K", 250)
+    # above the cricondenbar the gas is single-phase at any temperature
+    assert call("JB_PROP", NG4, "rho in kg/m3", "T in K", 230, "P in kPa", 7700) > 0
