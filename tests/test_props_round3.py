@@ -429,6 +429,9 @@ def test_blend_name_is_one_model_in_JB_PROP_and_JB_PROP_SAT(blend):
           quantity="sf [kJ/(kg K)]", conditions=f"{blend}, bubble at 0 degC", source=IIR)  # fmt: skip
     with pytest.raises(BadInput, match="boils over a range"):
         call("JB_PROP_SAT", blend, "Tsat", "P in kPa", 1000)
+    # JB_PROP says the same of a state's Tsat (it used to give the bubble point)
+    with pytest.raises(BadInput, match="boils over a range"):
+        call("JB_PROP", blend, "Tsat", "P in kPa", 1000, "h in kJ/kg", 450)
 
 
 def test_blend_isentropic_discharge_from_either_function_agrees():

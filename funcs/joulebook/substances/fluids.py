@@ -1130,6 +1130,11 @@ def _read(info: FluidInfo, st, want: str, shows=None):
             f"{info.name}: quality x is defined only for saturated states; this state is "
             f"{phase_word(info, st)}"
         )
+    if want in ("Tsat", "Psat") and not info.pure:
+        raise BadInput(
+            f"{info.name}: a blend boils over a range; ask JB_PROP_SAT for Tbubble and Tdew (or "
+            "Pbubble, Pdew)"
+        )
     if want == "Tsat":
         P = st.p()
         if not info.P_triple <= P < info.P_crit:
