@@ -587,3 +587,21 @@ def test_mixture_saturation_near_the_critical_locus():
         call("JB_PROP_SAT", NG4, "Pdew in kPa", "T in K", 250)
     # above the cricondenbar the gas is single-phase at any temperature
     assert call("JB_PROP", NG4, "rho in kg/m3", "T in K", 230, "P in kPa", 7700) > 0
+
+
+@pytest.mark.parametrize("x", [0, 1])
+@pytest.mark.parametrize("T", [300.0, 373.15, 600.0])
+def test_derivative_properties_of_saturated_liquid_and_vapour(T, x):
+    from iapws import IAPWS95
+
+    ref = IAPWS95(T=T, x=x)
+    phase = ref.Liquid if x == 0 else ref.Vapor
+    cond = f"water, T = {T} K, x = {x}"
+    for want, unit, value in (("cp", "kJ/(kg*K)", phase.cp), ("cv", "kJ/(kg*K)", phase.cv),
+                              ("w", "m/s", phase.w), ("beta", "1/K", phase.alfav),
+                              ("kappa", "1/MPa", phase.kappa)):  # fmt: skip
+        check(call("JB_PROP", "water", f"{want} in {unit}", "T in K", T, "x", x), value,
+              rtol=1e-7, quantity=f"{want} [{unit}]", conditions=cond,
+              source=IAPWS95_LIB)  # fmt: skip
+    with pytest.raises(OutOfRange, match="two-phase"):
+        call("JB_PROP", "water", "cp", "T in K", T, "x", 0.3)

@@ -1101,7 +1101,7 @@ def _read(info: FluidInfo, st, want: str, shows=None):
     if want == "phase":
         return phase_word(info, st)
     if want in ("cp", "cv", "k"):
-        if _is_two_phase(st):
+        if _is_two_phase(st) and 0.0 < st.Q() < 1.0:  # x = 0, 1: the liquid's, the vapour's
             raise OutOfRange(
                 f"{info.name}: {want} is not defined for a two-phase state (x = {fmt_value(st.Q())})"
             )
@@ -1164,11 +1164,12 @@ _DERIVATIVE_WORDS = {
 
 def _derivative(info: FluidInfo, st, want: str) -> float:
     """β = (1/v)(∂v/∂T)_P, κ = −(1/v)(∂v/∂P)_T, w (speed of sound), μ_JT = (∂T/∂P)_h, from
-    the equation of state at the converged (T, ρ) [1]_; single-phase states only.
+    the equation of state at the converged (T, ρ) [1]_; single-phase states and the saturated
+    liquid (x = 0) and vapour (x = 1), whose values are the single-phase side's.
 
     .. [1] IAPWS R6-95(2018), Table 3 (relations of these properties to the Helmholtz
        energy); the property library evaluates them from each fluid's reference equation."""
-    if _is_two_phase(st):
+    if _is_two_phase(st) and 0.0 < st.Q() < 1.0:
         raise OutOfRange(
             f"{info.name}: the {_DERIVATIVE_WORDS[want]} is not defined for a two-phase state "
             f"(x = {fmt_value(st.Q())})"
