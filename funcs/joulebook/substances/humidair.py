@@ -326,10 +326,10 @@ def _hr_from_wet_bulb(P: float, T: float, Twb: float) -> float:
 
 
 def _from_wet_bulb_and_h(P: float, Twb: float, h: float) -> tuple[float, float]:
-    """(T, HR) on the wet-bulb line Twb whose enthalpy is h.  Along a wet-bulb line h falls
-    only by (W_s − W)·h_w as T rises, so h fixes T weakly: an error δh moves T by about
-    δh / (h_w·dW/dT)."""
-    from ..roots import scan_roots
+    """(T, HR) on the wet-bulb line Twb whose enthalpy is h.  Along a wet-bulb line
+    h = h_s(Twb) − (W_s − W)·h_w(Twb) falls as T rises (W falls), so one T fits; the fall is
+    small, so h fixes T weakly: an error δh moves T by about δh / (h_w·|dW/dT|)."""
+    from scipy.optimize import brentq
 
     def f(T: float) -> float:
         try:
@@ -338,17 +338,20 @@ def _from_wet_bulb_and_h(P: float, Twb: float, h: float) -> tuple[float, float]:
         except (ValueError, OutOfRange):
             return float("nan")
 
-    top = min(623.15, Twb + 300.0)
-    grid = [Twb + (top - Twb) * (i / 80) ** 2 for i in range(81)]
-    roots = scan_roots(f, grid, what="humid-air state", xtol=1e-9)
-    if len(roots) != 1:
-        what = "no state" if not roots else f"{len(roots)} states"
+    lo, hi = Twb, min(623.15, Twb + 300.0)
+    f_lo, f_hi = f(lo), f(hi)
+    for _ in range(60):  # the line ends where the air is dry (W = 0): close in on that end
+        if f_hi == f_hi:
+            break
+        hi = 0.5 * (lo + hi)
+        f_hi = f(hi)
+    if not (f_lo >= 0 >= f_hi):
         raise OutOfRange(
-            f"humid air: {what} with Twb = {fmt_value(Twb)} K and h = {fmt_value(h)} J/kg at "
+            f"humid air: no state with Twb = {fmt_value(Twb)} K and h = {fmt_value(h)} J/kg at "
             f"P = {fmt_value(P / 1e3)} kPa (h lies between the saturated h at Twb and the dry "
             "air's)"
         )
-    T = roots[0]
+    T = lo if f_lo == 0 else hi if f_hi == 0 else float(brentq(f, lo, hi, xtol=1e-10))
     return T, _hr_from_wet_bulb(P, T, Twb)
 
 
