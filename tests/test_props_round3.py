@@ -605,3 +605,24 @@ def test_derivative_properties_of_saturated_liquid_and_vapour(T, x):
               source=IAPWS95_LIB)  # fmt: skip
     with pytest.raises(OutOfRange, match="two-phase"):
         call("JB_PROP", "water", "cp", "T in K", T, "x", 0.3)
+
+
+def test_mixture_phase_never_assumed_when_nothing_can_establish_it(monkeypatch):
+    from joulebook.substances import mixtures
+
+    mix = mixtures.parse(NG4)
+    # planted fault: no envelope can be traced and the bubble/dew solver fails
+    monkeypatch.setattr(mixtures, "envelope", lambda m: None)
+
+    def no_point(*args, **kwargs):
+        raise OutOfRange("mixture: the model found no bubble point")
+
+    monkeypatch.setattr(mixtures, "saturation", no_point)
+    with pytest.raises(OutOfRange, match="cannot be established"):
+        mixtures.at_TP(mix, 220.0, 5e6)
+    # the clean twin: with the solver back, the bubble and dew points decide
+    monkeypatch.undo()
+    monkeypatch.setattr(mixtures, "envelope", lambda m: None)
+    with pytest.raises(BadInput, match="two phases"):
+        mixtures.at_TP(mix, 200.0, 2e6)
+    assert 1 / mixtures.at_TP(mix, 300.0, 2e6)[2] > 0

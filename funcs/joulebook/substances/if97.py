@@ -315,7 +315,7 @@ def _single(solve_over: str, fixed: float, sym: str, target: float):
 
 
 def _phases(states, by: str) -> str:
-    """'wet at P = 19.9 kPa, liquid at P = 10000 kPa' for a refusal naming the states."""
+    """'wet at P = 19.9 kPa, single-phase at P = 10000 kPa': the states a refusal names."""
     words = []
     for st in states:
         kind = "wet" if st[6] is not None else "single-phase"
