@@ -787,6 +787,16 @@ def build_parser() -> argparse.ArgumentParser:
     a.add_argument("--force", action="store_true", help="replace existing outputs")
     a.set_defaults(run=_audit)
 
+    # joulebook diff OLD NEW: two revisions compared (options and run in workbook/diffcmd.py)
+    from .workbook.diffcmd import add_parser as add_diff_parser
+
+    add_diff_parser(sub)
+
+    # joulebook sensitivity BOOK: coefficients and uncertainty (workbook/sensitivitycmd.py)
+    from .workbook.sensitivitycmd import add_parser as add_sensitivity_parser
+
+    add_sensitivity_parser(sub)
+
     x = sub.add_parser(
         "calc-extension",
         help="write the LibreOffice Calc extension (.oxt) of the worksheet functions",

@@ -775,5 +775,9 @@ def run_demo(folder: str | Path = "joulebook-demo", echo=print) -> dict:
             "flags": flags,
             "entries": len(audit.entries),
         }
+    # revision review: revision B of one demo workbook and its diff report (demodiff.py)
+    from .demodiff import REVISED, review
+
+    review(folder / "recalculated" / REVISED, folder / "revisions", echo)
     echo(f"\nOpen the reports in a browser: {folder / 'reports'}")
     return results
