@@ -241,7 +241,7 @@ def _write_text(path: str, text: str) -> bool:
 
 
 def _check(ns: argparse.Namespace) -> int:
-    from .workbook.check import fmt
+    from .workbook.console import failing_rows, summary_words
 
     paths, unmatched = _workbook_paths(ns.books)
     for spec in unmatched:
@@ -268,13 +268,7 @@ def _check(ns: argparse.Namespace) -> int:
             continue
         bad = res["failing"]
         if bad:
-            print(f"{'cell':<24} {'status':<16} {'saved':>18} {'recomputed':>18}  formula")
-            for r in bad[: ns.max_rows]:
-                print(
-                    f"{r['sheet'] + '!' + r['cell']:<24} {r['status']:<16} "
-                    f"{fmt(r['cached'])[:18]:>18} {fmt(r['recomputed'])[:18]:>18}  "
-                    f"{r['formula'][:60]}"
-                )
+            print("\n".join(failing_rows(bad[: ns.max_rows])))
             if len(bad) > ns.max_rows:
                 print(f"… {len(bad) - ns.max_rows} more (see --json)")
         relaxed = [
@@ -284,7 +278,7 @@ def _check(ns: argparse.Namespace) -> int:
         ]
         print(
             (f"{res['path']}: " if many else "")
-            + ", ".join(f"{v} {k}" for k, v in res["summary"].items())
+            + summary_words(res["summary"])
             + f"; tolerance rtol={ns.rtol:g}, atol={ns.atol:g}"
             + (f"; relaxed: {', '.join(relaxed)} allowed" if relaxed else "")
             + f"; {len(bad)} failing"
@@ -452,8 +446,8 @@ def check_one(job, shown_as: str | None = None) -> dict:
 def _combined_json(results: list, ns, many: bool) -> str:
     import json
 
-    if not many and not results[0]["message"]:
-        return results[0]["json"]
+    # one shape for one workbook and for many: a list of workbooks (schema:
+    # joulebook/workbook/check.schema.json, docs/ci.md)
     books = []
     for r in results:
         if r["message"]:
@@ -590,7 +584,7 @@ def _audit(ns: argparse.Namespace) -> int:
 
     from .errors import BadInput
     from .files import atomic_write
-    from .workbook.audit import build_audit, render_html
+    from .workbook.audit import build_audit
     from .workbook.reader import read_book
 
     out = Path(ns.output)
@@ -601,6 +595,10 @@ def _audit(ns: argparse.Namespace) -> int:
             raise BadInput("the report must not overwrite the workbook")
         if out.exists() and not ns.force:
             raise BadInput(f"{out} exists; use --force to replace it")
+        if ns.pdf and Path(ns.pdf).exists() and not ns.force:
+            raise BadInput(f"{ns.pdf} exists; use --force to replace it")
+        if ns.pdf and Path(ns.pdf).resolve() == Path(ns.book).resolve():
+            raise BadInput("the PDF must not overwrite the workbook")
     except (BadInput, OSError) as e:
         print(
             e.cell_text() if isinstance(e, BadInput) else f"cannot read {ns.book}: {e}",
@@ -609,11 +607,21 @@ def _audit(ns: argparse.Namespace) -> int:
         return 2
     bar = _progress()
     try:
-        report = build_audit(book, progress=_cells_only(bar))
+        report = build_audit(book, progress=_cells_only(bar), copies=False, maps=False)
     finally:
         bar.close()
-    text = render_html(report).encode("utf-8")
+    from .workbook.package import build_package, render_package, write_pdf
+
+    package = build_package(report, ns.paper)
+    text = render_package(package).encode("utf-8")
     atomic_write(out, lambda fh: fh.write(text))
+    if ns.pdf:
+        try:
+            pages = write_pdf(text.decode("utf-8"), Path(ns.pdf))
+        except BadInput as e:
+            print(e.cell_text(), file=sys.stderr)
+            return 2
+        print(f"wrote {ns.pdf}: {_n(pages, 'page')} on {package.paper} paper")
     if ns.json:
         from .workbook.audit import to_json
 
@@ -634,8 +642,9 @@ def _audit(ns: argparse.Namespace) -> int:
     differs = sum(e.status == "differs" for e in es)
     print(
         f"wrote {out} ({len(text) // 1024} KiB, {time.perf_counter() - t0:.1f} s): "
-        f"{_n(len(es), 'formula cell')}, {_n(passes, 'pass', 'passes')}, "
-        f"{_n(differs, 'difference')}, {_n(len(report.flags), 'flag')}"
+        f"{_n(len(es), 'formula cell')} in {_n(len(package.items), 'entry', 'entries')} "
+        f"(copied-down cells grouped), {_n(passes, 'pass', 'passes')}, "
+        f"{_n(differs, 'difference')}, {_n(len(package.flags), 'flag')}"
     )
     if ns.fail_on_flags and report.flags:
         for e, f in report.flags:
@@ -655,7 +664,7 @@ def _workbooks(ns: argparse.Namespace) -> int:
 def _demo(ns: argparse.Namespace) -> int:
     from .demo import run_demo
 
-    results = run_demo(ns.folder)
+    results = run_demo(ns.folder, pdf=not ns.no_pdf)
     return 0 if results else 1
 
 
@@ -765,20 +774,34 @@ def build_parser() -> argparse.ArgumentParser:
         default="joulebook-demo",
         help="where to write (default ./joulebook-demo)",
     )
+    dm.add_argument("--no-pdf", action="store_true", help="write the HTML packages only, no PDF")
     dm.set_defaults(run=_demo)
 
     a = sub.add_parser(
         "audit",
-        help="write a checker's HTML report of every formula cell of a workbook",
+        help="write a checker's calculation package (HTML, and PDF with --pdf) of a workbook",
         description="Explain and re-derive every formula cell of BOOK: inputs with units and "
         "sources, the formula with numbers, each joulebook call with its model and working, "
         "recomputed vs saved value with one status, flags a checker raises by eye, a "
-        "calculation map per sheet, P–V / T–s diagrams. One self-contained HTML file.",
+        "calculation map per sheet, P–V / T–s diagrams; the title block read from the workbook, "
+        "inputs, results, references, cautions and a sign-off block. One self-contained HTML "
+        "file; --pdf prints it with numbered pages. Copied-down formulas are one entry.",
     )
     a.add_argument("book", help="the .xlsx/.xlsm to audit")
     a.add_argument("-o", "--output", required=True, help="the HTML report to write")
     a.add_argument("--xlsx", help="also write a copy of the workbook with an added audit sheet")
     a.add_argument("--json", help="also write every entry, flag and figure as JSON")
+    a.add_argument(
+        "--pdf",
+        help="also print the calculation package to this PDF (title block, numbered pages, "
+        "sign-off block; through WeasyPrint, which needs the Pango library)",
+    )
+    a.add_argument(
+        "--paper",
+        choices=("a4", "letter"),
+        default="a4",
+        help="the paper the package prints on (default a4)",
+    )
     a.add_argument(
         "--fail-on-flags",
         action="store_true",
