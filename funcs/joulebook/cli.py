@@ -666,6 +666,18 @@ def _summary_markdown(results: list) -> str:
     return "\n".join(lines) + "\n"
 
 
+def _uncertain(package, book, ns: argparse.Namespace) -> None:
+    """± U on each result of the package, when input uncertainties are given or stated."""
+    from .workbook import sensitivity as S
+
+    stated = [S.Uncertainty.parse(u, book.sheets) for u in ns.u]
+    keys = [S.parse_where(r.where, book.sheets) for r in package.results]
+    if not keys or not (stated or S.uncertainties_in_book(S.Chain(book, {}))):
+        return
+    report = S.analyse(book, None, keys, stated, k=ns.k)
+    package.uncertainty = {S.where(r.key): r for r in report.results if r.U is not None}
+
+
 def _audit(ns: argparse.Namespace) -> int:
     import time
 
@@ -704,6 +716,11 @@ def _audit(ns: argparse.Namespace) -> int:
     from .workbook.package import build_package, render_package, write_pdf
 
     package = build_package(report, ns.paper)
+    try:
+        _uncertain(package, book, ns)
+    except BadInput as e:
+        print(f"{shown(Path(ns.book).name)}: {e.message}", file=sys.stderr)
+        return 2
     text = render_package(package).encode("utf-8", "backslashreplace")
     target = out
     pages = 0
@@ -938,6 +955,15 @@ def build_parser() -> argparse.ArgumentParser:
         default="a4",
         help="the paper the package prints on (default a4)",
     )
+    a.add_argument(
+        "--u",
+        action="append",
+        default=[],
+        metavar="SHEET!CELL=U[:DIST][:k=K]",
+        help="the uncertainty of an input, as for 'joulebook sensitivity'; with it (or with "
+        "uncertainties the workbook states) each result carries ± U (docs/uncertainty.md)",
+    )
+    a.add_argument("--k", type=float, default=2.0, help="coverage factor of ± U (default 2)")
     a.add_argument(
         "--fail-on-flags",
         action="store_true",
