@@ -672,7 +672,9 @@ def _uncertain(package, book, ns: argparse.Namespace) -> None:
 
     stated = [S.Uncertainty.parse(u, book.sheets) for u in ns.u]
     keys = [S.parse_where(r.where, book.sheets) for r in package.results]
-    if not keys or not (stated or S.uncertainties_in_book(S.Chain(book, {}))):
+    if not keys or not (
+        stated or (S.may_state_uncertainties(book) and S.uncertainties_in_book(S.Chain(book, {})))
+    ):
         return
     report = S.analyse(book, None, keys, stated, k=ns.k)
     package.uncertainty = {S.where(r.key): r for r in report.results if r.U is not None}
