@@ -77,8 +77,8 @@ def test_each_planted_fault_is_outside_the_model(tmp_path):
     assert "fitted polytropic exponent n" in fit.note and "R²" in fit.note
     t2 = rows["V!B7"]
     assert t2.status is Status.OUTSIDE_MODEL and "below 0 K" in t2.note
-    stored = rows["V!B8"]
-    assert stored.status is Status.OUTSIDE_MODEL and "compressed liquid" in stored.note
+    stored = rows["V!B8"]  # the function itself now refuses a liquid (a refusal: error)
+    assert stored.status is Status.ERROR and "compressed liquid" in stored.note
     assert {r.cell for r in failing(list(rows.values()))} == {"B4", "B6", "B7", "B8"}
 
 
@@ -122,13 +122,13 @@ def test_every_declared_check_names_only_what_the_entry_has():
             assert v.says and v.model
 
 
-def test_the_stored_energy_of_a_liquid_is_computed_but_flagged():
-    # the function computes (a small number); the flag says why it is not meant
-    e = call("JB_STORED_ISENTROPIC", "water | T = 20 degC | P = 30 bar", 2.5)
-    assert 0 < e < 50
+def test_the_stored_energy_of_a_liquid_is_flagged_by_its_declared_check():
+    # the function refuses a liquid itself; the catalog's check says the same of any result
     f = next(f for f in CATALOG if f.validity and f.family == "stored")
-    flags = violations(f, {"state": "water | T = 20 degC | P = 30 bar", "V": 2.5}, e * 1e3)
+    flags = violations(f, {"state": "water | T = 20 degC | P = 30 bar", "V": 2.5}, 5.0e3)
     assert flags and "compressed liquid" in flags[0]
+    gas = {"state": "nitrogen | T = 20 degC | P = 30 bar", "V": 2.5}
+    assert violations(f, gas, call("JB_STORED_ISENTROPIC", gas["state"], 2.5) * 1e3) == []
 
 
 @pytest.mark.parametrize("n, held", [(1.3, True), (0.59, False), (1.8, False)])

@@ -325,7 +325,9 @@ def test_the_unit_algebra():
     assert clash_of("-", u("degC"), u("degC")) is None
     assert clash_of("-", u("K"), u("K")) is None
     assert "another zero" in clash_of("-", u("degC"), u("K"))
-    assert "gauge" in clash_of("+", u("psig"), u("psi"))
+    assert "gauge" in clash_of("+", u("psig"), u("psia"))
+    assert clash_of("+", u("psig"), u("psi")) is None  # a bare psi is a pressure difference
+    assert u("psi").interval
     assert "another scale" in clash_of("-", u("kJ"), u("Btu"))
     assert "dimension" in clash_of("+", u("kPa"), u("kJ"))
     assert u("barg").offset == pytest.approx(101325.0)  # common practice: 1 atm reference

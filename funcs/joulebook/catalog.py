@@ -22,6 +22,7 @@ import numpy as np
 
 from . import formulas
 from .errors import BadInput, BlankInput, JoulebookError, OutOfRange, cell_text, fmt_value
+from .quantities import cell_values
 from .units import DEFAULT_SYSTEM, unit_system
 from .working import Step, Working
 
@@ -278,6 +279,15 @@ _REF_HEYWOOD = (
     "Heywood, Internal Combustion Engine Fundamentals (1988), §2.2–2.4: slider-crank volume, "
     "indicated work and power, mean effective pressure"
 )
+_REF_BREAK = (
+    "Hawkins, Point estimation of the parameters of piecewise regression models, Applied "
+    "Statistics 25 (1976) 51–57: the break point by least squares (from memory)"
+)
+_REF_FLASHING = (
+    "CCPS, Guidelines for Vapor Cloud Explosion, Pressure Vessel Burst, BLEVE, and Flash Fire "
+    "Hazards, 2nd ed. (2010): expansion energy of a flashing liquid, isentropic to ambient; "
+    "Planas-Cuchi, Salla, Casal, J. Loss Prev. Process Ind. 17 (2004) 431 (from memory)"
+)
 _REF_HUMID = (
     "Herrmann, Kretzschmar & Gatley, ASHRAE RP-1485, HVAC&R Research 15 (2009) 961: real "
     "humid air (the property library's humid-air functions)"
@@ -293,10 +303,15 @@ _REF_SOLIDS = (
 _WALL = (
     Arg("D", "mean diameter of the wall", quantity="length", optional=True),
     Arg("wall", "wall thickness (below D/2)", quantity="length", optional=True),
+    # E_mod and poisson, not E and nu: in a units override E is an energy and nu a
+    # kinematic viscosity (the arguments were E and nu before issue 27; positions unchanged)
     Arg(
-        "E", "Young's modulus of the wall (steel about 200 GPa)", quantity="modulus", optional=True
+        "E_mod",
+        "Young's modulus of the wall (steel about 200 GPa)",
+        quantity="modulus",
+        optional=True,
     ),
-    Arg("nu", "Poisson's ratio of the wall, 0 to 0.5 (steel 0.3)", optional=True),
+    Arg("poisson", "Poisson's ratio ν of the wall, 0 to 0.5 (steel 0.3)", optional=True),
 )
 _HEATING_ARGS = (
     Arg("state1", "initial state text of the contents, from JB_STATE", type="text"),
@@ -475,10 +490,13 @@ CATALOG: tuple[Func, ...] = (
         notes="Two-phase states: give x with T or P, or v with T or P; T and P alone cannot fix one. "
         "beta = (1/v)(∂v/∂T)_P (isobaric expansion), kappa = −(1/v)(∂v/∂P)_T (isothermal "
         "compressibility), w (speed of sound) and mu_JT = (∂T/∂P)_h (Joule–Thomson) come from "
-        "the equation of state, single-phase states only; for an ideal gas 1/T, 1/P, √(k·R·T), 0. "
+        "the equation of state, single-phase or saturated liquid/vapour (x = 0, 1); for an "
+        "ideal gas 1/T, 1/P, √(k·R·T), 0. "
         "mu (dynamic viscosity), nu = mu/rho, lambda (thermal conductivity) and Pr = mu·cp/lambda "
         "come from the property library's transport correlation for the fluid (water: IAPWS "
-        "2008 and 2011), single-phase; sigma (surface tension) on the saturation line only.",
+        "2008 and 2011, refused outside their ranges), single-phase or saturated liquid (x = 0) "
+        "and vapour (x = 1); sigma (surface tension, water: IAPWS R1-76(2014)) on the "
+        "saturation line only. A pair that fits two states is refused, naming them.",
         column=formulas.prop_column,
         working=Working(
             steps=(Step("phase", "JB_PHASE(substance, spec1, value1, spec2, value2)", "text"),)
@@ -520,6 +538,10 @@ CATALOG: tuple[Func, ...] = (
         "phase equilibrium: equal P, T and Gibbs energy of liquid and vapor",
         (_REF_COOLPROP, _REF_IAPWS),
         Example(("water", "hfg in kJ/kg", "T in degC", 100), 2256.403721526573, 1e-9),
+        notes="A blend by name (R404A R407C R410A R507A) is its pseudo-pure equation of state, "
+        "as in JB_PROP; a composition is the mixture model, its bubble and dew points found on "
+        "the phase envelope and refused above the cricondenbar/cricondentherm or where a line "
+        "is crossed twice. 'water (IF97)' gives IF97's saturation values.",
     ),
     # ------------------------------------------------------------------ ideal gases
     Func(
@@ -1130,7 +1152,7 @@ CATALOG: tuple[Func, ...] = (
             _END_VALUE,
             Arg(
                 "want",
-                "P2 T2 v2 V2 x2 u2 h2 s2 phase2 W Q dU dH, with unit, e.g. 'P2 in MPa'",
+                "P2 T2 v2 V2 x2 u2 h2 s2 phase2 W Q dU dH (P means P2), with unit, e.g. 'P2 in MPa'",
                 type="text",
             ),
             _MASS,
@@ -1274,7 +1296,8 @@ CATALOG: tuple[Func, ...] = (
         "JB_STORED_ISENTROPIC",
         "stored",
         "Stored expansion energy of a gas volume: isentropic expansion to ambient on the real-fluid "
-        "equation of state, m·(u1 − u2s). An estimate: pressure tests are governed by the codes.",
+        "equation of state, m·(u1 − u2s); liquid contents: JB_STORED_FLASHING_LIQUID. An "
+        "estimate: pressure tests are governed by the codes.",
         (
             Arg(
                 "state",
@@ -1312,6 +1335,46 @@ CATALOG: tuple[Func, ...] = (
                 "treat it as a hydrostatic test)",
                 not_text=("compressed liquid", "saturated liquid"),
             ),
+        ),
+    ),
+    Func(
+        "JB_STORED_FLASHING_LIQUID",
+        "stored",
+        "Expansion energy of a liquid stored above its boiling point (liquefied gas, hot water) "
+        "that flashes on release: isentropic expansion of liquid and flash vapour to ambient, "
+        "m·(u1 − u2). An estimate, not the blast.",
+        (
+            Arg(
+                "state",
+                "state text of the contents from JB_STATE: liquid, or liquid and vapour (x < 1)",
+                type="text",
+            ),
+            Arg("V", "volume the contents fill (the vessel volume)", quantity="volume"),
+            _PAMB,
+        ),
+        "energy",
+        formulas.stored_flashing_liquid,
+        "E = m·(u1 − u2), s2 = s1, P2 = P_amb (liquid + flash vapour), m = V/v1",
+        (_REF_COOLPROP, _REF_FLASHING),
+        Example(("propane | T = 50 degC | x = 0", 12), 307667.04096917127, 1e-6),
+        caution=True,
+        notes="The energy of the expansion is not the blast it drives: only a part of it goes "
+        "into the pressure wave (the rest into fragments, and a fireball when the fluid burns). "
+        "The isentropic expansion is an upper bound of the mechanical energy released.",
+        working=Working(
+            "E",
+            "m*(u_1 - u_2)",
+            (
+                Step("m", "V*JB_PROP(state, 'rho in kg/m3')", "mass"),
+                Step("u_1", "JB_PROP(state, 'u in J/kg')", "specific_energy"),
+                Step(
+                    "u_2",
+                    "JB_PROCESS(state, 'isentropic', 'P2 in Pa', P_amb, 'u2 in J/kg')",
+                    "specific_energy",
+                ),
+                Step("x_2", "JB_PROCESS(state, 'isentropic', 'P2 in Pa', P_amb, 'x2')"),
+            ),
+            defaults=(("P_amb", 101325.0),),
         ),
     ),
     Func(
@@ -2047,8 +2110,9 @@ CATALOG: tuple[Func, ...] = (
     Func(
         "JB_POLY_FIT_BRANCHES",
         "engine",
-        "Polytropic exponents of the compression and the expansion branch of a measured closed "
-        "loop, fitted apart: a row (n compression, n expansion).",
+        "Polytropic exponents of the compression and expansion branches of a measured closed "
+        "loop, fitted apart with valve plateaus (suction, discharge) left out: a row (n "
+        "compression, n expansion, R² compression, R² expansion).",
         (
             Arg(
                 "P_values",
@@ -2060,18 +2124,22 @@ CATALOG: tuple[Func, ...] = (
         ),
         "number",
         formulas.poly_fit_branches,
-        "ln P = ln C − n·ln V on each branch between the largest and smallest volume",
-        (_REF_WORK, _REF_HEYWOOD),
+        "ln P = ln C − n·ln V on each branch between the largest and smallest volume, its "
+        "constant-pressure ends (valve-open plateaus) cut at the least-squares break point",
+        (_REF_WORK, _REF_HEYWOOD, _REF_BREAK),
         Example(
             (
                 [[100], [180], [330], [700], [500], [280], [160], [110]],
                 [[0.5], [0.33], [0.2], [0.1], [0.13], [0.22], [0.36], [0.48]],
             ),
-            [[1.2009119087686027, 1.1814538008646367]],
+            [[1.2998649100391684, 1.1616191962568, 0.9979945461499561, 0.9993691574087468]],
             1e-6,
         ),
         elementwise=False,
-        working=Working(figure="points"),
+        working=Working(
+            figure="points",
+            columns=("n compression", "n expansion", "R² compression", "R² expansion"),
+        ),
         validity=tuple(
             Validity(
                 f"fitted polytropic exponent of the {branch} branch",
@@ -2108,7 +2176,9 @@ CATALOG: tuple[Func, ...] = (
         (_REF_HUMID,),
         Example(("Tdp in degC", 101.325, "T in degC", 25, "RH", 0.5), 13.866886648880495, 1e-6),
         notes="RH is a fraction from 0 to 1 ('RH in %' for percent); HR is kg water per kg dry "
-        "air. Supersaturated air (RH > 1) is refused.",
+        "air ('HR', 'HR in kg/kg' or 'HR in g/kg'). The state is solved and checked first: "
+        "supersaturated inputs (RH > 1, Tdp > T) are refused even when an input is asked back, "
+        "and dry air has no dew point. (Twb, h) fixes a state, weakly.",
     ),
     Func(
         "JB_HUMID_CONDENSATE",
@@ -2277,6 +2347,28 @@ def _as_array(v):
     return None
 
 
+def _depth(v, limit: int = 3) -> int:
+    """How deep lists and tuples nest in *v* (counted up to *limit*)."""
+    d = 0
+    while isinstance(v, (list, tuple)) and d < limit:
+        d += 1
+        inner = [x for x in v if isinstance(x, (list, tuple))]
+        if not inner:
+            break
+        v = inner[0] if len(inner) == 1 else max(inner, key=lambda x: _depth(x, limit - d))
+    return d
+
+
+def _array2(arg: Arg, v) -> np.ndarray:
+    """A range given as lists: at most 2 levels (rows of cells), as an object array."""
+    if _depth(v) > 2:
+        raise BadInput(
+            f"{arg.name} is a list nested more than 2 levels deep; a cell takes a value, a "
+            "row, a column or a block (2 levels)"
+        )
+    return np.array(v, dtype=object)
+
+
 def _number(arg: Arg, v, where: str = ""):
     """One cell value as a float (or None when blank)."""
     if _is_missing(v):
@@ -2284,7 +2376,12 @@ def _number(arg: Arg, v, where: str = ""):
     if isinstance(v, (bool, np.bool_)):
         raise BadInput(f"{arg.name}{where} = {v} is a TRUE/FALSE value; a number is needed")
     if isinstance(v, (int, float, np.integer, np.floating)):
-        x = float(v)
+        try:
+            x = float(v)
+        except OverflowError:  # an integer beyond the range of a float
+            raise BadInput(
+                f"{arg.name}{where} = {fmt_value(v)} is beyond the range of a number (±1.8e308)"
+            ) from None
         if not math.isfinite(x):
             raise BadInput(f"{arg.name}{where} = {x} is not a finite number")
         return x
@@ -2367,7 +2464,8 @@ def call(name: str, *values):
 
     Scalars give a scalar; ranges (lists, tuples, numpy arrays) in scalar arguments broadcast
     like numpy and give an array whose failed elements hold their error text and whose
-    elements with a blank input are ``None``.
+    elements with a blank input are ``None``.  From Python an argument may also be a pint
+    quantity or a ``joulebook.State`` (:func:`joulebook.quantities.cell_values`).
 
     Raises
     ------
@@ -2387,7 +2485,11 @@ def call(name: str, *values):
     for i, (typ, qty, opt, default) in enumerate(specs):
         v = values[i] if i < nv else None
         t = type(v)
-        if (t is float or t is int or t is _F64) and typ == "number" and v - v == 0:
+        if (
+            (t is float or t is _F64 or (t is int and -_BIG < v < _BIG))
+            and typ == "number"
+            and (v - v == 0)
+        ):
             x = float(v) if qty is None else system.conv(qty).to_si(float(v))
             if (x < 0.0 or (x == 0.0 and qty != "volume")) and qty in _ABSOLUTE:
                 return _call(f, values)  # refused there, with the argument named
@@ -2416,6 +2518,7 @@ def _call(f: Func, values):
             raise BadInput("units must be a single text, not a range")
         units_text = _text(UNITS_ARG, u)
     system = unit_system(units_text)
+    values = cell_values(f, values, system)  # pint quantities and States from Python
 
     fargs = f.args
     prepared: list = []
@@ -2434,7 +2537,12 @@ def _call(f: Func, values):
         elif arg.type == "range":
             prepared.append(_range(arg, v))
         elif t in _ARRAY_TYPES:
-            a = v if t is np.ndarray else np.array(v, dtype=object)
+            a = v if t is np.ndarray else _array2(arg, v)
+            if a.ndim > 2:
+                raise BadInput(
+                    f"{arg.name} is nested {a.ndim} levels deep; a cell takes a value, a "
+                    "row, a column or a block (2 levels)"
+                )
             if a.size == 1:
                 prepared.append(_cell(arg, a.reshape(-1)[0]))
             elif not f.elementwise:
@@ -2453,6 +2561,7 @@ def _call(f: Func, values):
 
 
 _ARRAY_TYPES = (list, tuple, np.ndarray)
+_BIG = 2**1023  # integers at least this large take the general path (overflow is named)
 _DEFAULT = unit_system(None)
 _F64 = np.float64
 
@@ -2515,19 +2624,51 @@ def _run(f: Func, si_args, system):
         result = f.impl(*si_args, system=system)
     except JoulebookError:
         raise
-    except (ValueError, ArithmeticError) as e:
+    except ArithmeticError as e:  # overflow, division by an underflowed number
+        raise OutOfRange(_beyond(f, si_args, system)) from e
+    except ValueError as e:
         # a property-library failure we did not foresee: report it as ours, never as a number
         raise OutOfRange(
             f"{f.name}: the model could not evaluate these inputs ({type(e).__name__})"
         ) from e
-    return _result(f, result, system)
+    try:
+        return _result(f, result, system)
+    except _NotFinite:
+        raise OutOfRange(_beyond(f, si_args, system)) from None
+
+
+class _NotFinite(OutOfRange):
+    """A result (or a value of a table) that is NaN or inf."""
+
+
+def _beyond(f: Func, si_args, system) -> str:
+    """The message of a result beyond any finite number, naming the input furthest from 1."""
+    worst = None
+    for arg, x in zip(f.args, si_args):
+        if arg.type != "number" or type(x) is not float or x == 0.0:
+            continue
+        size = abs(math.log10(abs(x)))
+        if worst is None or size > worst[0]:
+            worst = (size, arg, x)
+    if worst is None:
+        return f"{f.name}: the result is beyond any finite number for these inputs"
+    size, arg, x = worst
+    conv = system.conv(arg.quantity) if arg.quantity else None
+    unit = f" {conv.unit}" if conv is not None and conv.unit else ""
+    shown = fmt_value(conv.from_si(x) if conv is not None else x) + unit
+    rule = (
+        "a model carries magnitudes from 1e-100 to 1e100"
+        if size > 100
+        else "the inputs together put it beyond any finite number"
+    )
+    return f"{f.name}: no finite result with {arg.name} = {shown}; {rule}"
 
 
 def _result(f: Func, value, system):
     if type(value) is float:
         out = value if f.result in _AS_IS else system.conv(f.result).from_si(value)
         if out - out != 0.0:  # NaN or inf must never reach a cell
-            raise OutOfRange(f"{f.name}: the result is not a finite number")
+            raise _NotFinite(f"{f.name}: the result is not a finite number")
         return out
     if isinstance(value, (np.floating, int)) and not isinstance(value, bool):
         return _result(f, float(value), system)
@@ -2535,7 +2676,7 @@ def _result(f: Func, value, system):
         for row in value:
             for x in row if isinstance(row, list) else [row]:
                 if isinstance(x, float) and x - x != 0.0:
-                    raise OutOfRange(f"{f.name}: a value of the table is not a finite number")
+                    raise _NotFinite(f"{f.name}: a value of the table is not a finite number")
     return value
 
 

@@ -50,7 +50,9 @@ __all__ = [
     "Phrase",
     "convert",
     "kind_of_unit",
+    "typed_spellings",
     "DEFAULT_SYSTEM",
+    "set_gauge_atmosphere",
     "registry",
 ]
 
@@ -109,6 +111,7 @@ KINDS: dict[str, tuple[str, str]] = {
     "temperature": ("K", "K"),
     "temperature_difference": ("K", "K"),
     "pressure": ("Pa", "Pa"),
+    "pressure_difference": ("Pa", "Pa"),
     "specific_volume": ("m**3/kg", "m**3/kg"),
     "density": ("kg/m**3", "kg/m**3"),
     "specific_energy": ("J/kg", "J/kg"),
@@ -147,6 +150,7 @@ KIND_WORDS = {
     "temperature": "temperature",
     "temperature_difference": "temperature difference",
     "pressure": "pressure",
+    "pressure_difference": "pressure difference",
     "specific_volume": "specific volume",
     "density": "density",
     "specific_energy": "specific energy",
@@ -187,6 +191,7 @@ SYMBOLS: dict[str, str] = {
     "dT": "temperature_difference",
     "P": "pressure",
     "Psat": "pressure",
+    "dP": "pressure_difference",
     "v": "specific_volume",
     "rho": "density",
     "u": "specific_energy",
@@ -252,9 +257,10 @@ def _ureg() -> Any:
             if _UREG is None:
                 import pint
 
-                ureg: Any = pint.UnitRegistry()
+                ureg: Any = pint.UnitRegistry(on_redefinition="ignore")
                 for line in _DEFINITIONS:
                     ureg.define(line)
+                _define_gauge(ureg, _GAUGE_ATMOSPHERE[0])
                 _UREG = ureg
     return _UREG
 
@@ -281,15 +287,93 @@ def registry() -> Any:
     return _ureg()
 
 
+#: the atmosphere gauge pressures of the registry are read against (Pa); set_gauge_atmosphere
+_GAUGE_ATMOSPHERE = [STANDARD_ATMOSPHERE]
+#: gauge units of the registry and the absolute unit each counts in (as the worksheet's _GAUGE)
+_PINT_GAUGE = {"Pag": "pascal", "kPag": "kilopascal", "MPag": "megapascal", "barg": "bar",
+               "mbarg": "millibar", "psig": "psi"}  # fmt: skip
+
+
+def _define_gauge(ureg: Any, atmosphere: float) -> None:
+    """(Re)define the gauge units of *ureg* as offset units: absolute = gauge + atmosphere."""
+    for name, unit in _PINT_GAUGE.items():
+        scale = float(ureg.Quantity(1.0, unit).to("pascal").magnitude)
+        ureg.define(f"{name} = {scale!r} * pascal; offset: {float(atmosphere)!r}")
+
+
+def set_gauge_atmosphere(atmosphere: Any) -> float:
+    r"""Set the atmosphere the registry's gauge units (barg, kPag, psig …) are read against.
+
+    .. math:: P_{abs} = P_{gauge} + P_{atm}
+
+    The default is the standard atmosphere, 101.325 kPa [1]_.  The setting applies to every
+    conversion made afterwards (a quantity in barg keeps its gauge number; its absolute value
+    follows the atmosphere in force).  Worksheet formulas are not affected: they state their
+    own reference in the unit text (``kPag @ 95 kPa``).
+
+    Parameters
+    ----------
+    atmosphere : float or pint.Quantity
+        The local atmospheric pressure (Pa when a plain number), 50–110 kPa.
+
+    Returns
+    -------
+    float
+        The atmosphere in force before the call (Pa), to restore it later.
+
+    Raises
+    ------
+    BadInput
+        Not a number or not a pressure.
+    OutOfRange
+        Outside 50–110 kPa.
+
+    References
+    ----------
+    .. [1] ISO 2533:1975, *Standard Atmosphere* (101.325 kPa at sea level).
+
+    Examples
+    --------
+    >>> before = set_gauge_atmosphere(95_000.0)   # a site at about 550 m
+    >>> registry().Quantity(0.0, "kPag").to("kPa")
+    <Quantity(95.0, 'kilopascal')>
+    >>> set_gauge_atmosphere(before)
+    95000.0
+    """
+    if type(atmosphere).__module__.startswith("pint"):
+        try:
+            value = float(atmosphere.to("pascal").magnitude)
+        except Exception:
+            raise BadInput(f"atmosphere = {atmosphere} is not a pressure") from None
+    else:
+        try:
+            value = float(atmosphere)
+        except (TypeError, ValueError):
+            raise BadInput(f"atmosphere = {atmosphere!r} is not a number (Pa)") from None
+    if not 50_000.0 <= value <= 110_000.0:
+        raise OutOfRange(f"atmosphere = {fmt_value(value)} Pa is outside 50–110 kPa")
+    before = _GAUGE_ATMOSPHERE[0]
+    with _UREG_LOCK:
+        _GAUGE_ATMOSPHERE[0] = value
+        if _UREG is not None:
+            _define_gauge(_UREG, value)
+    return before
+
+
 #: units engineers use that pint lacks or spells otherwise [1]_ [2]_ [3]_
 #:
-#: .. [1] NIST SP 811 (2008), Appendix B: conventional inch of water (4 °C) 249.0889 Pa,
+#: .. [1] NIST SP 811 (2008), Appendix B: conventional inch of water (4 °C) 249.0889 Pa and
+#:    the conventional millimetre, centimetre and metre of water on the same basis (1000 kg/m³
+#:    under standard gravity 9.80665 m/s²), kilogram-force per square centimetre 98 066.5 Pa,
 #:    Btu_IT, ton of refrigeration = 12,000 Btu_IT/h.
 #: .. [2] ISO 13443:1996 (natural gas standard reference conditions: 15 °C, 101.325 kPa);
 #:    DIN 1343 (normal conditions: 0 °C, 101.325 kPa).
 #: .. [3] US gas industry standard cubic foot: 60 °F and 14.696 psia (101.325 kPa).
 _DEFINITIONS = (
     "inch_water = 0.0254 * meter * 1000 * kilogram / meter ** 3 * 9.80665 * meter / second ** 2",
+    "millimeter_water = 0.001 * meter * 1000 * kilogram / meter ** 3 * 9.80665 * meter / second ** 2",
+    "centimeter_water = 0.01 * meter * 1000 * kilogram / meter ** 3 * 9.80665 * meter / second ** 2",
+    "meter_water = meter * 1000 * kilogram / meter ** 3 * 9.80665 * meter / second ** 2",
     "MMBtu = 1e6 * Btu_it",
     "TR = 12000 * Btu_it / hour",
     # amounts of gas given as volumes at stated reference conditions (ideal gas)
@@ -309,6 +393,12 @@ _SPELLINGS = {
     "bar(g)": "barg", "mbar": "mbar", "mbarg": "mbarg", "torr": "torr", "inh2o": "inch_water",
     "inhg": "inHg", "mmhg": "mmHg", "atm": "atm", "celsius": "degC", "fahrenheit": "degF",
     "kelvin": "K", "rankine": "degR", "mmbtu": "MMBtu", "tr": "TR", "scf": "scf",
+    "mmh2o": "millimeter_water", "mmwc": "millimeter_water", "cmh2o": "centimeter_water",
+    "mh2o": "meter_water", "mwc": "meter_water",
+    "kg/cm2": "kgf/cm2", "kgf/cm2": "kgf/cm2", "kg/cm2a": "kgf/cm2", "kgf/cm2a": "kgf/cm2",
+    "kg/cm2(a)": "kgf/cm2", "kgf/cm2(a)": "kgf/cm2", "kg/cm2g": "kgf/cm2g",
+    "kgf/cm2g": "kgf/cm2g", "kg/cm2(g)": "kgf/cm2g", "kgf/cm2(g)": "kgf/cm2g",
+    "kg/cm²": "kgf/cm2", "kgf/cm²": "kgf/cm2", "kg/cm²g": "kgf/cm2g", "kgf/cm²g": "kgf/cm2g",
 }  # fmt: skip
 #: spellings kept as typed (case matters: nm3 is cubic nanometres)
 _EXACT_SPELLINGS = {"Nm3": "normal_cubic_meter", "Sm3": "standard_cubic_meter"}
@@ -316,6 +406,30 @@ _AMBIGUOUS = {
     "bbl": "bbl is ambiguous (31.5 or 42 US gallons): write oil_bbl (42 US gal) or "
     "liquid_bbl (31.5 US gal)",
 }
+
+
+def typed_spellings() -> tuple[str, ...]:
+    """The units that the whole-unit spellings engineers type stand for, in the parser's form.
+
+    Each spelling (``PSIG``, ``bar(g)``, ``kg/cm2g``, ``mmH2O``) is read as one of these, so
+    the unit seed holds them all and a label naming one is read without pint.
+
+    Returns
+    -------
+    tuple of str
+        The units, sorted, e.g. ``'kgf/cm2g'``, ``'millimeter_water'``.
+
+    References
+    ----------
+    .. [1] NIST Special Publication 811 (2008), *Guide for the Use of the International System
+       of Units*, Appendix B (conversion factors).
+
+    Examples
+    --------
+    >>> "millimeter_water" in typed_spellings() and "kgf/cm2g" in typed_spellings()
+    True
+    """
+    return tuple(sorted({*_SPELLINGS.values(), *_EXACT_SPELLINGS.values()}))
 
 
 def _spelled(raw: str) -> str:
@@ -350,15 +464,29 @@ _WORDS = {
     "oil_bbl": "oil_barrel",
     "liquid_bbl": "barrel",
 }
-_GAUGE = {"Pag": "Pa", "kPag": "kPa", "MPag": "MPa", "barg": "bar", "mbarg": "mbar", "psig": "psi"}
+_GAUGE = {
+    "Pag": "Pa", "kPag": "kPa", "MPag": "MPa", "barg": "bar", "mbarg": "mbar", "psig": "psia",
+    "kgf/cm2g": "kgf/cm2",
+}  # fmt: skip
+#: a whole unit that names no absolute pressure: refused for one, read as a difference
+_DIFFERENCE_ONLY = {"psi": "psia (absolute) or psig (gauge)"}
 _ABS_TEMPS = {"K": "K", "degC": "degC", "degF": "degF", "degR": "degR", "kelvin": "K"}
 _DELTA = {"degC": "delta_degC", "degF": "delta_degF"}
 _IDENT = re.compile(r"[A-Za-z_][A-Za-z_]*")
 _ATM = re.compile(r"^(?P<unit>[^@]+?)\s*@\s*(?P<num>[-+0-9.eE]+)\s*(?P<au>[A-Za-z]+)\s*$")
 
 
+_DEG_WORD = re.compile(r"(?i)(?<![A-Za-z])deg(?:rees?)?\.?\s*([cfrk])(?![A-Za-z])")
+_DEG_SIGN = re.compile(r"[°º]\s+([CFRK])(?![A-Za-z])")
+#: a temperature glued to the mass or amount it divides: kJ/kgK, Btu/lbmR, kJ/kmolK
+_GLUED_TEMP = re.compile(r"(?<![A-Za-z])(k?g|lbm?|k?mol)(K|C|F|R|deg[CFR])(?![A-Za-z])")
+
+
 def _clean(text: str) -> str:
     t = text.strip()
+    # "deg C", "deg. F", "degrees C", "° C": the degree written apart from its scale
+    t = _DEG_WORD.sub(lambda m: "K" if m.group(1) in "kK" else "deg" + m.group(1).upper(), t)
+    t = _DEG_SIGN.sub(r"°\1", t)
     for a, b in (
         ("°C", "degC"),
         ("ºC", "degC"),
@@ -377,9 +505,24 @@ def _clean(text: str) -> str:
     return t
 
 
+#: the longest unit text read: the unit parser (pint's) takes time growing with the square of
+#: a long word's length, and no unit is written in more characters than this
+MAX_UNIT_CHARS = 255
+
+
+def _too_long(text: str) -> None:
+    raise BadInput(
+        f"unit text of {len(text):,} characters ({text[:20]!r}…); the limit is "
+        f"{MAX_UNIT_CHARS} characters"
+    )
+
+
 def _to_pint(text: str, kind: str | None) -> str:
     """Rewrite an engineer's unit spelling into pint syntax."""
+    if len(text.strip()) > MAX_UNIT_CHARS:
+        _too_long(text.strip())
     t = _clean(text)
+    t = _GLUED_TEMP.sub(r"\1*\2", t)
     # exponent glued to a unit: m3 -> m**3, ft3 -> ft**3, s2 -> s**2
     t = re.sub(r"([A-Za-z])(\d)", r"\1**\2", t)
 
@@ -442,6 +585,8 @@ def parse_unit(text: str, kind: str) -> Conv:
     if kind not in KINDS:
         raise BadInput(f"unknown quantity kind {kind!r}")
     raw = str(text).strip()
+    if len(raw) > MAX_UNIT_CHARS:
+        _too_long(raw)
     if raw == "" or raw in ("-", "1") and kind == "dimensionless":
         if kind == "dimensionless":
             return Conv(1.0, 0.0, "")
@@ -456,7 +601,7 @@ def parse_unit(text: str, kind: str) -> Conv:
     m = _ATM.match(raw)
     base = raw
     if m:
-        base = m.group("unit").strip()
+        base = _spelled(m.group("unit").strip())
         try:
             num = float(m.group("num"))
         except ValueError:
@@ -478,6 +623,11 @@ def parse_unit(text: str, kind: str) -> Conv:
         c = parse_unit(_GAUGE[base], "pressure")
         return Conv(c.factor, atm, raw)
 
+    if base in _DIFFERENCE_ONLY and kind == "pressure":
+        raise BadInput(
+            f"unit {text!r} is ambiguous for an absolute pressure: write "
+            f"{_DIFFERENCE_ONLY[base]}; {base} is read only as a pressure difference"
+        )
     if kind == "dimensionless":
         if base in ("%", "percent"):
             return Conv(0.01, 0.0, raw)
@@ -587,6 +737,7 @@ _EXAMPLE_UNITS = {
     "temperature": "K, degC, degF, R",
     "temperature_difference": "K, degC, degF, R",
     "pressure": "Pa, kPa, MPa, bar, psia, kPag, barg, psig",
+    "pressure_difference": "Pa, kPa, bar, psi, mmH2O",
     "specific_volume": "m3/kg, L/kg, ft3/lbm",
     "density": "kg/m3, lbm/ft3",
     "specific_energy": "J/kg, kJ/kg, Btu/lbm",
@@ -651,6 +802,10 @@ def kind_of_unit(text: str, _quiet: bool = False) -> str | None:
     >>> kind_of_unit("degF")
     'temperature'
     """
+    if len(str(text).strip()) > MAX_UNIT_CHARS:
+        if _quiet:
+            return None
+        _too_long(str(text).strip())
     raw = _spelled(str(text).strip())
     for word in _IDENT.findall(raw):
         if word in _AMBIGUOUS and not _quiet:
@@ -679,7 +834,7 @@ def _pint_kind(base: str, raw: str, _quiet: bool) -> str | None:
             return None
         raise BadInput(f"unknown unit {raw!r}") from None
     for kind, (_si, dim_text) in KINDS.items():
-        if kind in ("temperature_difference",):
+        if kind in ("temperature_difference", "pressure_difference"):
             continue
         if dim_text and ureg.Quantity(1.0, dim_text).dimensionality == dim:
             return kind
@@ -737,6 +892,7 @@ _SI_DEFAULTS = {
     "temperature": "K",
     "temperature_difference": "K",
     "pressure": "Pa",
+    "pressure_difference": "Pa",
     "specific_volume": "m3/kg",
     "density": "kg/m3",
     "specific_energy": "J/kg",
@@ -771,6 +927,13 @@ _SI_DEFAULTS = {
 }
 
 _DELTA_OF = {"K": "K", "kelvin": "K", "degC": "K", "degF": "R", "degR": "R"}
+
+
+def _difference_unit(p_unit: str) -> str:
+    """The unit of a pressure difference that goes with a pressure unit: its scale without
+    the gauge or absolute mark (psia, psig -> psi; barg -> bar)."""
+    base = _GAUGE.get(_spelled(p_unit), _spelled(p_unit))
+    return {"psia": "psi"}.get(base, base)
 
 
 def _energy_family(energy_unit: str) -> dict[str, str]:
@@ -837,7 +1000,8 @@ def unit_system(text: str | None = None) -> UnitSystem:
             parse_unit(tok, "temperature")
             t_unit = tok
         elif k == "pressure":
-            p_unit = tok
+            p_unit = _spelled(tok)
+            parse_unit(p_unit, "pressure")
         else:
             e_unit = tok
     fam = _energy_family(e_unit)
@@ -852,6 +1016,7 @@ def unit_system(text: str | None = None) -> UnitSystem:
             "temperature": t_unit,
             "temperature_difference": d_unit,
             "pressure": p_unit,
+            "pressure_difference": _difference_unit(p_unit),
             "energy": e_unit,
             "mass": m_unit,
             "volume": vol_unit,
@@ -886,16 +1051,41 @@ def unit_system(text: str | None = None) -> UnitSystem:
     for ov in overrides:
         sym, _, unit = (s.strip() for s in ov.partition("="))
         if sym not in SYMBOLS:
-            raise BadInput(
-                f"units {raw!r}: unknown symbol {sym!r} in override; use one of "
-                + " ".join(sorted(set(SYMBOLS) - {"Tsat", "Psat"}))[:120]
-            )
+            raise BadInput(_unknown_override(raw, sym, unit))
         kind = SYMBOLS[sym]
         parse_unit(unit, kind)
         units[kind] = unit
     system = UnitSystem(raw, tuple(sorted(units.items())))
     _system_convs(system)  # validate every unit now
     return system
+
+
+def _unknown_override(raw: str, sym: str, unit: str) -> str:
+    """The message of an override whose symbol is unknown."""
+    names = sorted(set(SYMBOLS) - {"Tsat", "Psat"}, key=str.lower)
+    return _unknown_symbol(f"units {raw!r}: unknown symbol {sym!r} in override", sym, unit, names)
+
+
+def _unknown_symbol(
+    head: str, sym: str, unit: str | None, names: tuple[str, ...] | list[str]
+) -> str:
+    """*head* and the symbols: first those the user most likely means (those of the unit's
+    quantity, those spelled alike), then the others, so that a message clipped to its
+    length never loses the one needed."""
+    import difflib
+
+    kind = kind_of_unit(unit, _quiet=True) if unit else None
+    likely = [n for n in names if SYMBOLS.get(n) == kind]
+    likely += [
+        n
+        for n in difflib.get_close_matches(sym, names, n=4, cutoff=0.5)
+        + [n for n in names if n.lower() == sym.lower()]
+        if n not in likely
+    ]
+    rest = [n for n in names if n not in likely]
+    if likely:
+        return f"{head}; did you mean {' or '.join(likely)}? Others: {' '.join(rest)}"
+    return f"{head}; use one of {' '.join(names)}"
 
 
 # ---------------------------------------------------------------------------------------
@@ -972,6 +1162,11 @@ def parse_phrase(text: str, system: UnitSystem | None = None, allowed: tuple = (
     >>> p.symbol, p.unit
     ('h', 'kJ/kg')
     """
+    if len(str(text)) > MAX_UNIT_CHARS + 64:  # a symbol, "in" and a unit at most
+        raise BadInput(
+            f"quantity text of {len(str(text)):,} characters ({str(text)[:20]!r}…); the "
+            f"limit is {MAX_UNIT_CHARS + 64} characters"
+        )
     system = system or unit_system(None)
     m = _PHRASE.match(str(text))
     if not m:
@@ -979,8 +1174,9 @@ def parse_phrase(text: str, system: UnitSystem | None = None, allowed: tuple = (
     sym = m.group("sym")
     sym = _SYMBOL_ALIASES.get(sym, sym)
     if sym not in SYMBOLS or (allowed and sym not in allowed):
-        valid = " ".join(allowed) if allowed else " ".join(SYMBOLS)
-        raise BadInput(f"unknown property {m.group('sym')!r} in {text!r}; use one of {valid}")
+        head = f"unknown property {m.group('sym')!r} in {text!r}"
+        names = allowed or tuple(SYMBOLS)
+        raise BadInput(_unknown_symbol(head, m.group("sym"), m.group("unit"), names))
     kind = SYMBOLS[sym]
     unit = m.group("unit")
     if unit is None or unit == "":
@@ -1057,6 +1253,11 @@ def convert(value: Any, from_unit: str, to_unit: str) -> Any:
     ):
         # a temperature difference: a factor, no offset (delta_degC to delta_degF is 1.8)
         k1 = k2 = "temperature_difference"
+    if k1 == "pressure" and any(
+        _spelled(str(u).strip()) in _DIFFERENCE_ONLY for u in (from_unit, to_unit)
+    ):
+        # psi names no absolute pressure: a difference, converted by its factor alone
+        k1 = k2 = "pressure_difference"
     c1 = parse_unit(from_unit, k1)
     c2 = parse_unit(to_unit, k2)
     si = c1.to_si(value)

@@ -88,6 +88,7 @@ _KINDS = (
     "voltage",
     "current",
     "temperature_difference",
+    "pressure_difference",
 )
 _GAUGE_NOTE = "gauge and absolute pressure differ"
 _DEPTH = 200  # formula chains followed this deep; deeper cells get no unit
@@ -175,7 +176,7 @@ def unit_of_text(text: str) -> Unit | None:
                 dims[kind],
                 conv.factor,
                 conv.offset,
-                interval=kind == "temperature_difference",
+                interval=kind in ("temperature_difference", "pressure_difference"),
             )
     return None
 
