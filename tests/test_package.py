@@ -354,7 +354,7 @@ def test_a_flag_of_the_first_row_says_how_many_rows_raise_it(tmp_path, rows):
     a = build_audit(read_book(_runs_book(tmp_path / "runs.xlsx", rows)), figures=False)
     # the slip is each row's status too (unit clash, workbook/verdict.py), one flag per row
     raising = sum(
-        any("gauge and absolute pressure differ" in f for f in e.flags) for e in a.entries
+        any("a gauge pressure is not an absolute one" in f for f in e.flags) for e in a.entries
     )
     assert raising >= 1
     p = build_package(a)

@@ -29,7 +29,7 @@ Examples
 >>> u.text, u.offset
 ('barg', 101325.0)
 >>> clash_of("+", unit_of_text("barg"), unit_of_text("kPa"))
-'barg and kPa are not the same unit (gauge and absolute pressure differ)'
+'barg and kPa are different units (a gauge pressure is not an absolute one)'
 >>> clash_of("-", unit_of_text("degC"), unit_of_text("degC")) is None
 True
 """
@@ -90,7 +90,7 @@ _KINDS = (
     "temperature_difference",
     "pressure_difference",
 )
-_GAUGE_NOTE = "gauge and absolute pressure differ"
+_GAUGE_NOTE = "a gauge pressure is not an absolute one"
 _DEPTH = 200  # formula chains followed this deep; deeper cells get no unit
 
 
@@ -255,18 +255,18 @@ def clash_of(op: str, a: Unit, b: Unit) -> str | None:
     Examples
     --------
     >>> clash_of("-", unit_of_text("hp"), unit_of_text("kW"))
-    'hp and kW are not the same unit (same dimension, another scale)'
+    'hp and kW are different units (same dimension, another scale)'
     >>> clash_of("-", unit_of_text("degC"), unit_of_text("K"))
-    'degC and K are not the same unit (another zero)'
+    'degC and K are different units (another zero)'
     """
     if a.dims != b.dims:
         return f"{a.shown()} and {b.shown()} are not the same dimension"
     if not _same_zero(a, b):
         gauge = a.dims == _kind_dims().get("pressure")
         why = _GAUGE_NOTE if gauge else "another zero"
-        return f"{a.text} and {b.text} are not the same unit ({why})"
+        return f"{a.text} and {b.text} are different units ({why})"
     if not _same_scale(a, b):
-        return f"{a.text} and {b.text} are not the same unit (same dimension, another scale)"
+        return f"{a.text} and {b.text} are different units (same dimension, another scale)"
     return None
 
 
