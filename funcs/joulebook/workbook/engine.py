@@ -1890,11 +1890,20 @@ class Engine:
                 continue
             above.add(k)
             stack.extend(graph.get(k, ()))
-        order = list(
-            graphlib.TopologicalSorter(
-                {k: [d for d in graph[k] if d in above] for k in above}
-            ).static_order()
-        )
+        try:
+            order = list(
+                graphlib.TopologicalSorter(
+                    {k: [d for d in graph[k] if d in above] for k in above}
+                ).static_order()
+            )
+        except graphlib.CycleError as e:  # the formula cell reads a circular reference
+            loop = e.args[1][0]
+            self._out[key] = self._refused(
+                cell,
+                f"not checked: depends on {loop[0]}!{col_letters(loop[2])}{loop[1]} "
+                "(circular reference)",
+            )
+            return
         redo: list = []
         for k in order:
             p = plans[k]
@@ -1984,6 +1993,16 @@ class Engine:
         if v is not None:
             self._values[key] = v
         return Outcome(v if v is not None else (shown or ERROR("#N/A")), problem)
+
+    def _refuse_spill(self, c: Cell, problem: str) -> None:
+        """The cells of array formula *c* other than its anchor refused as it is."""
+        r1, c1, r2, c2 = _array_box(c)
+        for r in range(r1, r2 + 1):
+            for cc in range(c1, c2 + 1):
+                k = (c.sheet, r, cc)
+                if (r, cc) != (c.row, c.col) and k not in self._out:
+                    spilled = self.book.cells.get(k) or Cell(c.sheet, r, cc)
+                    self._out[k] = self._refused(spilled, problem)
 
     def _taint(self) -> None:
         """Cells reading a refused cell are not checked; cells reading a volatile one are
@@ -2158,6 +2177,8 @@ class Engine:
                 for key in cycle:
                     cell = self._plans[key].cell if key in self._plans else self.book.cells[key]
                     self._out[key] = self._refused(cell, "circular reference")
+                    if cell.array_ref:  # the cells an array formula fills go with it
+                        self._refuse_spill(cell, "circular reference")
                     graph.pop(key, None)
                 for deps in graph.values():
                     deps -= cycle
