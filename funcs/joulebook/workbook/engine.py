@@ -167,6 +167,9 @@ _POSITIONAL = frozenset({"ROW", "COLUMN", "SINGLE", "_XLFN.SINGLE"})  # ROW() ne
 _MAX_NAME_DEPTH = 16
 _KEEP_CELLS = 200_000  # boxes up to this size are read whole; larger ones and whole rows or
 # columns are cut to the used part of the sheet
+_CACHED_BOX = 32  # ranges of at least this many cells are built once and kept while the
+# cells run in dependency order (every formula cell inside is final by then)
+_CACHED_CELLS = 5_000_000  # the most cells kept so (the kept ranges are dropped past it)
 
 
 def ERROR(code: str) -> tuple[str, str]:  # noqa: N802 - reads like Excel's error values
@@ -288,7 +291,10 @@ def _register_ours() -> None:
             b[~flags] = criteria({"raw": raw[~flags]}, condition)
             return b
 
-        library_functions.__dict__["__xfilter"] = criteria_apart
+        from .functions.criteria import remembered
+
+        # once per distinct value of a criteria range, remembered per (range, criterion)
+        library_functions.__dict__["__xfilter"] = remembered(criteria_apart)
         _REGISTERED = True
 
 
@@ -1179,6 +1185,9 @@ class Engine:
         self._in_progress: set = set()
         self._late: set = set()
         self._late_now = False
+        self._box_cache: dict = {}  # (sheet, r1, c1, r2, c2) -> values, see _array
+        self._box_cache_on = False
+        self._box_cached_cells = 0
 
     # --- names, sheets, tables ------------------------------------------------------------
     def _sheet(self, name: str | None, here: str) -> str | None:
@@ -1601,6 +1610,26 @@ class Engine:
             arr = np.empty((1, 1), dtype=object)
             arr[0, 0] = _as_formula_value(values.get((sheet, r1, c1), sh.EMPTY))
             return arr
+        cache = self._box_cache if self._box_cache_on and h * w >= _CACHED_BOX else None
+        if cache is not None:
+            hit = cache.get((sheet, r1, c1, r2, c2))
+            if hit is not None:
+                return hit.copy()  # a copy: a function may write into what it is given
+        arr = self._fresh_array(sheet, r1, c1, r2, c2)
+        if cache is not None:
+            self._box_cached_cells += h * w
+            if self._box_cached_cells > _CACHED_CELLS:
+                cache.clear()
+                self._box_cached_cells = h * w
+            cache[(sheet, r1, c1, r2, c2)] = arr
+            return arr.copy()
+        return arr
+
+    def _fresh_array(self, sheet: str, r1: int, c1: int, r2: int, c2: int):
+        import schedula as sh
+
+        values = self._values
+        h, w = r2 - r1 + 1, c2 - c1 + 1
         arr = np.empty((h, w), dtype=object)
         arr[:] = sh.EMPTY
         for c in range(c1, c2 + 1):
@@ -1743,6 +1772,7 @@ class Engine:
 
         graph: dict = {}
         tables = self._tables
+        box_deps: dict = {}  # (sheet, box) -> the formula cells in it
         for key, p in plans.items():
             deps = set()
             for i, t in enumerate(p.targets):
@@ -1767,18 +1797,16 @@ class Engine:
                     # the cell reads itself (SUM(3:3) in row 3): Excel's circular reference
                     out[key] = self._refused(p.cell, "circular reference (the cell reads itself)")
                 for s in t.sheets:
-                    r1, c1, r2, c2 = self._bounded(s, t.box)
-                    for cc in range(c1, c2 + 1):
-                        rows = self._rows_by_col.get((s, cc))
-                        if not rows:
-                            continue
-                        for r in rows[bisect_left(rows, r1) : bisect_right(rows, r2)]:
-                            dep = owner.get((s, r, cc), (s, r, cc))
-                            # a cell refused before it could run (its formula not
-                            # understood) is a dependency too: its readers are not checked
-                            if dep != key and (dep in plans or dep in out or dep in tables):
-                                deps.add(dep)
+                    box = self._bounded(s, t.box)
+                    found = box_deps.get((s, box))
+                    if found is None:
+                        found = self._cells_in(s, box, owner, tables)
+                        if (box[2] - box[0] + 1) * (box[3] - box[1] + 1) >= _CACHED_BOX:
+                            box_deps[(s, box)] = found  # read by many: found once
+                    deps.update(found)
+            deps.discard(key)
             graph[key] = tuple(deps)  # a tuple: a set per cell costs 216 bytes
+        box_deps.clear()
         for key, t in self._tables.items():
             formula, subs = _table_parts(t, key)
             deps = {k for k in (formula, *(v for _, v in subs)) if k in plans or k in out}
@@ -1844,23 +1872,49 @@ class Engine:
         total = len(order) + len(late_order)
         _CURRENT.engine = self
         try:
+            # in dependency order a range read is final: its values are built once (_array)
+            self._box_cache_on = True
             for i, node in enumerate(order):
                 if node in batches:
                     self._run_batch(batches[node])
                 elif node in self._tables and node not in out:
+                    self._box_cache_on = False  # the table changes its inputs for a while
+                    self._box_cache.clear()
                     self._run_table(node)
+                    self._box_cache_on = True
                 elif node in plans and node not in out:
                     self._run_cell(node)
                 if self.progress and (i % 200 == 0 or i == total - 1):
                     self.progress(i + 1, total)
+            self._box_cache_on = False
+            self._box_cache.clear()
             if late_order:
                 self._run_late(late_order)
                 if self.progress:
                     self.progress(total, total)
         finally:
             _CURRENT.engine = None
+            self._box_cache_on = False
+            self._box_cache.clear()
         self._taint()
         return out
+
+    def _cells_in(self, s: str, box, owner: dict, tables: dict) -> tuple:
+        """The formula cells (array anchors for the cells they fill) in *box* of sheet *s*.
+        A cell refused before it could run (its formula not understood) is one too: its
+        readers are not checked."""
+        plans, out = self._plans, self._out
+        r1, c1, r2, c2 = box
+        found = set()
+        for cc in range(c1, c2 + 1):
+            rows = self._rows_by_col.get((s, cc))
+            if not rows:
+                continue
+            for r in rows[bisect_left(rows, r1) : bisect_right(rows, r2)]:
+                dep = owner.get((s, r, cc), (s, r, cc))
+                if dep in plans or dep in out or dep in tables:
+                    found.add(dep)
+        return tuple(found)
 
     def _run_table(self, key) -> None:
         """One cell of a What-If data table: the table's formula cell recomputed with its

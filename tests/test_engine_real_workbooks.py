@@ -1,0 +1,148 @@
+"""The engine on what real workbooks hold: tables saved over whole columns, ranges read by
+thousands of formulas (built once), criteria ranges reused by copied-down SUMIFS (tested once
+per distinct value), and dependencies that stay right when a looked-up cell changes.
+
+Every workbook is a fixture of our own built with openpyxl; expected values are derived by
+hand (each named beside its check) or from Excel's documented function behaviour (common
+practice: the function reference of the spreadsheet programs)."""
+
+import re
+from pathlib import Path
+
+import numpy as np
+from openpyxl.worksheet.table import Table, TableColumn, TableStyleInfo
+
+from joulebook.workbook.engine import Engine
+from joulebook.workbook.functions.criteria import remembered
+from joulebook.workbook.reader import read_book
+from wbtools import build, outcomes, rewrite_part
+
+
+def _whole_column_table(tmp_path: Path, ref: str) -> Path:
+    """A table Loads[Item, Qty, Line] with Line = [@Qty]*2, and a total of Loads[Line]."""
+    cells = {"S!A1": "Item", "S!B1": "Qty", "S!C1": "Line"}
+    for r, (item, qty) in enumerate([("pump", 3.0), ("fan", 5.0), ("valve", 7.0)], start=2):
+        cells[f"S!A{r}"], cells[f"S!B{r}"] = item, qty
+        cells[f"S!C{r}"] = "=[@Qty]*2"
+    cells["T!A1"] = "=SUM(Loads[Line])"
+    cells["T!A2"] = '=VLOOKUP("fan",Loads,3,FALSE)'
+
+    def table(wb):
+        t = Table(displayName="Loads", ref="A1:C4")
+        t.tableColumns = [
+            TableColumn(id=i + 1, name=n) for i, n in enumerate(["Item", "Qty", "Line"])
+        ]
+        t.tableStyleInfo = TableStyleInfo(name="TableStyleLight1")
+        wb["S"].add_table(t)
+
+    src = build(tmp_path / "t.xlsx", cells, table)
+    if ref == "A1:C4":
+        return src
+
+    def whole(data: bytes) -> bytes:  # as LibreOffice saves a table over whole columns
+        return re.sub(rb'ref="A1:C4"', f'ref="{ref}"'.encode(), data)
+
+    return rewrite_part(src, tmp_path / "whole.xlsx", "xl/tables/table1.xml", whole)
+
+
+def test_a_table_saved_over_whole_columns_is_found(tmp_path):
+    for ref in ("A1:C4", "A:C"):
+        out = outcomes(_whole_column_table(tmp_path, ref))
+        assert not any(o.problem for o in out.values()), ref
+        # hand: Line = 2·Qty = 6, 10, 14; their sum 30; the fan's line 10
+        assert [out[f"S!C{r}"].value for r in (2, 3, 4)] == [6.0, 10.0, 14.0]
+        assert out["T!A1"].value == 30.0 and out["T!A2"].value == 10.0
+
+
+def test_a_table_range_of_whole_columns_or_rows_is_read():
+    from joulebook.workbook.reader import _table_box
+
+    assert _table_box("A:E") == (1, 1, 1_048_576, 5)
+    assert _table_box("B2:D9") == (2, 2, 9, 4)
+    assert _table_box("3:7") == (3, 1, 7, 16_384)
+
+
+def _sumifs_book(tmp_path: Path, name: str, region_of_row3: str = "north") -> Path:
+    """Data!A:C holds region, year, amount (40 rows); Sheet S sums by region with SUMIFS
+    over whole columns, copied down and across, and looks amounts up with VLOOKUP."""
+    regions = ["north", "south", "east", "west"]
+    cells: dict = {}
+    for r in range(1, 41):
+        cells[f"Data!A{r}"] = regions[r % 4] if r != 3 else region_of_row3
+        cells[f"Data!B{r}"] = 2020.0 + r % 3
+        cells[f"Data!C{r}"] = float(r)
+    for i, region in enumerate(regions, start=1):
+        cells[f"S!A{i}"] = region
+        cells[f"S!B{i}"] = f"=SUMIFS(Data!$C:$C,Data!$A:$A,$A{i})"
+        cells[f"S!C{i}"] = f'=SUMIFS(Data!$C:$C,Data!$A:$A,$A{i},Data!$B:$B,">2020")'
+        cells[f"S!D{i}"] = f"=COUNTIFS(Data!$A:$A,$A{i})"
+        cells[f"S!E{i}"] = f"=B{i}*2"
+    cells["S!F1"] = "=VLOOKUP(3,Data!$C:$C,1,FALSE)+MATCH(3,Data!$C:$C,0)"
+    return build(tmp_path / name, cells)
+
+
+def _by_hand(region_of_row3: str = "north") -> dict:
+    regions = ["north", "south", "east", "west"]
+    rows = [(regions[r % 4] if r != 3 else region_of_row3, 2020 + r % 3, r) for r in range(1, 41)]
+    return {
+        g: (
+            sum(a for x, _, a in rows if x == g),
+            sum(a for x, y, a in rows if x == g and y > 2020),
+            sum(1 for x, _, _ in rows if x == g),
+        )
+        for g in regions
+    }
+
+
+def test_copied_sumifs_over_whole_columns_agree_with_a_hand_sum(tmp_path):
+    out = outcomes(_sumifs_book(tmp_path, "a.xlsx"))
+    hand = _by_hand()  # the sums written out in Python from the same rows (hand derivation)
+    for i, g in enumerate(["north", "south", "east", "west"], start=1):
+        assert out[f"S!B{i}"].value == hand[g][0]
+        assert out[f"S!C{i}"].value == hand[g][1]
+        assert out[f"S!D{i}"].value == hand[g][2]
+        assert out[f"S!E{i}"].value == 2 * hand[g][0]
+    assert out["S!F1"].value == 6.0  # VLOOKUP finds 3 in row 3: 3 + 3
+
+
+def test_a_changed_looked_up_cell_recomputes_its_readers(tmp_path):
+    """Row 3 moved from the east to the north: each SUMIFS that reads it changes, each
+    that does not stays (the ranges built once per run never carry one run into another)."""
+    book = read_book(_sumifs_book(tmp_path, "b.xlsx", "east"))
+    before = {k: o.value for k, o in Engine(book).run().items()}
+    book.cells[("Data", 3, 1)].cached = "north"
+    after = {k: o.value for k, o in Engine(book).run().items()}
+    hand = _by_hand("north")
+    for i, g in enumerate(["north", "south", "east", "west"], start=1):
+        assert after[("S", i, 2)] == hand[g][0] and after[("S", i, 5)] == 2 * hand[g][0]
+    assert after[("S", 1, 2)] == before[("S", 1, 2)] + 3  # north gained row 3 (amount 3)
+    assert after[("S", 3, 2)] == before[("S", 3, 2)] - 3  # east lost it
+    assert after[("S", 2, 2)] == before[("S", 2, 2)]  # south untouched
+
+
+def test_a_range_read_while_its_formulas_change_is_never_stale(tmp_path):
+    """Cells inside a range that many formulas read are themselves formulas: every reader
+    comes after them (hand: A = 1..40 doubled, each total 2·820 = 1640 plus its own row)."""
+    cells = {f"S!A{r}": f"=B{r}*2" for r in range(1, 41)}
+    cells |= {f"S!B{r}": float(r) for r in range(1, 41)}
+    cells |= {f"S!C{r}": f"=SUM($A$1:$A$40)+B{r}" for r in range(1, 41)}
+    out = outcomes(build(tmp_path / "c.xlsx", cells))
+    assert [out[f"S!C{r}"].value for r in (1, 20, 40)] == [1641.0, 1660.0, 1680.0]
+
+
+def test_the_criteria_test_runs_once_per_distinct_value_and_keeps_types_apart():
+    seen = []
+
+    def test(rng, cond):  # a stand-in test that records what it was asked
+        raw = rng["raw"]
+        seen.append(len(raw.ravel()))
+        return np.vectorize(lambda v: type(v) is type(cond) and v == cond, otypes=[bool])(raw)
+
+    memo = remembered(test)
+    raw = np.array([1.0, True, "a", 1.0] * 10, dtype=object).reshape(40, 1)
+    got = memo({"raw": raw}, 1.0)
+    assert got.shape == (40, 1) and int(got.sum()) == 20  # TRUE is not 1 (types apart)
+    assert int(memo({"raw": raw.copy()}, True).sum()) == 10
+    assert seen == [3, 3]  # three distinct values, each criterion tested once on them
+    memo({"raw": raw}, 1.0)
+    assert seen == [3, 3]  # the same range and criterion: from memory
