@@ -146,3 +146,46 @@ def test_the_criteria_test_runs_once_per_distinct_value_and_keeps_types_apart():
     assert seen == [3, 3]  # three distinct values, each criterion tested once on them
     memo({"raw": raw}, 1.0)
     assert seen == [3, 3]  # the same range and criterion: from memory
+
+
+def _lookup_book(tmp_path: Path, name: str) -> Path:
+    """Data!A1:B100: keys (numbers 1..97, then the text "1", "Pump" and TRUE) and values;
+    Calc looks keys up over whole columns, copied down."""
+    cells: dict = {}
+    for r in range(1, 98):
+        cells[f"Data!A{r}"] = float(r)
+        cells[f"Data!B{r}"] = float(r * 10)
+    cells |= {"Data!A98": "1", "Data!B98": -1.0, "Data!A99": "Pump", "Data!B99": -2.0}
+    cells |= {"Data!A100": True, "Data!B100": -3.0}
+    keys = [5.0, "1", "pump", True, 1.0, 200.0, "PUMP"]
+    for r, k in enumerate(keys, start=1):
+        cells[f"Calc!A{r}"] = k
+        cells[f"Calc!B{r}"] = f"=VLOOKUP($A{r},Data!$A:$B,2,FALSE)"
+        cells[f"Calc!C{r}"] = f"=MATCH($A{r},Data!$A:$A,0)"
+        cells[f"Calc!D{r}"] = f"=INDEX(Data!$B:$B,MATCH($A{r},Data!$A:$A,0))"
+        cells[f"Calc!E{r}"] = f"=_xlfn.XLOOKUP($A{r},Data!$A$1:$A$100,Data!$B$1:$B$100)"
+    return build(tmp_path / name, cells)
+
+
+def test_exact_lookups_keep_types_apart_and_ignore_case(tmp_path):
+    out = outcomes(_lookup_book(tmp_path, "l.xlsx"))
+    # Excel reference: an exact match compares text without regard to case and never takes
+    # the number 1 for the text "1" or for TRUE; a key not there is #N/A (hand: row numbers)
+    expect_b = [50.0, -1.0, -2.0, -3.0, 10.0, ("error", "#N/A"), -2.0]
+    expect_c = [5, 98, 99, 100, 1, ("error", "#N/A"), 99]
+    assert [out[f"Calc!B{r}"].value for r in range(1, 8)] == expect_b
+    assert [out[f"Calc!C{r}"].value for r in range(1, 8)] == expect_c
+    assert [out[f"Calc!D{r}"].value for r in range(1, 8)] == expect_b
+    assert [out[f"Calc!E{r}"].value for r in range(1, 8)] == expect_b
+
+
+def test_a_changed_lookup_table_recomputes_the_lookups(tmp_path):
+    book = read_book(_lookup_book(tmp_path, "m.xlsx"))
+    first = Engine(book).run()
+    assert first[("Calc", 1, 2)].value == 50.0
+    book.cells[("Data", 5, 2)].cached = 55.0  # the looked-up value changes
+    book.cells[("Data", 99, 1)].cached = "Valve"  # and a key disappears
+    again = Engine(book).run()
+    assert again[("Calc", 1, 2)].value == 55.0 and again[("Calc", 1, 4)].value == 55.0
+    assert again[("Calc", 3, 3)].value == ("error", "#N/A")  # "pump" no longer there
+    assert again[("Calc", 2, 3)].value == 98  # the others stay

@@ -238,6 +238,12 @@ def _register_ours() -> None:
         from . import builtins
 
         builtins.install(table)  # built-ins the library lacks or gets wrong
+        from .functions import rounding
+
+        rounding.install(table)  # MROUND midpoints, IPMT of a negative present value
+        from .functions import lookup
+
+        lookup.install(table)  # a lookup array prepared once per range, not once per formula
         table["SUBTOTAL"] = wrap_func(_subtotal, ranges=True)
         table["COUNTBLANK"] = wrap_func(_countblank, ranges=True)
         for names, fn in (
@@ -265,6 +271,9 @@ def _register_ours() -> None:
         from formulas.functions.operators import OPERATORS
 
         OPERATORS[":"] = wrap_func(_range_op, ranges=True)
+        from .functions import operators as excel_operators
+
+        excel_operators.install(OPERATORS)  # + - * / ^ as Excel (cancellation, #NUM!, text)
         # the library writes numpy booleans as "True" in text ("0"&ISNUMBER(A1)): TRUE, as
         # spreadsheets write them; its text functions and "&" look the helper up at call time
         from formulas.functions import operators, text
@@ -272,6 +281,8 @@ def _register_ours() -> None:
         library_str = text._str
 
         def as_text(x):
+            if isinstance(x, (int, float, np.number)) and not isinstance(x, (bool, np.bool_)):
+                return excel_operators.general_text(float(x))  # 15 digits, 1.00000013E+48
             return library_str(bool(x) if isinstance(x, np.bool_) else x)
 
         text._str = operators._str = as_text
@@ -482,6 +493,11 @@ def _offset(ref, rows, cols, height=None, width=None):
         return Error.errors["#VALUE!"]
     sheet, r1, c1, r2, c2 = _box(eng, ref.ranges[0])
     h0, w0 = r2 - r1 + 1, c2 - c1 + 1
+    import schedula as sh
+
+    # an omitted height or width (OFFSET(A1,1,0,,)) is the reference's own
+    height = None if height is sh.EMPTY else height
+    width = None if width is sh.EMPTY else width
     vals = []
     for v in (rows, cols, height, width):
         v = _scalar(v) if v is not None else None
@@ -1254,6 +1270,9 @@ class Engine:
         marks: dict = {"where": set(), "whole": set()}
         problem = ""
         try:
+            from .functions.spelling import normalized
+
+            formula = normalized(formula)  # 1e6, OFFSET(A1,1,0,,), a closing line break
             try:
                 formula = expand_let(formula)
             except ValueError as e:
@@ -1731,6 +1750,8 @@ class Engine:
             tpl, shift = self._template(c.sheet, c.formula, c.row, c.col)
             if tpl.problem:
                 out[key] = self._refused(c, tpl.problem)
+                if c.array_ref:  # the cells it fills keep their saved values too
+                    self._refuse_spill(c, tpl.problem)
                 continue
             try:
                 targets = self._targets(tpl, c, shift)
@@ -2343,10 +2364,25 @@ def _next_is(toks, i: int, types: tuple) -> bool:
     return False
 
 
+#: functions that read the network, a data service or linked data types: refused by name
+_NETWORK = frozenset(
+    """STOCKHISTORY WEBSERVICE RTD CUBEVALUE CUBEMEMBER CUBESET CUBESETCOUNT CUBERANKEDMEMBER
+    CUBEMEMBERPROPERTY CUBEKPIMEMBER _FV FIELDVALUE IMAGE TRANSLATE DETECTLANGUAGE
+    COPILOT""".split()
+)
+
+
 def _refuse_lambda(formula: str) -> None:
     """Functions a workbook defines for itself (LAMBDA, and the names bound by LAMBDA or by
     the helpers that take one) and What-If data tables are not evaluated: refused by name."""
     for v, t, sub in tokens(formula):
+        if t == "FUNC" and sub == "OPEN":
+            bare = v[:-1].upper().removeprefix("_XLFN.").removeprefix("_XLWS.")
+            if bare in _NETWORK:
+                raise _Unsupported(
+                    f"{bare} needs the network or a data service (not evaluated offline; "
+                    "its saved value is kept)"
+                )
         if t == "FUNC" and sub == "OPEN" and v.upper() == "TABLE(":
             raise _Unsupported(
                 "a What-If data table {=TABLE(…)}: each of its cells is the table's formula "
