@@ -38,6 +38,10 @@ def test_arithmetic_details(tmp_path):
         "S!B19": "=(0.1+0.2)*3",
         "S!B20": '="3"*"4"',
         "S!B21": '="abc"+1',
+        "S!B22": "=0.1+0.2-0.3=0",
+        "S!B23": "=1*(0.5-0.4-0.1)",
+        "S!B24": "=(0.5-0.4-0.1)",
+        "S!B25": '=IF(0.1+0.2-0.3=0,"YES","NO")',
     }
     v = _run(tmp_path, cells)
     # Excel reference: a negative number to a fractional power is #NUM! (LibreOffice 7.4
@@ -52,6 +56,13 @@ def test_arithmetic_details(tmp_path):
     # reference's own example .5-.4-.1 = 0, from memory)
     assert v["S!B17"][0] == 0.0 and v["S!B18"][0] == 0.0
     assert abs(v["S!B19"][0] - 0.9) < 1e-15  # hand; no cancellation: kept as computed
+    # only a formula's last + or - cancels: inside a comparison or a product the residue
+    # stays (Excel reference, from memory: =1*(.5-.4-.1) is -2.78E-17; a public workbook
+    # saved "NO" for IF(Z22-Y22=0,…) on such a pair). LibreOffice 7.4 differs: it cancels
+    # everywhere and compares approximately (B22 TRUE, B23 0, B25 "YES"; B24 0 alike).
+    assert v["S!B22"][0] is False and v["S!B25"][0] == "NO"
+    assert v["S!B23"][0] == 1 * (0.5 - 0.4 - 0.1) != 0.0
+    assert v["S!B24"][0] == 0.0  # parentheses around the whole formula: still the last
     assert v["S!B20"][0] == 12.0  # hand: number text is read as numbers
     assert v["S!B21"][0] == ("error", "#VALUE!")  # Excel reference: text not a number
 

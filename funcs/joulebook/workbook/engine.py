@@ -39,6 +39,8 @@ import numpy as np
 from ..catalog import CATALOG
 from ..cellvalues import ERRORS_NAME, ErrorValue, error_style, message_of
 from ..cellvalues import cell as shared_cell
+from .functions.lookup import generation as new_generation
+from .functions.lookup import tag as tag_range
 from .reader import Book, Cell, paused_gc
 from .refs import (
     _RUNS,
@@ -137,7 +139,7 @@ _VALUE_ARGS = frozenset(
     CONFIDENCE CONFIDENCE.NORM CONFIDENCE.T STANDARDIZE FISHER FISHERINV
     ERF ERFC ERF.PRECISE ERFC.PRECISE BESSELI BESSELJ BESSELK BESSELY DELTA GESTEP
     BIN2DEC BIN2HEX BIN2OCT DEC2BIN DEC2HEX DEC2OCT HEX2BIN HEX2DEC HEX2OCT OCT2BIN OCT2DEC
-    OCT2HEX BITAND BITOR BITXOR BITLSHIFT BITRSHIFT CONVERT""".split()
+    OCT2HEX BITAND BITOR BITXOR BITLSHIFT BITRSHIFT CONVERT _XLJB.ADD _XLJB.SUB""".split()
 )
 _VALUE_ARGS = _VALUE_ARGS | {"_XLFN." + n for n in _VALUE_ARGS}
 #: functions that evaluate their arguments as arrays even in a plain formula
@@ -273,7 +275,8 @@ def _register_ours() -> None:
         OPERATORS[":"] = wrap_func(_range_op, ranges=True)
         from .functions import operators as excel_operators
 
-        excel_operators.install(OPERATORS)  # + - * / ^ as Excel (cancellation, #NUM!, text)
+        excel_operators.install(OPERATORS)  # + - * / ^ as Excel (#NUM!, text as numbers)
+        excel_operators.install_final_sums(table)  # a last + or -: Excel's cancellation
         # the library writes numpy booleans as "True" in text ("0"&ISNUMBER(A1)): TRUE, as
         # spreadsheets write them; its text functions and "&" look the helper up at call time
         from formulas.functions import operators, text
@@ -1201,7 +1204,8 @@ class Engine:
         self._in_progress: set = set()
         self._late: set = set()
         self._late_now = False
-        self._box_cache: dict = {}  # (sheet, r1, c1, r2, c2) -> values, see _array
+        self._box_cache: dict = {}  # (generation, sheet, r1, c1, r2, c2) -> values, _array
+        self._generation = new_generation()  # renewed whenever kept ranges are dropped
         self._box_cache_on = False
         self._box_cached_cells = 0
 
@@ -1270,9 +1274,9 @@ class Engine:
         marks: dict = {"where": set(), "whole": set()}
         problem = ""
         try:
-            from .functions.spelling import normalized
+            from .functions.spelling import final_sum, normalized
 
-            formula = normalized(formula)  # 1e6, OFFSET(A1,1,0,,), a closing line break
+            formula = final_sum(normalized(formula))  # 1e6, OFFSET(A1,1,0,,), A1-B1 → SUB
             try:
                 formula = expand_let(formula)
             except ValueError as e:
@@ -1631,18 +1635,19 @@ class Engine:
             return arr
         cache = self._box_cache if self._box_cache_on and h * w >= _CACHED_BOX else None
         if cache is not None:
-            hit = cache.get((sheet, r1, c1, r2, c2))
-            if hit is not None:
-                return hit.copy()  # a copy: a function may write into what it is given
-        arr = self._fresh_array(sheet, r1, c1, r2, c2)
-        if cache is not None:
-            self._box_cached_cells += h * w
-            if self._box_cached_cells > _CACHED_CELLS:
-                cache.clear()
-                self._box_cached_cells = h * w
-            cache[(sheet, r1, c1, r2, c2)] = arr
-            return arr.copy()
-        return arr
+            key = (self._generation, sheet, r1, c1, r2, c2)
+            hit = cache.get(key)
+            if hit is None:
+                hit = self._fresh_array(sheet, r1, c1, r2, c2)
+                self._box_cached_cells += h * w
+                if self._box_cached_cells > _CACHED_CELLS:
+                    cache.clear()
+                    self._box_cached_cells = h * w
+                cache[key] = hit
+            # a copy (a function may write into what it is given), tagged with the range and
+            # the generation of values: exact lookups over it are answered from an index
+            return tag_range(hit.copy(), key)
+        return self._fresh_array(sheet, r1, c1, r2, c2)
 
     def _fresh_array(self, sheet: str, r1: int, c1: int, r2: int, c2: int):
         import schedula as sh
@@ -1902,6 +1907,7 @@ class Engine:
                     self._box_cache_on = False  # the table changes its inputs for a while
                     self._box_cache.clear()
                     self._run_table(node)
+                    self._generation = new_generation()
                     self._box_cache_on = True
                 elif node in plans and node not in out:
                     self._run_cell(node)
@@ -2608,6 +2614,8 @@ def _range_dict_cached(sheet: str, box):
 
 # built-ins that act cell by cell on arrays (aggregates such as SUM or MIN are not)
 _ELEMENTWISE = {
+    "_XLJB.ADD",
+    "_XLJB.SUB",
     "IF",
     "IFERROR",
     "IFNA",

@@ -23,9 +23,12 @@ Examples
 
 from __future__ import annotations
 
+import itertools
+import weakref
+
 import numpy as np
 
-__all__ = ["install", "remembered"]
+__all__ = ["generation", "install", "remembered", "tag"]
 
 _MIN_CELLS = 64  # smaller arrays are prepared directly
 _KEEP = 32  # prepared arrays remembered (the oldest dropped first)
@@ -64,6 +67,123 @@ def remembered(prepare):
     return fast
 
 
+# --- exact matches answered from an index ----------------------------------------------
+# The engine tags each range it hands over from its per-run cache with a key naming the
+# range and the run's generation of values; an exact MATCH, VLOOKUP or HLOOKUP over a tagged
+# range finds its row in a dict built once per key, then lets the library answer on that one
+# row (or on one row that cannot match), so results, shapes and errors stay the library's.
+
+_TAGS: dict = {}  # id(array) -> (weak reference to it, key)
+_INDEXES: dict = {}  # (key, part) -> {(type, value): first position}
+_KEEP_INDEXES = 64
+_GENERATIONS = itertools.count(1)
+
+
+def generation() -> int:
+    """A new number for a new set of values (a run, or after values changed in one)."""
+    return next(_GENERATIONS)
+
+
+def tag(arr: np.ndarray, key) -> np.ndarray:
+    """Mark *arr* as the values of *key* (a range in one generation); returns *arr*."""
+    i = id(arr)
+
+    def gone(_ref, i=i):
+        _TAGS.pop(i, None)
+
+    _TAGS[i] = (weakref.ref(arr, gone), key)
+    return arr
+
+
+def _key_of(arr):
+    hit = _TAGS.get(id(arr))
+    return hit[1] if hit is not None and hit[0]() is arr else None
+
+
+def _exact_key(v):
+    """(type, value) of a lookup value an exact match may answer from an index, else None."""
+    from formulas.functions.look import _get_type_id
+
+    if isinstance(v, np.ndarray):
+        if v.size != 1:
+            return None
+        v = v.reshape(-1)[0]
+    try:
+        t = _get_type_id(v)
+    except Exception:
+        return None
+    if t == 1:
+        return None if any(ch in v for ch in "*?~") else (1, v.lower())
+    if t == 0:
+        return (0, float(v))
+    if t == 2:
+        return (2, bool(v))
+    return None
+
+
+def _index(key, part: str, values) -> dict:
+    found = _INDEXES.get((key, part))
+    if found is None:
+        found = {}
+        for i, v in enumerate(values):
+            k = _exact_key(v)
+            if k is not None and k not in found:
+                found[k] = i
+        if len(_INDEXES) >= _KEEP_INDEXES:
+            _INDEXES.pop(next(iter(_INDEXES)))
+        _INDEXES[(key, part)] = found
+    return found
+
+
+def _is_exact(match_type) -> bool:
+    if isinstance(match_type, np.ndarray):
+        if match_type.size != 1:
+            return False
+        match_type = match_type.reshape(-1)[0]
+    return isinstance(match_type, (bool, int, float, np.number)) and not match_type
+
+
+def _fast_table_lookup(original, rows: bool):
+    """VLOOKUP (rows=True: the key column is the first) or HLOOKUP from an index."""
+
+    def fn(val, vec, index, match_type=True):
+        key = _key_of(vec) if isinstance(vec, np.ndarray) and vec.ndim == 2 else None
+        want = _exact_key(val) if key is not None and _is_exact(match_type) else None
+        if want is None:
+            return original(val, vec, index, match_type)
+        first = vec[:, 0] if rows else vec[0, :]
+        i = _index(key, "col0" if rows else "row0", first.tolist()).get(want)
+        if i is None:  # one line that cannot match: the library's own not-found answer
+            line = (vec[:1, :] if rows else vec[:, :1]).copy()
+            import schedula as sh
+
+            line[0, 0] = sh.EMPTY
+            return original(val, line, index, match_type)
+        return original(val, vec[i : i + 1, :] if rows else vec[:, i : i + 1], index, match_type)
+
+    return fn
+
+
+def _fast_match(original):
+    def fn(val, arr, match_type=1):
+        key = _key_of(arr) if isinstance(arr, np.ndarray) and 1 in arr.shape[:2] else None
+        want = _exact_key(val) if key is not None and _is_exact(match_type) else None
+        if want is None:
+            return original(val, arr, match_type)
+        flat = arr.reshape(-1)
+        i = _index(key, "flat", flat.tolist()).get(want)
+        if i is None:
+            import schedula as sh
+
+            return original(val, np.array([[sh.EMPTY]], dtype=object), match_type)
+        res = original(val, flat[i : i + 1].reshape(1, 1), match_type)  # position 1 of 1
+        res = res.copy()
+        res[...] = np.int64(i + 1)
+        return res
+
+    return fn
+
+
 def install(table: dict) -> None:
     """Use the remembered preparation in the library's lookup functions."""
     from formulas.functions import get_error, look, wrap_ufunc
@@ -71,10 +191,13 @@ def install(table: dict) -> None:
     if getattr(look.args_parser_match_array, "__wrapped__", None) is None:
         look.args_parser_match_array = remembered(look.args_parser_match_array)
     # MATCH holds its preparation itself (the others look it up when they run)
-    table["MATCH"] = wrap_ufunc(
+    match = wrap_ufunc(
         look.xmatch,
         check_error=lambda *a: get_error(a[1]),
         excluded={3, 4, 5, 6, 7},
         args_parser=look.args_parser_match_array,
         input_parser=lambda *a: a,
     )
+    table["MATCH"] = _fast_match(match)
+    table["VLOOKUP"] = _fast_table_lookup(table["VLOOKUP"], rows=True)
+    table["HLOOKUP"] = _fast_table_lookup(table["HLOOKUP"], rows=False)

@@ -1,7 +1,8 @@
 """Excel's arithmetic operators where the formula library differs from Excel.
 
-- ``+`` and ``-``: a result that cancels to within 15 significant digits of its larger
-  operand is 0, as Excel stores it (``=0.5-0.4-0.1`` is 0 in Excel, not -2.8e-17) [1]_.
+- ``+`` and ``-`` as the last operation of a formula: a result that cancels to within 15
+  significant digits of its larger operand is 0, as Excel stores it (``=0.5-0.4-0.1`` is 0,
+  not -2.8e-17); inside, the residue stays (``=A1-B1=0`` is FALSE for such a pair) [1]_.
 - ``^``: a negative number to a fractional power is ``#NUM!`` (not ``#VALUE!``), ``0^0`` is
   ``#NUM!``, ``0`` to a negative power ``#DIV/0!``, an overflow ``#NUM!`` [2]_.
 - Text in arithmetic is read as ``VALUE`` reads it: numbers, and dates and times such as
@@ -131,10 +132,25 @@ def install(operators: dict) -> None:
         return err(r) if isinstance(r, str) else r
 
     for op, fn in (
-        ("+", cancel_sum),
-        ("-", lambda x, y: cancel_sum(x, -y)),
+        ("+", lambda x, y: x + y),
+        ("-", lambda x, y: x - y),
         ("*", lambda x, y: x * y),
         ("/", div),
         ("^", pw),
     ):
         operators[op] = wrap_ufunc(fn, input_parser=num)
+
+
+def install_final_sums(table: dict) -> None:
+    """The functions a formula's last ``+``/``-`` is written as (see
+    :func:`joulebook.workbook.functions.spelling.final_sum`): the sum with Excel's
+    cancellation."""
+    from formulas.functions import wrap_ufunc
+
+    from .spelling import ADD, SUB
+
+    def num(*a):
+        return map(text_number, a)
+
+    table[ADD] = wrap_ufunc(cancel_sum, input_parser=num)
+    table[SUB] = wrap_ufunc(lambda x, y: cancel_sum(x, -y), input_parser=num)

@@ -21,7 +21,12 @@ import re
 
 from ..refs import tokens
 
-__all__ = ["normalized"]
+__all__ = ["final_sum", "normalized", "ADD", "SUB"]
+
+#: the functions that stand for a formula's last + or - (Excel's cancellation, see
+#: joulebook.workbook.functions.operators)
+ADD, SUB = "_XLJB.ADD", "_XLJB.SUB"
+_NOT_SUM = frozenset({"=", "<>", "<", ">", "<=", ">=", "&", ":", ",", " "})
 
 _BARE_EXPONENT = re.compile(r"^(\d*\.?\d*)[eE](\d+)$")
 _MAYBE_EXPONENT = re.compile(r"\d[eE]\d")
@@ -66,3 +71,59 @@ def normalized(formula: str) -> str:
 
 def _empty_between(toks: list, a: int, b: int) -> bool:
     return all(t[1] == "WHITE-SPACE" for t in toks[a + 1 : b])
+
+
+def final_sum(formula: str) -> str:
+    """*formula* whose last operation is a ``+`` or ``-`` outside any function, written as a
+    call of ADD or SUB (``A1-B1`` → ``_XLJB.SUB(A1,B1)``): Excel takes a sum that cancels to
+    within 15 significant digits as 0 only there, never inside (``=1*(.5-.4-.1)``, or
+    ``=A1-B1=0``, keep their residue).  Any other formula is returned as it is.
+
+    >>> final_sum("0.5-0.4-0.1"), final_sum("(A1+B1)"), final_sum("A1-B1=0")
+    ('_XLJB.SUB(0.5-0.4,0.1)', '(_XLJB.ADD(A1,B1))', 'A1-B1=0')
+    """
+    if "+" not in formula and "-" not in formula:
+        return formula
+    try:
+        toks = tokens(formula)
+    except Exception:
+        return formula
+    return _final_sum(list(toks)) or formula
+
+
+def _final_sum(toks: list) -> str | None:
+    depth, last, first_open, closes_at = 0, None, None, None
+    for i, (value, typ, sub) in enumerate(toks):
+        if sub == "OPEN":
+            if depth == 0 and first_open is None and i == _first_real(toks):
+                first_open = i
+            depth += 1
+        elif sub == "CLOSE":
+            depth -= 1
+            if depth == 0 and first_open is not None and closes_at is None:
+                closes_at = i
+        elif depth == 0 and typ == "OPERATOR-INFIX":
+            if value in _NOT_SUM:
+                return None
+            if value in ("+", "-"):
+                last = i
+    if last is not None:
+        left = "".join(t[0] for t in toks[:last]).strip()
+        right = "".join(t[0] for t in toks[last + 1 :]).strip()
+        if not left or not right:
+            return None
+        return f"{ADD if toks[last][0] == '+' else SUB}({left},{right})"
+    # one pair of parentheses around the whole formula: its inside
+    if first_open is not None and toks[first_open][1] == "PAREN" and closes_at == _last_real(toks):
+        inner = _final_sum(toks[first_open + 1 : closes_at])
+        if inner is not None:
+            return "(" + inner + ")"
+    return None
+
+
+def _first_real(toks: list) -> int:
+    return next((i for i, t in enumerate(toks) if t[1] != "WHITE-SPACE"), -1)
+
+
+def _last_real(toks: list) -> int:
+    return max((i for i, t in enumerate(toks) if t[1] != "WHITE-SPACE"), default=-1)
