@@ -69,9 +69,16 @@ def remembered(test):
         raw = test_range.get("raw") if isinstance(test_range, dict) else None
         if not isinstance(raw, np.ndarray) or raw.size < _MIN_CELLS or len(test_range) != 1:
             return test(test_range, condition)
-        flat = raw.ravel().tolist()
+        from .lookup import key_of
+
+        tagged = key_of(raw)  # a range the engine handed over in this run: known by name
+        flat = raw.ravel().tolist() if tagged is None else None
         try:
-            key = (raw.shape, tuple(flat), tuple(map(type, flat)))
+            key = (
+                ("range", tagged)
+                if tagged is not None
+                else (raw.shape, tuple(flat), tuple(map(type, flat)))
+            )
             ckey = (type(condition), condition)
             hash(key), hash(ckey)
         except TypeError:  # an unhashable value: tested directly
@@ -83,7 +90,7 @@ def remembered(test):
                 or sum(r.inverse.size for r in ranges.values()) + raw.size > _KEEP_CELLS
             ):
                 ranges.pop(next(iter(ranges)))  # the oldest first
-            red = ranges[key] = _Reduced(flat, raw.shape)
+            red = ranges[key] = _Reduced(raw.ravel().tolist() if flat is None else flat, raw.shape)
         got = red.verdicts.get(ckey)
         if got is None:
             on_distinct = np.asarray(test({"raw": red.distinct}, condition), dtype=bool)

@@ -28,7 +28,7 @@ import weakref
 
 import numpy as np
 
-__all__ = ["generation", "install", "remembered", "tag"]
+__all__ = ["generation", "install", "key_of", "remembered", "tag"]
 
 _MIN_CELLS = 64  # smaller arrays are prepared directly
 _KEEP = 32  # prepared arrays remembered (the oldest dropped first)
@@ -95,6 +95,11 @@ def tag(arr: np.ndarray, key) -> np.ndarray:
     return arr
 
 
+def key_of(arr):
+    """The key *arr* was tagged with, or None."""
+    return _key_of(arr)
+
+
 def _key_of(arr):
     hit = _TAGS.get(id(arr))
     return hit[1] if hit is not None and hit[0]() is arr else None
@@ -122,10 +127,11 @@ def _exact_key(v):
 
 
 def _index(key, part: str, values) -> dict:
+    """The index of *values* (a callable giving them: read only when not yet built)."""
     found = _INDEXES.get((key, part))
     if found is None:
         found = {}
-        for i, v in enumerate(values):
+        for i, v in enumerate(values()):
             k = _exact_key(v)
             if k is not None and k not in found:
                 found[k] = i
@@ -152,7 +158,7 @@ def _fast_table_lookup(original, rows: bool):
         if want is None:
             return original(val, vec, index, match_type)
         first = vec[:, 0] if rows else vec[0, :]
-        i = _index(key, "col0" if rows else "row0", first.tolist()).get(want)
+        i = _index(key, "col0" if rows else "row0", first.tolist).get(want)
         if i is None:  # one line that cannot match: the library's own not-found answer
             line = (vec[:1, :] if rows else vec[:, :1]).copy()
             import schedula as sh
@@ -171,7 +177,7 @@ def _fast_match(original):
         if want is None:
             return original(val, arr, match_type)
         flat = arr.reshape(-1)
-        i = _index(key, "flat", flat.tolist()).get(want)
+        i = _index(key, "flat", flat.tolist).get(want)
         if i is None:
             import schedula as sh
 
@@ -184,10 +190,32 @@ def _fast_match(original):
     return fn
 
 
+def _tag_kept(replace_empty):
+    """The library's replace_empty (blanks in an array replaced by a value) keeping the tag
+    of a tagged array on its result, with the value replaced named in the key."""
+
+    def fn(x, empty=0):
+        out = replace_empty(x, empty)
+        if out is not x and isinstance(out, np.ndarray):
+            key = _key_of(x)
+            if key is not None:
+                try:
+                    tag(out, (key, "blank as", type(empty), empty))
+                except TypeError:  # pragma: no cover - an unhashable replacement
+                    pass
+        return out
+
+    fn.__wrapped__ = replace_empty  # type: ignore[attr-defined]
+    return fn
+
+
 def install(table: dict) -> None:
     """Use the remembered preparation in the library's lookup functions."""
+    import formulas.functions as library
     from formulas.functions import get_error, look, wrap_ufunc
 
+    if getattr(library.replace_empty, "__wrapped__", None) is None:
+        library.replace_empty = _tag_kept(library.replace_empty)
     if getattr(look.args_parser_match_array, "__wrapped__", None) is None:
         look.args_parser_match_array = remembered(look.args_parser_match_array)
     # MATCH holds its preparation itself (the others look it up when they run)
