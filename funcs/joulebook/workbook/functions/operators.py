@@ -114,12 +114,18 @@ def general_text(x: float) -> str:
     return s
 
 
+def num(*a):
+    """The operands as numbers: float first (the common case, at C speed), then text read
+    as VALUE reads it."""
+    try:
+        return tuple(map(float, a))
+    except (ValueError, TypeError):
+        return tuple(map(text_number, a))
+
+
 def install(operators: dict) -> None:
     """Put Excel's ``+ - * / ^`` into the formula library's operator table."""
     from formulas.functions import Error, wrap_ufunc
-
-    def num(*a):
-        return map(text_number, a)
 
     def err(code):
         return Error.errors[code]
@@ -148,9 +154,6 @@ def install_final_sums(table: dict) -> None:
     from formulas.functions import wrap_ufunc
 
     from .spelling import ADD, SUB
-
-    def num(*a):
-        return map(text_number, a)
 
     table[ADD] = wrap_ufunc(cancel_sum, input_parser=num)
     table[SUB] = wrap_ufunc(lambda x, y: cancel_sum(x, -y), input_parser=num)
