@@ -55,6 +55,14 @@ def test_check_stops_past_max_seconds_and_reports_too_large(slow_book, tmp_path,
     data = json.loads((tmp_path / "r.json").read_text())
     (wb,) = data["workbooks"]
     assert wb["exit"] == 2 and wb["status"] == Status.TOO_LARGE
+    from importlib import resources
+
+    import jsonschema
+
+    schema = json.loads(
+        resources.files("joulebook.workbook").joinpath("check.schema.json").read_text()
+    )
+    jsonschema.Draft202012Validator(schema).validate(data)  # the shipped schema holds it
 
 
 def test_check_stops_past_max_memory(tmp_path, capsys):

@@ -103,7 +103,7 @@ def test_every_function_family_is_exercised():
 
 
 def test_demo_command_writes_a_report_per_workbook(tmp_path, capsys):
-    assert main(["demo", str(tmp_path / "d")]) == 0
+    assert main(["demo", str(tmp_path / "d"), "--no-pdf"]) == 0
     reports = sorted((tmp_path / "d" / "reports").glob("*.html"))
     assert len(reports) == len(WORKBOOKS)
     assert "Open the reports" in capsys.readouterr().out

@@ -45,6 +45,11 @@ MODULES = [
     "joulebook.processes.timing",
     "joulebook.processes.pressuretests",
     "joulebook.processes.engines",
+    "joulebook.substances.liquids",
+    "joulebook.processes.wall",
+    "joulebook.processes.cushion",
+    "joulebook.processes.gasfire",
+    "joulebook.processes.blowdown",
 ]
 
 

@@ -40,4 +40,6 @@ def test_first_command_on_a_fresh_copy(tmp_path):
     assert r.returncode == 0, r.stderr[-2000:]
     reports = sorted((work / "joulebook-demo" / "reports").glob("*.html"))
     assert len(reports) >= 5
+    # the calculation package printed for each (WeasyPrint, a dependency; Pango from .ci/run)
+    assert len(list((work / "joulebook-demo" / "reports").glob("*.pdf"))) == len(reports)
     assert "Open the reports" in r.stdout

@@ -107,7 +107,7 @@ def test_check_reports_missing_values_then_passes_after_recalc(
     code = main(["check", str(recalculated), "--json", str(rep), "--junit", str(junit)])
     import json
 
-    data = json.loads(rep.read_text())
+    (data,) = json.loads(rep.read_text())["workbooks"]  # one workbook: a list of one
     open_ = {(c["sheet"], c["cell"]): c["status"] for c in data["cells"] if c["status"] != "pass"}
     # left: the deliberate cycle, the out-of-range call in D1 (a joulebook error fails
     # the check even though the file saved the same text) and D4 = 1/0 (an error value is
@@ -137,7 +137,11 @@ def test_check_catches_a_wrong_saved_value(recalculated, tmp_path):
     assert main(["check", str(bad), "--json", str(rows_json)]) == 1
     import json
 
-    differs = [c for c in json.loads(rows_json.read_text())["cells"] if c["status"] == "differs"]
+    differs = [
+        c
+        for c in json.loads(rows_json.read_text())["workbooks"][0]["cells"]
+        if c["status"] == "differs"
+    ]
     assert [(c["sheet"], c["cell"]) for c in differs] == [("Inputs", "B6")]
 
 

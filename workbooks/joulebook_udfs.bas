@@ -79,6 +79,19 @@ failed:
     JB_BALANCE_RATE = Err.Description
 End Function
 
+Function JB_BLOCKED_IN_CUSHION_P2(state1, T_2, V, V_gas, Optional gas, Optional shape, Optional D, Optional wall, Optional E, Optional nu, Optional alpha_wall, Optional kappa, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_BLOCKED_IN_CUSHION_P2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BLOCKED_IN_CUSHION_P2", Array(state1, T_2, V, V_gas, gas, shape, D, wall, E, nu, alpha_wall, kappa, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_BLOCKED_IN_CUSHION_P2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BLOCKED_IN_CUSHION_P2", Array(state1, T_2, V, V_gas, gas, shape, D, wall, E, nu, alpha_wall, kappa, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_BLOCKED_IN_CUSHION_P2 = Err.Description
+End Function
+
 Function JB_BLOCKED_IN_P2(state1, T_2, Optional shape, Optional D, Optional wall, Optional E, Optional nu, Optional alpha_wall, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
@@ -90,6 +103,19 @@ Function JB_BLOCKED_IN_P2(state1, T_2, Optional shape, Optional D, Optional wall
     #End If
 failed:
     JB_BLOCKED_IN_P2 = Err.Description
+End Function
+
+Function JB_BLOWDOWN_T_MIN(state1, V, d, P_target, Optional Cd, Optional P_back, Optional m_wall, Optional UA_wall, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_BLOWDOWN_T_MIN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BLOWDOWN_T_MIN", Array(state1, V, d, P_target, Cd, P_back, m_wall, UA_wall, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_BLOWDOWN_T_MIN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BLOWDOWN_T_MIN", Array(state1, V, d, P_target, Cd, P_back, m_wall, UA_wall, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_BLOWDOWN_T_MIN = Err.Description
 End Function
 
 Function JB_CHART_DOME(substance, coordinates, Optional points, Optional units)
@@ -761,6 +787,45 @@ failed:
     JB_TIME_BATCH = Err.Description
 End Function
 
+Function JB_TIME_BLOCKED_IN(state1, V, V_gas, P_set, Optional Q_dot, Optional UA, Optional T_source, Optional gas, Optional shape, Optional D, Optional wall, Optional E, Optional nu, Optional alpha_wall, Optional kappa, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_TIME_BLOCKED_IN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_BLOCKED_IN", Array(state1, V, V_gas, P_set, Q_dot, UA, T_source, gas, shape, D, wall, E, nu, alpha_wall, kappa, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_TIME_BLOCKED_IN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_BLOCKED_IN", Array(state1, V, V_gas, P_set, Q_dot, UA, T_source, gas, shape, D, wall, E, nu, alpha_wall, kappa, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_TIME_BLOCKED_IN = Err.Description
+End Function
+
+Function JB_TIME_BLOWDOWN(state1, V, d, P_target, Optional Cd, Optional P_back, Optional m_wall, Optional UA_wall, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_TIME_BLOWDOWN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_BLOWDOWN", Array(state1, V, d, P_target, Cd, P_back, m_wall, UA_wall, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_TIME_BLOWDOWN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_BLOWDOWN", Array(state1, V, d, P_target, Cd, P_back, m_wall, UA_wall, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_TIME_BLOWDOWN = Err.Description
+End Function
+
+Function JB_TIME_BLOWDOWN_TABLE(state1, V, d, P_target, Optional Cd, Optional P_back, Optional m_wall, Optional UA_wall, Optional points, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_TIME_BLOWDOWN_TABLE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_BLOWDOWN_TABLE", Array(state1, V, d, P_target, Cd, P_back, m_wall, UA_wall, points, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_TIME_BLOWDOWN_TABLE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_BLOWDOWN_TABLE", Array(state1, V, d, P_target, Cd, P_back, m_wall, UA_wall, points, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_TIME_BLOWDOWN_TABLE = Err.Description
+End Function
+
 Function JB_TIME_FIRE(state1, shape, D, L, target, target_value, Optional F, Optional drainage, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
@@ -772,6 +837,32 @@ Function JB_TIME_FIRE(state1, shape, D, L, target, target_value, Optional F, Opt
     #End If
 failed:
     JB_TIME_FIRE = Err.Description
+End Function
+
+Function JB_TIME_FIRE_GAS(state1, D, L, wall, P_set, Optional fire, Optional q, Optional UA_in, Optional f_y, Optional P_amb, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_TIME_FIRE_GAS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_FIRE_GAS", Array(state1, D, L, wall, P_set, fire, q, UA_in, f_y, P_amb, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_TIME_FIRE_GAS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_FIRE_GAS", Array(state1, D, L, wall, P_set, fire, q, UA_in, f_y, P_amb, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_TIME_FIRE_GAS = Err.Description
+End Function
+
+Function JB_TIME_FIRE_GAS_TABLE(state1, D, L, wall, P_set, Optional fire, Optional q, Optional UA_in, Optional f_y, Optional P_amb, Optional points, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_TIME_FIRE_GAS_TABLE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_FIRE_GAS_TABLE", Array(state1, D, L, wall, P_set, fire, q, UA_in, f_y, P_amb, points, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_TIME_FIRE_GAS_TABLE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_FIRE_GAS_TABLE", Array(state1, D, L, wall, P_set, fire, q, UA_in, f_y, P_amb, points, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_TIME_FIRE_GAS_TABLE = Err.Description
 End Function
 
 Function JB_TIME_FIRE_TABLE(state1, shape, D, L, target, target_value, Optional F, Optional drainage, Optional points, Optional units)
@@ -811,6 +902,32 @@ Function JB_TIME_HEATING_TABLE(state1, V, target, target_value, Optional Q_dot, 
     #End If
 failed:
     JB_TIME_HEATING_TABLE = Err.Description
+End Function
+
+Function JB_WALL_AXIAL_STRESS(P, D, wall, Optional P_out, Optional f_y, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_WALL_AXIAL_STRESS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WALL_AXIAL_STRESS", Array(P, D, wall, P_out, f_y, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_WALL_AXIAL_STRESS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WALL_AXIAL_STRESS", Array(P, D, wall, P_out, f_y, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_WALL_AXIAL_STRESS = Err.Description
+End Function
+
+Function JB_WALL_HOOP_STRESS(P, D, wall, Optional P_out, Optional f_y, Optional units)
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_WALL_HOOP_STRESS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WALL_HOOP_STRESS", Array(P, D, wall, P_out, f_y, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_WALL_HOOP_STRESS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WALL_HOOP_STRESS", Array(P, D, wall, P_out, f_y, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_WALL_HOOP_STRESS = Err.Description
 End Function
 
 Function JB_WETTED_AREA(shape, D, L, level, Optional units)

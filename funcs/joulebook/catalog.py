@@ -111,6 +111,20 @@ _PROCESS_STEPS = (
     + (Step("phase2", "JB_PROCESS(state1, path, end_spec, end_value, 'phase2', mass)", "text"),)
 )
 
+#: a state's working: its properties read back through the property model (SI asked; the
+#: audit shows them in its working units)
+_STATE_STEPS = tuple(
+    Step(sym, f"JB_PROP(substance, '{sym} in {unit}', spec1, value1, spec2, value2)", kind)
+    for sym, unit, kind in (
+        ("T", "K", "temperature"),
+        ("P", "Pa", "pressure"),
+        ("v", "m3/kg", "specific_volume"),
+        ("u", "J/kg", "specific_energy"),
+        ("h", "J/kg", "specific_energy"),
+        ("s", "J/(kg*K)", "specific_entropy"),
+    )
+) + (Step("phase", "JB_PHASE(substance, spec1, value1, spec2, value2)", "text"),)
+
 FAMILIES = {
     "state": "States and real-fluid properties",
     "gas": "Ideal gases",
@@ -283,6 +297,98 @@ _FIRE_ARGS = (
     Arg("drainage", "adequate (default) or inadequate", type="text", optional=True),
 )
 
+# issue 27, round 3 (joulebook.cases)
+_REF_CUSHION = (
+    "gas pocket in a blocked-in liquid: ideal-gas law at the liquid's temperature with its "
+    "vapour pressure, the liquid on its equation of state (common practice)"
+)
+_REF_YIELD = (
+    "default f_y = 235 MPa, structural steel S235 for t ≤ 16 mm (EN 10025-2, from memory); "
+    "give the wall's own minimum yield strength"
+)
+_REF_EN1991 = (
+    "EN 1991-1-2:2002 §3.1–3.2 (from memory): net heat flux α_c·Δθ + ε·σ·ΔT⁴ of the standard "
+    "(α_c 25) and hydrocarbon (α_c 50) fire curves"
+)
+_REF_EN1993 = (
+    "EN 1993-1-2:2005 (from memory): carbon steel ρ = 7850 kg/m³, c(T) §3.4.1.2, ε_m = 0.7, "
+    "yield reduction k_y Table 3.1"
+)
+_REF_BLOWDOWN = (
+    "closed system of the gas that stays, du = −P·dv + δq, isentropic nozzle at maximum flux "
+    "(common practice); scipy.integrate.solve_ivp DOP853"
+)
+_STRESS_BAND = "the yield strength f_y (|σ|/f_y ≤ 1)"
+_P_OUT = Arg(
+    "P_out", "absolute pressure outside (default 101.325 kPa)", quantity="pressure", optional=True
+)
+_F_Y = Arg(
+    "f_y",
+    "yield strength of the wall (default 235 MPa, S235 steel)",
+    quantity="modulus",
+    optional=True,
+    default=235e6,
+)
+_CASE_WALL = (
+    Arg("shape", "rigid (default), cylinder (closed ends) or sphere", type="text", optional=True),
+    *_WALL,
+    Arg(
+        "alpha_wall",
+        "linear expansion coefficient of the wall (steel 1.2e-5 1/K)",
+        quantity="expansion_coefficient",
+        optional=True,
+        default=0.0,
+    ),
+    Arg(
+        "kappa",
+        "compressibility of a glycol or oil fill (incompressible in the data; default 0)",
+        quantity="compressibility",
+        optional=True,
+    ),
+)
+_FIRE_GAS_ARGS = (
+    Arg("state1", "gas state text at the start, from JB_STATE", type="text"),
+    Arg("D", "diameter of the cylinder", quantity="length"),
+    Arg("L", "length between the flat ends", quantity="length"),
+    Arg("wall", "steel wall thickness", quantity="length"),
+    Arg("P_set", "set pressure of the relief device (absolute)", quantity="pressure"),
+    Arg("fire", "hydrocarbon (default) or standard fire curve", type="text", optional=True),
+    Arg("q", "absorbed heat flux instead of a curve", quantity="heat_flux", optional=True),
+    Arg(
+        "UA_in",
+        "wall-to-gas conductance (default 10 W/(m2·K) over the area)",
+        quantity="heat_transfer_coefficient",
+        optional=True,
+    ),
+    _F_Y,
+    Arg(
+        "P_amb",
+        "absolute pressure outside (default 101.325 kPa)",
+        quantity="pressure",
+        optional=True,
+    ),
+)
+_BLOWDOWN_ARGS = (
+    Arg("state1", "gas state text at the start, from JB_STATE", type="text"),
+    Arg("V", "vessel volume", quantity="volume"),
+    Arg("d", "orifice diameter", quantity="length"),
+    Arg("P_target", "pressure to reach (absolute), above P_back", quantity="pressure"),
+    Arg("Cd", "discharge coefficient, 0 < Cd ≤ 1 (default 1)", optional=True),
+    Arg(
+        "P_back",
+        "absolute back pressure (default 101.325 kPa)",
+        quantity="pressure",
+        optional=True,
+    ),
+    Arg("m_wall", "steel wall mass that warms the gas (optional)", quantity="mass", optional=True),
+    Arg(
+        "UA_wall",
+        "wall-to-gas conductance (with m_wall)",
+        quantity="heat_transfer_coefficient",
+        optional=True,
+    ),
+)
+
 CATALOG: tuple[Func, ...] = (
     # ------------------------------------------------------------------ states
     Func(
@@ -302,6 +408,7 @@ CATALOG: tuple[Func, ...] = (
         "state = (fluid, two independent properties)",
         (_REF_COOLPROP,),
         Example(("water", "T in degC", 25, "P in kPa", 200), "water | T = 25 degC | P = 200 kPa"),
+        working=Working(steps=_STATE_STEPS),
     ),
     Func(
         "JB_PROP",
@@ -1397,6 +1504,271 @@ CATALOG: tuple[Func, ...] = (
         Example((12, 5), 7.0),
         working=Working("dE/dt", "Q_dot - W_dot"),
     ),
+    # ------------------------------------------------------------------ issue 27, round 3:
+    # gas pocket, wall stress, gas-filled vessel in a fire, blowdown (joulebook.cases)
+    Func(
+        "JB_BLOCKED_IN_CUSHION_P2",
+        "blocked",
+        "Pressure after heating a blocked-in liquid with a gas pocket (nitrogen or any gas, or "
+        "its own vapour) to T_2, the wall rigid or stretching. An estimate: relief is governed "
+        "by the codes.",
+        (
+            Arg("state1", "liquid state text when blocked in, from JB_STATE", type="text"),
+            Arg("T_2", "temperature after heating", quantity="temperature"),
+            Arg("V", "container volume (liquid + pocket) at state1", quantity="volume"),
+            Arg("V_gas", "gas pocket volume at state1 (0: liquid-full)", quantity="volume"),
+            Arg(
+                "gas",
+                "pocket gas: nitrogen (default), any gas name, or vapour (the liquid's own, x = 0)",
+                type="text",
+                optional=True,
+            ),
+            *_CASE_WALL,
+        ),
+        "pressure",
+        formulas.cushion_p2,
+        "(V_c − m_L·v(T2, P2))·(P2 − P_v(T2)) = (P1 − P_v(T1))·V_g1·T2/T1, "
+        "V_c = V·(1 + α·ΔT)³·(1 + c·(P2 − P1))",
+        (_REF_COOLPROP, _REF_THIN_WALL, _REF_CUSHION),
+        Example(("water | T = 15 degC | P = 4 bar", 318.15, 1, 0.02), 783.7117111375226, 1e-6),
+        caution=True,
+        notes="Gas dissolving in the liquid is neglected; the pocket holds the liquid's vapour "
+        "at its saturation pressure (none for glycol and oil fills). A glycol or oil fill is "
+        "incompressible in the property library: give kappa from its data for a liquid-full "
+        "space, or the result is an upper bound.",
+    ),
+    Func(
+        "JB_TIME_BLOCKED_IN",
+        "time",
+        "Time for a heated blocked-in liquid (with an optional gas pocket, the wall rigid or "
+        "stretching) to reach a set pressure, under Q_dot and/or UA·(T_source − T). An "
+        "estimate: relief is governed by the codes.",
+        (
+            Arg("state1", "liquid state text when blocked in, from JB_STATE", type="text"),
+            Arg("V", "container volume (liquid + pocket) at state1", quantity="volume"),
+            Arg("V_gas", "gas pocket volume at state1 (0: liquid-full)", quantity="volume"),
+            Arg("P_set", "set pressure to reach (absolute)", quantity="pressure"),
+            Arg(
+                "Q_dot",
+                "constant heat rate into the contents (optional)",
+                quantity="power",
+                optional=True,
+            ),
+            Arg(
+                "UA",
+                "conductance to a source at T_source (optional)",
+                quantity="heat_transfer_coefficient",
+                optional=True,
+            ),
+            Arg(
+                "T_source",
+                "temperature of the source (with UA)",
+                quantity="temperature",
+                optional=True,
+            ),
+            Arg(
+                "gas",
+                "pocket gas: nitrogen (default), any gas name, or vapour",
+                type="text",
+                optional=True,
+            ),
+            *_CASE_WALL,
+        ),
+        "time",
+        formulas.time_blocked_in,
+        "t = Q(T_set)/Q_dot(T_set) − ∫ Q(T)·UA/Q_dot(T)² dT, Q = ΔU + ½(P1 + P)·ΔV_c, "
+        "P(T_set) = P_set",
+        (_REF_COOLPROP, _REF_THIN_WALL, _REF_CUSHION, _REF_FIRSTLAW),
+        Example(
+            (
+                "water | T = 15 degC | P = 4 bar",
+                0.01,
+                0,
+                5000,
+                0.1,
+                None,
+                None,
+                None,
+                "cylinder",
+                0.1,
+                0.005,
+                200,
+                0.3,
+                1.2e-5,
+            ),
+            5523.99825194775,
+            1e-6,
+        ),
+        caution=True,
+        notes="The wall's own heat capacity is not included. The set pressure is absolute.",
+    ),
+    Func(
+        "JB_WALL_HOOP_STRESS",
+        "blocked",
+        "Hoop stress of a thin cylinder wall, (P − P_out)·D/(2·wall), e.g. at the pressure of a "
+        "blocked-in or heated case; the audit flags it above the yield strength f_y. An "
+        "estimate: pressure equipment follows the codes.",
+        (
+            Arg("P", "absolute pressure inside", quantity="pressure"),
+            Arg("D", "mean diameter", quantity="length"),
+            Arg("wall", "wall thickness (at most D/4)", quantity="length"),
+            _P_OUT,
+            _F_Y,
+        ),
+        "modulus",
+        formulas.hoop_stress,
+        "σ_hoop = (P − P_out)·D/(2·t)",
+        (_REF_THIN_WALL, _REF_YIELD),
+        Example((20000, 0.2, 0.01), 0.19898675, 1e-9),
+        caution=True,
+        working=Working(
+            "sigma",
+            "(P - P_out)*D/(2*wall)",
+            (Step("ratio", "(P - P_out)*D/(2*wall)/f_y", None),),
+            band=("ratio", -1.0, 1.0, _STRESS_BAND),
+            defaults=(("P_out", 101325.0), ("f_y", 235e6)),
+        ),
+    ),
+    Func(
+        "JB_WALL_AXIAL_STRESS",
+        "blocked",
+        "Axial stress of a thin closed cylinder wall (the stress of a thin sphere), "
+        "(P − P_out)·D/(4·wall); the audit flags it above the yield strength f_y. An estimate: "
+        "pressure equipment follows the codes.",
+        (
+            Arg("P", "absolute pressure inside", quantity="pressure"),
+            Arg("D", "mean diameter", quantity="length"),
+            Arg("wall", "wall thickness (at most D/4)", quantity="length"),
+            _P_OUT,
+            _F_Y,
+        ),
+        "modulus",
+        formulas.axial_stress,
+        "σ_axial = (P − P_out)·D/(4·t)",
+        (_REF_THIN_WALL, _REF_YIELD),
+        Example((20000, 0.2, 0.01), 0.099493375, 1e-9),
+        caution=True,
+        working=Working(
+            "sigma",
+            "(P - P_out)*D/(4*wall)",
+            (Step("ratio", "(P - P_out)*D/(4*wall)/f_y", None),),
+            band=("ratio", -1.0, 1.0, _STRESS_BAND),
+            defaults=(("P_out", 101325.0), ("f_y", 235e6)),
+        ),
+    ),
+    Func(
+        "JB_TIME_FIRE_GAS",
+        "time",
+        "Time for a gas-filled (unwetted) steel cylinder in a fire to reach its set pressure, "
+        "gas and wall heated with time. Caution: an unwetted wall can fail before the relief "
+        "device opens; fire cases follow the codes.",
+        _FIRE_GAS_ARGS,
+        "time",
+        formulas.time_fire_gas,
+        "m_g·du/dt = UA_in·(T_w − T); m_w·c(T_w)·dT_w/dt = A·q(t, T_w) − UA_in·(T_w − T)",
+        (_REF_COOLPROP, _REF_EN1991, _REF_EN1993),
+        Example(
+            ("nitrogen | T = 20 degC | P = 10 bar", 1, 3, 0.008, 1200), 124.62608374899555, 1e-6
+        ),
+        caution=True,
+        notes="An unwetted wall heats quickly and loses strength above about 400 °C: it can "
+        "rupture below the set pressure, before the relief device opens. See the table's "
+        "stress ratio.",
+    ),
+    Func(
+        "JB_TIME_FIRE_GAS_TABLE",
+        "time",
+        "The fire case of JB_TIME_FIRE_GAS as a spilled table of t, gas T, wall T, P and the "
+        "hoop stress over the yield strength at the wall's temperature. An unwetted wall can "
+        "fail before relief opens.",
+        (*_FIRE_GAS_ARGS, Arg("points", "number of rows, 2 to 1000 (default 11)", optional=True)),
+        "asked",
+        formulas.time_fire_gas_table,
+        "the rows of JB_TIME_FIRE_GAS; ratio = σ_hoop/(k_y(T_w)·f_y)",
+        (_REF_COOLPROP, _REF_EN1991, _REF_EN1993),
+        Example(
+            (
+                "nitrogen | T = 20 degC | P = 10 bar",
+                1,
+                3,
+                0.008,
+                1200,
+                None,
+                None,
+                None,
+                None,
+                None,
+                2,
+            ),
+            [
+                ["t in s", "T in K", "T_wall in K", "P in kPa", "hoop stress / yield at T_wall"],
+                [0.0, 293.15, 293.15, 1000.0, 0.23900930851063829],
+                [
+                    124.62608374899555,
+                    350.43078527650283,
+                    540.8228259088155,
+                    1200.0,
+                    0.2922007978723404,
+                ],
+            ],
+            1e-6,
+        ),
+        elementwise=False,
+        caution=True,
+    ),
+    Func(
+        "JB_TIME_BLOWDOWN",
+        "time",
+        "Time to blow a vessel's gas down through an orifice to P_target, the gas that stays "
+        "expanding isentropically (or warmed by the wall), choked or not, on the equation of "
+        "state. An estimate: depressuring follows the codes.",
+        _BLOWDOWN_ARGS,
+        "time",
+        formulas.time_blowdown,
+        "dm/dt = −Cd·A·G(P, s, P_back), du = −P·dv + δq; G = max ρ_t·√(2(h − h_t)) at s",
+        (_REF_COOLPROP, _REF_BLOWDOWN),
+        Example(("nitrogen | T = 20 degC | P = 100 bar", 1, 0.01, 300), 204.87896890688066, 1e-6),
+        caution=True,
+        notes="The gas in the vessel must stay gas: where it reaches its dew point the case is "
+        "refused (a two-phase blowdown is outside the model). The wall heats the gas only with "
+        "m_wall and UA_wall (carbon steel, c(T) of EN 1993-1-2); the outside is adiabatic.",
+    ),
+    Func(
+        "JB_BLOWDOWN_T_MIN",
+        "time",
+        "Lowest temperature of the gas that stays in a vessel blown down to P_target (as "
+        "JB_TIME_BLOWDOWN): not the wall's or the outlet's temperature. An estimate: minimum "
+        "design temperatures follow the codes.",
+        _BLOWDOWN_ARGS,
+        "temperature",
+        formulas.blowdown_t_min,
+        "T_min = min T(t), 0 ≤ t ≤ t(P_target)",
+        (_REF_COOLPROP, _REF_BLOWDOWN),
+        Example(("nitrogen | T = 20 degC | P = 100 bar", 1, 0.01, 300), 104.05519774425409, 1e-6),
+        caution=True,
+    ),
+    Func(
+        "JB_TIME_BLOWDOWN_TABLE",
+        "time",
+        "The blowdown of JB_TIME_BLOWDOWN as a spilled table of t, P, T, the mass left and the "
+        "wall temperature.",
+        (*_BLOWDOWN_ARGS, Arg("points", "number of rows, 2 to 1000 (default 11)", optional=True)),
+        "asked",
+        formulas.time_blowdown_table,
+        "the rows of JB_TIME_BLOWDOWN at evenly spaced times",
+        (_REF_COOLPROP, _REF_BLOWDOWN),
+        Example(
+            ("nitrogen | T = 20 degC | P = 100 bar", 1, 0.01, 300, None, None, None, None, 2),
+            [
+                ["t in s", "P in kPa", "T in K", "m in kg", "T_wall in K"],
+                [0.0, 10000.0, 293.15, 114.84167763552414, ""],
+                [204.87896890688066, 300.0, 104.05519774425409, 10.26916785533156, ""],
+            ],
+            1e-6,
+        ),
+        elementwise=False,
+        caution=True,
+    ),
     # ------------------------------------------------------------------ pressure tests
     Func(
         "JB_TEST_PNEUMATIC_ENERGY",
@@ -1444,6 +1816,23 @@ CATALOG: tuple[Func, ...] = (
         (_REF_COOLPROP, _REF_IAPWS, _REF_THIN_WALL),
         Example(("water | T = 20 degC | P = 12 bar", 2), 0.6507293801249098, 1e-6),
         caution=True,
+        # the liquid's part worked out with its numbers; the wall's ½·c·V·ΔP² takes the
+        # compliance of the shape named (the equation above), so no closed-form result line
+        working=Working(
+            steps=(
+                Step("m", "V*JB_PROP(state, 'rho in kg/m3')", "mass"),
+                Step("u_1", "JB_PROP(state, 'u in J/kg')", "specific_energy"),
+                Step(
+                    "u_2",
+                    "JB_PROCESS(state, 'isentropic', 'P2 in Pa', P_amb, 'u2 in J/kg')",
+                    "specific_energy",
+                ),
+                Step("E_liquid", "m*(u_1 - u_2)", "energy"),
+                Step("P", "JB_PROP(state, 'P in Pa')", "pressure"),
+                Step("dP", "P - P_amb", "pressure"),
+            ),
+            defaults=(("P_amb", 101325.0),),
+        ),
     ),
     Func(
         "JB_TEST_TNT",

@@ -251,7 +251,7 @@ def _write_text(path: str, text: str) -> bool:
 
 
 def _check(ns: argparse.Namespace) -> int:
-    from .workbook.check import fmt
+    from .workbook.console import failing_rows, summary_words
 
     paths, unmatched = _workbook_paths(ns.books)
     for spec in unmatched:
@@ -283,13 +283,7 @@ def _check(ns: argparse.Namespace) -> int:
             continue
         bad = res["failing"]
         if bad:
-            print(f"{'cell':<24} {'status':<16} {'saved':>18} {'recomputed':>18}  formula")
-            for r in bad[: ns.max_rows]:
-                print(
-                    f"{r['sheet'] + '!' + r['cell']:<24} {r['status']:<16} "
-                    f"{fmt(r['cached'])[:18]:>18} {fmt(r['recomputed'])[:18]:>18}  "
-                    f"{r['formula'][:60]}"
-                )
+            print("\n".join(failing_rows(bad[: ns.max_rows])))
             if len(bad) > ns.max_rows:
                 print(f"… {len(bad) - ns.max_rows} more (see --json)")
         relaxed = [
@@ -299,7 +293,7 @@ def _check(ns: argparse.Namespace) -> int:
         ]
         print(
             (f"{res['path']}: " if many else "")
-            + ", ".join(f"{v} {k}" for k, v in res["summary"].items())
+            + summary_words(res["summary"])
             + f"; tolerance rtol={ns.rtol:g}, atol={ns.atol:g}"
             + (f"; relaxed: {', '.join(relaxed)} allowed" if relaxed else "")
             + f"; {len(bad)} failing"
@@ -441,6 +435,7 @@ def check_one(job, shown_as: str | None = None) -> dict:
     from .workbook.check import compare, failing, summary, to_json, to_junit
     from .workbook.engine import Engine
     from .workbook.reader import read_book
+    from .workbook.status import Status
 
     path, rtol, atol, allow_errors, allow_unsupported, *rest = job
     budget = rest[0] if rest else None
@@ -458,7 +453,7 @@ def check_one(job, shown_as: str | None = None) -> dict:
         why = e.cell_text() if isinstance(e, JoulebookError) else f"cannot read: {e.strerror}"
         return {**res, "code": 2, "message": why}
     except TooLarge as e:
-        return {**res, "code": 2, "message": _too_large(None, e), "status": "too large"}
+        return {**res, "code": 2, "message": _too_large(None, e), "status": Status.TOO_LARGE.value}
     except Exception as e:  # a defect of ours, reported with this workbook's name
         return {**res, "code": 3, "message": f"internal error ({type(e).__name__}): {e}"}
     bad = failing(rows, allow_errors, allow_unsupported)
@@ -475,8 +470,8 @@ def check_one(job, shown_as: str | None = None) -> dict:
 def _combined_json(results: list, ns, many: bool) -> str:
     import json
 
-    if not many and not results[0]["message"]:
-        return results[0]["json"]
+    # one shape for one workbook and for many: a list of workbooks (schema:
+    # joulebook/workbook/check.schema.json, docs/ci.md)
     books = []
     for r in results:
         if r["message"]:
@@ -616,7 +611,6 @@ def _audit(ns: argparse.Namespace) -> int:
 
     from .errors import BadInput
     from .files import atomic_write
-    from .workbook.audit import build_audit, render_html
     from .workbook.reader import read_book
 
     out = Path(ns.output)
@@ -627,6 +621,10 @@ def _audit(ns: argparse.Namespace) -> int:
             raise BadInput("the report must not overwrite the workbook")
         if out.exists() and not ns.force:
             raise BadInput(f"{out} exists; use --force to replace it")
+        if ns.pdf and Path(ns.pdf).exists() and not ns.force:
+            raise BadInput(f"{ns.pdf} exists; use --force to replace it")
+        if ns.pdf and Path(ns.pdf).resolve() == Path(ns.book).resolve():
+            raise BadInput("the PDF must not overwrite the workbook")
     except (BadInput, OSError) as e:
         print(
             e.cell_text() if isinstance(e, BadInput) else f"cannot read {ns.book}: {e}",
@@ -640,13 +638,22 @@ def _audit(ns: argparse.Namespace) -> int:
 
     bar = _progress()
     try:
-        report, text = run_within(budget, _audit_work, book, build_audit, render_html, bar)
+        report, package, text = run_within(budget, _audit_work, book, ns.paper, bar)
     except TooLarge as e:
         print(_too_large(ns.book, e), file=sys.stderr)
         return 2
     finally:
         bar.close()
+    from .workbook.package import write_pdf
+
     atomic_write(out, lambda fh: fh.write(text))
+    if ns.pdf:
+        try:
+            pages = write_pdf(text.decode("utf-8"), Path(ns.pdf))
+        except BadInput as e:
+            print(e.cell_text(), file=sys.stderr)
+            return 2
+        print(f"wrote {ns.pdf}: {_n(pages, 'page')} on {package.paper} paper")
     if ns.json:
         from .workbook.audit import to_json
 
@@ -667,8 +674,9 @@ def _audit(ns: argparse.Namespace) -> int:
     differs = sum(e.status == "differs" for e in es)
     print(
         f"wrote {out} ({len(text) // 1024} KiB, {time.perf_counter() - t0:.1f} s): "
-        f"{_n(len(es), 'formula cell')}, {_n(passes, 'pass', 'passes')}, "
-        f"{_n(differs, 'difference')}, {_n(len(report.flags), 'flag')}"
+        f"{_n(len(es), 'formula cell')} in {_n(len(package.items), 'entry', 'entries')} "
+        f"(copied-down cells grouped), {_n(passes, 'pass', 'passes')}, "
+        f"{_n(differs, 'difference')}, {_n(len(package.flags), 'flag')}"
     )
     if ns.fail_on_flags and report.flags:
         for e, f in report.flags:
@@ -677,9 +685,14 @@ def _audit(ns: argparse.Namespace) -> int:
     return 0
 
 
-def _audit_work(book, build_audit, render_html, bar):
-    report = build_audit(book, progress=_cells_only(bar))
-    return report, render_html(report).encode("utf-8")
+def _audit_work(book, paper, bar):
+    """The audit's report, its calculation package and the package's HTML (within budget)."""
+    from .workbook.audit import build_audit
+    from .workbook.package import build_package, render_package
+
+    report = build_audit(book, progress=_cells_only(bar), copies=False, maps=False)
+    package = build_package(report, paper)
+    return report, package, render_package(package).encode("utf-8")
 
 
 # --- the budget of one workbook: --max-seconds, --max-memory (check, recalc, audit) ------
@@ -728,7 +741,7 @@ def _workbooks(ns: argparse.Namespace) -> int:
 def _demo(ns: argparse.Namespace) -> int:
     from .demo import run_demo
 
-    results = run_demo(ns.folder)
+    results = run_demo(ns.folder, pdf=not ns.no_pdf)
     return 0 if results else 1
 
 
@@ -840,20 +853,34 @@ def build_parser() -> argparse.ArgumentParser:
         default="joulebook-demo",
         help="where to write (default ./joulebook-demo)",
     )
+    dm.add_argument("--no-pdf", action="store_true", help="write the HTML packages only, no PDF")
     dm.set_defaults(run=_demo)
 
     a = sub.add_parser(
         "audit",
-        help="write a checker's HTML report of every formula cell of a workbook",
+        help="write a checker's calculation package (HTML, and PDF with --pdf) of a workbook",
         description="Explain and re-derive every formula cell of BOOK: inputs with units and "
         "sources, the formula with numbers, each joulebook call with its model and working, "
         "recomputed vs saved value with one status, flags a checker raises by eye, a "
-        "calculation map per sheet, P–V / T–s diagrams. One self-contained HTML file.",
+        "calculation map per sheet, P–V / T–s diagrams; the title block read from the workbook, "
+        "inputs, results, references, cautions and a sign-off block. One self-contained HTML "
+        "file; --pdf prints it with numbered pages. Copied-down formulas are one entry.",
     )
     a.add_argument("book", help="the .xlsx/.xlsm to audit")
     a.add_argument("-o", "--output", required=True, help="the HTML report to write")
     a.add_argument("--xlsx", help="also write a copy of the workbook with an added audit sheet")
     a.add_argument("--json", help="also write every entry, flag and figure as JSON")
+    a.add_argument(
+        "--pdf",
+        help="also print the calculation package to this PDF (title block, numbered pages, "
+        "sign-off block; through WeasyPrint, which needs the Pango library)",
+    )
+    a.add_argument(
+        "--paper",
+        choices=("a4", "letter"),
+        default="a4",
+        help="the paper the package prints on (default a4)",
+    )
     a.add_argument(
         "--fail-on-flags",
         action="store_true",
@@ -862,6 +889,16 @@ def build_parser() -> argparse.ArgumentParser:
     a.add_argument("--force", action="store_true", help="replace existing outputs")
     _add_budget(a)
     a.set_defaults(run=_audit)
+
+    # joulebook diff OLD NEW: two revisions compared (options and run in workbook/diffcmd.py)
+    from .workbook.diffcmd import add_parser as add_diff_parser
+
+    add_diff_parser(sub)
+
+    # joulebook sensitivity BOOK: coefficients and uncertainty (workbook/sensitivitycmd.py)
+    from .workbook.sensitivitycmd import add_parser as add_sensitivity_parser
+
+    add_sensitivity_parser(sub)
 
     x = sub.add_parser(
         "calc-extension",

@@ -628,6 +628,94 @@ def fire_drum(wb) -> None:
     )
 
 
+def receiver_fire_blowdown(wb) -> None:
+    ws = _sheet(
+        wb,
+        "Receiver",
+        "Nitrogen buffer receiver: fire exposure (unwetted shell) and blowdown",
+        "Harlow Fen test bay, receiver R-11 (invented)",
+    )
+    r = _rows(
+        ws,
+        9,
+        "Inputs",
+        [
+            ("Receiver diameter", 1.2, "m"),
+            ("Receiver length between the ends", 4.0, "m"),
+            ("Shell thickness", 0.010, "m"),
+            ("Nitrogen pressure before the fire (absolute)", 16.0, "bar"),
+            ("Nitrogen temperature before the fire", 20.0, "degC"),
+            ("Relief valve set pressure (absolute)", 21.0, "bar"),
+            ("Fire curve (EN 1991-1-2)", "hydrocarbon", ""),
+            ("Shell yield strength (S235)", 235.0, "MPa"),
+            ("Blowdown orifice diameter", 0.025, "m"),
+            ("Blowdown discharge coefficient", 0.85, "-"),
+            ("Blowdown target pressure (absolute)", 2.0, "bar"),
+            ("Steel density", 7850.0, "kg/m3"),
+            ("Shell-to-gas conductance (about 10 W/m2K over the shell)", 0.2, "kW/K"),
+        ],
+    )
+    _rows(
+        ws,
+        r,
+        "Calculation (rigid receiver; the shell heats with the gas)",
+        [
+            (
+                "Nitrogen before the fire",
+                '=JB_STATE("nitrogen","P in bar",B13,"T in degC",B14)',
+                "state",
+            ),
+            ("Receiver volume (flat ends)", "=PI()*B10^2/4*B11", "m3"),
+            ("Shell area (flat ends)", "=PI()*B10*B11+PI()*B10^2/2", "m2"),
+            ("Shell mass", "=B21*B27*B12", "kg"),
+            (
+                "Time in the fire to the set pressure",
+                '=JB_TIME_FIRE_GAS(B25,B10,B11,B12,B15,B16,,,B17,,"degC-bar-kJ, t=min, E_mod=MPa")',
+                "min",
+            ),
+            (
+                "Hoop stress at the set pressure (cold shell)",
+                '=JB_WALL_HOOP_STRESS(B15,B10,B12,,B17,"degC-bar-kJ, E_mod=MPa")',
+                "MPa",
+            ),
+            (
+                "Blowdown time to the target pressure",
+                '=JB_TIME_BLOWDOWN(B25,B26,B18,B20,B19,,,,"degC-bar-kJ, t=min")',
+                "min",
+            ),
+            (
+                "Lowest gas temperature, no heat from the shell",
+                '=JB_BLOWDOWN_T_MIN(B25,B26,B18,B20,B19,,,,"degC-bar-kJ")',
+                "degC",
+            ),
+            (
+                "Lowest gas temperature, warmed by the shell",
+                '=JB_BLOWDOWN_T_MIN(B25,B26,B18,B20,B19,,B28,B22,"degC-bar-kJ")',
+                "degC",
+            ),
+            (
+                "Check: does the hot shell hold until the relief opens?",
+                '=IF(E43>1,"NO - the shell can fail first: see the caution","yes")',
+                "",
+            ),
+        ],
+    )
+    ws["D36"] = "An unwetted shell heats fast and loses strength above about 400 degC: it can"
+    ws["D37"] = (
+        "rupture below the set pressure, before the relief valve opens (judge by the codes)."
+    )
+    ws["A38"] = "The fire, step by step (t, gas T, shell T, P absolute, hoop stress / hot yield)"
+    ws["A39"] = ArrayFormula(
+        "A39:E43",
+        '=JB_TIME_FIRE_GAS_TABLE(B25,B10,B11,B12,B15,B16,,,B17,,4,"degC-bar-kJ, t=min, E_mod=MPa")',
+    )
+    ws["A45"] = "The blowdown warmed by the shell (t, P absolute, gas T, mass left, shell T)"
+    ws["A46"] = ArrayFormula(
+        "A46:E50",
+        '=JB_TIME_BLOWDOWN_TABLE(B25,B26,B18,B20,B19,,B28,B22,4,"degC-bar-kJ, t=min")',
+    )
+
+
 WORKBOOKS = {
     "blocked_in_line.xlsx": blocked_in_line,
     "wet_steam_vessel.xlsx": wet_steam_vessel,
@@ -636,6 +724,7 @@ WORKBOOKS = {
     "piston_on_stops.xlsx": piston_stops,
     "air_standard_cycle.xlsx": air_cycle,
     "fire_exposed_drum.xlsx": fire_drum,
+    "receiver_fire_blowdown.xlsx": receiver_fire_blowdown,
 }
 
 
@@ -735,12 +824,16 @@ def _freeze_times(path: Path) -> None:
     atomic_write(path, write)
 
 
-def run_demo(folder: str | Path = "joulebook-demo", echo=print) -> dict:
-    """Build, recalculate, check and audit every demo workbook into *folder*."""
+def run_demo(folder: str | Path = "joulebook-demo", echo=print, pdf: bool = True) -> dict:
+    """Build, recalculate, check and audit every demo workbook into *folder*: an HTML
+    calculation package per workbook, and its PDF (``pdf=True``, when WeasyPrint and its
+    Pango library are there; otherwise one line says how to get them)."""
+    from .errors import BadInput
     from .files import atomic_write
-    from .workbook.audit import build_audit, render_html
+    from .workbook.audit import build_audit
     from .workbook.check import compare, summary
     from .workbook.engine import Engine
+    from .workbook.package import build_package, render_package, write_pdf
     from .workbook.reader import read_book
     from .workbook.writer import write_copy
 
@@ -760,13 +853,24 @@ def run_demo(folder: str | Path = "joulebook-demo", echo=print) -> dict:
         s = summary(rows)
         report = folder / "reports" / (path.stem + ".html")
         report.parent.mkdir(parents=True, exist_ok=True)
-        audit = build_audit(checked, outcomes=outcomes)
-        html = render_html(audit).encode("utf-8")
+        audit = build_audit(checked, outcomes=outcomes, copies=False, maps=False)
+        text = render_package(build_package(audit))
+        html = text.encode("utf-8")
         atomic_write(report, lambda fh, html=html: fh.write(html))
+        printed = None
+        if pdf:
+            try:
+                write_pdf(text, report.with_suffix(".pdf"))
+                printed = report.with_suffix(".pdf")
+            except BadInput as e:
+                echo(f"no PDF: {e.message}")
+                pdf = False
         flags = len(audit.flags)
         echo(
             f"{path.name:36} {s['cells']:4d} cells, {s.get('pass', 0):4d} hold, "
-            f"{len(audit.entries):3d} formulas audited, {flags:2d} flags  -> {report}  "
+            f"{len(audit.entries):3d} formulas audited, {flags:2d} flags  -> {report}"
+            + (" and .pdf" if printed else "")
+            + "  "
             f"({time.perf_counter() - t0:.1f} s)"
         )
         results[path.name] = {
@@ -774,6 +878,11 @@ def run_demo(folder: str | Path = "joulebook-demo", echo=print) -> dict:
             "report": report,
             "flags": flags,
             "entries": len(audit.entries),
+            "pdf": printed,
         }
+    # revision review: revision B of one demo workbook and its diff report (demodiff.py)
+    from .demodiff import REVISED, review
+
+    review(folder / "recalculated" / REVISED, folder / "revisions", echo)
     echo(f"\nOpen the reports in a browser: {folder / 'reports'}")
     return results

@@ -26,7 +26,15 @@ from .roots import brent
 from .substances import fluids, gases
 from .units import UnitSystem, unit_system
 
-__all__ = ["Point", "RealMedium", "IdealMedium", "medium", "split_substance", "IDEAL_TAG"]
+__all__ = [
+    "Point",
+    "RealMedium",
+    "IdealMedium",
+    "LiquidMedium",
+    "medium",
+    "split_substance",
+    "IDEAL_TAG",
+]
 
 IDEAL_TAG = "(ideal gas)"
 _P0 = 101_325.0
@@ -501,6 +509,57 @@ class IF97Medium(_TabulatedMedium):
         return self._if97.sat("T", p.T, 0.0)[1]
 
 
+class LiquidMedium(_TabulatedMedium):
+    """A heat-transfer liquid, incompressible (substances/liquids.py): T–P states only.
+
+    Parameters
+    ----------
+    text : str
+        ``"ethylene glycol 40 %"``, ``"propylene glycol 30 %"``, ``"white mineral oil"`` …
+
+    References
+    ----------
+    .. [1] CoolProp incompressible liquids (Bell et al., Ind. Eng. Chem. Res. 53, 2014).
+
+    Examples
+    --------
+    >>> g = medium("ethylene glycol 40 %")
+    >>> round(1 / g.point("T", 293.15, "P", 2e5).v, 1)
+    1051.9
+    """
+
+    info = None
+    R = math.inf  # no gas constant: Z is not offered
+    _NOT_OFFERED = " for an incompressible liquid (T, P, v, rho, u, h, s, cp, beta only)"
+
+    def __init__(self, text: str):
+        from .substances import liquids
+
+        self._liq = liquids
+        self.liquid = liquids.liquid(text)
+        self.name = self.liquid.name
+        self.model = f"incompressible liquid via {fluids.coolprop_version()}"
+
+    def point(self, a: str, va: float, b: str, vb: float, shows=None) -> Point:
+        """The :class:`Point` at T–P (the liquid's state depends on T; h on P through P·v)."""
+        pair = {a: va, b: vb}
+        if set(pair) != {"T", "P"}:
+            raise BadInput(f"{self.name} is an incompressible liquid: give T and P")
+        v, u, h, s, _cp = self._liq.at_T(self.liquid, pair["T"], pair["P"])
+        return Point(pair["T"], pair["P"], v, u, h, s, None, "liquid (incompressible)")
+
+    def read(self, want: str, a: str, va: float, b: str, vb: float, shows=None):
+        """Property *want* (SI) at (T, P); β from ρ(T), c_p = c_v."""
+        p = self.point(a, va, b, vb, shows)
+        if want in ("cp", "cv"):
+            return self._liq.at_T(self.liquid, p.T, p.P)[4]
+        if want == "beta":
+            return self._liq.beta(self.liquid, p.T)
+        if want in ("Z", "k", "w", "kappa"):
+            raise OutOfRange(f"{self.name}: {want} is not offered{self._NOT_OFFERED}")
+        return super().read(want, a, va, b, vb, shows)
+
+
 _CONST_KIND = {
     "cp": "specific_entropy",
     "cv": "specific_entropy",
@@ -556,8 +615,10 @@ def medium(text: str, system: UnitSystem | None = None):
     name, consts, _specs = split_substance(text)
     if _IF97_RE.match(name) and not consts:
         return IF97Medium()
-    from .substances import mixtures
+    from .substances import liquids, mixtures
 
+    if not consts and liquids.is_liquid_name(name):
+        return LiquidMedium(name)
     if not consts and mixtures.is_mixture_text(name):
         return MixtureMedium(name)
     m = _IDEAL_RE.match(name)

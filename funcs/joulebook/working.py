@@ -182,6 +182,11 @@ def names_in(expr: str) -> set[str]:
     .. [1] Python Software Foundation, "ast — Abstract Syntax Trees", The Python Standard
        Library documentation (the parser the expressions go through; never ``eval``).
     """
+    return set(_names(expr))
+
+
+@lru_cache(maxsize=512)
+def _names(expr: str) -> frozenset[str]:
     out = set()
     for node in ast.walk(_parse(expr)):
         if isinstance(node, ast.Name) and node.id not in _CONST:
@@ -189,7 +194,7 @@ def names_in(expr: str) -> set[str]:
     for node in ast.walk(_parse(expr)):
         if isinstance(node, ast.Call):
             out.discard(node.func.id)  # type: ignore[attr-defined]
-    return out
+    return frozenset(out)
 
 
 def evaluate(expr: str, values: dict, call: Callable | None = None):
@@ -379,6 +384,7 @@ def work_out(
     call: Callable,
     display: Callable[[object, str | None], str],
     kinds: dict | None = None,
+    text: Callable[[str], str] | None = None,
 ) -> tuple[list[Worked], Worked | None]:
     """Evaluate the steps and the result of a working, line by line.
 
@@ -395,6 +401,9 @@ def work_out(
         ``display(value, kind)`` writes a value with its unit for the substituted lines.
     kinds : dict, optional
         The units kind of each argument (for *display*).
+    text : callable, optional
+        A rewrite of each expression for the lines shown (the unit phrases of its calls in
+        the units the values are shown in); the values come from the expression as written.
 
     Returns
     -------
@@ -432,7 +441,8 @@ def work_out(
             err = ""
         except Exception as e:  # shown on the line: the working never breaks the audit
             v, err = None, getattr(e, "message", None) or type(e).__name__
-        return Worked(_name(symbol), show(expr), show(expr, subst), v, kind, err)
+        shown = text(expr) if text is not None else expr
+        return Worked(_name(symbol), show(shown), show(shown, subst), v, kind, err)
 
     for st in w.steps:
         wk = line(st.symbol, st.expr, st.kind)

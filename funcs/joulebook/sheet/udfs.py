@@ -14,7 +14,7 @@ from joulebook.sheet.cells import why as _why
 
 
 
-__all__ = ['JB_STATE', 'JB_PROP', 'JB_PHASE', 'JB_PROP_SAT', 'JB_GAS_CP', 'JB_GAS_CV', 'JB_GAS_K', 'JB_GAS_R', 'JB_GAS_MOLAR_MASS', 'JB_GAS_DELTA_H', 'JB_GAS_DELTA_U', 'JB_GAS_CP_MEAN', 'JB_GAS_DELTA_S', 'JB_SOLID_C', 'JB_SOLID_C_MEAN', 'JB_SOLID_DELTA_U', 'JB_SOLID_HEAT', 'JB_WORK_ISOBARIC', 'JB_WORK_ISOTHERMAL', 'JB_WORK_ISOTHERMAL_MASS', 'JB_WORK_POLYTROPIC', 'JB_WORK_POLYTROPIC_N', 'JB_WORK_LINEAR', 'JB_WORK_PV', 'JB_WORK_PATH', 'JB_WORK_ELECTRIC_IN', 'JB_WORK_SHAFT_IN', 'JB_POLY_EXPONENT', 'JB_POLY_FIT', 'JB_POLY_P2', 'JB_POLY_V2', 'JB_POLY_T2_FROM_V', 'JB_POLY_T2_FROM_P', 'JB_BALANCE_HEAT', 'JB_BALANCE_GAP', 'JB_BALANCE_DELTA_KE', 'JB_BALANCE_DELTA_PE', 'JB_HEAT_ISOBARIC_GAS', 'JB_HEAT_RIGID_GAS', 'JB_PROCESS', 'JB_PROCESS_TABLE', 'JB_PROCESS_PATH', 'JB_CYCLE_NET', 'JB_CYCLE_GAP', 'JB_CYCLE_EFFICIENCY', 'JB_STORED_ISENTROPIC', 'JB_STORED_IDEAL_ISENTROPIC', 'JB_STORED_ISOCHORIC', 'JB_BLOCKED_IN_P2', 'JB_RELIEF_THERMAL_FLOW', 'JB_TIME_HEATING', 'JB_TIME_HEATING_TABLE', 'JB_FIRE_HEAT', 'JB_WETTED_AREA', 'JB_TIME_FIRE', 'JB_TIME_FIRE_TABLE', 'JB_TIME_BATCH', 'JB_BALANCE_RATE', 'JB_TEST_PNEUMATIC_ENERGY', 'JB_TEST_HYDRO_ENERGY', 'JB_TEST_TNT', 'JB_TEST_DISTANCE', 'JB_ENGINE_VOLUME', 'JB_ENGINE_POWER', 'JB_ENGINE_MEP', 'JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY', 'JB_POLY_FIT_BRANCHES', 'JB_HUMID_AIR', 'JB_HUMID_CONDENSATE', 'JB_CHART_DOME', 'JB_CHART_ISOLINE', 'JB_CONVERT', 'JB_WHY', 'JB_ABOUT']
+__all__ = ['JB_STATE', 'JB_PROP', 'JB_PHASE', 'JB_PROP_SAT', 'JB_GAS_CP', 'JB_GAS_CV', 'JB_GAS_K', 'JB_GAS_R', 'JB_GAS_MOLAR_MASS', 'JB_GAS_DELTA_H', 'JB_GAS_DELTA_U', 'JB_GAS_CP_MEAN', 'JB_GAS_DELTA_S', 'JB_SOLID_C', 'JB_SOLID_C_MEAN', 'JB_SOLID_DELTA_U', 'JB_SOLID_HEAT', 'JB_WORK_ISOBARIC', 'JB_WORK_ISOTHERMAL', 'JB_WORK_ISOTHERMAL_MASS', 'JB_WORK_POLYTROPIC', 'JB_WORK_POLYTROPIC_N', 'JB_WORK_LINEAR', 'JB_WORK_PV', 'JB_WORK_PATH', 'JB_WORK_ELECTRIC_IN', 'JB_WORK_SHAFT_IN', 'JB_POLY_EXPONENT', 'JB_POLY_FIT', 'JB_POLY_P2', 'JB_POLY_V2', 'JB_POLY_T2_FROM_V', 'JB_POLY_T2_FROM_P', 'JB_BALANCE_HEAT', 'JB_BALANCE_GAP', 'JB_BALANCE_DELTA_KE', 'JB_BALANCE_DELTA_PE', 'JB_HEAT_ISOBARIC_GAS', 'JB_HEAT_RIGID_GAS', 'JB_PROCESS', 'JB_PROCESS_TABLE', 'JB_PROCESS_PATH', 'JB_CYCLE_NET', 'JB_CYCLE_GAP', 'JB_CYCLE_EFFICIENCY', 'JB_STORED_ISENTROPIC', 'JB_STORED_IDEAL_ISENTROPIC', 'JB_STORED_ISOCHORIC', 'JB_BLOCKED_IN_P2', 'JB_RELIEF_THERMAL_FLOW', 'JB_TIME_HEATING', 'JB_TIME_HEATING_TABLE', 'JB_FIRE_HEAT', 'JB_WETTED_AREA', 'JB_TIME_FIRE', 'JB_TIME_FIRE_TABLE', 'JB_TIME_BATCH', 'JB_BALANCE_RATE', 'JB_BLOCKED_IN_CUSHION_P2', 'JB_TIME_BLOCKED_IN', 'JB_WALL_HOOP_STRESS', 'JB_WALL_AXIAL_STRESS', 'JB_TIME_FIRE_GAS', 'JB_TIME_FIRE_GAS_TABLE', 'JB_TIME_BLOWDOWN', 'JB_BLOWDOWN_T_MIN', 'JB_TIME_BLOWDOWN_TABLE', 'JB_TEST_PNEUMATIC_ENERGY', 'JB_TEST_HYDRO_ENERGY', 'JB_TEST_TNT', 'JB_TEST_DISTANCE', 'JB_ENGINE_VOLUME', 'JB_ENGINE_POWER', 'JB_ENGINE_MEP', 'JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY', 'JB_POLY_FIT_BRANCHES', 'JB_HUMID_AIR', 'JB_HUMID_CONDENSATE', 'JB_CHART_DOME', 'JB_CHART_ISOLINE', 'JB_CONVERT', 'JB_WHY', 'JB_ABOUT']
 
 
 @_xw.func(category='joulebook · States and real-fluid properties')
@@ -652,6 +652,152 @@ def JB_TIME_BATCH(material, m, T_1, T_2, UA, T_source, units=None, caller=None):
 def JB_BALANCE_RATE(Q_dot, W_dot=None, units=None, caller=None):
     'First law per unit time of a closed system: dE/dt = Q_dot − W_dot (heat in, work out).'
     return _cell('JB_BALANCE_RATE', Q_dot, W_dot, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Blocked-in liquid and thermal relief')
+@_xw.arg('state1', ndim=2, err_to_str=True, doc='liquid state text when blocked in, from JB_STATE [text]')
+@_xw.arg('T_2', ndim=2, err_to_str=True, doc="temperature after heating [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('V', ndim=2, err_to_str=True, doc="container volume (liquid + pocket) at state1 [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('V_gas', ndim=2, err_to_str=True, doc="gas pocket volume at state1 (0: liquid-full) [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('gas', ndim=2, err_to_str=True, doc="pocket gas: nitrogen (default), any gas name, or vapour (the liquid's own, x = 0) (optional) [text]")
+@_xw.arg('shape', ndim=2, err_to_str=True, doc='rigid (default), cylinder (closed ends) or sphere (optional) [text]')
+@_xw.arg('D', ndim=2, err_to_str=True, doc="mean diameter of the wall (optional) [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('wall', ndim=2, err_to_str=True, doc="wall thickness (below D/2) (optional) [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('E', ndim=2, err_to_str=True, doc="Young's modulus of the wall (steel about 200 GPa) (optional) [number or range; modulus in the units argument's unit (GPa by default)]")
+@_xw.arg('nu', ndim=2, err_to_str=True, doc="Poisson's ratio of the wall, 0 to 0.5 (steel 0.3) (optional) [number or range]")
+@_xw.arg('alpha_wall', ndim=2, err_to_str=True, doc="linear expansion coefficient of the wall (steel 1.2e-5 1/K) (optional) [number or range; expansion coefficient in the units argument's unit (1/K by default)]")
+@_xw.arg('kappa', ndim=2, err_to_str=True, doc="compressibility of a glycol or oil fill (incompressible in the data; default 0) (optional) [number or range; compressibility in the units argument's unit (1/kPa by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_BLOCKED_IN_CUSHION_P2(state1, T_2, V, V_gas, gas=None, shape=None, D=None, wall=None, E=None, nu=None, alpha_wall=None, kappa=None, units=None, caller=None):
+    'Pressure after heating a blocked-in liquid with a gas pocket (nitrogen or any gas, or its own vapour) to T_2, the wall rigid or stretching. An estimate: relief is governed by the codes.'
+    return _cell('JB_BLOCKED_IN_CUSHION_P2', state1, T_2, V, V_gas, gas, shape, D, wall, E, nu, alpha_wall, kappa, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Heating with time and fire exposure')
+@_xw.arg('state1', ndim=2, err_to_str=True, doc='liquid state text when blocked in, from JB_STATE [text]')
+@_xw.arg('V', ndim=2, err_to_str=True, doc="container volume (liquid + pocket) at state1 [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('V_gas', ndim=2, err_to_str=True, doc="gas pocket volume at state1 (0: liquid-full) [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('P_set', ndim=2, err_to_str=True, doc="set pressure to reach (absolute) [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('Q_dot', ndim=2, err_to_str=True, doc="constant heat rate into the contents (optional) (optional) [number or range; power in the units argument's unit (kW by default)]")
+@_xw.arg('UA', ndim=2, err_to_str=True, doc="conductance to a source at T_source (optional) (optional) [number or range; heat transfer coefficient in the units argument's unit (kW/K by default)]")
+@_xw.arg('T_source', ndim=2, err_to_str=True, doc="temperature of the source (with UA) (optional) [number or range; temperature in the units argument's unit (K by default)]")
+@_xw.arg('gas', ndim=2, err_to_str=True, doc='pocket gas: nitrogen (default), any gas name, or vapour (optional) [text]')
+@_xw.arg('shape', ndim=2, err_to_str=True, doc='rigid (default), cylinder (closed ends) or sphere (optional) [text]')
+@_xw.arg('D', ndim=2, err_to_str=True, doc="mean diameter of the wall (optional) [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('wall', ndim=2, err_to_str=True, doc="wall thickness (below D/2) (optional) [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('E', ndim=2, err_to_str=True, doc="Young's modulus of the wall (steel about 200 GPa) (optional) [number or range; modulus in the units argument's unit (GPa by default)]")
+@_xw.arg('nu', ndim=2, err_to_str=True, doc="Poisson's ratio of the wall, 0 to 0.5 (steel 0.3) (optional) [number or range]")
+@_xw.arg('alpha_wall', ndim=2, err_to_str=True, doc="linear expansion coefficient of the wall (steel 1.2e-5 1/K) (optional) [number or range; expansion coefficient in the units argument's unit (1/K by default)]")
+@_xw.arg('kappa', ndim=2, err_to_str=True, doc="compressibility of a glycol or oil fill (incompressible in the data; default 0) (optional) [number or range; compressibility in the units argument's unit (1/kPa by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_TIME_BLOCKED_IN(state1, V, V_gas, P_set, Q_dot=None, UA=None, T_source=None, gas=None, shape=None, D=None, wall=None, E=None, nu=None, alpha_wall=None, kappa=None, units=None, caller=None):
+    'Time for a heated blocked-in liquid (with an optional gas pocket, the wall rigid or stretching) to reach a set pressure, under Q_dot and/or UA·(T_source − T). An estimate: relief is governed by the codes.'
+    return _cell('JB_TIME_BLOCKED_IN', state1, V, V_gas, P_set, Q_dot, UA, T_source, gas, shape, D, wall, E, nu, alpha_wall, kappa, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Blocked-in liquid and thermal relief')
+@_xw.arg('P', ndim=2, err_to_str=True, doc="absolute pressure inside [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('D', ndim=2, err_to_str=True, doc="mean diameter [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('wall', ndim=2, err_to_str=True, doc="wall thickness (at most D/4) [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('P_out', ndim=2, err_to_str=True, doc="absolute pressure outside (default 101.325 kPa) (optional) [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('f_y', ndim=2, err_to_str=True, doc="yield strength of the wall (default 235 MPa, S235 steel) (optional) [number or range; modulus in the units argument's unit (GPa by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_WALL_HOOP_STRESS(P, D, wall, P_out=None, f_y=None, units=None, caller=None):
+    'Hoop stress of a thin cylinder wall, (P − P_out)·D/(2·wall), e.g. at the pressure of a blocked-in or heated case; the audit flags it above the yield strength f_y. An estimate: pressure equipment follows the codes.'
+    return _cell('JB_WALL_HOOP_STRESS', P, D, wall, P_out, f_y, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Blocked-in liquid and thermal relief')
+@_xw.arg('P', ndim=2, err_to_str=True, doc="absolute pressure inside [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('D', ndim=2, err_to_str=True, doc="mean diameter [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('wall', ndim=2, err_to_str=True, doc="wall thickness (at most D/4) [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('P_out', ndim=2, err_to_str=True, doc="absolute pressure outside (default 101.325 kPa) (optional) [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('f_y', ndim=2, err_to_str=True, doc="yield strength of the wall (default 235 MPa, S235 steel) (optional) [number or range; modulus in the units argument's unit (GPa by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_WALL_AXIAL_STRESS(P, D, wall, P_out=None, f_y=None, units=None, caller=None):
+    'Axial stress of a thin closed cylinder wall (the stress of a thin sphere), (P − P_out)·D/(4·wall); the audit flags it above the yield strength f_y. An estimate: pressure equipment follows the codes.'
+    return _cell('JB_WALL_AXIAL_STRESS', P, D, wall, P_out, f_y, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Heating with time and fire exposure')
+@_xw.arg('state1', ndim=2, err_to_str=True, doc='gas state text at the start, from JB_STATE [text]')
+@_xw.arg('D', ndim=2, err_to_str=True, doc="diameter of the cylinder [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('L', ndim=2, err_to_str=True, doc="length between the flat ends [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('wall', ndim=2, err_to_str=True, doc="steel wall thickness [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('P_set', ndim=2, err_to_str=True, doc="set pressure of the relief device (absolute) [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('fire', ndim=2, err_to_str=True, doc='hydrocarbon (default) or standard fire curve (optional) [text]')
+@_xw.arg('q', ndim=2, err_to_str=True, doc="absorbed heat flux instead of a curve (optional) [number or range; heat flux in the units argument's unit (kW/m2 by default)]")
+@_xw.arg('UA_in', ndim=2, err_to_str=True, doc="wall-to-gas conductance (default 10 W/(m2·K) over the area) (optional) [number or range; heat transfer coefficient in the units argument's unit (kW/K by default)]")
+@_xw.arg('f_y', ndim=2, err_to_str=True, doc="yield strength of the wall (default 235 MPa, S235 steel) (optional) [number or range; modulus in the units argument's unit (GPa by default)]")
+@_xw.arg('P_amb', ndim=2, err_to_str=True, doc="absolute pressure outside (default 101.325 kPa) (optional) [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_TIME_FIRE_GAS(state1, D, L, wall, P_set, fire=None, q=None, UA_in=None, f_y=None, P_amb=None, units=None, caller=None):
+    'Time for a gas-filled (unwetted) steel cylinder in a fire to reach its set pressure, gas and wall heated with time. Caution: an unwetted wall can fail before the relief device opens; fire cases follow the codes.'
+    return _cell('JB_TIME_FIRE_GAS', state1, D, L, wall, P_set, fire, q, UA_in, f_y, P_amb, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Heating with time and fire exposure')
+@_xw.arg('state1', ndim=2, err_to_str=True, doc='gas state text at the start, from JB_STATE [text]')
+@_xw.arg('D', ndim=2, err_to_str=True, doc="diameter of the cylinder [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('L', ndim=2, err_to_str=True, doc="length between the flat ends [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('wall', ndim=2, err_to_str=True, doc="steel wall thickness [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('P_set', ndim=2, err_to_str=True, doc="set pressure of the relief device (absolute) [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('fire', ndim=2, err_to_str=True, doc='hydrocarbon (default) or standard fire curve (optional) [text]')
+@_xw.arg('q', ndim=2, err_to_str=True, doc="absorbed heat flux instead of a curve (optional) [number or range; heat flux in the units argument's unit (kW/m2 by default)]")
+@_xw.arg('UA_in', ndim=2, err_to_str=True, doc="wall-to-gas conductance (default 10 W/(m2·K) over the area) (optional) [number or range; heat transfer coefficient in the units argument's unit (kW/K by default)]")
+@_xw.arg('f_y', ndim=2, err_to_str=True, doc="yield strength of the wall (default 235 MPa, S235 steel) (optional) [number or range; modulus in the units argument's unit (GPa by default)]")
+@_xw.arg('P_amb', ndim=2, err_to_str=True, doc="absolute pressure outside (default 101.325 kPa) (optional) [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('points', ndim=2, err_to_str=True, doc='number of rows, 2 to 1000 (default 11) (optional) [number or range]')
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_TIME_FIRE_GAS_TABLE(state1, D, L, wall, P_set, fire=None, q=None, UA_in=None, f_y=None, P_amb=None, points=None, units=None, caller=None):
+    "The fire case of JB_TIME_FIRE_GAS as a spilled table of t, gas T, wall T, P and the hoop stress over the yield strength at the wall's temperature. An unwetted wall can fail before relief opens."
+    return _cell('JB_TIME_FIRE_GAS_TABLE', state1, D, L, wall, P_set, fire, q, UA_in, f_y, P_amb, points, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Heating with time and fire exposure')
+@_xw.arg('state1', ndim=2, err_to_str=True, doc='gas state text at the start, from JB_STATE [text]')
+@_xw.arg('V', ndim=2, err_to_str=True, doc="vessel volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('d', ndim=2, err_to_str=True, doc="orifice diameter [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('P_target', ndim=2, err_to_str=True, doc="pressure to reach (absolute), above P_back [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('Cd', ndim=2, err_to_str=True, doc='discharge coefficient, 0 < Cd ≤ 1 (default 1) (optional) [number or range]')
+@_xw.arg('P_back', ndim=2, err_to_str=True, doc="absolute back pressure (default 101.325 kPa) (optional) [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('m_wall', ndim=2, err_to_str=True, doc="steel wall mass that warms the gas (optional) (optional) [number or range; mass in the units argument's unit (kg by default)]")
+@_xw.arg('UA_wall', ndim=2, err_to_str=True, doc="wall-to-gas conductance (with m_wall) (optional) [number or range; heat transfer coefficient in the units argument's unit (kW/K by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_TIME_BLOWDOWN(state1, V, d, P_target, Cd=None, P_back=None, m_wall=None, UA_wall=None, units=None, caller=None):
+    "Time to blow a vessel's gas down through an orifice to P_target, the gas that stays expanding isentropically (or warmed by the wall), choked or not, on the equation of state. An estimate: depressuring follows the codes."
+    return _cell('JB_TIME_BLOWDOWN', state1, V, d, P_target, Cd, P_back, m_wall, UA_wall, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Heating with time and fire exposure')
+@_xw.arg('state1', ndim=2, err_to_str=True, doc='gas state text at the start, from JB_STATE [text]')
+@_xw.arg('V', ndim=2, err_to_str=True, doc="vessel volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('d', ndim=2, err_to_str=True, doc="orifice diameter [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('P_target', ndim=2, err_to_str=True, doc="pressure to reach (absolute), above P_back [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('Cd', ndim=2, err_to_str=True, doc='discharge coefficient, 0 < Cd ≤ 1 (default 1) (optional) [number or range]')
+@_xw.arg('P_back', ndim=2, err_to_str=True, doc="absolute back pressure (default 101.325 kPa) (optional) [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('m_wall', ndim=2, err_to_str=True, doc="steel wall mass that warms the gas (optional) (optional) [number or range; mass in the units argument's unit (kg by default)]")
+@_xw.arg('UA_wall', ndim=2, err_to_str=True, doc="wall-to-gas conductance (with m_wall) (optional) [number or range; heat transfer coefficient in the units argument's unit (kW/K by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_BLOWDOWN_T_MIN(state1, V, d, P_target, Cd=None, P_back=None, m_wall=None, UA_wall=None, units=None, caller=None):
+    "Lowest temperature of the gas that stays in a vessel blown down to P_target (as JB_TIME_BLOWDOWN): not the wall's or the outlet's temperature. An estimate: minimum design temperatures follow the codes."
+    return _cell('JB_BLOWDOWN_T_MIN', state1, V, d, P_target, Cd, P_back, m_wall, UA_wall, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Heating with time and fire exposure')
+@_xw.arg('state1', ndim=2, err_to_str=True, doc='gas state text at the start, from JB_STATE [text]')
+@_xw.arg('V', ndim=2, err_to_str=True, doc="vessel volume [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('d', ndim=2, err_to_str=True, doc="orifice diameter [number or range; length in the units argument's unit (m by default)]")
+@_xw.arg('P_target', ndim=2, err_to_str=True, doc="pressure to reach (absolute), above P_back [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('Cd', ndim=2, err_to_str=True, doc='discharge coefficient, 0 < Cd ≤ 1 (default 1) (optional) [number or range]')
+@_xw.arg('P_back', ndim=2, err_to_str=True, doc="absolute back pressure (default 101.325 kPa) (optional) [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('m_wall', ndim=2, err_to_str=True, doc="steel wall mass that warms the gas (optional) (optional) [number or range; mass in the units argument's unit (kg by default)]")
+@_xw.arg('UA_wall', ndim=2, err_to_str=True, doc="wall-to-gas conductance (with m_wall) (optional) [number or range; heat transfer coefficient in the units argument's unit (kW/K by default)]")
+@_xw.arg('points', ndim=2, err_to_str=True, doc='number of rows, 2 to 1000 (default 11) (optional) [number or range]')
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_TIME_BLOWDOWN_TABLE(state1, V, d, P_target, Cd=None, P_back=None, m_wall=None, UA_wall=None, points=None, units=None, caller=None):
+    'The blowdown of JB_TIME_BLOWDOWN as a spilled table of t, P, T, the mass left and the wall temperature.'
+    return _cell('JB_TIME_BLOWDOWN_TABLE', state1, V, d, P_target, Cd, P_back, m_wall, UA_wall, points, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Pressure tests')

@@ -403,6 +403,44 @@ def _display(system):
     return show
 
 
+def _one_call(text: str) -> bool:
+    """Whether a working expression is one catalog call and nothing else."""
+    if not text.startswith("JB_") or not text.endswith(")") or "(" not in text:
+        return False
+    depth = 0
+    for i, ch in enumerate(text):
+        depth += ch == "("
+        depth -= ch == ")"
+        if depth == 0 and ch == ")":
+            return i == len(text) - 1
+    return False
+
+
+_PHRASE = re.compile(r"(['\"][^'\"]*? in )([^'\"]+)(['\"])")
+
+
+def _in_units(text: str, system) -> str:
+    """A working expression with each quoted unit phrase it writes (``'Q in J'``,
+    ``'P2 in Pa'``: the catalog's, asking in SI) in *system*'s unit of its quantity, as its
+    values are shown; a phrase that does not parse stays as written.  Phrases a workbook
+    passes in are arguments, substituted later, and never rewritten."""
+
+    def swap(m: re.Match) -> str:
+        sym = m.group(1)[1:-4].strip()
+        try:
+            ph = parse_phrase(f"{sym.removesuffix('2').removesuffix('1')} in {m.group(2)}")
+            kind = ph.kind
+        except (JoulebookError, AttributeError, KeyError):
+            found = eye.unit_kind(m.group(2))  # a symbol of a result (dU): its unit's kind
+            if found is None:
+                return m.group(0)
+            kind = found[0]
+        unit = system.unit(kind)
+        return m.group(1) + (unit or m.group(2)) + m.group(3)
+
+    return _PHRASE.sub(swap, text)
+
+
 def _working(f: Func, si: dict, kinds: dict, units_text) -> tuple[list[Line], object]:
     """The working lines of a call, and the value of its result line (SI) or None."""
     w = f.working
@@ -410,18 +448,20 @@ def _working(f: Func, si: dict, kinds: dict, units_text) -> tuple[list[Line], ob
         return [], None
     ws = unit_system(WORKING_SYSTEM)
     show = _display(ws)
-    steps, res = work_out(w, si, working_call(units_text), show, kinds)
+    steps, res = work_out(
+        w, si, working_call(units_text), show, kinds, text=lambda e: _in_units(e, ws)
+    )
     out = []
     for s in steps + ([res] if res else []):
         kind = s.kind if s is not res else (f.result if f.result not in ("asked",) else None)
         shown = "" if s.value is None else show(s.value, kind if kind != "number" else None)
-        out.append(
-            Line(s.symbol, s.formula, s.substituted, shown, s.error, s.formula.startswith("JB_"))
-        )
+        out.append(Line(s.symbol, s.formula, s.substituted, shown, s.error, _one_call(s.formula)))
     return out, (res.value if res is not None else None)
 
 
-def _sub_call(name, args, text, c: Cell, book, values, engine, whole: bool, result):
+def _sub_call(
+    name, args, text, c: Cell, book, values, engine, whole: bool, result, worked: bool = True
+):
     f = lookup(name)
     argvals, sources = {}, {}
     for a, t in zip(f.all_args, args + [""] * (len(f.all_args) - len(args))):
@@ -456,7 +496,10 @@ def _sub_call(name, args, text, c: Cell, book, values, engine, whole: bool, resu
         si[a.name] = v
     qkinds = {a.name: a.quantity for a in f.all_args if a.quantity}  # numbers held in SI
     try:
-        lines, _ = _working(f, si, qkinds, units_text)
+        # a copied-down row's working is its group's first row's; worked out anyway where a
+        # step carries a plausibility band (a flag may hang on it)
+        band = f.working is not None and f.working.band
+        lines = _working(f, si, qkinds, units_text)[0] if worked or band else []
     except JoulebookError:
         lines = []
     sc = SubCall(
@@ -620,7 +663,7 @@ def _state_flags(argvals: dict) -> list[str]:
         else:
             return []
         med = st.medium
-        if med.ideal:
+        if med.ideal or getattr(med, "info", None) is None:  # no dome: ideal gas, liquid
             return []
         a, va, b, vb = st.si()
         p = med.point(a, va, b, vb, st.shows())
@@ -768,10 +811,14 @@ def _own_label_flags(e: Entry) -> list[str]:
 
 
 def _cut_off_flags(c: Cell, sc: SubCall, engine: Engine, values: dict) -> list[str]:
-    """An array range smaller than the table the call returns: rows or columns cut off."""
+    """An array range smaller than the table the call returns: rows or columns cut off; a
+    table function entered in one cell shows only its first value."""
     box = _box(c)
-    if box is None:
+    table = isinstance(sc._f.example.value, list)  # type: ignore[attr-defined]
+    if box is None and not table:
         return []
+    if box is None:
+        box = (c.row, c.col, c.row, c.col)
     try:
         full = engine.evaluate(c.sheet, c.row, c.col, sc.text, values)
     except Exception:
@@ -785,6 +832,12 @@ def _cut_off_flags(c: Cell, sc: SubCall, engine: Engine, values: dict) -> list[s
     h, w = box[2] - box[0] + 1, box[3] - box[1] + 1
     if n <= h and m <= w:
         return []
+    if h == w == 1:
+        return [
+            f"{sc.function} returns a table of {n} × {m} values but is entered in one cell, "
+            f"which shows only its first value ({fmt(rows[0][0]) if rows and rows[0] else ''}): "
+            f"enter it as an array formula over {n} rows × {m} columns"
+        ]
     return [
         f"the array range {c.array_ref} shows {min(n, h)} × {min(m, w)} of the {n} × {m} "
         f"values {sc.function} returns: rows or columns are cut off; widen the range"
@@ -865,8 +918,14 @@ def build_audit(
     atol: float = 1e-12,
     figures: bool = True,
     progress=None,
+    copies: bool = True,
+    maps: bool = True,
 ) -> Audit:
-    """Every formula cell of *book* explained, with one status and its flags."""
+    """Every formula cell of *book* explained, with one status and its flags.
+
+    ``copies=False`` leaves out the working lines of a copied-down cell that is not the
+    first of its group (:mod:`.groups`; the package shows the working once per group);
+    ``maps=False`` leaves out the per-sheet maps (the package draws its own)."""
     engine = Engine(book)
     outcomes = outcomes if outcomes is not None else engine.run()
     rows = compare(book, outcomes, rtol, atol)
@@ -878,6 +937,14 @@ def build_audit(
     entries: list[Entry] = []
     by_key: dict = {}
     drawn: dict[str, str] = {}  # figure hash -> where it was first drawn
+    firsts = None
+    if not copies:
+        from .groups import runs
+
+        firsts = {
+            r.keys[0]
+            for r in runs(((c.sheet, c.row, c.col), c.raw_formula or c.formula) for c in cells)
+        }
     for i, c in enumerate(cells):
         key = (c.sheet, c.row, c.col)
         o = outcomes.get(key)
@@ -893,7 +960,18 @@ def build_audit(
         for j, (name, args, text) in enumerate(found):
             try:
                 calls.append(
-                    _sub_call(name, args, text, c, book, values, engine, whole and j == 0, result)
+                    _sub_call(
+                        name,
+                        args,
+                        text,
+                        c,
+                        book,
+                        values,
+                        engine,
+                        whole and j == 0,
+                        result,
+                        firsts is None or key in firsts or row is None or row.status != "pass",
+                    )
                 )
             except JoulebookError:
                 continue  # an unknown JB_ name: the engine's status names it
@@ -992,7 +1070,8 @@ def build_audit(
         generated=_dt.datetime.now(_dt.timezone.utc).strftime("%Y-%m-%d %H:%M UTC"),
         library=f"joulebook {__version__}; {coolprop_version()}",
     )
-    audit.maps = _maps(audit)
+    if maps:
+        audit.maps = _maps(audit)
     return audit
 
 
@@ -1026,12 +1105,18 @@ def _fingerprint(sc: SubCall) -> str:
         for st in w.steps:
             used |= names_in(st.expr)
     si = sc._si  # type: ignore[attr-defined]
-    payload = repr(
-        (
-            sorted((k, repr(si.get(k))) for k in used),
-            repr(_figure_system(sc._argvals, sc._system).units),  # type: ignore[attr-defined]
-        )
-    )
+    # the path, not the units it is asked in: one figure per path, drawn in the units of the
+    # first cell that asks for it
+    key = {k: si.get(k) for k in used if k != "end_spec"}
+    spec, value = si.get("end_spec"), si.get("end_value")
+    if "end_spec" in used and isinstance(spec, str) and isinstance(value, float):
+        sym, sep, unit = spec.partition(" in ")
+        try:
+            ph = parse_phrase(sym.strip().removesuffix("2") + sep + unit, sc._system)  # type: ignore[attr-defined]
+            key["end_value"] = (ph.symbol, float(f"{ph.conv.to_si(value):.10g}"))
+        except (JoulebookError, AttributeError):
+            key["end_spec"] = spec
+    payload = repr(sorted((k, repr(v)) for k, v in key.items()))
     return hashlib.sha256(payload.encode()).hexdigest()
 
 

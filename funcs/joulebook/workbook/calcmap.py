@@ -53,8 +53,10 @@ def _short(text: str, n: int = 24) -> str:
     return text if len(text) <= n else text[: n - 1] + "…"
 
 
-def calc_map(nodes: list[Node], title: str) -> str:
-    """The SVG of one sheet's nodes (empty text when there is nothing to draw)."""
+def calc_map(nodes: list[Node], title: str, wrap: int | None = None) -> str:
+    """The SVG of one sheet's nodes (empty text when there is nothing to draw).  With
+    *wrap*, at most that many columns of depth stand side by side and deeper ones continue
+    in a band below, so a long chain stays legible on a printed page."""
     if not nodes:
         return ""
     left_out = max(0, len(nodes) - MAX_NODES)
@@ -74,12 +76,20 @@ def calc_map(nodes: list[Node], title: str) -> str:
     cols: dict[int, list[Node]] = {}
     for n in sorted(nodes, key=lambda n: (n.key[1], n.key[2])):
         cols.setdefault(depth[n.key], []).append(n)
+    per = wrap if wrap and wrap > 0 else max(cols) + 1
+    bands = max(cols) // per + 1
+    band_rows = [
+        max((len(cols.get(c, [])) for c in range(b * per, (b + 1) * per)), default=0)
+        for b in range(bands)
+    ]
+    top = [30 + sum(band_rows[:b]) * (_H + _GY) + b * 24 for b in range(bands)]
     pos = {}
     for c, ns in cols.items():
         for i, n in enumerate(ns):
-            pos[n.key] = (10 + c * (_W + _GX), 30 + i * (_H + _GY))
-    width = max(20 + (max(cols) + 1) * (_W + _GX) - _GX, 700)
-    height = 40 + max(len(v) for v in cols.values()) * (_H + _GY) + (16 if left_out else 0)
+            pos[n.key] = (10 + (c % per) * (_W + _GX), top[c // per] + i * (_H + _GY))
+    width = max(20 + min(max(cols) + 1, per) * (_W + _GX) - _GX, 700)
+    width = max(width, max(330, 24 + int(6.8 * (len(title) + 40))) + 330)
+    height = top[-1] + 10 + band_rows[-1] * (_H + _GY) + (16 if left_out else 0)
     out = [
         f'<svg xmlns="http://www.w3.org/2000/svg" class="calcmap" width="{width}" '
         f'height="{height}" viewBox="0 0 {width} {height}" role="img" '
@@ -90,7 +100,7 @@ def calc_map(nodes: list[Node], title: str) -> str:
         f'<text x="10" y="18" font-size="12" font-weight="bold">{_e(title)}: inputs → '
         "joulebook cells → checks</text>",
     ]
-    lx = 330  # the legend, on the title's line
+    lx = max(330, 24 + int(6.8 * (len(title) + 40)))  # the legend, after the title
     for kind, word in _LEGEND:
         out.append(
             f'<rect x="{lx}" y="8" width="12" height="12" rx="2" fill="{_FILL[kind]}" '

@@ -2136,6 +2136,76 @@ class Engine:
             self._values = saved
         return _plain(res.reshape(-1)[0]) if res.size == 1 else res
 
+    def evaluate_columns(self, cells: list, columns: dict) -> dict:
+        """Values of formula *cells* for many sets of input values at once (after :meth:`run`).
+
+        *columns* maps input cells ``(sheet, row, col)`` to sequences of n values; *cells*
+        lists the formula cells to evaluate, each after the cells it reads. Each formula is
+        evaluated once for all n sets in one vectorised call (the column path of
+        :meth:`_run_batch`); every other cell it reads keeps its value from :meth:`run`.
+
+        Returns
+        -------
+        dict
+            ``{key: (values, messages)}``: n plain cell values and n joulebook messages
+            (empty where the element was computed).
+
+        Raises
+        ------
+        ValueError
+            Naming the first cell that cannot be evaluated this way: a formula that is not
+            elementwise, reads a varying cell through a range, or reads where it stands.
+        """
+        n = len(next(iter(columns.values()))) if columns else 0
+        _CURRENT.engine = self  # the error style our functions answer in
+        try:
+            return self._columns(cells, dict(columns), n)
+        finally:
+            _CURRENT.engine = None
+
+    def _columns(self, cells: list, varying: dict, n: int) -> dict:
+        out: dict = {}
+        for key in cells:
+            p = self._plans.get(key)
+            if p is None or key in self._tables:
+                raise ValueError(f"{key}: not a formula cell the engine planned")
+            tpl = p.tpl
+            if tpl.positional or tpl.volatile or tpl.unknown or tpl.dynamic or p.cell.array_ref:
+                raise ValueError(f"{key}: reads where it stands, or is volatile or an array")
+            args = []
+            moving = False
+            for i in p.comp.order:
+                t = p.targets[i] if isinstance(i, int) else None
+                if isinstance(t, _Target) and len(t.sheets) == 1:
+                    r1, c1, r2, c2 = t.box
+                    one = (t.sheets[0], r1, c1)
+                    if r1 == r2 and c1 == c2 and one in varying:
+                        arr = np.empty((n, 1), dtype=object)
+                        arr[:, 0] = [
+                            _as_formula_value(v) if type(v) is tuple else v for v in varying[one]
+                        ]
+                        args.append(arr)
+                        moving = True
+                        continue
+                    if any(
+                        s == t.sheets[0] and r1 <= r <= r2 and c1 <= c <= c2 for s, r, c in varying
+                    ):
+                        raise ValueError(f"{key}: reads a varying cell through a range")
+                args.append(self._input(i, p.targets, tpl, p.cell))
+            if moving and not _elementwise(tpl):
+                raise ValueError(f"{key}: a function that is not elementwise")
+            res = np.asarray(p.comp.fn(*args), dtype=object)
+            flat = res.reshape(-1)
+            if flat.size not in (1, n):
+                raise ValueError(f"{key}: the result is not one value per set")
+            values = [_plain(flat[0] if flat.size == 1 else flat[j]) for j in range(n)]
+            messages = [
+                _message_of_library(flat[0] if flat.size == 1 else flat[j]) for j in range(n)
+            ]
+            varying[key] = values
+            out[key] = (values, messages)
+        return out
+
     def _run_cell(self, key) -> None:
         p: _Plan = self._plans[key]
         c, tpl = p.cell, p.tpl
