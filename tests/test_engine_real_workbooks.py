@@ -10,6 +10,7 @@ import re
 from pathlib import Path
 
 import numpy as np
+from openpyxl.worksheet.formula import ArrayFormula
 from openpyxl.worksheet.table import Table, TableColumn, TableStyleInfo
 
 from joulebook.workbook.engine import Engine
@@ -189,3 +190,20 @@ def test_a_changed_lookup_table_recomputes_the_lookups(tmp_path):
     assert again[("Calc", 1, 2)].value == 55.0 and again[("Calc", 1, 4)].value == 55.0
     assert again[("Calc", 3, 3)].value == ("error", "#N/A")  # "pump" no longer there
     assert again[("Calc", 2, 3)].value == 98  # the others stay
+
+
+def test_a_lookup_of_a_reference_that_index_returns(tmp_path):
+    """MATCH of INDEX(…) (a reference, not a value) over a whole column, as a real workbook
+    finds the first positive reading: hand — D1:D4 = 0, 0, 7, 9: the first positive is 7,
+    in row 3."""
+    cells = {"S!D1": 0.0, "S!D2": 0.0, "S!D3": 7.0, "S!D4": 9.0}
+    for r in range(5, 60):  # a column read by many formulas: handed from the run's cache
+        cells[f"S!E{r}"] = f"=COUNT(D:D)+{r}"
+    cells["S!J20"] = "=MATCH(TRUE,D:D>0,0)"  # a plain formula: D:D>0 meets row 20 (blank)
+
+    def array(wb):  # as the real workbook saves it: an array formula (dynamic array)
+        wb["S"]["J19"] = ArrayFormula("J19", "=MATCH(INDEX(D:D,MATCH(TRUE,D:D>0,0)),D:D,0)")
+
+    out = outcomes(build(tmp_path / "f.xlsx", cells, array))
+    assert out["S!J19"].value == 3 and not out["S!J19"].problem
+    assert out["S!J20"].value == ("error", "#N/A")  # Excel reference: implicit intersection

@@ -113,6 +113,8 @@ def _exact_key(v):
         if v.size != 1:
             return None
         v = v.reshape(-1)[0]
+    if not isinstance(v, (str, bool, int, float, np.number, np.bool_)):
+        return None  # a reference, an error, a blank: the library's own way
     try:
         t = _get_type_id(v)
     except Exception:
