@@ -198,7 +198,10 @@ def test_worker_answers_as_the_cell_path():
     assert answer({"f": "JB_CONVERT", "a": [None, "bar", "kPa"]})["v"] is None
     assert answer({"f": "JB_PROP", "a": ARGS, "e": "loud"})["v"] == joulebook.call("JB_PROP", *ARGS)
     assert answer({"f": "JB_NOPE", "a": []})["v"].startswith("BadInput: ")
-    assert answer({"a": []})["v"].startswith("InternalError: ")
+    assert (
+        answer({"a": []})["v"]
+        == 'BadInput: request: the request names no function ("f" must be a text)'
+    )
 
 
 def test_worker_serves_lines_and_never_a_traceback():
@@ -209,7 +212,9 @@ def test_worker_serves_lines_and_never_a_traceback():
     serve(source, sink)
     lines = [json.loads(x) for x in sink.getvalue().splitlines()]
     assert lines[0]["v"] == pytest.approx(joulebook.call("JB_PROP", *ARGS), rel=1e-15)
-    assert lines[1]["v"].startswith("InternalError: ") and "Traceback" not in lines[1]["v"]
+    assert (
+        lines[1]["v"].startswith("BadInput: request: not JSON") and "Traceback" not in lines[1]["v"]
+    )
     assert lines[2]["v"].startswith("BadInput: ")
 
 

@@ -63,12 +63,13 @@ def test_shared_and_array_formulas_hidden_rows_and_filters(tmp_path):
 
 
 @pytest.mark.parametrize(
-    "rows",
+    "rows, why",
     [
-        b'<row r="1"><c r="A1"><v>1</v></c>',  # not closed
-        b'<row r="1"><c r="A1" t="s"><v>x</v></c></row>',  # a shared-string index that is text
+        (b'<row r="1"><c r="A1"><v>1</v></c>', "is not safe, well-formed XML"),  # not closed
+        # a shared-string index that is text
+        (b'<row r="1"><c r="A1" t="s"><v>x</v></c></row>', "holds a cell that cannot be read"),
     ],
 )
-def test_malformed_sheets_are_refused_by_name(tmp_path, rows):
-    with pytest.raises(BadInput, match="sheet 'S' is not safe, well-formed XML"):
+def test_malformed_sheets_are_refused_by_name(tmp_path, rows, why):
+    with pytest.raises(BadInput, match=f"sheet 'S' {why}"):
         _book(tmp_path, rows)

@@ -467,3 +467,18 @@ def test_command_line_exit_codes_and_outputs(tmp_path, capsys):
     # a result whose coefficient is refused: exit 1
     step = build(tmp_path / "step.xlsx", {"S!B1": 100.0, "S!B2": "=IF(B1>100,2*B1,B1)"})
     assert main(["sensitivity", str(step)]) == 1
+
+
+def test_diff_and_sensitivity_refuse_what_is_not_a_regular_file_and_name_it(tmp_path, capsys):
+    # the guards of check, recalc and audit hold for every verb (docs/ci.md exit codes)
+    import os
+
+    fifo = tmp_path / "pipe.xlsx"
+    os.mkfifo(fifo)
+    book = gas_book(tmp_path)
+    assert main(["sensitivity", str(fifo)]) == 2
+    assert main(["diff", str(book), str(fifo)]) == 2
+    err = capsys.readouterr().err
+    assert err.count("pipe.xlsx") >= 2
+    # an output that is the other input is refused before any work
+    assert main(["diff", str(book), str(book), "--json", str(book)]) == 2

@@ -31,7 +31,7 @@ if TYPE_CHECKING:  # the real types for type checkers; at run time they load on 
         work_polytropic,
         work_pv,
     )
-    from .units import registry
+    from .units import registry, set_gauge_atmosphere
 
 __version__ = "0.1.0"
 
@@ -42,6 +42,7 @@ __all__ = [
     "State",
     "Process",
     "registry",
+    "set_gauge_atmosphere",
     "work_isobaric",
     "work_isothermal",
     "work_polytropic",
@@ -56,12 +57,13 @@ __all__ = [
 ]
 
 #: names served lazily by joulebook.api (and the registry by joulebook.units)
-_API = frozenset(__all__) - {"__version__", "call", "registry"}
+_API = frozenset(__all__) - {"__version__", "call", "registry", "set_gauge_atmosphere"}
 
 
 def __dir__() -> list[str]:
-    """The names served on first use are listed too (tab completion finds State, call …)."""
-    return sorted(set(globals()) | set(__all__))
+    """The API only: the names of ``__all__`` (served on first use); no helper names, no
+    modules imported so far (tab completion finds State, call …)."""
+    return sorted(__all__)
 
 
 def __getattr__(name: str) -> Any:
@@ -81,8 +83,8 @@ def __getattr__(name: str) -> Any:
         from . import api
 
         return getattr(api, name)
-    if name == "registry":
-        from .units import registry
+    if name in ("registry", "set_gauge_atmosphere"):
+        from . import units
 
-        return registry
+        return getattr(units, name)
     raise AttributeError(f"module 'joulebook' has no attribute {name!r}")

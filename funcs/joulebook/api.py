@@ -43,8 +43,9 @@ from . import firstlaw
 from .errors import BadInput, JoulebookError
 from .media import Point, medium
 from .processes import blockedin, solve, work
+from .quantities import StateLike
 from .substances import fluids
-from .units import KIND_WORDS, SYMBOLS, registry, unit_system
+from .units import KIND_WORDS, SYMBOLS, Conv, registry, unit_system
 
 __all__ = [
     "Q_",
@@ -108,7 +109,10 @@ def Q_(value: QuantityLike, unit: str = "") -> Any:
         The magnitude.
     unit : str
         A unit pint reads (``"degC"``, ``"bar"``, ``"kJ/kg"``, ``"L"``), plus the project's
-        own definitions (``Btu_it``, ``TR``, ``scf``, ``inch_water``).  Empty: dimensionless.
+        own definitions (``Btu_it``, ``TR``, ``scf``, ``inch_water``) and gauge pressures
+        (``barg``, ``kPag``, ``MPag``, ``mbarg``, ``psig``, ``Pag``: offset units against
+        the atmosphere :func:`joulebook.units.set_gauge_atmosphere` states, 101.325 kPa by
+        default; like ``degC`` they are converted before arithmetic).  Empty: dimensionless.
 
     Returns
     -------
@@ -130,6 +134,8 @@ def Q_(value: QuantityLike, unit: str = "") -> Any:
     <Quantity(200.0, 'kilopascal')>
     >>> Q_(25, "degC").to("K")
     <Quantity(298.15, 'kelvin')>
+    >>> Q_(0.5, "barg").to("kPa")                        # doctest: +ELLIPSIS
+    <Quantity(151.325..., 'kilopascal')>
     """
     ureg = registry()
     if type(value).__module__.startswith("pandas"):
@@ -178,6 +184,8 @@ def _si(value: QuantityLike, kind: str, arg: str) -> np.ndarray:
 
 def _out(values: Any, kind: str) -> Any:
     """SI *values* (a float or an array) as a quantity of *kind*."""
+    if isinstance(values, np.ma.MaskedArray):
+        return registry().Quantity(values.astype(float), _SI[kind])
     arr = np.asarray(values, dtype=float)
     mag: Any = float(arr) if arr.ndim == 0 else arr
     return registry().Quantity(mag, _SI[kind])
@@ -204,13 +212,43 @@ def _each(fn: Callable[..., Any], *arrays: np.ndarray) -> Any:
 
 
 def _floats(values: Any) -> Any:
+    """Floats of *values*; an object array holding None (masked states) as a masked array."""
+    if isinstance(values, np.ma.MaskedArray):
+        return values.astype(float)
     if isinstance(values, np.ndarray):
+        missing = np.frompyfunc(lambda v: v is None, 1, 1)(values).astype(bool)
+        if missing.any():
+            filled = np.where(missing, 0.0, values)
+            return np.ma.masked_array(filled.astype(float), mask=missing)
         return values.astype(float)
     return float(values)
 
 
+def _conv_of(unit: Any) -> Conv:
+    """The SI map of a pint unit, for messages in the unit the user gave (si = x·f + offset)."""
+    ureg = registry()
+    zero = ureg.Quantity(0.0, unit).to_base_units().magnitude
+    one = ureg.Quantity(1.0, unit).to_base_units().magnitude
+    return Conv(float(one - zero), float(zero), f"{unit:~P}")
+
+
 # ---------------------------------------------------------------------------------------
 # states
+
+
+def _as_written(phrase: Any, value: float) -> Any:
+    """A state text's value as a quantity in its own unit when pint reads that unit to the
+    same SI value as the worksheet does (``25 degC``, ``2 barg``); else the SI number (a
+    worksheet-only spelling such as ``m3/kg`` or ``kPag @ 95 kPa`` is never guessed at)."""
+    si = float(phrase.conv.to_si(value))
+    if not phrase.unit or phrase.kind not in _SI or phrase.kind == "dimensionless":
+        return si
+    try:
+        q = registry().Quantity(value, phrase.unit)
+        same = abs(float(q.to(_SI[phrase.kind]).magnitude) - si) <= 1e-12 * max(abs(si), 1.0)
+    except Exception:  # pint does not read the worksheet spelling: keep the SI number
+        return si
+    return q if same else si
 
 
 def _spec_of(med: Any, p: Point) -> tuple[str, float, str, float]:
@@ -222,10 +260,19 @@ def _spec_of(med: Any, p: Point) -> tuple[str, float, str, float]:
     return "T", p.T, "P", p.P
 
 
-class State:
+class State(StateLike):
     """A state of a substance, fixed by two properties given as quantities or SI numbers.
 
-    The properties read back are quantities in SI units; convert them with ``.to(...)``.
+    The properties read back are quantities in the units the state was given in (T given in
+    degC reads back in degC, P in barg in barg; gauge units are read against the registry's
+    atmosphere, see :func:`joulebook.units.set_gauge_atmosphere`), any other quantity in SI
+    units; convert them with ``.to(...)`` or ``.m_as(...)``.  Range errors name the values in
+    the units given.
+
+    A state of arrays behaves as an array of states: ``len(st)``, ``st[3]``, ``st[1:4]``,
+    ``st[st.mask == False]``, ``for one in st``, :meth:`to_dict`, :meth:`to_frame`.  With
+    ``errors="mask"`` the elements that cannot be fixed are masked (:attr:`mask`) with the
+    reason (:attr:`reasons`) instead of raising; their properties read as masked values.
     With the mass (``m``) or the total volume (``V``) the state is a closed system that the
     process methods (:meth:`rigid`, :meth:`isobaric`, :meth:`isothermal`,
     :meth:`isentropic`, :meth:`polytropic`, :meth:`linear`, :meth:`stops`) take to an end
@@ -245,6 +292,9 @@ class State:
         Mass of the system (kg).
     V : quantity or float or array_like, optional
         Total volume of the system (m³); the mass is then m = V/v.  Give m or V, not both.
+    errors : {"raise", "mask"}, optional
+        For arrays: ``"raise"`` (default) raises the first failing element's error with its
+        index; ``"mask"`` masks the failing elements and keeps their reasons.
 
     Raises
     ------
@@ -279,6 +329,13 @@ class State:
     >>> hot = State("water", T=Q_([100, 200], "degC"), x=1)
     >>> hot.P.to("bar").magnitude.round(4)
     array([ 1.0142, 15.5493])
+    >>> State("water", T=Q_(25, "degC"), P=Q_(0.5, "barg"))
+    <State water: T = 25 °C, P = 0.5 barg, compressed liquid>
+    >>> col = State("water", T=Q_([20, 150, 3000], "degC"), P=Q_(1, "bar"), errors="mask")
+    >>> len(col), col.mask.tolist()
+    (3, [False, False, True])
+    >>> col[0].phase, col[1].phase
+    ('compressed liquid', 'superheated vapor')
     """
 
     def __init__(
@@ -295,6 +352,7 @@ class State:
         x: QuantityLike = None,
         m: QuantityLike = None,
         V: QuantityLike = None,
+        errors: str = "raise",
     ) -> None:
         if not isinstance(substance, str) or not substance.strip():
             raise BadInput(f"substance must be a fluid name such as 'water' (got {substance!r})")
@@ -311,20 +369,205 @@ class State:
             raise BadInput(
                 f"{substance}: give exactly two of T, P, v, rho, u, h, s, x (got {names})"
             )
+        if errors not in ("raise", "mask"):
+            raise BadInput(f"errors = {errors!r}: give 'raise' or 'mask'")
         (a, va), (b, vb) = given.items()
         self._med = medium(substance, unit_system(_SI_SYSTEM))
+        self._units = {
+            SYMBOLS[k]: val.units
+            for k, val in (*given.items(), ("m", m), ("V", V))
+            if _is_quantity(val) and SYMBOLS[k] != "dimensionless"
+        }
         sa, sb = _si(va, SYMBOLS[a], a), _si(vb, SYMBOLS[b], b)
-        med = self._med
-        self._pts = _each(lambda p, q: med.point(a, p, b, q), sa, sb)
-        self._spec: tuple[str, np.ndarray, str, np.ndarray] | None = (a, sa, b, sb)
+        try:
+            ga, gb = np.broadcast_arrays(sa, sb)
+        except ValueError:
+            raise BadInput(
+                f"{a} and {b} do not broadcast together (shapes {sa.shape}, {sb.shape})"
+            ) from None
+        self._spec: tuple[str, np.ndarray, str, np.ndarray] | None = (a, ga, b, gb)
+        self._why: Any = None
+        self._pts = self._fix(a, ga, b, gb, errors == "mask")
         self._m = self._mass(m, V)
 
     # --- construction ----------------------------------------------------------------
     @classmethod
-    def _of(cls, med: Any, pts: Any, m: Any) -> State:
+    def _of(cls, med: Any, pts: Any, m: Any, units: dict | None = None) -> State:
         st = cls.__new__(cls)
         st._med, st._pts, st._spec, st._m = med, pts, None, m
+        st._units, st._why = dict(units or {}), None
         return st
+
+    def _shows(self) -> dict[str, Conv]:
+        """Symbol -> the SI map of the unit given, for messages in the user's units."""
+        return {
+            sym: _conv_of(self._units[kind])
+            for sym, kind in SYMBOLS.items()
+            if kind in self._units and sym in ("T", "P", "v", "rho", "u", "h", "s")
+        }
+
+    def _fix(self, a: str, ga: np.ndarray, b: str, gb: np.ndarray, mask: bool) -> Any:
+        """The points of the state (an object array for arrays); failures raise, with the
+        index, or (*mask*) leave None and their error in ``self._why``."""
+        med, shows = self._med, self._shows() or None
+        if ga.shape == ():
+            return med.point(a, float(ga), b, float(gb), shows)
+        out = np.empty(ga.shape, dtype=object)
+        why = np.full(ga.shape, None, dtype=object)
+        for idx in np.ndindex(ga.shape):
+            try:
+                out[idx] = med.point(a, float(ga[idx]), b, float(gb[idx]), shows)
+            except JoulebookError as e:
+                if not mask:
+                    raise type(e)(f"at index {idx}: {e.message}") from None
+                why[idx] = e
+        if mask:
+            self._why = why
+        return out
+
+    def cell_text(self) -> Any:
+        """The state text a worksheet call takes (an array of texts for an array state).
+
+        Returns
+        -------
+        str or numpy.ndarray
+            :attr:`text`, element by element for arrays.
+
+        Raises
+        ------
+        BadInput
+            Masked elements (take ``st[~st.mask]`` first).
+
+        Examples
+        --------
+        >>> State("water", T=300, P=2e5).cell_text()
+        'water | T = 300 K | P = 200000 Pa'
+        """
+        if not isinstance(self._pts, np.ndarray):
+            return self.text
+        if self.mask.any():
+            raise BadInput("the state has masked elements: take st[~st.mask] first")
+        out = np.empty(self._pts.shape, dtype=object)
+        for idx in np.ndindex(self._pts.shape):
+            out[idx] = self[idx].text
+        return out
+
+    # --- an array of states ----------------------------------------------------------
+    def __len__(self) -> int:
+        if not isinstance(self._pts, np.ndarray):
+            raise TypeError("a single State has no len(); it is not an array of states")
+        return len(self._pts)
+
+    def __iter__(self) -> Any:
+        for i in range(len(self)):
+            yield self[i]
+
+    def __getitem__(self, key: Any) -> State:
+        pts = self._pts
+        if not isinstance(pts, np.ndarray):
+            raise TypeError("a single State cannot be indexed; it is not an array of states")
+        if isinstance(key, State):
+            raise TypeError("index a State with integers, slices or a boolean mask")
+        try:
+            sub = pts[key]
+        except IndexError as e:
+            raise IndexError(f"State index {key!r}: {e} (shape {pts.shape})") from None
+        why = None if self._why is None else self._why[key]
+        if isinstance(why, JoulebookError):  # a single masked element: its own error
+            raise type(why)(f"element {key!r} is masked: {why.message}")
+        st = State._of(self._med, sub, None, self._units)
+        if self._spec is not None:
+            a, ga, b, gb = self._spec
+            st._spec = (a, ga[key], b, gb[key])
+        if self._m is not None:
+            st._m = np.broadcast_to(self._m, pts.shape)[key]
+        if isinstance(sub, np.ndarray):
+            st._why = why
+        return st
+
+    @property
+    def mask(self) -> Any:
+        """Boolean array, True where the element could not be fixed (``errors="mask"``);
+        False for a single state."""
+        if not isinstance(self._pts, np.ndarray):
+            return False
+        if self._why is None:
+            return np.zeros(self._pts.shape, dtype=bool)
+        return np.frompyfunc(lambda e: e is not None, 1, 1)(self._why).astype(bool)
+
+    @property
+    def reasons(self) -> Any:
+        """Object array: the error message of each masked element, None elsewhere."""
+        if not isinstance(self._pts, np.ndarray):
+            return None
+        if self._why is None:
+            return np.full(self._pts.shape, None, dtype=object)
+        return np.frompyfunc(lambda e: None if e is None else e.cell_text(), 1, 1)(self._why)
+
+    def to_dict(self, *names: str) -> dict[str, Any]:
+        """Properties by symbol, as quantities (masked where the state is masked).
+
+        Parameters
+        ----------
+        *names : str
+            Property symbols as :meth:`prop` takes (default ``T P v u h s phase``).
+
+        Returns
+        -------
+        dict
+            Symbol -> quantity (the phase: text); ``"reason"`` too when elements are masked.
+
+        Examples
+        --------
+        >>> st = State("water", T=Q_([20, 40], "degC"), P=Q_(1, "bar"))
+        >>> st.to_dict("T", "phase")["T"]
+        <Quantity([20. 40.], 'degree_Celsius')>
+        """
+        out = {name: self.prop(name) for name in (names or _TABLE)}
+        if isinstance(self._pts, np.ndarray) and self._why is not None and self.mask.any():
+            out["reason"] = self.reasons
+        return out
+
+    def to_frame(self, *names: str) -> Any:
+        """The properties as a pandas DataFrame, one row per state (pandas must be installed).
+
+        Parameters
+        ----------
+        *names : str
+            Property symbols (default ``T P v u h s phase``).
+
+        Returns
+        -------
+        pandas.DataFrame
+            Columns ``"T [°C]"``, ``"P [bar]"`` … (the unit in the header, floats below);
+            masked rows hold no value (NaN) and a ``reason`` column says why.
+
+        Raises
+        ------
+        BadInput
+            pandas is not installed (use :meth:`to_dict`), or a state of more than one axis.
+
+        Examples
+        --------
+        >>> st = State("water", T=Q_([20, 40], "degC"), P=Q_(1, "bar"))
+        >>> list(st.to_frame("T", "P").columns)
+        ['T [°C]', 'P [bar]']
+        """
+        try:
+            import pandas as pd
+        except ImportError:
+            raise BadInput("to_frame needs pandas (pip install pandas); use to_dict()") from None
+        if isinstance(self._pts, np.ndarray) and self._pts.ndim != 1:
+            raise BadInput(f"to_frame takes a 1-D state (shape {self._pts.shape}); ravel it")
+        cols: dict[str, Any] = {}
+        for name, val in self.to_dict(*names).items():
+            if _is_quantity(val):
+                mag = val.magnitude
+                data = mag.filled(np.nan) if isinstance(mag, np.ma.MaskedArray) else mag
+                cols[f"{name} [{val.units:~P}]"] = np.atleast_1d(data)
+            else:
+                cols[name] = np.atleast_1d(np.asarray(val, dtype=object))
+        return pd.DataFrame(cols)
 
     @classmethod
     def from_text(cls, text: str, m: QuantityLike = None, V: QuantityLike = None) -> State:
@@ -351,14 +594,16 @@ class State:
         Examples
         --------
         >>> st = State.from_text("water | T = 25 degC | P = 200 kPa")
-        >>> st.P
-        <Quantity(200000.0, 'pascal')>
+        >>> st.P                                   # in the unit of the text, as pint reads it
+        <Quantity(200.0, 'kilopascal')>
         """
         from .states import parse_state
 
         parsed = parse_state(text)
-        a, va, b, vb = parsed.si()
-        return cls(parsed.fluid, **{a: va, b: vb}, m=m, V=V)
+        given: dict[str, Any] = {}
+        for phrase, value in parsed.specs:
+            given[phrase.symbol] = _as_written(phrase, value)
+        return cls(parsed.fluid, **given, m=m, V=V)
 
     def _mass(self, m: QuantityLike, V: QuantityLike) -> Any:
         if m is not None and V is not None:
@@ -372,40 +617,41 @@ class State:
             vol = _si(V, "volume", "V")
             if not np.all(vol > 0):
                 raise BadInput("V: the volume of the system must be > 0")
-            return vol / self._field("v")
+            return vol / _floats(self._field("v"))
         return None
 
     # --- reading -----------------------------------------------------------------------
-    def _field(self, name: str) -> Any:
+    def _map(self, fn: Callable[[Any, Point], Any]) -> Any:
+        """``fn(idx, point)`` over the points (masked elements give None; with errors="mask"
+        a property that fails on an element is None there too)."""
         pts = self._pts
-        if isinstance(pts, np.ndarray):
-            return np.vectorize(lambda p: getattr(p, name), otypes=[object])(pts)
-        return getattr(pts, name)
+        if not isinstance(pts, np.ndarray):
+            return fn((), pts)
+        out = np.full(pts.shape, None, dtype=object)
+        for idx in np.ndindex(pts.shape):
+            if pts[idx] is None:
+                continue
+            try:
+                out[idx] = fn(idx, pts[idx])
+            except JoulebookError as e:
+                if self._why is None:
+                    raise type(e)(f"at index {idx}: {e.message}") from None
+        return out
+
+    def _field(self, name: str) -> Any:
+        return self._map(lambda idx, p: getattr(p, name))
 
     def _read(self, want: str) -> Any:
         """SI values (floats or text) of property *want*."""
         if want in _POINT_FIELDS or want == "phase":
             return self._field(want)
         if want == "rho":
-            return 1.0 / _floats(self._field("v"))
+            return self._map(lambda idx, p: 1.0 / p.v)
         med = self._med
         if self._spec is not None:
-            a, sa, b, sb = self._spec
-            return _each(lambda p, q: med.read(want, a, p, b, q), sa, sb)
-        pts = self._pts
-
-        def one(p: Point) -> Any:
-            return med.read(want, *_spec_of(med, p))
-
-        if isinstance(pts, np.ndarray):
-            out = np.empty(pts.shape, dtype=object)
-            for idx in np.ndindex(pts.shape):
-                try:
-                    out[idx] = one(pts[idx])
-                except JoulebookError as e:
-                    raise type(e)(f"at index {idx}: {e.message}") from None
-            return out
-        return one(pts)
+            a, ga, b, gb = self._spec
+            return self._map(lambda idx, p: med.read(want, a, float(ga[idx]), b, float(gb[idx])))
+        return self._map(lambda idx, p: med.read(want, *_spec_of(med, p)))
 
     def prop(self, name: str) -> Any:
         """Any property the worksheet's ``JB_PROP`` offers, as a quantity in SI units.
@@ -443,7 +689,12 @@ class State:
             return self._read("phase")
         if name not in fluids.OUTPUTS or name not in SYMBOLS:
             raise BadInput(f"unknown property {name!r}; use one of {' '.join(fluids.OUTPUTS)}")
-        return _out(_floats(self._read(name)), SYMBOLS[name])
+        return self._as_given(_out(_floats(self._read(name)), SYMBOLS[name]), SYMBOLS[name])
+
+    def _as_given(self, q: Any, kind: str) -> Any:
+        """*q* in the unit the state was given its quantity of *kind* in (else SI)."""
+        unit = self._units.get(kind)
+        return q if unit is None else q.to(unit)
 
     @property
     def T(self) -> Any:
@@ -518,12 +769,13 @@ class State:
     @property
     def m(self) -> Any:
         """Mass of the system (kg); BadInput when the state was given without m or V."""
-        return _out(self._need_mass(), "mass")
+        return self._as_given(_out(self._need_mass(), "mass"), "mass")
 
     @property
     def V(self) -> Any:
         """Total volume m·v of the system (m³)."""
-        return _out(self._need_mass() * _floats(self._field("v")), "volume")
+        vol = _out(self._need_mass() * _floats(self._field("v")), "volume")
+        return self._as_given(vol, "volume")
 
     @property
     def substance(self) -> str:
@@ -538,7 +790,7 @@ class State:
         from .states import format_number
 
         a, va, b, vb = (
-            (self._spec[0], float(self._spec[1]), self._spec[2], float(self._spec[3]))
+            (self._spec[0], float(self._spec[1][()]), self._spec[2], float(self._spec[3][()]))
             if self._spec is not None
             else _spec_of(self._med, self._pts)
         )
@@ -552,8 +804,14 @@ class State:
     def __repr__(self) -> str:
         pts = self._pts
         if isinstance(pts, np.ndarray):
-            return f"<State {self.substance}: {pts.size} states, shape {pts.shape}>"
-        return f"<State {self.substance}: T = {pts.T:.6g} K, P = {pts.P:.6g} Pa, {pts.phase}>"
+            masked = int(self.mask.sum())
+            tail = f", {masked} masked" if masked else ""
+            return f"<State {self.substance}: {pts.size} states, shape {pts.shape}{tail}>"
+        T, P = self.T, self.P
+        return (
+            f"<State {self.substance}: T = {T.magnitude:.6g} {T.units:~P}, "
+            f"P = {P.magnitude:.6g} {P.units:~P}, {pts.phase}>"
+        )
 
     def _need_mass(self) -> Any:
         if self._m is None:
@@ -615,15 +873,19 @@ class State:
         pth = solve.parse_path(path, unit_system(_SI_SYSTEM))
         value = _si(val, "volume" if sym == "V2" else _END_KIND[sym], sym)
         mass = self._need_mass() if m is None else _si(m, "mass", "m")
+        if isinstance(self._pts, np.ndarray) and self.mask.any():
+            raise BadInput("the state has masked elements: take st[~st.mask] first")
         med, pts = self._med, self._pts
         pts_arr = pts if isinstance(pts, np.ndarray) else np.asarray(pts, dtype=object)
         index = np.arange(pts_arr.size).reshape(pts_arr.shape)
 
+        shows = self._shows() or None  # messages in the units the state was given in
+
         def one(i: float, mm: float, target: float) -> solve.Result:
             p1 = pts_arr.reshape(-1)[int(i)]
             if sym == "V2":
-                return solve.solve(med, p1, mm, pth, "v2", target / mm)
-            return solve.solve(med, p1, mm, pth, sym, target)
+                return solve.solve(med, p1, mm, pth, "v2", target / mm, shows)
+            return solve.solve(med, p1, mm, pth, sym, target, shows)
 
         res = _each(one, index, mass, value)
         return Process._from(self, path, res)
@@ -771,6 +1033,9 @@ class State:
         return self.process(f"stops V = {vol!r} m3", m=m, **end)
 
 
+#: the properties of to_dict and to_frame by default
+_TABLE = ("T", "P", "v", "u", "h", "s", "phase")
+
 _END_KIND = {
     "v2": "specific_volume",
     "P2": "pressure",
@@ -834,7 +1099,9 @@ class Process:
                 return np.vectorize(fn, otypes=[object])(res)
             return fn(res)
 
-        end = State._of(start._med, take(lambda r: r.p2), _floats(take(lambda r: r.m)))
+        end = State._of(
+            start._med, take(lambda r: r.p2), _floats(take(lambda r: r.m)), start._units
+        )
         return cls(
             start,
             end,

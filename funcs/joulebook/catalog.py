@@ -22,6 +22,7 @@ import numpy as np
 
 from . import formulas
 from .errors import BadInput, BlankInput, JoulebookError, OutOfRange, cell_text, fmt_value
+from .quantities import cell_values
 from .units import DEFAULT_SYSTEM, unit_system
 from .working import Step, Working
 
@@ -2174,6 +2175,28 @@ def _as_array(v):
     return None
 
 
+def _depth(v, limit: int = 3) -> int:
+    """How deep lists and tuples nest in *v* (counted up to *limit*)."""
+    d = 0
+    while isinstance(v, (list, tuple)) and d < limit:
+        d += 1
+        inner = [x for x in v if isinstance(x, (list, tuple))]
+        if not inner:
+            break
+        v = inner[0] if len(inner) == 1 else max(inner, key=lambda x: _depth(x, limit - d))
+    return d
+
+
+def _array2(arg: Arg, v) -> np.ndarray:
+    """A range given as lists: at most 2 levels (rows of cells), as an object array."""
+    if _depth(v) > 2:
+        raise BadInput(
+            f"{arg.name} is a list nested more than 2 levels deep; a cell takes a value, a "
+            "row, a column or a block (2 levels)"
+        )
+    return np.array(v, dtype=object)
+
+
 def _number(arg: Arg, v, where: str = ""):
     """One cell value as a float (or None when blank)."""
     if _is_missing(v):
@@ -2181,7 +2204,12 @@ def _number(arg: Arg, v, where: str = ""):
     if isinstance(v, (bool, np.bool_)):
         raise BadInput(f"{arg.name}{where} = {v} is a TRUE/FALSE value; a number is needed")
     if isinstance(v, (int, float, np.integer, np.floating)):
-        x = float(v)
+        try:
+            x = float(v)
+        except OverflowError:  # an integer beyond the range of a float
+            raise BadInput(
+                f"{arg.name}{where} = {fmt_value(v)} is beyond the range of a number (±1.8e308)"
+            ) from None
         if not math.isfinite(x):
             raise BadInput(f"{arg.name}{where} = {x} is not a finite number")
         return x
@@ -2264,7 +2292,8 @@ def call(name: str, *values):
 
     Scalars give a scalar; ranges (lists, tuples, numpy arrays) in scalar arguments broadcast
     like numpy and give an array whose failed elements hold their error text and whose
-    elements with a blank input are ``None``.
+    elements with a blank input are ``None``.  From Python an argument may also be a pint
+    quantity or a ``joulebook.State`` (:func:`joulebook.quantities.cell_values`).
 
     Raises
     ------
@@ -2284,7 +2313,11 @@ def call(name: str, *values):
     for i, (typ, qty, opt, default) in enumerate(specs):
         v = values[i] if i < nv else None
         t = type(v)
-        if (t is float or t is int or t is _F64) and typ == "number" and v - v == 0:
+        if (
+            (t is float or t is _F64 or (t is int and -_BIG < v < _BIG))
+            and typ == "number"
+            and (v - v == 0)
+        ):
             x = float(v) if qty is None else system.conv(qty).to_si(float(v))
             if (x < 0.0 or (x == 0.0 and qty != "volume")) and qty in _ABSOLUTE:
                 return _call(f, values)  # refused there, with the argument named
@@ -2313,6 +2346,7 @@ def _call(f: Func, values):
             raise BadInput("units must be a single text, not a range")
         units_text = _text(UNITS_ARG, u)
     system = unit_system(units_text)
+    values = cell_values(f, values, system)  # pint quantities and States from Python
 
     fargs = f.args
     prepared: list = []
@@ -2331,7 +2365,12 @@ def _call(f: Func, values):
         elif arg.type == "range":
             prepared.append(_range(arg, v))
         elif t in _ARRAY_TYPES:
-            a = v if t is np.ndarray else np.array(v, dtype=object)
+            a = v if t is np.ndarray else _array2(arg, v)
+            if a.ndim > 2:
+                raise BadInput(
+                    f"{arg.name} is nested {a.ndim} levels deep; a cell takes a value, a "
+                    "row, a column or a block (2 levels)"
+                )
             if a.size == 1:
                 prepared.append(_cell(arg, a.reshape(-1)[0]))
             elif not f.elementwise:
@@ -2350,6 +2389,7 @@ def _call(f: Func, values):
 
 
 _ARRAY_TYPES = (list, tuple, np.ndarray)
+_BIG = 2**1023  # integers at least this large take the general path (overflow is named)
 _DEFAULT = unit_system(None)
 _F64 = np.float64
 

@@ -173,8 +173,8 @@ def unwrap(value):
     """
     if type(value) is list and len(value) == 1:
         row = value[0]
-        if type(row) is list and len(row) == 1:
-            return row[0]
+        if type(row) is list and len(row) == 1 and not isinstance(row[0], (list, tuple)):
+            return row[0]  # a deeper list stays, and is refused by name
     return value
 
 

@@ -122,6 +122,7 @@ def _progress(quiet: bool = False) -> _Bar:
 
 def _load(path: str, budget=None):
     from .errors import JoulebookError
+    from .runio import regular_file, shown
     from .workbook.budget import TooLarge, run_within
     from .workbook.engine import Engine
     from .workbook.reader import read_book
@@ -129,6 +130,7 @@ def _load(path: str, budget=None):
     bar = _progress()
 
     def work():
+        regular_file(Path(path))
         book = read_book(path)
         return book, Engine(book, progress=_cells_only(bar)).run()
 
@@ -136,12 +138,15 @@ def _load(path: str, budget=None):
         return run_within(budget, work)
     except (JoulebookError, OSError) as e:
         msg = (
-            e.cell_text() if isinstance(e, JoulebookError) else f"cannot read {path}: {e.strerror}"
+            e.cell_text()
+            if isinstance(e, JoulebookError)
+            else f"cannot read {shown(path)}: {e.strerror}"
         )
-        print(msg, file=sys.stderr)
+        name = shown(Path(path).name)
+        print(msg if name in msg else f"{shown(path)}: {msg}", file=sys.stderr)
         return None, None
     except TooLarge as e:
-        print(_too_large(path, e), file=sys.stderr)
+        print(_too_large(shown(path), e), file=sys.stderr)
         return None, None
     finally:
         bar.close()
@@ -159,9 +164,16 @@ def _recalc(ns: argparse.Namespace) -> int:
     import json
 
     from .errors import JoulebookError
+    from .runio import guard_outputs, shown
     from .workbook.check import _same, compare, fmt, summary
+    from .workbook.roundtrip import CopyMismatch
     from .workbook.writer import write_copy
 
+    try:
+        guard_outputs([ns.book], [("-o", ns.output), ("--json", ns.json)])
+    except JoulebookError as e:
+        print(e.cell_text(), file=sys.stderr)
+        return 2
     budget = _budget(ns)
     if budget is None:
         return 2
@@ -173,6 +185,16 @@ def _recalc(ns: argparse.Namespace) -> int:
     except JoulebookError as e:
         print(e.cell_text(), file=sys.stderr)
         return 2
+    except OSError as e:  # a read-only folder, a full disk: the target is named
+        print(f"cannot write {shown(ns.output)}: {e.strerror or e}", file=sys.stderr)
+        return 2
+    except CopyMismatch as e:  # the proof of the copy failed: a defect of ours
+        print(
+            f"joulebook: internal error: nothing written to {ns.output}: the copy would "
+            f"differ from {ns.book} beyond the recomputed values ({e}); please report it",
+            file=sys.stderr,
+        )
+        return 3
     rows = compare(book, outcomes)
     s = summary(rows)
     kept = [r for r in rows if _kept(r)]
@@ -202,9 +224,7 @@ def _recalc(ns: argparse.Namespace) -> int:
             more = "see --json" if not ns.json else f"all in {ns.json}"
             print(f"  … and {len(group) - _SHOWN} more {title} ({more})")
     if ns.json:
-
-        def enc(v):
-            return {"error": v[1]} if isinstance(v, tuple) else v
+        from .workbook.check import json_value as enc
 
         def cell(r):
             return {
@@ -217,14 +237,14 @@ def _recalc(ns: argparse.Namespace) -> int:
             }
 
         report = {
-            "workbook": str(book.path),
-            "output": str(ns.output),
+            "workbook": shown(book.path),
+            "output": shown(ns.output),
             "summary": {**s, "changed": len(changed), "left_as_saved": len(kept)},
             "changed": [cell(r) for r in changed],
             "no_saved_value": [cell(r) for r in new],
             "left_as_saved": [cell(r) for r in kept],
         }
-        if not _write_text(ns.json, json.dumps(report, indent=2, default=str)):
+        if not _write_text(ns.json, json.dumps(report, indent=2, default=str, allow_nan=False)):
             return 2
     return 0
 
@@ -238,25 +258,36 @@ def _kept(r) -> bool:
 
 
 def _write_text(path: str, text: str) -> bool:
-    from pathlib import Path
+    from .runio import write_report
 
-    p = Path(path)
-    try:
-        p.parent.mkdir(parents=True, exist_ok=True)
-        p.write_text(text, encoding="utf-8")
-    except OSError as e:
-        print(f"cannot write {path}: {e.strerror}", file=sys.stderr)
-        return False
-    return True
+    return write_report(path, text)
 
 
 def _check(ns: argparse.Namespace) -> int:
+    from .errors import BadInput
+    from .runio import guard_outputs, shown
     from .workbook.console import failing_rows, summary_words
 
     paths, unmatched = _workbook_paths(ns.books)
     for spec in unmatched:
-        print(f"{spec}: no such workbook (nor a folder or pattern matching any)", file=sys.stderr)
+        print(
+            f"{shown(spec)}: no such workbook (nor a folder or pattern matching any)",
+            file=sys.stderr,
+        )
     if not paths:
+        return 2
+    try:
+        guard_outputs(
+            paths,
+            [
+                ("--json", ns.json),
+                ("--junit", ns.junit),
+                ("--summary", ns.summary),
+                ("--sarif", ns.sarif),
+            ],
+        )
+    except BadInput as e:
+        print(e.cell_text(), file=sys.stderr)
         return 2
     budget = _budget(ns, min(len(paths), ns.jobs or os.cpu_count() or 1))
     if budget is None:
@@ -267,7 +298,7 @@ def _check(ns: argparse.Namespace) -> int:
     bar = _Bar(len(jobs), "workbooks", ns.quiet, least=2)
     try:
         if ns.cluster:
-            results = _on_cluster(ns.cluster, jobs, bar)
+            results = _on_cluster(ns.cluster, jobs, bar, ns.cluster_wait)
             if results is None:
                 return 2
         else:
@@ -344,13 +375,16 @@ def _on_this_machine(jobs: list, n: int, bar: _Bar) -> list[dict]:
     return results
 
 
-def _on_cluster(address: str, jobs: list, bar: _Bar) -> list[dict] | None:
+def _on_cluster(address: str, jobs: list, bar: _Bar, wait: float = 300.0) -> list[dict] | None:
     """Check each workbook on a Dask distributed cluster at *address*.
 
     The workbook's bytes travel with its job, so the workers need joulebook (the same
-    version) but not the files; each result is the one :func:`check_one` gives here."""
+    version) but not the files; each result is the one :func:`check_one` gives here.  A job
+    the cluster loses (its worker died, or no result came for *wait* seconds) is reported
+    as a workbook not checked (exit 2), never waited for forever."""
     try:
-        from distributed import Client, as_completed
+        from distributed import Client
+        from distributed import wait as dask_wait
     except ImportError:
         print("--cluster needs Dask distributed: pip install 'joulebook[cluster]'", file=sys.stderr)
         return None
@@ -370,17 +404,54 @@ def _on_cluster(address: str, jobs: list, bar: _Bar) -> list[dict] | None:
                 bar.step()
                 continue
             futures[client.submit(check_bytes, job, data, pure=False)] = i
-        for fut in as_completed(list(futures)):
-            results[futures[fut]] = fut.result()
-            bar.step()
+        pending = set(futures)
+        while pending:
+            done, pending = _next_done(dask_wait, pending, wait)
+            if not done:  # nothing came back in time: the work is lost, not waited for
+                for fut in pending:
+                    results[futures[fut]] = _unreadable(
+                        jobs[futures[fut]][0],
+                        f"not checked: the cluster at {address} returned no result for "
+                        f"{wait:g} s (workers lost or busy); see --cluster-wait",
+                    )
+                    fut.cancel()
+                break
+            for fut in done:
+                i = futures[fut]
+                try:
+                    results[i] = fut.result()
+                except Exception as e:  # a worker lost (KilledWorker), a cancelled job
+                    results[i] = _unreadable(
+                        jobs[i][0], f"not checked: lost on the cluster ({type(e).__name__})"
+                    )
+                bar.step()
     return results
+
+
+def _next_done(dask_wait, pending: set, wait: float):
+    """(done, still pending) once at least one job finished, or (empty, pending) after
+    *wait* seconds without any."""
+    try:
+        done, rest = dask_wait(list(pending), timeout=wait, return_when="FIRST_COMPLETED")
+    except Exception:  # TimeoutError; a scheduler gone (its connection closed)
+        return set(), pending
+    return set(done), set(rest)
 
 
 _CLUSTER_CONNECT = "15s"  # how long to keep trying to reach the scheduler
 
 
 def _unreadable(path: str, why: str, code: int = 2) -> dict:
-    return {"path": path, "code": code, "message": why, "failing": [], "summary": {}}
+    from .runio import shown, uri
+
+    return {
+        "path": shown(path),
+        "uri": uri(path),
+        "code": code,
+        "message": why,
+        "failing": [],
+        "summary": {},
+    }
 
 
 def check_bytes(job, data: bytes) -> dict:
@@ -431,6 +502,7 @@ def check_one(job, shown_as: str | None = None) -> dict:
 
     *shown_as* is the path the verdict names when the file checked is a copy."""
     from .errors import JoulebookError
+    from .runio import regular_file, shown, uri
     from .workbook.budget import TooLarge, run_within
     from .workbook.check import compare, failing, summary, to_json, to_junit
     from .workbook.engine import Engine
@@ -439,12 +511,21 @@ def check_one(job, shown_as: str | None = None) -> dict:
 
     path, rtol, atol, allow_errors, allow_unsupported, *rest = job
     budget = rest[0] if rest else None
-    res = {"path": shown_as or path, "code": 0, "message": "", "failing": [], "summary": {}}
+    name = shown(shown_as or path)
+    res = {
+        "path": name,
+        "uri": uri(shown_as or path),
+        "code": 0,
+        "message": "",
+        "failing": [],
+        "summary": {},
+    }
 
     def work():
+        regular_file(Path(path))
         book = read_book(path)
-        if shown_as:
-            book.path = Path(shown_as)
+        if shown_as or name != path:
+            book.path = Path(name)
         return book, compare(book, Engine(book).run(), rtol=rtol, atol=atol)
 
     try:
@@ -482,7 +563,9 @@ def _combined_json(results: list, ns, many: bool) -> str:
         else:
             books.append({**json.loads(r["json"]), "exit": r["code"]})
     return json.dumps(
-        {"tolerance": {"rtol": ns.rtol, "atol": ns.atol}, "workbooks": books}, indent=2
+        {"tolerance": {"rtol": ns.rtol, "atol": ns.atol}, "workbooks": books},
+        indent=2,
+        allow_nan=False,
     )
 
 
@@ -528,8 +611,10 @@ def _sarif(results: list) -> str:
 
     ids = list(_SARIF_RULES)
     artifacts, found = [], []
+    from .runio import uri as as_uri
+
     for i, r in enumerate(results):
-        uri = Path(r["path"]).as_posix()
+        uri = r.get("uri") or as_uri(r["path"])
         artifacts.append({"location": {"uri": uri}})
         where = {"artifactLocation": {"uri": uri, "index": i}}
         if r["message"]:
@@ -586,7 +671,7 @@ def _sarif(results: list) -> str:
             }
         ],
     }
-    return json.dumps(log, indent=2, default=str)
+    return json.dumps(log, indent=2, default=str, allow_nan=False)
 
 
 def _summary_markdown(results: list) -> str:
@@ -594,13 +679,15 @@ def _summary_markdown(results: list) -> str:
         "| workbook | verdict | cells | pass | failing |",
         "| --- | --- | ---: | ---: | ---: |",
     ]
+    from .runio import md_cell
+
     verdicts = {0: "holds", 1: "fails", 2: "could not be read", 3: "internal error"}
     for r in results:
         s = r["summary"]
-        name = Path(r["path"]).name.replace("|", "\\|")
+        name = md_cell(Path(r["path"]).name)
         lines.append(
             f"| {name} | {verdicts[r['code']]}"
-            + (f": {r['message']}" if r["message"] else "")
+            + (f": {md_cell(r['message'])}" if r["message"] else "")
             + f" | {s.get('cells', 0)} | {s.get('pass', 0)} | {len(r['failing'])} |"
         )
     return "\n".join(lines) + "\n"
@@ -611,25 +698,29 @@ def _audit(ns: argparse.Namespace) -> int:
 
     from .errors import BadInput
     from .files import atomic_write
+    from .runio import guard_outputs, regular_file, shown
     from .workbook.reader import read_book
 
     out = Path(ns.output)
     t0 = time.perf_counter()
     try:
-        book = read_book(ns.book)
-        if out.resolve() == Path(ns.book).resolve():
-            raise BadInput("the report must not overwrite the workbook")
-        if out.exists() and not ns.force:
-            raise BadInput(f"{out} exists; use --force to replace it")
-        if ns.pdf and Path(ns.pdf).exists() and not ns.force:
-            raise BadInput(f"{ns.pdf} exists; use --force to replace it")
-        if ns.pdf and Path(ns.pdf).resolve() == Path(ns.book).resolve():
-            raise BadInput("the PDF must not overwrite the workbook")
-    except (BadInput, OSError) as e:
-        print(
-            e.cell_text() if isinstance(e, BadInput) else f"cannot read {ns.book}: {e}",
-            file=sys.stderr,
+        guard_outputs(
+            [ns.book],
+            [("-o", ns.output), ("--json", ns.json), ("--xlsx", ns.xlsx), ("--pdf", ns.pdf)],
         )
+        for target in (out, Path(ns.pdf) if ns.pdf else None):
+            if target is not None and target.exists() and not ns.force:
+                raise BadInput(f"{shown(target)} exists; use --force to replace it")
+        regular_file(Path(ns.book))
+        book = read_book(ns.book)
+    except (BadInput, OSError) as e:
+        msg = (
+            e.cell_text()
+            if isinstance(e, BadInput)
+            else f"cannot read {shown(ns.book)}: {e.strerror or e}"
+        )
+        named = shown(Path(ns.book).name) in msg
+        print(msg if named else f"{shown(ns.book)}: {msg}", file=sys.stderr)
         return 2
     budget = _budget(ns)
     if budget is None:
@@ -640,34 +731,41 @@ def _audit(ns: argparse.Namespace) -> int:
     try:
         report, package, text = run_within(budget, _audit_work, book, ns.paper, bar)
     except TooLarge as e:
-        print(_too_large(ns.book, e), file=sys.stderr)
+        print(_too_large(shown(ns.book), e), file=sys.stderr)
         return 2
     finally:
         bar.close()
     from .workbook.package import write_pdf
 
-    atomic_write(out, lambda fh: fh.write(text))
-    if ns.pdf:
-        try:
-            pages = write_pdf(text.decode("utf-8"), Path(ns.pdf))
-        except BadInput as e:
-            print(e.cell_text(), file=sys.stderr)
-            return 2
-        print(f"wrote {ns.pdf}: {_n(pages, 'page')} on {package.paper} paper")
-    if ns.json:
-        from .workbook.audit import to_json
+    target = out
+    pages = 0
+    try:
+        atomic_write(out, lambda fh: fh.write(text))
+        if ns.pdf:
+            target = Path(ns.pdf)
+            pages = write_pdf(text.decode("utf-8"), target)
+        if ns.json:
+            from .workbook.audit import to_json
 
-        data = to_json(report).encode("utf-8")
-        atomic_write(Path(ns.json), lambda fh: fh.write(data))
-    if ns.xlsx:
-        from .workbook.audit import audit_rows
-        from .workbook.writer import add_sheet_copy
+            data = to_json(report).encode("utf-8", "backslashreplace")
+            target = Path(ns.json)
+            target.parent.mkdir(parents=True, exist_ok=True)
+            atomic_write(target, lambda fh: fh.write(data))
+        if ns.xlsx:
+            from .workbook.audit import audit_rows
+            from .workbook.writer import add_sheet_copy
 
-        try:
+            target = Path(ns.xlsx)
             add_sheet_copy(ns.book, ns.xlsx, "joulebook audit", audit_rows(report), force=ns.force)
-        except BadInput as e:
-            print(e.cell_text(), file=sys.stderr)
-            return 2
+    except BadInput as e:
+        print(e.cell_text(), file=sys.stderr)
+        return 2
+    except OSError as e:  # a read-only folder, a full disk: the target is named
+        print(f"cannot write {shown(target)}: {e.strerror or e}", file=sys.stderr)
+        return 2
+    if ns.pdf:
+        print(f"wrote {ns.pdf}: {_n(pages, 'page')} on {package.paper} paper")
+    if ns.xlsx:
         print(f"wrote {ns.xlsx}: a copy of the workbook with a 'joulebook audit' sheet")
     es = report.entries
     passes = sum(e.status == "pass" for e in es)
@@ -692,7 +790,7 @@ def _audit_work(book, paper, bar):
 
     report = build_audit(book, progress=_cells_only(bar), copies=False, maps=False)
     package = build_package(report, paper)
-    return report, package, render_package(package).encode("utf-8")
+    return report, package, render_package(package).encode("utf-8", "backslashreplace")
 
 
 # --- the budget of one workbook: --max-seconds, --max-memory (check, recalc, audit) ------
@@ -743,6 +841,32 @@ def _demo(ns: argparse.Namespace) -> int:
 
     results = run_demo(ns.folder, pdf=not ns.no_pdf)
     return 0 if results else 1
+
+
+def _seconds(text: str) -> float:
+    """A time in seconds: a finite number above 0."""
+    import math
+
+    try:
+        x = float(text)
+    except ValueError:
+        x = math.nan
+    if not (math.isfinite(x) and x > 0):
+        raise argparse.ArgumentTypeError(f"{text!r} is not a number of seconds above 0")
+    return x
+
+
+def _tolerance(text: str) -> float:
+    """A tolerance: a finite number, zero or more (a NaN or infinite one would pass anything)."""
+    import math
+
+    try:
+        x = float(text)
+    except ValueError:
+        x = math.nan
+    if not (math.isfinite(x) and x >= 0):
+        raise argparse.ArgumentTypeError(f"{text!r} is not a finite number of 0 or more")
+    return x
 
 
 def build_parser() -> argparse.ArgumentParser:
@@ -809,8 +933,12 @@ def build_parser() -> argparse.ArgumentParser:
     )
     c.add_argument("--summary", help="write a Markdown table of the verdicts here (CI summaries)")
     c.add_argument("--sarif", help="write a SARIF 2.1.0 log of the failing cells here")
-    c.add_argument("--rtol", type=float, default=1e-9, help="relative tolerance (default 1e-9)")
-    c.add_argument("--atol", type=float, default=1e-12, help="absolute tolerance (default 1e-12)")
+    c.add_argument(
+        "--rtol", type=_tolerance, default=1e-9, help="relative tolerance (default 1e-9)"
+    )
+    c.add_argument(
+        "--atol", type=_tolerance, default=1e-12, help="absolute tolerance (default 1e-12)"
+    )
     c.add_argument("--json", help="write a JSON report here")
     c.add_argument("--junit", help="write a JUnit XML report here (for CI)")
     c.add_argument(
@@ -831,6 +959,14 @@ def build_parser() -> argparse.ArgumentParser:
         metavar="ADDRESS",
         help="check on an existing Dask distributed cluster (e.g. tcp://10.0.0.5:8786); "
         "needs joulebook[cluster] here and on the workers",
+    )
+    c.add_argument(
+        "--cluster-wait",
+        type=_seconds,
+        default=300.0,
+        metavar="SECONDS",
+        help="with --cluster: the longest wait for the next result before the workbooks "
+        "still out are reported as not checked (exit 2); default 300",
     )
     c.add_argument(
         "-q",
@@ -939,8 +1075,14 @@ def main(argv: list[str] | None = None) -> int:
     if not getattr(ns, "run", None):
         parser.print_help()
         return 0
+    from .runio import QuietStream
+
+    out, err = sys.stdout, sys.stderr
+    sys.stdout, sys.stderr = QuietStream(out), QuietStream(err)
     try:
-        return ns.run(ns)
+        code = ns.run(ns)
+        sys.stdout.flush()  # a reader gone now changes nothing: the reports are written
+        return code
     except BrokenPipeError:
         # the reader went away (`joulebook functions | head -1`): stop quietly, as Unix tools
         # do; stdout is pointed at devnull so the interpreter's final flush cannot fail again
@@ -951,6 +1093,8 @@ def main(argv: list[str] | None = None) -> int:
     except Exception as e:  # a defect of ours: exit 3 with the message, never a traceback
         print(f"joulebook: internal error ({type(e).__name__}): {e}", file=sys.stderr)
         return 3
+    finally:
+        sys.stdout, sys.stderr = out, err
 
 
 if __name__ == "__main__":  # pragma: no cover

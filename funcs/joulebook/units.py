@@ -51,6 +51,7 @@ __all__ = [
     "convert",
     "kind_of_unit",
     "DEFAULT_SYSTEM",
+    "set_gauge_atmosphere",
     "registry",
 ]
 
@@ -252,9 +253,10 @@ def _ureg() -> Any:
             if _UREG is None:
                 import pint
 
-                ureg: Any = pint.UnitRegistry()
+                ureg: Any = pint.UnitRegistry(on_redefinition="ignore")
                 for line in _DEFINITIONS:
                     ureg.define(line)
+                _define_gauge(ureg, _GAUGE_ATMOSPHERE[0])
                 _UREG = ureg
     return _UREG
 
@@ -279,6 +281,79 @@ def registry() -> Any:
     3.5169
     """
     return _ureg()
+
+
+#: the atmosphere gauge pressures of the registry are read against (Pa); set_gauge_atmosphere
+_GAUGE_ATMOSPHERE = [STANDARD_ATMOSPHERE]
+#: gauge units of the registry and the absolute unit each counts in (as the worksheet's _GAUGE)
+_PINT_GAUGE = {"Pag": "pascal", "kPag": "kilopascal", "MPag": "megapascal", "barg": "bar",
+               "mbarg": "millibar", "psig": "psi"}  # fmt: skip
+
+
+def _define_gauge(ureg: Any, atmosphere: float) -> None:
+    """(Re)define the gauge units of *ureg* as offset units: absolute = gauge + atmosphere."""
+    for name, unit in _PINT_GAUGE.items():
+        scale = float(ureg.Quantity(1.0, unit).to("pascal").magnitude)
+        ureg.define(f"{name} = {scale!r} * pascal; offset: {float(atmosphere)!r}")
+
+
+def set_gauge_atmosphere(atmosphere: Any) -> float:
+    r"""Set the atmosphere the registry's gauge units (barg, kPag, psig …) are read against.
+
+    .. math:: P_{abs} = P_{gauge} + P_{atm}
+
+    The default is the standard atmosphere, 101.325 kPa [1]_.  The setting applies to every
+    conversion made afterwards (a quantity in barg keeps its gauge number; its absolute value
+    follows the atmosphere in force).  Worksheet formulas are not affected: they state their
+    own reference in the unit text (``kPag @ 95 kPa``).
+
+    Parameters
+    ----------
+    atmosphere : float or pint.Quantity
+        The local atmospheric pressure (Pa when a plain number), 50–110 kPa.
+
+    Returns
+    -------
+    float
+        The atmosphere in force before the call (Pa), to restore it later.
+
+    Raises
+    ------
+    BadInput
+        Not a number or not a pressure.
+    OutOfRange
+        Outside 50–110 kPa.
+
+    References
+    ----------
+    .. [1] ISO 2533:1975, *Standard Atmosphere* (101.325 kPa at sea level).
+
+    Examples
+    --------
+    >>> before = set_gauge_atmosphere(95_000.0)   # a site at about 550 m
+    >>> registry().Quantity(0.0, "kPag").to("kPa")
+    <Quantity(95.0, 'kilopascal')>
+    >>> set_gauge_atmosphere(before)
+    95000.0
+    """
+    if type(atmosphere).__module__.startswith("pint"):
+        try:
+            value = float(atmosphere.to("pascal").magnitude)
+        except Exception:
+            raise BadInput(f"atmosphere = {atmosphere} is not a pressure") from None
+    else:
+        try:
+            value = float(atmosphere)
+        except (TypeError, ValueError):
+            raise BadInput(f"atmosphere = {atmosphere!r} is not a number (Pa)") from None
+    if not 50_000.0 <= value <= 110_000.0:
+        raise OutOfRange(f"atmosphere = {fmt_value(value)} Pa is outside 50–110 kPa")
+    before = _GAUGE_ATMOSPHERE[0]
+    with _UREG_LOCK:
+        _GAUGE_ATMOSPHERE[0] = value
+        if _UREG is not None:
+            _define_gauge(_UREG, value)
+    return before
 
 
 #: units engineers use that pint lacks or spells otherwise [1]_ [2]_ [3]_
@@ -377,8 +452,22 @@ def _clean(text: str) -> str:
     return t
 
 
+#: the longest unit text read: the unit parser (pint's) takes time growing with the square of
+#: a long word's length, and no unit is written in more characters than this
+MAX_UNIT_CHARS = 255
+
+
+def _too_long(text: str) -> None:
+    raise BadInput(
+        f"unit text of {len(text):,} characters ({text[:20]!r}…); the limit is "
+        f"{MAX_UNIT_CHARS} characters"
+    )
+
+
 def _to_pint(text: str, kind: str | None) -> str:
     """Rewrite an engineer's unit spelling into pint syntax."""
+    if len(text.strip()) > MAX_UNIT_CHARS:
+        _too_long(text.strip())
     t = _clean(text)
     # exponent glued to a unit: m3 -> m**3, ft3 -> ft**3, s2 -> s**2
     t = re.sub(r"([A-Za-z])(\d)", r"\1**\2", t)
@@ -442,6 +531,8 @@ def parse_unit(text: str, kind: str) -> Conv:
     if kind not in KINDS:
         raise BadInput(f"unknown quantity kind {kind!r}")
     raw = str(text).strip()
+    if len(raw) > MAX_UNIT_CHARS:
+        _too_long(raw)
     if raw == "" or raw in ("-", "1") and kind == "dimensionless":
         if kind == "dimensionless":
             return Conv(1.0, 0.0, "")
@@ -651,6 +742,10 @@ def kind_of_unit(text: str, _quiet: bool = False) -> str | None:
     >>> kind_of_unit("degF")
     'temperature'
     """
+    if len(str(text).strip()) > MAX_UNIT_CHARS:
+        if _quiet:
+            return None
+        _too_long(str(text).strip())
     raw = _spelled(str(text).strip())
     for word in _IDENT.findall(raw):
         if word in _AMBIGUOUS and not _quiet:
@@ -972,6 +1067,11 @@ def parse_phrase(text: str, system: UnitSystem | None = None, allowed: tuple = (
     >>> p.symbol, p.unit
     ('h', 'kJ/kg')
     """
+    if len(str(text)) > MAX_UNIT_CHARS + 64:  # a symbol, "in" and a unit at most
+        raise BadInput(
+            f"quantity text of {len(str(text)):,} characters ({str(text)[:20]!r}…); the "
+            f"limit is {MAX_UNIT_CHARS + 64} characters"
+        )
     system = system or unit_system(None)
     m = _PHRASE.match(str(text))
     if not m:

@@ -11,7 +11,7 @@ from ..errors import INTERNAL_LABEL, BadInput, NoConvergence, OutOfRange
 from .engine import Outcome
 from .reader import Book, col_letters
 
-__all__ = ["Row", "compare", "failing", "summary", "to_json", "to_junit", "fmt"]
+__all__ = ["Row", "compare", "failing", "summary", "to_json", "to_junit", "fmt", "json_value"]
 
 
 @dataclass
@@ -35,11 +35,30 @@ def fmt(v) -> str:
 
 
 def _same(a, b, rtol: float, atol: float) -> bool:
+    """Equal within the tolerances; a number that is not finite (a saved ``1e999``, a NaN)
+    is never the same as anything, itself included: it cannot pass."""
     if isinstance(a, bool) or isinstance(b, bool):
         return a == b
     if isinstance(a, float) and isinstance(b, float):
-        return abs(a - b) <= atol + rtol * abs(b) or (math.isnan(a) and math.isnan(b))
+        if not (math.isfinite(a) and math.isfinite(b)):
+            return False
+        return abs(a - b) <= atol + rtol * abs(b)
     return a == b
+
+
+def _not_finite(v) -> bool:
+    return isinstance(v, float) and not math.isfinite(v)
+
+
+def json_value(v):
+    """A cell value as strict JSON holds it: an error value as ``{"error": "#N/A"}``, a
+    number that is not finite as ``{"number": "inf"}`` (``"-inf"``, ``"nan"``), since JSON
+    has no token for it (RFC 8259 §6)."""
+    if isinstance(v, tuple):
+        return {"error": v[1]}
+    if _not_finite(v):
+        return {"number": "nan" if v != v else ("inf" if v > 0 else "-inf")}
+    return v
 
 
 #: the labels of joulebook's failure text in a cell (``BadInput: …``), from the error types
@@ -78,6 +97,9 @@ def compare(book: Book, outcomes: dict, rtol: float = 1e-9, atol: float = 1e-12)
             status, note = "pass", ""
         else:
             status, note = "differs", ""
+            if _not_finite(cached) or _not_finite(o.value):
+                which = "saved" if _not_finite(cached) else "recomputed"
+                note = f"the {which} value is not a finite number: it never passes"
         if status == "pass" and o.message:
             # a joulebook failure (its text, or an error value in a workbook whose JB_ERRORS
             # is "values") is a failed cell even when the file saved the same
@@ -132,11 +154,7 @@ def summary(rows: list[Row]) -> dict:
 
 
 def to_json(book: Book, rows: list[Row], rtol: float, atol: float) -> str:
-    def enc(v):
-        if isinstance(v, tuple):
-            return {"error": v[1]}
-        return v
-
+    enc = json_value
     return json.dumps(
         {
             "workbook": str(book.path),
@@ -149,6 +167,7 @@ def to_json(book: Book, rows: list[Row], rtol: float, atol: float) -> str:
             ],
         },
         indent=2,
+        allow_nan=False,
     )
 
 

@@ -100,14 +100,22 @@ def run(ns: argparse.Namespace) -> int:
     if ns.audit and not ns.output:
         print("--audit writes beside the HTML report: give -o/--output too", file=sys.stderr)
         return 2
-    inputs = {Path(ns.old).resolve(), Path(ns.new).resolve()}
-    for p in _outputs(ns):
-        if p.resolve() in inputs:
-            print(f"{p} is an input: the workbooks are never written", file=sys.stderr)
-            return 2
-        if p.exists() and not ns.force:
-            print(f"{p} exists; use --force to replace it", file=sys.stderr)
-            return 2
+    from ..errors import BadInput
+    from ..runio import guard_outputs, regular_file, shown
+
+    try:
+        guard_outputs([ns.old, ns.new], [(str(p), str(p)) for p in _outputs(ns)])
+        for p in _outputs(ns):
+            if p.exists() and not ns.force:
+                raise BadInput(f"{shown(p)} exists; use --force to replace it")
+        for src in (ns.old, ns.new):
+            regular_file(Path(src))
+    except BadInput as e:
+        print(e.message, file=sys.stderr)
+        return 2
+    except OSError as e:
+        print(f"cannot read {shown(e.filename or ns.old)}: {e.strerror or e}", file=sys.stderr)
+        return 2
     d, msg = diff_files(ns.old, ns.new, causes=not ns.no_causes)
     if d is None:
         print(msg, file=sys.stderr)

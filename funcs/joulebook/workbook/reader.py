@@ -13,10 +13,13 @@ import gc
 import hashlib
 import posixpath
 import re
+import struct
 import zipfile
+import zlib
 from dataclasses import dataclass, field
 from pathlib import Path
 
+from defusedxml import DefusedXmlException
 from defusedxml import ElementTree as SafeET
 
 from ..errors import BadInput
@@ -35,6 +38,30 @@ __all__ = [
 NS = "{http://schemas.openxmlformats.org/spreadsheetml/2006/main}"
 RNS = "{http://schemas.openxmlformats.org/officeDocument/2006/relationships}"
 PKG_RNS = "{http://schemas.openxmlformats.org/package/2006/relationships}"
+#: Strict Open XML (ISO/IEC 29500 Strict, which Excel can save) names the same elements
+#: in other namespaces: read by renaming them to the transitional ones
+_STRICT = {
+    "http://purl.oclc.org/ooxml/spreadsheetml/main": NS[1:-1],
+    "http://purl.oclc.org/ooxml/officeDocument/relationships": RNS[1:-1],
+}
+
+
+def _transitional(name: str) -> str:
+    """An element or attribute name ("{uri}local" or "uri}local") in the transitional
+    namespace when it is in a Strict one."""
+    for strict, trans in _STRICT.items():
+        if strict in name:
+            return name.replace(strict, trans, 1)
+    return name
+
+
+def _to_transitional(root):
+    """Rename every Strict element and attribute of a parsed part (in place)."""
+    for el in root.iter():
+        el.tag = _transitional(el.tag)
+        for k in [k for k in el.attrib if k.startswith("{http://purl.oclc.org/")]:
+            el.attrib[_transitional(k)] = el.attrib.pop(k)
+    return root
 
 
 @dataclass(frozen=True)
@@ -48,6 +75,9 @@ class Limits:
     max_cells: int = 3_000_000
     max_formulas: int = 1_000_000
     max_text: int = 32_767  # Excel's own cell-text limit
+    max_range_cells: int = 250_000  # cells of one declared range (array, shared, data table)
+    max_formula_chars: int = 8_192  # Excel's own formula-length limit
+    max_nesting: int = 64  # Excel's own limit of nested function calls
 
 
 @dataclass(slots=True)
@@ -127,20 +157,24 @@ class Book:
     hidden_rows: dict[str, set[int]] = field(default_factory=dict)  # sheet -> hidden row numbers
     filtered: set[str] = field(default_factory=set)  # sheets with an AutoFilter
     data_tables: list[DataTable] = field(default_factory=list)  # What-If data tables
+    strict: bool = False  # saved in Strict Open XML (read as the transitional namespace)
 
     def formula_cells(self) -> list[Cell]:
         return [c for c in self.cells.values() if c.formula is not None]
 
 
-_REF = re.compile(r"^\$?([A-Za-z]{1,3})\$?(\d+)$")
+_REF = re.compile(r"^\$?([A-Za-z]{1,3})\$?([0-9]{1,7})$")
 
 
 def split_ref(ref: str) -> tuple[int, int]:
-    """'B12' -> (12, 2)."""
+    """'B12' -> (12, 2); a reference beyond XFD1048576 (Excel's last cell) is refused."""
     m = _REF.match(ref)
     if not m:
-        raise BadInput(f"cell reference {ref!r} is not like A1")
-    return int(m.group(2)), col_number(m.group(1))
+        raise BadInput(f"cell reference {ref[:40]!r} is not like A1")
+    row, col = int(m.group(2)), col_number(m.group(1))
+    if not (1 <= row <= 1_048_576 and col <= 16_384):
+        raise BadInput(f"cell reference {ref!r} lies outside A1:XFD1048576")
+    return row, col
 
 
 def _check_package(zf: zipfile.ZipFile, limits: Limits) -> None:
@@ -164,16 +198,41 @@ def _check_package(zf: zipfile.ZipFile, limits: Limits) -> None:
         raise BadInput(
             f"workbook unpacks to {total // 2**20} MiB; the limit is {limits.max_total_bytes // 2**20} MiB"
         )
+    # every member is unpacked and its checksum checked once, so that check (which reads
+    # some parts) and recalc (which copies them all) agree on what is readable
+    for i in infos:
+        try:
+            with zf.open(i) as fh:
+                while fh.read(1 << 20):
+                    pass
+        except Exception as e:  # bad CRC, damaged deflate stream, unknown method, …
+            raise BadInput(
+                f"part {i.filename[:60]!r} cannot be unpacked ({type(e).__name__}: "
+                f"{str(e)[:80]}): a damaged or unsupported zip package"
+            ) from None
+
+
+def _is_strict(zf: zipfile.ZipFile) -> bool:
+    """True when xl/workbook.xml is in the Strict SpreadsheetML namespace (its first bytes)."""
+    try:
+        with zf.open("xl/workbook.xml") as fh:
+            head = fh.read(4096)
+    except KeyError:
+        return False
+    return b"http://purl.oclc.org/ooxml/spreadsheetml/main" in head
 
 
 def _parse(zf: zipfile.ZipFile, name: str):
     try:
         with zf.open(name) as fh:
-            return SafeET.parse(fh).getroot()
+            root = SafeET.parse(fh).getroot()
     except KeyError:
         return None
     except Exception as e:  # defusedxml refusals and malformed XML
         raise BadInput(f"part {name!r} is not safe, well-formed XML ({type(e).__name__})") from None
+    if root.tag.startswith("{http://purl.oclc.org/"):
+        _to_transitional(root)
+    return root
 
 
 def unescape_text(text: str) -> str:
@@ -271,7 +330,32 @@ def read_book(path: str | Path, limits: Limits | None = None) -> Book:
         malformed / unsafe XML.
     """
     with paused_gc():
-        return _read_book(path, limits)
+        try:
+            return _read_book(path, limits)
+        except (BadInput, OSError, MemoryError):
+            raise
+        except _DAMAGED as e:  # malformed content the checks above did not name
+            from ..runio import shown
+
+            raise BadInput(
+                f"{shown(Path(path).name)}: cannot be read, damaged or unsupported content "
+                f"({type(e).__name__}: {str(e)[:80]})"
+            ) from None
+
+
+#: what malformed package content raises in the libraries the reader uses
+_DAMAGED = (
+    ValueError,  # int()/float() of a bad attribute, a bad escape
+    KeyError,
+    IndexError,
+    EOFError,
+    zipfile.BadZipFile,
+    zlib.error,
+    NotImplementedError,  # an unknown compression method
+    OverflowError,
+    RecursionError,
+    struct.error,
+)
 
 
 def _read_book(path: str | Path, limits: Limits | None) -> Book:
@@ -285,6 +369,7 @@ def _read_book(path: str | Path, limits: Limits | None) -> Book:
         raise BadInput(f"{path.name}: {_not_a_package(data)}") from None
     with zf:
         _check_package(zf, limits)
+        strict = _is_strict(zf)
         wb = _parse(zf, "xl/workbook.xml")
         if wb is None:
             if "mimetype" in zf.namelist() and b"opendocument" in zf.read("mimetype")[:100]:
@@ -293,8 +378,13 @@ def _read_book(path: str | Path, limits: Limits | None) -> Book:
                     "(File → Save As → Excel 2007-365) and check that"
                 )
             raise BadInput(f"{path.name}: no xl/workbook.xml: not an Excel workbook package")
+        if wb.tag != NS + "workbook":
+            raise BadInput(
+                f"{path.name}: xl/workbook.xml is not a SpreadsheetML workbook (its root is "
+                f"{wb.tag[:80]!r}); joulebook reads the transitional and Strict namespaces"
+            )
         rels = _parse(zf, "xl/_rels/workbook.xml.rels")
-        targets = {}
+        targets, types = {}, {}
         ext_links = 0
         if rels is not None:
             for r in rels.iter(PKG_RNS + "Relationship"):
@@ -305,13 +395,23 @@ def _read_book(path: str | Path, limits: Limits | None) -> Book:
                     else posixpath.normpath(posixpath.join("xl", t))
                 )
                 targets[r.get("Id")] = part
+                types[r.get("Id")] = r.get("Type", "")
                 if r.get("Type", "").endswith("/externalLink"):
                     ext_links += 1
         sheets, parts = [], {}
         for s in wb.iter(NS + "sheet"):
             name = s.get("name")
             rid = s.get(RNS + "id")
-            if rid in targets and targets[rid].startswith("xl/worksheets/"):
+            if rid not in targets:
+                raise BadInput(
+                    f"{path.name}: sheet {str(name)[:40]!r} names relationship {str(rid)[:20]!r}, "
+                    "which the workbook does not hold: its cells cannot be read"
+                )
+            # a worksheet by its relationship's type (wherever its part lies); chart,
+            # dialog and macro sheets hold no cells of a calculation
+            if types[rid].endswith("/worksheet") or (
+                not types[rid] and targets[rid].startswith("xl/worksheets/")
+            ):
                 sheets.append(name)
                 parts[name] = targets[rid]
         names, local_names = {}, {}
@@ -337,6 +437,7 @@ def _read_book(path: str | Path, limits: Limits | None) -> Book:
             full_calc_on_load=calc is not None and calc.get("fullCalcOnLoad") in ("1", "true"),
             external_links=ext_links,
             local_names=local_names,
+            strict=strict,
         )
         for i, rid in enumerate(ext_ids, start=1):
             if rid in targets:
@@ -469,7 +570,9 @@ def _shared_strings(zf: zipfile.ZipFile, limits: Limits) -> list[str]:
     with fh:
         try:
             for _ev, el in SafeET.iterparse(fh, events=("end",)):
-                if el.tag == NS + "si":
+                if _transitional(el.tag) == NS + "si":
+                    if el.tag != NS + "si":
+                        _to_transitional(el)
                     out.append(_text_of(el)[: limits.max_text])
                     el.clear()
         except Exception as e:
@@ -480,8 +583,8 @@ def _shared_strings(zf: zipfile.ZipFile, limits: Limits) -> list[str]:
 
 
 _M = NS[1:]  # element names as the parser gives them: "uri}local"
-_C, _F, _V, _IS, _T, _RPH, _ROW, _AUTOFILTER = (
-    _M + x for x in ("c", "f", "v", "is", "t", "rPh", "row", "autoFilter")
+_C, _F, _V, _IS, _T, _RPH, _ROW, _AUTOFILTER, _SHEETDATA = (
+    _M + x for x in ("c", "f", "v", "is", "t", "rPh", "row", "autoFilter", "sheetData")
 )
 
 
@@ -517,21 +620,50 @@ class _SheetHandler:
         self.inline = None  # the <t> texts of its inline string
         self.buf = None  # text being collected
         self.phonetic = 0  # depth inside <rPh> (phonetic runs are not the text)
+        self.root = None  # the name of the part's root element
+        self.row_no = 0  # the row being read: its r, or the one after the previous row
+        self.row_given = False  # the row being read states its r
+        self.col_no = 0  # the column of the last cell read in it
+        # a cell is a <c> of a <row> of the one <sheetData> of the <worksheet> (ECMA-376
+        # Part 1, §18.3.1.99), its value and formula its own children: as the writer finds it
+        self.depth = 0
+        self.in_data = False
+        self.data_seen = False
 
     def start(self, name, attrs):
+        self.depth += 1
+        d = self.depth
+        if self.root is None:
+            self.root = name
+            if name != _M + "worksheet":
+                raise BadInput(
+                    f"sheet {self.sheet!r}: its root element is {name[:80]!r}, not a "
+                    "SpreadsheetML worksheet; its cells cannot be read"
+                )
         if name == _C:
+            if d != 4 or not self.in_data:
+                return  # not a cell of the sheet's data
             self.c, self.f, self.f_text, self.v_text, self.inline = attrs, None, None, None, None
             self.has_v = False
         elif self.c is None:
-            if name == _ROW and attrs.get("hidden") in ("1", "true"):
-                self.book.hidden_rows.setdefault(self.sheet, set()).add(int(attrs.get("r", "0")))
+            if name == _SHEETDATA and d == 2:
+                if self.data_seen:
+                    raise BadInput(f"sheet {self.sheet!r} has two <sheetData> parts of its cells")
+                self.in_data = self.data_seen = True
+            elif name == _ROW and d == 3 and self.in_data:
+                r = attrs.get("r")
+                self.row_given = bool(r and r.isdigit())
+                self.row_no = int(r) if self.row_given else self.row_no + 1
+                self.col_no = 0
+                if attrs.get("hidden") in ("1", "true"):
+                    self.book.hidden_rows.setdefault(self.sheet, set()).add(self.row_no)
             elif name == _AUTOFILTER:
                 self.book.filtered.add(self.sheet)
-        elif name == _F:
+        elif d == 5 and name == _F:
             self.f, self.buf = attrs, []
-        elif name == _V:
+        elif d == 5 and name == _V:
             self.buf, self.has_v = [], True
-        elif name == _IS:
+        elif d == 5 and name == _IS:
             self.inline = []
         elif name == _RPH:
             self.phonetic += 1
@@ -543,15 +675,19 @@ class _SheetHandler:
             self.buf.append(text)
 
     def end(self, name):
-        if name == _C:
+        d = self.depth
+        self.depth -= 1
+        if name == _C and d == 4:
             if self.c is not None:
                 self._cell()
             self.c = None
         elif self.c is None:
+            if name == _SHEETDATA and d == 2:
+                self.in_data = False
             return
-        elif name == _F:
+        elif d == 5 and name == _F:
             self.f_text, self.buf = "".join(self.buf or ()) or None, None
-        elif name == _V:
+        elif d == 5 and name == _V:
             self.v_text, self.buf = "".join(self.buf or ()) or None, None
         elif name == _RPH:
             self.phonetic -= 1
@@ -562,9 +698,16 @@ class _SheetHandler:
     def _cell(self) -> None:
         el, limits, counts, sheet = self.c, self.limits, self.counts, self.sheet
         ref = el.get("r")
-        if ref is None:
-            return
-        row, col = split_ref(ref)
+        if ref is None:  # a cell without r is the one after the previous (§18.3.1.4)
+            row, col = self.row_no, self.col_no + 1
+            ref = f"{col_letters(col)}{row}"
+        else:
+            row, col = split_ref(ref)
+            if row != self.row_no:
+                if self.row_given or self.col_no:
+                    raise BadInput(f"{sheet}!{ref} lies in row {self.row_no} of the sheet")
+                self.row_no = row  # a row without r is its first cell's
+        self.col_no = col
         counts[0] += 1
         if counts[0] > limits.max_cells:
             raise BadInput(
@@ -579,6 +722,25 @@ class _SheetHandler:
                 raise BadInput(f"more than {limits.max_formulas} formula cells; raise the limit")
             ftype = f.get("t", "normal")
             text = self.f_text
+            where = f"{sheet}!{ref}"
+            if text and len(text) > limits.max_formula_chars:
+                raise BadInput(
+                    f"{where}: formula of {len(text):,} characters; the limit is "
+                    f"{limits.max_formula_chars:,} (Excel's own)"
+                )
+            if text and _nesting(text) > limits.max_nesting:
+                raise BadInput(
+                    f"{where}: formula nests more than {limits.max_nesting} levels of "
+                    "parentheses (Excel's own limit)"
+                )
+            if ftype in ("array", "shared", "dataTable") and f.get("ref"):
+                box = declared_range(f.get("ref"), where, limits)
+                counts[0] += (box[2] - box[0] + 1) * (box[3] - box[1] + 1) - 1
+                if ftype == "array" and box[:2] != (row, col):
+                    raise BadInput(
+                        f"{where}: array formula range {f.get('ref')!r} does not start at its "
+                        "own cell"
+                    )
             if ftype == "shared":
                 from openpyxl.formula.translate import Translator
 
@@ -589,7 +751,7 @@ class _SheetHandler:
                     mt, mref = self.masters[si]
                     text = Translator("=" + mt, origin=mref).translate_formula(ref)[1:]
             if ftype == "array":
-                cell.array_ref = f.get("ref") or ref
+                cell.array_ref = _box_text(box) if f.get("ref") else ref
             if ftype == "dataTable":
                 # a What-If data table: every cell of its range is the table's formula
                 # recomputed with other inputs; written as Excel shows it, TABLE(row
@@ -623,7 +785,57 @@ class _SheetHandler:
             else:
                 cell.cached = float(raw)
         if cell.formula is not None or cell.has_cached:
+            if (sheet, row, col) in self.book.cells:
+                raise BadInput(f"{sheet}!{ref} appears twice in the sheet")
             self.book.cells[(sheet, row, col)] = cell
+
+
+def _nesting(text: str) -> int:
+    """The deepest nesting of parentheses in a formula, outside its string literals."""
+    if text.count("(") <= 64:
+        return text.count("(")
+    depth = deepest = 0
+    quoted = False
+    for ch in text:
+        if ch == '"':
+            quoted = not quoted
+        elif quoted:
+            continue
+        elif ch == "(":
+            depth += 1
+            deepest = max(deepest, depth)
+        elif ch == ")":
+            depth -= 1
+    return deepest
+
+
+def _box_text(box: tuple[int, int, int, int]) -> str:
+    r1, c1, r2, c2 = box
+    a = f"{col_letters(c1)}{r1}"
+    return a if (r1, c1) == (r2, c2) else f"{a}:{col_letters(c2)}{r2}"
+
+
+def declared_range(text: str, where: str, limits: Limits) -> tuple[int, int, int, int]:
+    """The box (r1, c1, r2, c2) of a range a part declares (``ref="A1:B4"``), its corners
+    put in order (a reversed ``B4:A1`` is the same box), refused when it is not a range or
+    holds more cells than *limits* allow, before anything is allocated for it."""
+    a, _, b = text.partition(":")
+    try:
+        r1, c1 = split_ref(a.strip())
+        r2, c2 = split_ref((b or a).strip())
+    except BadInput:
+        raise BadInput(f"{where}: range {text[:40]!r} is not like A1:B4") from None
+    r1, r2 = min(r1, r2), max(r1, r2)
+    c1, c2 = min(c1, c2), max(c1, c2)
+    if r2 > 1_048_576 or c2 > 16_384:
+        raise BadInput(f"{where}: range {text[:40]!r} lies beyond the sheet's last cell XFD1048576")
+    n = (r2 - r1 + 1) * (c2 - c1 + 1)
+    if n > limits.max_range_cells:
+        raise BadInput(
+            f"{where}: range {text[:40]!r} declares {n:,} cells; the limit is "
+            f"{limits.max_range_cells:,}"
+        )
+    return r1, c1, r2, c2
 
 
 def _read_sheet(zf, part, sheet, book: Book, shared, limits: Limits, counts) -> None:
@@ -635,11 +847,24 @@ def _read_sheet(zf, part, sheet, book: Book, shared, limits: Limits, counts) -> 
     with fh:
         try:
             expat = _streaming_parser(handler)
+            if book.strict:  # element names renamed to the transitional namespace
+                start, end = handler.start, handler.end
+                expat.StartElementHandler = lambda n, a: start(_transitional(n), a)
+                expat.EndElementHandler = lambda n: end(_transitional(n))
             while chunk := fh.read(1 << 16):
                 expat.Parse(chunk, False)
             expat.Parse(b"", True)
         except BadInput:
             raise
+        except (ValueError, IndexError, KeyError, OverflowError) as e:
+            if isinstance(e, DefusedXmlException):  # an entity, a DTD: refused
+                raise BadInput(
+                    f"sheet {sheet!r} is not safe, well-formed XML ({type(e).__name__})"
+                ) from None
+            raise BadInput(  # raised by a cell: int() of a bad attribute, …
+                f"sheet {sheet!r} holds a cell that cannot be read ({type(e).__name__}: "
+                f"{str(e)[:60]})"
+            ) from None
         except Exception as e:
             raise BadInput(
                 f"sheet {sheet!r} is not safe, well-formed XML ({type(e).__name__})"

@@ -58,21 +58,25 @@ def add_parser(sub) -> argparse.ArgumentParser:
 def run(ns: argparse.Namespace) -> int:
     from ..errors import JoulebookError
     from ..files import atomic_write
+    from ..runio import guard_outputs, regular_file, shown
     from . import sensitivity as S
     from .reader import read_book
 
     book_path = Path(ns.book)
-    outputs = [Path(x) for x in (ns.output, ns.json, ns.summary) if x]
-    if len({p.resolve() for p in outputs}) < len(outputs):
-        print("two outputs name the same file", file=sys.stderr)
+    try:
+        guard_outputs(
+            [ns.book], [("-o", ns.output), ("--json", ns.json), ("--summary", ns.summary)]
+        )
+        for p in [Path(x) for x in (ns.output, ns.json, ns.summary) if x]:
+            if p.exists() and not ns.force:
+                raise JoulebookError(f"{shown(p)} exists; use --force to replace it")
+        regular_file(book_path)
+    except JoulebookError as e:
+        print(e.message, file=sys.stderr)
         return 2
-    for p in outputs:
-        if p.resolve() == book_path.resolve():
-            print(f"{p} is the input: the workbook is never written", file=sys.stderr)
-            return 2
-        if p.exists() and not ns.force:
-            print(f"{p} exists; use --force to replace it", file=sys.stderr)
-            return 2
+    except OSError as e:
+        print(f"cannot read {shown(ns.book)}: {e.strerror or e}", file=sys.stderr)
+        return 2
     if ns.mc < 0:
         print(f"--mc = {ns.mc}: the number of draws must be 0 or more", file=sys.stderr)
         return 2
@@ -95,15 +99,18 @@ def run(ns: argparse.Namespace) -> int:
     except JoulebookError as e:
         print(f"{book_path.name}: {e}", file=sys.stderr)
         return 2
-    if ns.output:
-        html = S.render_html(report).encode("utf-8")
-        atomic_write(Path(ns.output), lambda fh: fh.write(html))
-    if ns.json:
-        data = S.to_json(report).encode("utf-8")
-        atomic_write(Path(ns.json), lambda fh: fh.write(data))
-    if ns.summary:
-        md = S.to_markdown(report).encode("utf-8")
-        atomic_write(Path(ns.summary), lambda fh: fh.write(md))
+    for target, text in (
+        (ns.output, S.render_html),
+        (ns.json, S.to_json),
+        (ns.summary, S.to_markdown),
+    ):
+        if target:
+            data = text(report).encode("utf-8", "backslashreplace")
+            try:
+                atomic_write(Path(target), lambda fh, data=data: fh.write(data))
+            except OSError as e:  # a read-only folder, a full disk: the target is named
+                print(f"cannot write {shown(target)}: {e.strerror or e}", file=sys.stderr)
+                return 2
     for line in S.console_lines(report):
         print(line)
     return 0 if all(r.ok for r in report.results) else 1
