@@ -36,6 +36,7 @@ MODULES = [
     "joulebook.substances.if97",
     "joulebook.substances.mixtures",
     "joulebook.substances.humidair",
+    "joulebook.substances.waterrelease",
     "joulebook.processes.work",
     "joulebook.processes.polytropic",
     "joulebook.processes.solve",

@@ -15,6 +15,7 @@ REFERENCE_TESTS = [
     "tests/test_fluid_transport.py",
     "tests/test_if97.py",
     "tests/test_api.py",
+    "tests/test_props_round3.py",
     "tests/test_cases_round3.py",
 ]
 

@@ -440,10 +440,13 @@ CATALOG: tuple[Func, ...] = (
         notes="Two-phase states: give x with T or P, or v with T or P; T and P alone cannot fix one. "
         "beta = (1/v)(∂v/∂T)_P (isobaric expansion), kappa = −(1/v)(∂v/∂P)_T (isothermal "
         "compressibility), w (speed of sound) and mu_JT = (∂T/∂P)_h (Joule–Thomson) come from "
-        "the equation of state, single-phase states only; for an ideal gas 1/T, 1/P, √(k·R·T), 0. "
+        "the equation of state, single-phase or saturated liquid/vapour (x = 0, 1); for an "
+        "ideal gas 1/T, 1/P, √(k·R·T), 0. "
         "mu (dynamic viscosity), nu = mu/rho, lambda (thermal conductivity) and Pr = mu·cp/lambda "
         "come from the property library's transport correlation for the fluid (water: IAPWS "
-        "2008 and 2011), single-phase; sigma (surface tension) on the saturation line only.",
+        "2008 and 2011, refused outside their ranges), single-phase or saturated liquid (x = 0) "
+        "and vapour (x = 1); sigma (surface tension, water: IAPWS R1-76(2014)) on the "
+        "saturation line only. A pair that fits two states is refused, naming them.",
         column=formulas.prop_column,
         working=Working(
             steps=(Step("phase", "JB_PHASE(substance, spec1, value1, spec2, value2)", "text"),)
@@ -485,6 +488,10 @@ CATALOG: tuple[Func, ...] = (
         "phase equilibrium: equal P, T and Gibbs energy of liquid and vapor",
         (_REF_COOLPROP, _REF_IAPWS),
         Example(("water", "hfg in kJ/kg", "T in degC", 100), 2256.403721526573, 1e-9),
+        notes="A blend by name (R404A R407C R410A R507A) is its pseudo-pure equation of state, "
+        "as in JB_PROP; a composition is the mixture model, its bubble and dew points found on "
+        "the phase envelope and refused above the cricondenbar/cricondentherm or where a line "
+        "is crossed twice. 'water (IF97)' gives IF97's saturation values.",
     ),
     # ------------------------------------------------------------------ ideal gases
     Func(
@@ -2006,7 +2013,9 @@ CATALOG: tuple[Func, ...] = (
         (_REF_HUMID,),
         Example(("Tdp in degC", 101.325, "T in degC", 25, "RH", 0.5), 13.866886648880495, 1e-6),
         notes="RH is a fraction from 0 to 1 ('RH in %' for percent); HR is kg water per kg dry "
-        "air. Supersaturated air (RH > 1) is refused.",
+        "air ('HR', 'HR in kg/kg' or 'HR in g/kg'). The state is solved and checked first: "
+        "supersaturated inputs (RH > 1, Tdp > T) are refused even when an input is asked back, "
+        "and dry air has no dew point. (Twb, h) fixes a state, weakly.",
     ),
     Func(
         "JB_HUMID_CONDENSATE",

@@ -27,7 +27,7 @@ from .cases import (  # noqa: F401  (issue 27 round 3: adapters kept in cases.py
     time_fire_gas_table,
 )
 from .errors import BadInput, BlankInput, JoulebookError, OutOfRange, message_in
-from .media import RealMedium, medium
+from .media import RealMedium, is_if97_text, medium
 from .processes import (
     blockedin,
     cycles,
@@ -205,11 +205,18 @@ def saturation(substance, want, given, value, *, system: UnitSystem):
         raise BadInput(f"given must be 'T in …' or 'P in …' (got {given!r})")
     from .substances import mixtures
 
-    text = mixtures.BLENDS.get(str(substance).strip().upper(), substance)
-    if mixtures.is_mixture_text(text):
-        return conv.from_si(_blend_saturation(text, gp.symbol, gp.conv.to_si(float(value)), sym))
-    if sym in ("Tbubble", "Tdew", "Pbubble", "Pdew"):
-        sym = sym[0] + "sat"  # a pure fluid's bubble and dew points are its saturation point
+    # a named blend (R410A) is its pseudo-pure equation of state here as in JB_PROP; a
+    # composition is the mixture model
+    if mixtures.is_mixture_text(substance):
+        return conv.from_si(
+            _blend_saturation(substance, gp.symbol, gp.conv.to_si(float(value)), sym)
+        )
+    if isinstance(substance, str) and is_if97_text(substance):
+        if sym in ("Tbubble", "Tdew", "Pbubble", "Pdew"):
+            sym = sym[0] + "sat"  # water's bubble and dew points are its saturation point
+        from .substances import if97
+
+        return conv.from_si(if97.saturation(gp.symbol, gp.conv.to_si(float(value)), sym))
     info = fluids.fluid_info(substance)
     si = fluids.saturation(
         info.name, gp.symbol, gp.conv.to_si(float(value)), sym, shows={gp.symbol: gp.conv}
@@ -871,9 +878,9 @@ def poly_fit_branches(P_values, V_values, *, system):
 def humid_air(want, P, spec1, value1, spec2, value2, *, system):
     if value1 is None or value2 is None:
         raise BadInput("give two properties with their values, e.g. 'T in degC', 25, 'RH', 0.5")
-    w = parse_phrase(want, system, humidair.OUTPUTS)
-    a = parse_phrase(spec1, system, humidair.INPUTS)
-    b = parse_phrase(spec2, system, humidair.INPUTS)
+    w = humidair.phrase(want, system, humidair.OUTPUTS)
+    a = humidair.phrase(spec1, system, humidair.INPUTS)
+    b = humidair.phrase(spec2, system, humidair.INPUTS)
     val = humidair.prop(
         w.symbol, P, a.symbol, a.conv.to_si(float(value1)), b.symbol, b.conv.to_si(float(value2))
     )

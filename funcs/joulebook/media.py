@@ -34,6 +34,7 @@ __all__ = [
     "medium",
     "split_substance",
     "IDEAL_TAG",
+    "is_if97_text",
 ]
 
 IDEAL_TAG = "(ideal gas)"
@@ -372,6 +373,32 @@ _IDEAL_RE = re.compile(r"^(?P<name>.*?)\s*\(\s*ideal\s+gas\s*\)\s*$", re.IGNOREC
 _IF97_RE = re.compile(r"^\s*(water|steam|H2O)\s*\(\s*IF97\s*\)\s*$", re.IGNORECASE)
 
 
+def is_if97_text(text: str) -> bool:
+    """Does *text* name water by IAPWS-IF97 (``"water (IF97)"``)?
+
+    Parameters
+    ----------
+    text : str
+        Substance text.
+
+    Returns
+    -------
+    bool
+        True for ``water (IF97)``, ``steam (IF97)``, ``H2O (IF97)`` in any case.
+
+    References
+    ----------
+    .. [1] IAPWS R7-97(2012), *Revised Release on the IAPWS Industrial Formulation 1997 for
+       the Thermodynamic Properties of Water and Steam*.
+
+    Examples
+    --------
+    >>> is_if97_text("Water (IF97)"), is_if97_text("water")
+    (True, False)
+    """
+    return bool(_IF97_RE.match(str(text)))
+
+
 class _TabulatedMedium:
     """What a medium without the real-fluid reader shares: the properties of a Point, x, the
     derivatives from ``_derivative(T, P, want)`` and the saturation values ``_sat(want, p)``."""
@@ -412,7 +439,8 @@ class MixtureMedium(_TabulatedMedium):
     Parameters
     ----------
     text : str
-        Mixture text, e.g. ``"methane 0.9, ethane 0.1"`` or a blend name ``"R410A"``.
+        Mixture text, e.g. ``"methane 0.9, ethane 0.1"`` or ``"R32 0.5, R125 0.5 (mass)"``
+        (a blend by name, ``"R410A"``, is its pseudo-pure equation of state instead).
 
     References
     ----------

@@ -160,6 +160,12 @@ _EOS_TEXT = {
     "Ammonia": "Gao et al., J. Phys. Chem. Ref. Data 52, 013102 (2023)",
     "Methane": "Setzmann & Wagner, J. Phys. Chem. Ref. Data 20, 1061 (1991)",
     "Hydrogen": "Leachman et al., J. Phys. Chem. Ref. Data 38, 721 (2009), normal hydrogen",
+    **{
+        blend: "pseudo-pure equation of state of the blend with its bubble and dew lines (Lemmon, "
+        "Int. J. Thermophys. 24, 991 (2003)), IIR reference (h = 200 kJ/kg, s = 1 kJ/(kg K), "
+        "bubble at 0 degC)"
+        for blend in ("R404A", "R407C", "R410A", "R507A")
+    },
 }
 
 
@@ -996,16 +1002,20 @@ def _solve_x_y(info: FluidInfo, x: float, y_sym: str, y: float, shows):
         return getattr(st, name)() - y
 
     top = info.T_crit * (1 - 1e-6)
-    grid = np.linspace(info.T_triple, top, 120)
+    # near the critical point u, h and s of a wet state at fixed x turn back (a second
+    # state fits): the grid closes in on T_c geometrically so both roots are seen
+    near = info.T_crit - np.geomspace(0.2 * (info.T_crit - info.T_triple), 1e-6 * info.T_crit, 60)
+    grid = np.union1d(np.linspace(info.T_triple, top, 120), near[near > info.T_triple])
     roots = scan_roots(f, grid, what=f"{info.name} saturated state", xtol=1e-10)
     if not roots:
         raise OutOfRange(
             f"{info.name}: no saturated state has x = {fmt_value(x)} and {_show(y_sym, y, shows)}"
         )
     if len(roots) > 1:
+        at = ", ".join(_show("T", t, shows).split("= ")[1] for t in roots)
         raise BadInput(
             f"{info.name}: x = {fmt_value(x)} and {_show(y_sym, y, shows)} fit "
-            f"{len(roots)} saturated states; give T or P instead"
+            f"{len(roots)} saturated states (T = {at}); give T or P instead"
         )
     return _up(info.internal, 0, CP.QT_INPUTS, x, roots[0])
 
@@ -1091,7 +1101,7 @@ def _read(info: FluidInfo, st, want: str, shows=None):
     if want == "phase":
         return phase_word(info, st)
     if want in ("cp", "cv", "k"):
-        if _is_two_phase(st):
+        if _is_two_phase(st) and 0.0 < st.Q() < 1.0:  # x = 0, 1: the liquid's, the vapour's
             raise OutOfRange(
                 f"{info.name}: {want} is not defined for a two-phase state (x = {fmt_value(st.Q())})"
             )
@@ -1119,6 +1129,11 @@ def _read(info: FluidInfo, st, want: str, shows=None):
         raise OutOfRange(
             f"{info.name}: quality x is defined only for saturated states; this state is "
             f"{phase_word(info, st)}"
+        )
+    if want in ("Tsat", "Psat") and not info.pure:
+        raise BadInput(
+            f"{info.name}: a blend boils over a range; ask JB_PROP_SAT for Tbubble and Tdew (or "
+            "Pbubble, Pdew)"
         )
     if want == "Tsat":
         P = st.p()
@@ -1149,11 +1164,12 @@ _DERIVATIVE_WORDS = {
 
 def _derivative(info: FluidInfo, st, want: str) -> float:
     """β = (1/v)(∂v/∂T)_P, κ = −(1/v)(∂v/∂P)_T, w (speed of sound), μ_JT = (∂T/∂P)_h, from
-    the equation of state at the converged (T, ρ) [1]_; single-phase states only.
+    the equation of state at the converged (T, ρ) [1]_; single-phase states and the saturated
+    liquid (x = 0) and vapour (x = 1), whose values are the single-phase side's.
 
     .. [1] IAPWS R6-95(2018), Table 3 (relations of these properties to the Helmholtz
        energy); the property library evaluates them from each fluid's reference equation."""
-    if _is_two_phase(st):
+    if _is_two_phase(st) and 0.0 < st.Q() < 1.0:
         raise OutOfRange(
             f"{info.name}: the {_DERIVATIVE_WORDS[want]} is not defined for a two-phase state "
             f"(x = {fmt_value(st.Q())})"
@@ -1189,9 +1205,10 @@ _TRANSPORT_WORDS = {
 
 def _transport(info: FluidInfo, st, want: str) -> float:
     """Transport properties from the property library's correlation for the fluid (for
-    water the IAPWS 2008 viscosity and 2011 thermal-conductivity formulations; the model of
-    each fluid is named in docs/functions.md); single-phase states, except the surface
-    tension, which exists only on the saturation line."""
+    water the IAPWS 2008 viscosity and 2011 thermal-conductivity formulations, refused
+    outside their ranges, and the IAPWS R1-76(2014) surface tension: substances/
+    waterrelease.py); single-phase states and the saturated liquid (x = 0) and vapour
+    (x = 1), except the surface tension, which exists only on the saturation line."""
     word = _TRANSPORT_WORDS[want]
     two = _is_two_phase(st)
     if want == "sigma":
@@ -1200,11 +1217,20 @@ def _transport(info: FluidInfo, st, want: str) -> float:
                 f"{info.name}: the {word} is defined on the saturation line only (give x "
                 "with T or P); this state is " + phase_word(info, st)
             )
-    elif two:
+    elif two and 0.0 < st.Q() < 1.0:  # x = 0 and 1 are the saturated liquid and vapour
         raise OutOfRange(
             f"{info.name}: the {word} is not defined for a two-phase state "
             f"(x = {fmt_value(st.Q())}); give the liquid (x = 0) or the vapour (x = 1)"
         )
+    if info.internal == "Water":
+        from . import waterrelease
+
+        if want == "sigma":
+            return waterrelease.surface_tension(st.T())
+        if want in ("mu", "nu", "Pr"):
+            waterrelease.check_transport_range("viscosity", st.T(), st.p())
+        if want in ("lambda", "Pr"):
+            waterrelease.check_transport_range("conductivity", st.T(), st.p())
     try:
         if want == "sigma":
             val = st.surface_tension()
@@ -1428,7 +1454,9 @@ def saturation(fluid: str, by: str, value: float, want: str, shows=None) -> floa
             f"got {_show(by, value, shows)}"
         )
     if not info.pure:
-        raise BadInput(f"{info.name} is a pseudo-pure mixture without a single saturation line")
+        return _blend_saturation(info, by, value, want)
+    if want in ("Tbubble", "Tdew", "Pbubble", "Pdew"):
+        want = want[0] + "sat"  # a pure fluid's bubble and dew points are its saturation point
     T = value if by == "T" else _tsat(info, value)
     if want == "Tsat":
         return T
@@ -1454,3 +1482,49 @@ def saturation(fluid: str, by: str, value: float, want: str, shows=None) -> floa
     if side == "g":
         return at(1.0)
     return at(1.0) - at(0.0)
+
+
+def _blend_saturation(info: FluidInfo, by: str, value: float, want: str) -> float:
+    """Bubble (x = 0, the f values) and dew (x = 1, the g values) points of a pseudo-pure
+    blend, on the same equation of state as its other states."""
+    if want in ("Tsat", "Psat"):
+        raise BadInput(
+            f"{info.name}: a blend boils over a range; ask Tbubble and Tdew (or Pbubble, Pdew), "
+            "or the f (bubble) and g (dew) properties"
+        )
+    CP = _coolprop()
+    key = CP.QT_INPUTS if by == "T" else CP.PQ_INPUTS
+
+    def at(q: float):
+        a, b = (q, value) if by == "T" else (value, q)
+        try:
+            return _up(info.internal, 2, key, a, b)
+        except ValueError:
+            _fresh_state(info.internal, 2)
+            raise OutOfRange(
+                f"{info.name}: no {'bubble' if q == 0 else 'dew'} point at "
+                f"{by} = {fmt_value(value)} {'K' if by == 'T' else 'Pa'}"
+            ) from None
+
+    if want in ("Tbubble", "Tdew", "Pbubble", "Pdew"):
+        if want[0] == by:
+            raise BadInput(f"{want} at given {by}: give the other of T and P")
+        st = at(0.0 if "bubble" in want else 1.0)
+        return st.T() if want[0] == "T" else st.p()
+    m = re.fullmatch(r"(v|u|h|s)(f|g|fg)", want)
+    if not m:
+        raise BadInput(
+            f"unknown saturation output {want!r}; use Tbubble Tdew Pbubble Pdew vf vg uf ug hf "
+            "hg sf sg hfg"
+        )
+    prop, side = m.groups()
+
+    def val(q: float) -> float:
+        st = at(q)
+        return 1.0 / st.rhomass() if prop == "v" else getattr(st, _READ[prop])()
+
+    if side == "f":
+        return val(0.0)
+    if side == "g":
+        return val(1.0)
+    return val(1.0) - val(0.0)

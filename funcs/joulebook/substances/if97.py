@@ -157,7 +157,10 @@ def at_TP(T: float, P: float):
 def psat(T: float) -> float:
     r"""Saturation pressure of water by IF97 (region 4).
 
-    .. math:: P_{sat}(T) \text{ from the saturation equation of region 4}
+    .. math:: \vartheta = T + \frac{n_9}{T - n_{10}},\quad
+              P_{sat} = \left(\frac{2C}{-B + \sqrt{B^2 - 4AC}}\right)^4 \text{ MPa}
+
+    with A, B, C quadratics in ϑ (the region-4 saturation equation, IF97 Eq. 30).
 
     Parameters
     ----------
@@ -180,7 +183,24 @@ def psat(T: float) -> float:
     >>> round(psat(300.0) / 1e6, 11)                 # IF97 Table 35: 0.00353658941 MPa
     0.00353658941
     """
-    return _update(_cp().QT_INPUTS, 0.0, T, True)[1]
+    if not T_MIN <= T <= T_CRIT:
+        raise OutOfRange(
+            f"{NAME}: saturation needs 273.15 ≤ T ≤ 647.096 K; got T = {fmt_value(T)} K"
+        )
+    n = _N4
+    th = T + n[8] / (T - n[9])
+    A = th * th + n[0] * th + n[1]
+    B = n[2] * th * th + n[3] * th + n[4]
+    C = n[5] * th * th + n[6] * th + n[7]
+    return (2.0 * C / (-B + math.sqrt(B * B - 4.0 * A * C))) ** 4 * 1e6
+
+
+#: IF97 region 4, the saturation equation's coefficients n1…n10 (IAPWS R7-97(2012), Table 34)
+_N4 = (
+    0.11670521452767e04, -0.72421316703206e06, -0.17073846940092e02, 0.12020824702470e05,
+    -0.32325550322333e07, 0.14915108613530e02, -0.48232657361591e04, 0.40511340542057e06,
+    -0.23855557567849e00, 0.65017534844798e03,
+)  # fmt: skip
 
 
 def sat(by: str, value: float, x: float):
@@ -222,7 +242,15 @@ def sat(by: str, value: float, x: float):
         _check_T(value)
         if value >= T_CRIT:
             raise OutOfRange(f"{NAME}: no saturation above the critical temperature 647.096 K")
-        return _update(CP.QT_INPUTS, x, value, True)
+        try:
+            return _update(CP.QT_INPUTS, x, value, True)
+        except OutOfRange:
+            if value < T_MIN + 1e-3:  # the backend's saturation starts a hair above 273.15 K
+                raise OutOfRange(
+                    f"{NAME}: saturated states at T = {fmt_value(value)} K are not offered by "
+                    "the property library's IF97 (from 273.151 K); give T above it"
+                ) from None
+            raise
     _check_P(value)
     if not P_TRIPLE <= value < P_CRIT:
         raise OutOfRange(f"{NAME}: saturation needs 0.611 kPa ≤ P < 22064 kPa")
@@ -230,6 +258,7 @@ def sat(by: str, value: float, x: float):
 
 
 _IDX = {"T": 0, "P": 1, "v": 2, "u": 3, "h": 4, "s": 5}
+_UNIT = {"T": "K", "P": "Pa", "v": "m3/kg", "u": "J/kg", "h": "J/kg", "s": "J/(kg K)"}
 
 
 def _two_phase(by: str, value: float, sym: str, target: float):
@@ -244,13 +273,18 @@ def _two_phase(by: str, value: float, sym: str, target: float):
     return sat(by, value, x)
 
 
+def _P_of(z: float) -> float:
+    """The pressure of a grid point in ln P, never past the formulation's 100 MPa."""
+    return min(math.exp(z), P_MAX)
+
+
 def _single(solve_over: str, fixed: float, sym: str, target: float):
     """Single-phase states with *sym* = *target* on an isotherm (solve over ln P) or an isobar
     (solve over T)."""
 
     def f(z: float) -> float:
         try:
-            st = at_TP(fixed, math.exp(z)) if solve_over == "P" else at_TP(z, fixed)
+            st = at_TP(fixed, _P_of(z)) if solve_over == "P" else at_TP(z, fixed)
         except (OutOfRange, BadInput):
             return float("nan")
         return st[_IDX[sym]] - target
@@ -258,10 +292,16 @@ def _single(solve_over: str, fixed: float, sym: str, target: float):
     if solve_over == "P":
         grid = np.linspace(math.log(P_TRIPLE / 100), math.log(P_MAX), 160)
         zs = scan_roots(f, grid, what=f"{NAME} state", xtol=1e-13)
-        states = [(fixed, math.exp(z)) for z in zs]
+        states = [(fixed, _P_of(z)) for z in zs]
     else:
         grid = np.linspace(T_MIN, T_MAX, 200)
         states = [(T, fixed) for T in scan_roots(f, grid, what=f"{NAME} state", xtol=1e-9)]
+    # a root on the formulation's edge (100 MPa, 273.15 K, 1073.15 K) makes no sign change
+    for end in (grid[0], grid[-1]):
+        edge = (fixed, _P_of(end)) if solve_over == "P" else (float(end), fixed)
+        near = any(abs(T - edge[0]) <= 1e-7 and abs(P / edge[1] - 1) <= 1e-7 for T, P in states)
+        if not near and abs(f(end)) <= 1e-9 * abs(target) + 1e-9:
+            states.append(edge)
     out = []
     for T, P in states:
         # a "root" where the property jumps across the saturation line is none
@@ -272,6 +312,16 @@ def _single(solve_over: str, fixed: float, sym: str, target: float):
         if abs(st[_IDX[sym]] - target) <= 1e-7 * abs(target) + 1e-9:
             out.append(st)
     return out
+
+
+def _phases(states, by: str) -> str:
+    """'wet at P = 19.9 kPa, single-phase at P = 10000 kPa': the states a refusal names."""
+    words = []
+    for st in states:
+        kind = "wet" if st[6] is not None else "single-phase"
+        at = f"P = {fmt_value(st[1] / 1e3)} kPa" if by == "T" else f"T = {fmt_value(st[0])} K"
+        words.append(f"{kind} at {at}")
+    return ", ".join(words)
 
 
 def flash(a: str, va: float, b: str, vb: float):
@@ -336,7 +386,10 @@ def flash(a: str, va: float, b: str, vb: float):
             found = _single("P" if by == "T" else "T", fixed, other, target)
             wet = _two_phase(by, fixed, other, target)
             if wet is not None:
-                found = [s for s in found if abs(s[_IDX[other]] - target) > 0] + [wet]
+                # a single-phase root on the saturation line is the wet state's end, not a
+                # second state; any other single-phase root is a second state
+                i = 1 if by == "T" else 0
+                found = [s for s in found if abs(s[i] - wet[i]) > 1e-7 * wet[i]] + [wet]
             if not found:
                 raise OutOfRange(
                     f"{NAME}: no state has {by} = {fmt_value(fixed)} and {other} = "
@@ -344,7 +397,9 @@ def flash(a: str, va: float, b: str, vb: float):
                 )
             if len(found) > 1:
                 raise BadInput(
-                    f"{NAME}: {by} and {other} fit {len(found)} states here; give another pair"
+                    f"{NAME}: {by} = {fmt_value(fixed)} {_UNIT[by]} and {other} = "
+                    f"{fmt_value(target)} {_UNIT[other]} fit "
+                    f"{len(found)} states ({_phases(found, by)}); give another pair"
                 )
             return found[0]
     raise BadInput(
@@ -389,3 +444,58 @@ def derivative(T: float, P: float, want: str) -> float:
     except (ValueError, IndexError):
         raise OutOfRange(f"{NAME}: {want} is not defined at this state") from None
     return val
+
+
+def saturation(by: str, value: float, want: str) -> float:
+    """A saturation property of water by IF97 at a given T or P.
+
+    .. math:: y_{fg} = y_g - y_f
+
+    Parameters
+    ----------
+    by : str
+        ``"T"`` or ``"P"``.
+    value : float
+        The saturation temperature (K) or pressure (Pa).
+    want : str
+        ``Tsat``, ``Psat``, or ``vf vg vfg uf ug ufg hf hg hfg sf sg sfg``.
+
+    Returns
+    -------
+    float
+        The value, SI.
+
+    Raises
+    ------
+    BadInput
+        An unknown *want*.
+    OutOfRange
+        Outside the triple point – critical point range of region 4.
+
+    References
+    ----------
+    .. [1] IAPWS R7-97(2012), "Revised Release on the IAPWS Industrial Formulation 1997 for the
+       Thermodynamic Properties of Water and Steam"; W. Wagner et al., J. Eng. Gas Turbines
+       Power 122 (2000) 150–182.
+
+    Examples
+    --------
+    >>> round(saturation("T", 373.15, "Psat") / 1e6, 9)   # IF97 region 4 at 373.15 K, MPa
+    0.101417978
+    """
+    if by not in ("T", "P"):
+        raise BadInput(f"{NAME}: saturation is given by T or P, not {by!r}")
+    if want in ("Tsat", "Psat"):
+        if by == want[0]:
+            return value
+        if by == "T":
+            return psat(value) if value < T_CRIT else sat("T", value, 0.0)[1]
+        return sat("P", value, 0.0)[0]
+    if len(want) < 2 or want[0] not in "vuhs" or want[1:] not in ("f", "g", "fg"):
+        raise BadInput(
+            f"unknown saturation output {want!r}; use Tsat Psat vf vg uf ug hf hg sf sg hfg"
+        )
+    i, side = _IDX[want[0]], want[1:]
+    f = sat(by, value, 0.0)[i] if side != "g" else 0.0
+    g = sat(by, value, 1.0)[i] if side != "f" else 0.0
+    return f if side == "f" else g if side == "g" else g - f
