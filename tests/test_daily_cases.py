@@ -70,8 +70,8 @@ def test_blocked_in_pipe_rigid_and_elastic_against_an_independent_equation_of_st
     "args, words",
     [
         (("cylinder", 0.1, 0.06, 200, 0.3, 1.2e-5), ["wall = 0.06", "below the radius"]),
-        (("cylinder", 0.1, 0.005, 200, 0.6, 1.2e-5), ["nu = 0.6", "0 ≤ ν < 0.5"]),
-        (("cylinder", 0.1, 0.005, 200), ["needs nu"]),
+        (("cylinder", 0.1, 0.005, 200, 0.6, 1.2e-5), ["poisson = 0.6", "0 ≤ ν < 0.5"]),
+        (("cylinder", 0.1, 0.005, 200), ["needs poisson"]),
         (("rigid", 0.1), ["takes no wall data"]),
         (("cone", 0.1, 0.005, 200, 0.3), ["cylinder", "sphere"]),
     ],

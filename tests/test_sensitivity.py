@@ -482,3 +482,25 @@ def test_diff_and_sensitivity_refuse_what_is_not_a_regular_file_and_name_it(tmp_
     assert err.count("pipe.xlsx") >= 2
     # an output that is the other input is refused before any work
     assert main(["diff", str(book), str(book), "--json", str(book)]) == 2
+
+
+def test_the_audit_carries_plus_minus_U_on_each_result_when_uncertainties_are_given(tmp_path):
+    # the same U as the sensitivity report (JCGM 100:2008 §5.1.2), on the package's results
+    book = gas_book(tmp_path)
+    out = tmp_path / "audit.html"
+    args = ["audit", str(book), "-o", str(out), "--u", "Gas!B3=2", "--u", "Gas!B4=0.005"]
+    assert main(args) == 0
+    html = out.read_text(encoding="utf-8")
+    P = M * R * T / V
+    U = 2 * P * math.sqrt((U_T / T) ** 2 + (U_V / V) ** 2)
+    import re
+
+    shown = [float(x) for x in re.findall(r"± ([0-9.]+) \(k = 2\)", html)]
+    assert len(shown) == 2  # the results table and the entry
+    assert all(x == pytest.approx(U, rel=1e-4) for x in shown)
+    # the clean twin: no uncertainty stated, no ± anywhere
+    plain = tmp_path / "plain.html"
+    assert main(["audit", str(book), "-o", str(plain)]) == 0
+    assert "± " not in plain.read_text(encoding="utf-8").split('<h2 id="results">')[1][:2000]
+    # a bad uncertainty is named, exit 2
+    assert main(["audit", str(book), "-o", str(tmp_path / "x.html"), "--u", "Gas!B3=x"]) == 2

@@ -13,7 +13,11 @@ from joulebook.units import convert, parse_phrase, parse_unit, unit_system
 @pytest.mark.parametrize(
     "unit, kind, si",
     [
-        ("psi", "pressure", 6894.757293168361),  # NIST SP 811 B.9: psi = 6.894 757 293 168 E+03 Pa
+        (
+            "psi",
+            "pressure_difference",
+            6894.757293168361,
+        ),  # NIST SP 811 B.9: psi = 6.894 757 293 168 E+03 Pa
         ("psia", "pressure", 6894.757293168361),
         ("Btu", "energy", 1055.05585262),  # NIST SP 811 B.9: Btu_IT = 1.055 055 852 62 E+03 J
         ("lbm", "mass", 0.45359237),  # NIST SP 811 B.9: pound (avoirdupois) = 0.453 592 37 kg exact

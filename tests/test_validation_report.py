@@ -15,6 +15,8 @@ REFERENCE_TESTS = [
     "tests/test_fluid_transport.py",
     "tests/test_if97.py",
     "tests/test_api.py",
+    "tests/test_round3_processes.py",
+    "tests/test_round3_units.py",
     "tests/test_props_round3.py",
     "tests/test_cases_round3.py",
 ]

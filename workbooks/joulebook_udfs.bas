@@ -79,26 +79,26 @@ failed:
     JB_BALANCE_RATE = Err.Description
 End Function
 
-Function JB_BLOCKED_IN_CUSHION_P2(state1, T_2, V, V_gas, Optional gas, Optional shape, Optional D, Optional wall, Optional E, Optional nu, Optional alpha_wall, Optional kappa, Optional units)
+Function JB_BLOCKED_IN_CUSHION_P2(state1, T_2, V, V_gas, Optional gas, Optional shape, Optional D, Optional wall, Optional E_mod, Optional poisson, Optional alpha_wall, Optional kappa, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_BLOCKED_IN_CUSHION_P2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BLOCKED_IN_CUSHION_P2", Array(state1, T_2, V, V_gas, gas, shape, D, wall, E, nu, alpha_wall, kappa, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_BLOCKED_IN_CUSHION_P2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BLOCKED_IN_CUSHION_P2", Array(state1, T_2, V, V_gas, gas, shape, D, wall, E_mod, poisson, alpha_wall, kappa, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_BLOCKED_IN_CUSHION_P2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BLOCKED_IN_CUSHION_P2", Array(state1, T_2, V, V_gas, gas, shape, D, wall, E, nu, alpha_wall, kappa, units, Nothing))
+        JB_BLOCKED_IN_CUSHION_P2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BLOCKED_IN_CUSHION_P2", Array(state1, T_2, V, V_gas, gas, shape, D, wall, E_mod, poisson, alpha_wall, kappa, units, Nothing))
         Exit Function
     #End If
 failed:
     JB_BLOCKED_IN_CUSHION_P2 = Err.Description
 End Function
 
-Function JB_BLOCKED_IN_P2(state1, T_2, Optional shape, Optional D, Optional wall, Optional E, Optional nu, Optional alpha_wall, Optional units)
+Function JB_BLOCKED_IN_P2(state1, T_2, Optional shape, Optional D, Optional wall, Optional E_mod, Optional poisson, Optional alpha_wall, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_BLOCKED_IN_P2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BLOCKED_IN_P2", Array(state1, T_2, shape, D, wall, E, nu, alpha_wall, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_BLOCKED_IN_P2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BLOCKED_IN_P2", Array(state1, T_2, shape, D, wall, E_mod, poisson, alpha_wall, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_BLOCKED_IN_P2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BLOCKED_IN_P2", Array(state1, T_2, shape, D, wall, E, nu, alpha_wall, units, Nothing))
+        JB_BLOCKED_IN_P2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BLOCKED_IN_P2", Array(state1, T_2, shape, D, wall, E_mod, poisson, alpha_wall, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -680,6 +680,20 @@ failed:
     JB_STATE = Err.Description
 End Function
 
+Function JB_STORED_FLASHING_LIQUID(state, V, Optional P_amb, Optional units)
+    If (Not Application.CommandBars("Standard").Controls(1).Enabled) Then Exit Function
+    #If App = "Microsoft Excel" Then
+        If TypeOf Application.Caller Is Range Then On Error GoTo failed
+        JB_STORED_FLASHING_LIQUID = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STORED_FLASHING_LIQUID", Array(state, V, P_amb, units, Nothing), ThisWorkbook, Application.Caller)
+        Exit Function
+    #Else
+        JB_STORED_FLASHING_LIQUID = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STORED_FLASHING_LIQUID", Array(state, V, P_amb, units, Nothing))
+        Exit Function
+    #End If
+failed:
+    JB_STORED_FLASHING_LIQUID = Err.Description
+End Function
+
 Function JB_STORED_IDEAL_ISENTROPIC(P, V, k, Optional P_amb, Optional units)
     If (Not Application.CommandBars("Standard").Controls(1).Enabled) Then Exit Function
     #If App = "Microsoft Excel" Then
@@ -735,13 +749,13 @@ failed:
     JB_TEST_DISTANCE = Err.Description
 End Function
 
-Function JB_TEST_HYDRO_ENERGY(state, V, Optional shape, Optional D, Optional wall, Optional E, Optional nu, Optional P_amb, Optional units)
+Function JB_TEST_HYDRO_ENERGY(state, V, Optional shape, Optional D, Optional wall, Optional E_mod, Optional poisson, Optional P_amb, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_TEST_HYDRO_ENERGY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TEST_HYDRO_ENERGY", Array(state, V, shape, D, wall, E, nu, P_amb, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_TEST_HYDRO_ENERGY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TEST_HYDRO_ENERGY", Array(state, V, shape, D, wall, E_mod, poisson, P_amb, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_TEST_HYDRO_ENERGY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TEST_HYDRO_ENERGY", Array(state, V, shape, D, wall, E, nu, P_amb, units, Nothing))
+        JB_TEST_HYDRO_ENERGY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TEST_HYDRO_ENERGY", Array(state, V, shape, D, wall, E_mod, poisson, P_amb, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -787,13 +801,13 @@ failed:
     JB_TIME_BATCH = Err.Description
 End Function
 
-Function JB_TIME_BLOCKED_IN(state1, V, V_gas, P_set, Optional Q_dot, Optional UA, Optional T_source, Optional gas, Optional shape, Optional D, Optional wall, Optional E, Optional nu, Optional alpha_wall, Optional kappa, Optional units)
+Function JB_TIME_BLOCKED_IN(state1, V, V_gas, P_set, Optional Q_dot, Optional UA, Optional T_source, Optional gas, Optional shape, Optional D, Optional wall, Optional E_mod, Optional poisson, Optional alpha_wall, Optional kappa, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_TIME_BLOCKED_IN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_BLOCKED_IN", Array(state1, V, V_gas, P_set, Q_dot, UA, T_source, gas, shape, D, wall, E, nu, alpha_wall, kappa, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_TIME_BLOCKED_IN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_BLOCKED_IN", Array(state1, V, V_gas, P_set, Q_dot, UA, T_source, gas, shape, D, wall, E_mod, poisson, alpha_wall, kappa, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_TIME_BLOCKED_IN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_BLOCKED_IN", Array(state1, V, V_gas, P_set, Q_dot, UA, T_source, gas, shape, D, wall, E, nu, alpha_wall, kappa, units, Nothing))
+        JB_TIME_BLOCKED_IN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_BLOCKED_IN", Array(state1, V, V_gas, P_set, Q_dot, UA, T_source, gas, shape, D, wall, E_mod, poisson, alpha_wall, kappa, units, Nothing))
         Exit Function
     #End If
 failed:

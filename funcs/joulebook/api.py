@@ -1502,9 +1502,11 @@ def blocked_in_p2(
     shape: str = "rigid",
     D: QuantityLike = None,
     wall: QuantityLike = None,
+    E_mod: QuantityLike = None,
+    poisson: float | None = None,
+    alpha_wall: QuantityLike = None,
     E: QuantityLike = None,
     nu: float | None = None,
-    alpha_wall: QuantityLike = None,
 ) -> Any:
     """Pressure of a liquid-full, blocked-in line or vessel heated to *T2*.
 
@@ -1528,12 +1530,15 @@ def blocked_in_p2(
         Mean diameter of the wall (m); cylinder and sphere only.
     wall : quantity or float, optional
         Wall thickness (m).
-    E : quantity or float, optional
+    E_mod : quantity or float, optional
         Young's modulus of the wall (Pa).
-    nu : float, optional
-        Poisson's ratio of the wall.
+    poisson : float, optional
+        Poisson's ratio ν of the wall.
     alpha_wall : quantity or float, optional
         Linear thermal expansion coefficient of the wall (1/K), 0 unless given.
+    E, nu : optional
+        The former names of *E_mod* and *poisson* (before issue 27), still taken; give one
+        name of each, not both.
 
     Returns
     -------
@@ -1568,10 +1573,17 @@ def blocked_in_p2(
 
     if not isinstance(state, State):
         raise BadInput("state must be a State, e.g. State('water', T=Q_(15, 'degC'), P=...)")
-    data = {"D": (D, "length"), "wall": (wall, "length"), "E": (E, "modulus")}
+    for new, old, old_name in ((E_mod, E, "E"), (poisson, nu, "nu")):
+        if new is not None and old is not None:
+            raise BadInput(
+                f"{old_name} is the former name of the wall's {new!r}: give one, not both"
+            )
+    E_mod = E if E_mod is None else E_mod
+    poisson = nu if poisson is None else poisson
+    data = {"D": (D, "length"), "wall": (wall, "length"), "E_mod": (E_mod, "modulus")}
     si = {k: None if v is None else float(_si(v, kind, k)) for k, (v, kind) in data.items()}
-    nu_si = None if nu is None else float(_si(nu, "dimensionless", "nu"))
-    c = _wall_compliance(shape, si["D"], si["wall"], si["E"], nu_si)
+    nu_si = None if poisson is None else float(_si(poisson, "dimensionless", "poisson"))
+    c = _wall_compliance(shape, si["D"], si["wall"], si["E_mod"], nu_si)
     alpha = (
         0.0 if alpha_wall is None else float(_si(alpha_wall, "expansion_coefficient", "alpha_wall"))
     )

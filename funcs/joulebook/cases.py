@@ -33,7 +33,7 @@ def _state(text, arg: str):
 
 def _compliance(shape, D, t, E, nu) -> float:
     word = "rigid" if shape is None else str(shape).strip().lower()
-    data = (("D", D), ("wall", t), ("E", E), ("nu", nu))
+    data = (("D", D), ("wall", t), ("E_mod", E), ("poisson", nu))  # the arguments' names
     if word == "rigid":
         given = [n for n, v in data if v is not None]
         if given:

@@ -243,6 +243,15 @@ _REF_HEYWOOD = (
     "Heywood, Internal Combustion Engine Fundamentals (1988), §2.2–2.4: slider-crank volume, "
     "indicated work and power, mean effective pressure"
 )
+_REF_BREAK = (
+    "Hawkins, Point estimation of the parameters of piecewise regression models, Applied "
+    "Statistics 25 (1976) 51–57: the break point by least squares (from memory)"
+)
+_REF_FLASHING = (
+    "CCPS, Guidelines for Vapor Cloud Explosion, Pressure Vessel Burst, BLEVE, and Flash Fire "
+    "Hazards, 2nd ed. (2010): expansion energy of a flashing liquid, isentropic to ambient; "
+    "Planas-Cuchi, Salla, Casal, J. Loss Prev. Process Ind. 17 (2004) 431 (from memory)"
+)
 _REF_HUMID = (
     "Herrmann, Kretzschmar & Gatley, ASHRAE RP-1485, HVAC&R Research 15 (2009) 961: real "
     "humid air (the property library's humid-air functions)"
@@ -258,10 +267,15 @@ _REF_SOLIDS = (
 _WALL = (
     Arg("D", "mean diameter of the wall", quantity="length", optional=True),
     Arg("wall", "wall thickness (below D/2)", quantity="length", optional=True),
+    # E_mod and poisson, not E and nu: in a units override E is an energy and nu a
+    # kinematic viscosity (the arguments were E and nu before issue 27; positions unchanged)
     Arg(
-        "E", "Young's modulus of the wall (steel about 200 GPa)", quantity="modulus", optional=True
+        "E_mod",
+        "Young's modulus of the wall (steel about 200 GPa)",
+        quantity="modulus",
+        optional=True,
     ),
-    Arg("nu", "Poisson's ratio of the wall, 0 to 0.5 (steel 0.3)", optional=True),
+    Arg("poisson", "Poisson's ratio ν of the wall, 0 to 0.5 (steel 0.3)", optional=True),
 )
 _HEATING_ARGS = (
     Arg("state1", "initial state text of the contents, from JB_STATE", type="text"),
@@ -1075,7 +1089,7 @@ CATALOG: tuple[Func, ...] = (
             _END_VALUE,
             Arg(
                 "want",
-                "P2 T2 v2 V2 x2 u2 h2 s2 phase2 W Q dU dH, with unit, e.g. 'P2 in MPa'",
+                "P2 T2 v2 V2 x2 u2 h2 s2 phase2 W Q dU dH (P means P2), with unit, e.g. 'P2 in MPa'",
                 type="text",
             ),
             _MASS,
@@ -1219,7 +1233,8 @@ CATALOG: tuple[Func, ...] = (
         "JB_STORED_ISENTROPIC",
         "stored",
         "Stored expansion energy of a gas volume: isentropic expansion to ambient on the real-fluid "
-        "equation of state, m·(u1 − u2s). An estimate: pressure tests are governed by the codes.",
+        "equation of state, m·(u1 − u2s); liquid contents: JB_STORED_FLASHING_LIQUID. An "
+        "estimate: pressure tests are governed by the codes.",
         (
             Arg(
                 "state",
@@ -1246,6 +1261,46 @@ CATALOG: tuple[Func, ...] = (
                     "JB_PROCESS(state, 'isentropic', 'P2 in Pa', P_amb, 'u2 in J/kg')",
                     "specific_energy",
                 ),
+            ),
+            defaults=(("P_amb", 101325.0),),
+        ),
+    ),
+    Func(
+        "JB_STORED_FLASHING_LIQUID",
+        "stored",
+        "Expansion energy of a liquid stored above its boiling point (liquefied gas, hot water) "
+        "that flashes on release: isentropic expansion of liquid and flash vapour to ambient, "
+        "m·(u1 − u2). An estimate, not the blast.",
+        (
+            Arg(
+                "state",
+                "state text of the contents from JB_STATE: liquid, or liquid and vapour (x < 1)",
+                type="text",
+            ),
+            Arg("V", "volume the contents fill (the vessel volume)", quantity="volume"),
+            _PAMB,
+        ),
+        "energy",
+        formulas.stored_flashing_liquid,
+        "E = m·(u1 − u2), s2 = s1, P2 = P_amb (liquid + flash vapour), m = V/v1",
+        (_REF_COOLPROP, _REF_FLASHING),
+        Example(("propane | T = 50 degC | x = 0", 12), 307667.04096917127, 1e-6),
+        caution=True,
+        notes="The energy of the expansion is not the blast it drives: only a part of it goes "
+        "into the pressure wave (the rest into fragments, and a fireball when the fluid burns). "
+        "The isentropic expansion is an upper bound of the mechanical energy released.",
+        working=Working(
+            "E",
+            "m*(u_1 - u_2)",
+            (
+                Step("m", "V*JB_PROP(state, 'rho in kg/m3')", "mass"),
+                Step("u_1", "JB_PROP(state, 'u in J/kg')", "specific_energy"),
+                Step(
+                    "u_2",
+                    "JB_PROCESS(state, 'isentropic', 'P2 in Pa', P_amb, 'u2 in J/kg')",
+                    "specific_energy",
+                ),
+                Step("x_2", "JB_PROCESS(state, 'isentropic', 'P2 in Pa', P_amb, 'x2')"),
             ),
             defaults=(("P_amb", 101325.0),),
         ),
@@ -1963,8 +2018,9 @@ CATALOG: tuple[Func, ...] = (
     Func(
         "JB_POLY_FIT_BRANCHES",
         "engine",
-        "Polytropic exponents of the compression and the expansion branch of a measured closed "
-        "loop, fitted apart: a row (n compression, n expansion).",
+        "Polytropic exponents of the compression and expansion branches of a measured closed "
+        "loop, fitted apart with valve plateaus (suction, discharge) left out: a row (n "
+        "compression, n expansion, R² compression, R² expansion).",
         (
             Arg(
                 "P_values",
@@ -1976,18 +2032,22 @@ CATALOG: tuple[Func, ...] = (
         ),
         "number",
         formulas.poly_fit_branches,
-        "ln P = ln C − n·ln V on each branch between the largest and smallest volume",
-        (_REF_WORK, _REF_HEYWOOD),
+        "ln P = ln C − n·ln V on each branch between the largest and smallest volume, its "
+        "constant-pressure ends (valve-open plateaus) cut at the least-squares break point",
+        (_REF_WORK, _REF_HEYWOOD, _REF_BREAK),
         Example(
             (
                 [[100], [180], [330], [700], [500], [280], [160], [110]],
                 [[0.5], [0.33], [0.2], [0.1], [0.13], [0.22], [0.36], [0.48]],
             ),
-            [[1.2009119087686027, 1.1814538008646367]],
+            [[1.2998649100391684, 1.1616191962568, 0.9979945461499561, 0.9993691574087468]],
             1e-6,
         ),
         elementwise=False,
-        working=Working(figure="points"),
+        working=Working(
+            figure="points",
+            columns=("n compression", "n expansion", "R² compression", "R² expansion"),
+        ),
     ),
     # ------------------------------------------------------------------ humid air
     Func(
@@ -2461,19 +2521,51 @@ def _run(f: Func, si_args, system):
         result = f.impl(*si_args, system=system)
     except JoulebookError:
         raise
-    except (ValueError, ArithmeticError) as e:
+    except ArithmeticError as e:  # overflow, division by an underflowed number
+        raise OutOfRange(_beyond(f, si_args, system)) from e
+    except ValueError as e:
         # a property-library failure we did not foresee: report it as ours, never as a number
         raise OutOfRange(
             f"{f.name}: the model could not evaluate these inputs ({type(e).__name__})"
         ) from e
-    return _result(f, result, system)
+    try:
+        return _result(f, result, system)
+    except _NotFinite:
+        raise OutOfRange(_beyond(f, si_args, system)) from None
+
+
+class _NotFinite(OutOfRange):
+    """A result (or a value of a table) that is NaN or inf."""
+
+
+def _beyond(f: Func, si_args, system) -> str:
+    """The message of a result beyond any finite number, naming the input furthest from 1."""
+    worst = None
+    for arg, x in zip(f.args, si_args):
+        if arg.type != "number" or type(x) is not float or x == 0.0:
+            continue
+        size = abs(math.log10(abs(x)))
+        if worst is None or size > worst[0]:
+            worst = (size, arg, x)
+    if worst is None:
+        return f"{f.name}: the result is beyond any finite number for these inputs"
+    size, arg, x = worst
+    conv = system.conv(arg.quantity) if arg.quantity else None
+    unit = f" {conv.unit}" if conv is not None and conv.unit else ""
+    shown = fmt_value(conv.from_si(x) if conv is not None else x) + unit
+    rule = (
+        "a model carries magnitudes from 1e-100 to 1e100"
+        if size > 100
+        else "the inputs together put it beyond any finite number"
+    )
+    return f"{f.name}: no finite result with {arg.name} = {shown}; {rule}"
 
 
 def _result(f: Func, value, system):
     if type(value) is float:
         out = value if f.result in _AS_IS else system.conv(f.result).from_si(value)
         if out - out != 0.0:  # NaN or inf must never reach a cell
-            raise OutOfRange(f"{f.name}: the result is not a finite number")
+            raise _NotFinite(f"{f.name}: the result is not a finite number")
         return out
     if isinstance(value, (np.floating, int)) and not isinstance(value, bool):
         return _result(f, float(value), system)
@@ -2481,7 +2573,7 @@ def _result(f: Func, value, system):
         for row in value:
             for x in row if isinstance(row, list) else [row]:
                 if isinstance(x, float) and x - x != 0.0:
-                    raise OutOfRange(f"{f.name}: a value of the table is not a finite number")
+                    raise _NotFinite(f"{f.name}: a value of the table is not a finite number")
     return value
 
 

@@ -693,6 +693,20 @@ def _summary_markdown(results: list) -> str:
     return "\n".join(lines) + "\n"
 
 
+def _uncertain(package, book, ns: argparse.Namespace) -> None:
+    """± U on each result of the package, when input uncertainties are given or stated."""
+    from .workbook import sensitivity as S
+
+    stated = [S.Uncertainty.parse(u, book.sheets) for u in ns.u]
+    keys = [S.parse_where(r.where, book.sheets) for r in package.results]
+    if not keys or not (
+        stated or (S.may_state_uncertainties(book) and S.uncertainties_in_book(S.Chain(book, {})))
+    ):
+        return
+    report = S.analyse(book, None, keys, stated, k=ns.k)
+    package.uncertainty = {S.where(r.key): r for r in report.results if r.U is not None}
+
+
 def _audit(ns: argparse.Namespace) -> int:
     import time
 
@@ -729,9 +743,12 @@ def _audit(ns: argparse.Namespace) -> int:
 
     bar = _progress()
     try:
-        report, package, text = run_within(budget, _audit_work, book, ns.paper, bar)
+        report, package, text = run_within(budget, _audit_work, book, ns, bar)
     except TooLarge as e:
         print(_too_large(shown(ns.book), e), file=sys.stderr)
+        return 2
+    except BadInput as e:  # a stated uncertainty not understood (--u)
+        print(f"{shown(Path(ns.book).name)}: {e.message}", file=sys.stderr)
         return 2
     finally:
         bar.close()
@@ -783,13 +800,15 @@ def _audit(ns: argparse.Namespace) -> int:
     return 0
 
 
-def _audit_work(book, paper, bar):
-    """The audit's report, its calculation package and the package's HTML (within budget)."""
+def _audit_work(book, ns: argparse.Namespace, bar):
+    """The audit's report, its calculation package (with ± U where uncertainties are given
+    or stated) and the package's HTML: the work the budget bounds."""
     from .workbook.audit import build_audit
     from .workbook.package import build_package, render_package
 
     report = build_audit(book, progress=_cells_only(bar), copies=False, maps=False)
-    package = build_package(report, paper)
+    package = build_package(report, ns.paper)
+    _uncertain(package, book, ns)
     return report, package, render_package(package).encode("utf-8", "backslashreplace")
 
 
@@ -1017,6 +1036,15 @@ def build_parser() -> argparse.ArgumentParser:
         default="a4",
         help="the paper the package prints on (default a4)",
     )
+    a.add_argument(
+        "--u",
+        action="append",
+        default=[],
+        metavar="SHEET!CELL=U[:DIST][:k=K]",
+        help="the uncertainty of an input, as for 'joulebook sensitivity'; with it (or with "
+        "uncertainties the workbook states) each result carries ± U (docs/uncertainty.md)",
+    )
+    a.add_argument("--k", type=float, default=2.0, help="coverage factor of ± U (default 2)")
     a.add_argument(
         "--fail-on-flags",
         action="store_true",

@@ -26,7 +26,7 @@ from .cases import (  # noqa: F401  (issue 27 round 3: adapters kept in cases.py
     time_fire_gas,
     time_fire_gas_table,
 )
-from .errors import BadInput, BlankInput, JoulebookError, OutOfRange, message_in
+from .errors import BadInput, BlankInput, JoulebookError, OutOfRange, fmt_value, message_in
 from .media import RealMedium, is_if97_text, medium
 from .processes import (
     blockedin,
@@ -482,6 +482,8 @@ _PROC_KIND = {
     "dH": "energy",
     "phase2": "text",
 }
+#: a property of the end state written without its 2 ("P in bar" is P2 in want and end_spec)
+_END_STATE_SYMS = frozenset(("P", "T", "v", "V", "x", "u", "h", "s"))
 _PROC_ALIAS = {"ΔU": "dU", "ΔH": "dH", "DU": "dU", "DH": "dH", "phase": "phase2"}
 _PROC_PHRASE = re.compile(r"^\s*(?P<sym>[A-Za-zΔ][A-Za-z0-9]*)\s*(?:in\s+(?P<unit>.+?))?\s*$")
 
@@ -492,10 +494,12 @@ def _proc_phrase(text: str, arg: str, allowed: tuple, system: UnitSystem):
         raise BadInput(f"{arg} must be text such as 'T2 in degC' (got {text!r})")
     m = _PROC_PHRASE.match(text)
     sym = _PROC_ALIAS.get(m.group("sym"), m.group("sym")) if m else None
-    if arg == "end_spec" and sym in ("V", "v", "P", "T", "x"):
-        sym += "2"  # the end spec can only mean the end state: "T in degC" is T2
+    if sym in _END_STATE_SYMS:
+        sym += "2"  # the end spec and the wanted state can only mean the end: "T in degC" is T2
     if sym not in allowed:
-        raise BadInput(f"{arg} {text!r}: use one of {' '.join(allowed)}, optionally 'in unit'")
+        raise BadInput(
+            f"{arg} {text!r}: use one of {' '.join(allowed)} (P means P2), optionally 'in unit'"
+        )
     kind = _PROC_KIND[sym]
     if kind == "text":
         return sym, None
@@ -631,9 +635,22 @@ def stored_isentropic(state, V, P_amb, *, system):
     med = st.medium
     a, va, b, vb = st.si()
     p1 = med.point(a, va, b, vb, st.shows())
+    if stored.holds_liquid(p1):  # a gas estimate: liquid contents flash (issue 27)
+        raise OutOfRange(
+            f"the contents are {stored.described(p1)}: a liquid that flashes is no gas "
+            "expansion; use JB_STORED_FLASHING_LIQUID (JB_TEST_HYDRO_ENERGY if it does not boil)"
+        )
     return stored.isentropic(
         med, p1, V, stored.STANDARD_ATMOSPHERE if P_amb is None else P_amb, st.shows()
     )
+
+
+def stored_flashing_liquid(state, V, P_amb, *, system):
+    med, p1, shows = _liquid_state(state, "state")
+    E, _x2 = stored.flashing_liquid(
+        med, p1, V, stored.STANDARD_ATMOSPHERE if P_amb is None else P_amb, shows
+    )
+    return E
 
 
 def stored_ideal_isentropic(P, V, k, P_amb, *, system):
@@ -666,7 +683,7 @@ def blocked_in_p2(state1, T_2, shape, D, wall, E, nu, alpha_wall, *, system):
 def _wall_compliance(shape, D, wall, E, nu) -> float:
     """The volumetric compliance of the container (0 for a rigid one), its data checked."""
     word = "rigid" if shape is None else str(shape).strip().lower()
-    data = (("D", D), ("wall", wall), ("E", E), ("nu", nu))
+    data = (("D", D), ("wall", wall), ("E_mod", E), ("poisson", nu))
     if word == "rigid":
         given = [n for n, v in data if v is not None]
         if given:
@@ -718,6 +735,9 @@ def _heat_rate(Q_dot, UA, T_source):
 
 
 def _rigid_time(state1, V, target, target_value, rate, system, points=0):
+    if not V > 0:  # an empty vessel holds no contents to heat: no time, refused
+        c = system.conv("volume")
+        raise BadInput(f"V = {fmt_value(c.from_si(V))} {c.unit}: the vessel volume must be above 0")
     med, p1, _ = _liquid_state(state1, "state1")
     sym, value = _target(target, target_value, system)
     return timing.rigid_heating(med, p1, V / p1.v, sym, value, rate, points)
@@ -834,6 +854,11 @@ def hydro_test_energy(state, V, shape, D, wall, E, nu, P_amb, *, system):
     if p1.x is not None or "liquid" not in p1.phase:
         raise BadInput(f"state is {p1.phase}: a hydrostatic test holds liquid")
     P_amb = P_amb or stored.STANDARD_ATMOSPHERE
+    if stored.flashes(med, p1, P_amb, shows):  # a hot liquid: its energy is a flash (issue 27)
+        raise OutOfRange(
+            f"state: the liquid at {fmt_value(p1.T - 273.15)} degC boils when released to "
+            "ambient pressure; its energy is that of a flashing liquid: JB_STORED_FLASHING_LIQUID"
+        )
     liquid = stored.isentropic(med, p1, V, P_amb, shows)
     c = _wall_compliance(shape, D, wall, E, nu)
     return liquid + pressuretests.container_energy(c, V, p1.P - P_amb)
@@ -864,6 +889,13 @@ def engine_mep(W_cycle, V_d, *, system):
 
 
 def compressor_efficiency(clearance, P_suction, P_discharge, n, *, system):
+    if P_discharge < P_suction:  # said in the user's unit; the core says it again in Pa
+        c = system.conv("pressure")
+        raise BadInput(
+            f"P_discharge = {fmt_value(c.from_si(P_discharge))} {c.unit} is below P_suction = "
+            f"{fmt_value(c.from_si(P_suction))} {c.unit}: a compressor discharges at or above "
+            "its suction pressure"
+        )
     return engines.volumetric_efficiency(clearance, P_suction, P_discharge, n)
 
 

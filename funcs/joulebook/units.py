@@ -50,6 +50,7 @@ __all__ = [
     "Phrase",
     "convert",
     "kind_of_unit",
+    "typed_spellings",
     "DEFAULT_SYSTEM",
     "set_gauge_atmosphere",
     "registry",
@@ -110,6 +111,7 @@ KINDS: dict[str, tuple[str, str]] = {
     "temperature": ("K", "K"),
     "temperature_difference": ("K", "K"),
     "pressure": ("Pa", "Pa"),
+    "pressure_difference": ("Pa", "Pa"),
     "specific_volume": ("m**3/kg", "m**3/kg"),
     "density": ("kg/m**3", "kg/m**3"),
     "specific_energy": ("J/kg", "J/kg"),
@@ -148,6 +150,7 @@ KIND_WORDS = {
     "temperature": "temperature",
     "temperature_difference": "temperature difference",
     "pressure": "pressure",
+    "pressure_difference": "pressure difference",
     "specific_volume": "specific volume",
     "density": "density",
     "specific_energy": "specific energy",
@@ -188,6 +191,7 @@ SYMBOLS: dict[str, str] = {
     "dT": "temperature_difference",
     "P": "pressure",
     "Psat": "pressure",
+    "dP": "pressure_difference",
     "v": "specific_volume",
     "rho": "density",
     "u": "specific_energy",
@@ -358,13 +362,18 @@ def set_gauge_atmosphere(atmosphere: Any) -> float:
 
 #: units engineers use that pint lacks or spells otherwise [1]_ [2]_ [3]_
 #:
-#: .. [1] NIST SP 811 (2008), Appendix B: conventional inch of water (4 °C) 249.0889 Pa,
+#: .. [1] NIST SP 811 (2008), Appendix B: conventional inch of water (4 °C) 249.0889 Pa and
+#:    the conventional millimetre, centimetre and metre of water on the same basis (1000 kg/m³
+#:    under standard gravity 9.80665 m/s²), kilogram-force per square centimetre 98 066.5 Pa,
 #:    Btu_IT, ton of refrigeration = 12,000 Btu_IT/h.
 #: .. [2] ISO 13443:1996 (natural gas standard reference conditions: 15 °C, 101.325 kPa);
 #:    DIN 1343 (normal conditions: 0 °C, 101.325 kPa).
 #: .. [3] US gas industry standard cubic foot: 60 °F and 14.696 psia (101.325 kPa).
 _DEFINITIONS = (
     "inch_water = 0.0254 * meter * 1000 * kilogram / meter ** 3 * 9.80665 * meter / second ** 2",
+    "millimeter_water = 0.001 * meter * 1000 * kilogram / meter ** 3 * 9.80665 * meter / second ** 2",
+    "centimeter_water = 0.01 * meter * 1000 * kilogram / meter ** 3 * 9.80665 * meter / second ** 2",
+    "meter_water = meter * 1000 * kilogram / meter ** 3 * 9.80665 * meter / second ** 2",
     "MMBtu = 1e6 * Btu_it",
     "TR = 12000 * Btu_it / hour",
     # amounts of gas given as volumes at stated reference conditions (ideal gas)
@@ -384,6 +393,12 @@ _SPELLINGS = {
     "bar(g)": "barg", "mbar": "mbar", "mbarg": "mbarg", "torr": "torr", "inh2o": "inch_water",
     "inhg": "inHg", "mmhg": "mmHg", "atm": "atm", "celsius": "degC", "fahrenheit": "degF",
     "kelvin": "K", "rankine": "degR", "mmbtu": "MMBtu", "tr": "TR", "scf": "scf",
+    "mmh2o": "millimeter_water", "mmwc": "millimeter_water", "cmh2o": "centimeter_water",
+    "mh2o": "meter_water", "mwc": "meter_water",
+    "kg/cm2": "kgf/cm2", "kgf/cm2": "kgf/cm2", "kg/cm2a": "kgf/cm2", "kgf/cm2a": "kgf/cm2",
+    "kg/cm2(a)": "kgf/cm2", "kgf/cm2(a)": "kgf/cm2", "kg/cm2g": "kgf/cm2g",
+    "kgf/cm2g": "kgf/cm2g", "kg/cm2(g)": "kgf/cm2g", "kgf/cm2(g)": "kgf/cm2g",
+    "kg/cm²": "kgf/cm2", "kgf/cm²": "kgf/cm2", "kg/cm²g": "kgf/cm2g", "kgf/cm²g": "kgf/cm2g",
 }  # fmt: skip
 #: spellings kept as typed (case matters: nm3 is cubic nanometres)
 _EXACT_SPELLINGS = {"Nm3": "normal_cubic_meter", "Sm3": "standard_cubic_meter"}
@@ -391,6 +406,30 @@ _AMBIGUOUS = {
     "bbl": "bbl is ambiguous (31.5 or 42 US gallons): write oil_bbl (42 US gal) or "
     "liquid_bbl (31.5 US gal)",
 }
+
+
+def typed_spellings() -> tuple[str, ...]:
+    """The units that the whole-unit spellings engineers type stand for, in the parser's form.
+
+    Each spelling (``PSIG``, ``bar(g)``, ``kg/cm2g``, ``mmH2O``) is read as one of these, so
+    the unit seed holds them all and a label naming one is read without pint.
+
+    Returns
+    -------
+    tuple of str
+        The units, sorted, e.g. ``'kgf/cm2g'``, ``'millimeter_water'``.
+
+    References
+    ----------
+    .. [1] NIST Special Publication 811 (2008), *Guide for the Use of the International System
+       of Units*, Appendix B (conversion factors).
+
+    Examples
+    --------
+    >>> "millimeter_water" in typed_spellings() and "kgf/cm2g" in typed_spellings()
+    True
+    """
+    return tuple(sorted({*_SPELLINGS.values(), *_EXACT_SPELLINGS.values()}))
 
 
 def _spelled(raw: str) -> str:
@@ -425,15 +464,29 @@ _WORDS = {
     "oil_bbl": "oil_barrel",
     "liquid_bbl": "barrel",
 }
-_GAUGE = {"Pag": "Pa", "kPag": "kPa", "MPag": "MPa", "barg": "bar", "mbarg": "mbar", "psig": "psi"}
+_GAUGE = {
+    "Pag": "Pa", "kPag": "kPa", "MPag": "MPa", "barg": "bar", "mbarg": "mbar", "psig": "psia",
+    "kgf/cm2g": "kgf/cm2",
+}  # fmt: skip
+#: a whole unit that names no absolute pressure: refused for one, read as a difference
+_DIFFERENCE_ONLY = {"psi": "psia (absolute) or psig (gauge)"}
 _ABS_TEMPS = {"K": "K", "degC": "degC", "degF": "degF", "degR": "degR", "kelvin": "K"}
 _DELTA = {"degC": "delta_degC", "degF": "delta_degF"}
 _IDENT = re.compile(r"[A-Za-z_][A-Za-z_]*")
 _ATM = re.compile(r"^(?P<unit>[^@]+?)\s*@\s*(?P<num>[-+0-9.eE]+)\s*(?P<au>[A-Za-z]+)\s*$")
 
 
+_DEG_WORD = re.compile(r"(?i)(?<![A-Za-z])deg(?:rees?)?\.?\s*([cfrk])(?![A-Za-z])")
+_DEG_SIGN = re.compile(r"[°º]\s+([CFRK])(?![A-Za-z])")
+#: a temperature glued to the mass or amount it divides: kJ/kgK, Btu/lbmR, kJ/kmolK
+_GLUED_TEMP = re.compile(r"(?<![A-Za-z])(k?g|lbm?|k?mol)(K|C|F|R|deg[CFR])(?![A-Za-z])")
+
+
 def _clean(text: str) -> str:
     t = text.strip()
+    # "deg C", "deg. F", "degrees C", "° C": the degree written apart from its scale
+    t = _DEG_WORD.sub(lambda m: "K" if m.group(1) in "kK" else "deg" + m.group(1).upper(), t)
+    t = _DEG_SIGN.sub(r"°\1", t)
     for a, b in (
         ("°C", "degC"),
         ("ºC", "degC"),
@@ -469,6 +522,7 @@ def _to_pint(text: str, kind: str | None) -> str:
     if len(text.strip()) > MAX_UNIT_CHARS:
         _too_long(text.strip())
     t = _clean(text)
+    t = _GLUED_TEMP.sub(r"\1*\2", t)
     # exponent glued to a unit: m3 -> m**3, ft3 -> ft**3, s2 -> s**2
     t = re.sub(r"([A-Za-z])(\d)", r"\1**\2", t)
 
@@ -547,7 +601,7 @@ def parse_unit(text: str, kind: str) -> Conv:
     m = _ATM.match(raw)
     base = raw
     if m:
-        base = m.group("unit").strip()
+        base = _spelled(m.group("unit").strip())
         try:
             num = float(m.group("num"))
         except ValueError:
@@ -569,6 +623,11 @@ def parse_unit(text: str, kind: str) -> Conv:
         c = parse_unit(_GAUGE[base], "pressure")
         return Conv(c.factor, atm, raw)
 
+    if base in _DIFFERENCE_ONLY and kind == "pressure":
+        raise BadInput(
+            f"unit {text!r} is ambiguous for an absolute pressure: write "
+            f"{_DIFFERENCE_ONLY[base]}; {base} is read only as a pressure difference"
+        )
     if kind == "dimensionless":
         if base in ("%", "percent"):
             return Conv(0.01, 0.0, raw)
@@ -678,6 +737,7 @@ _EXAMPLE_UNITS = {
     "temperature": "K, degC, degF, R",
     "temperature_difference": "K, degC, degF, R",
     "pressure": "Pa, kPa, MPa, bar, psia, kPag, barg, psig",
+    "pressure_difference": "Pa, kPa, bar, psi, mmH2O",
     "specific_volume": "m3/kg, L/kg, ft3/lbm",
     "density": "kg/m3, lbm/ft3",
     "specific_energy": "J/kg, kJ/kg, Btu/lbm",
@@ -774,7 +834,7 @@ def _pint_kind(base: str, raw: str, _quiet: bool) -> str | None:
             return None
         raise BadInput(f"unknown unit {raw!r}") from None
     for kind, (_si, dim_text) in KINDS.items():
-        if kind in ("temperature_difference",):
+        if kind in ("temperature_difference", "pressure_difference"):
             continue
         if dim_text and ureg.Quantity(1.0, dim_text).dimensionality == dim:
             return kind
@@ -832,6 +892,7 @@ _SI_DEFAULTS = {
     "temperature": "K",
     "temperature_difference": "K",
     "pressure": "Pa",
+    "pressure_difference": "Pa",
     "specific_volume": "m3/kg",
     "density": "kg/m3",
     "specific_energy": "J/kg",
@@ -866,6 +927,13 @@ _SI_DEFAULTS = {
 }
 
 _DELTA_OF = {"K": "K", "kelvin": "K", "degC": "K", "degF": "R", "degR": "R"}
+
+
+def _difference_unit(p_unit: str) -> str:
+    """The unit of a pressure difference that goes with a pressure unit: its scale without
+    the gauge or absolute mark (psia, psig -> psi; barg -> bar)."""
+    base = _GAUGE.get(_spelled(p_unit), _spelled(p_unit))
+    return {"psia": "psi"}.get(base, base)
 
 
 def _energy_family(energy_unit: str) -> dict[str, str]:
@@ -932,7 +1000,8 @@ def unit_system(text: str | None = None) -> UnitSystem:
             parse_unit(tok, "temperature")
             t_unit = tok
         elif k == "pressure":
-            p_unit = tok
+            p_unit = _spelled(tok)
+            parse_unit(p_unit, "pressure")
         else:
             e_unit = tok
     fam = _energy_family(e_unit)
@@ -947,6 +1016,7 @@ def unit_system(text: str | None = None) -> UnitSystem:
             "temperature": t_unit,
             "temperature_difference": d_unit,
             "pressure": p_unit,
+            "pressure_difference": _difference_unit(p_unit),
             "energy": e_unit,
             "mass": m_unit,
             "volume": vol_unit,
@@ -981,16 +1051,41 @@ def unit_system(text: str | None = None) -> UnitSystem:
     for ov in overrides:
         sym, _, unit = (s.strip() for s in ov.partition("="))
         if sym not in SYMBOLS:
-            raise BadInput(
-                f"units {raw!r}: unknown symbol {sym!r} in override; use one of "
-                + " ".join(sorted(set(SYMBOLS) - {"Tsat", "Psat"}))[:120]
-            )
+            raise BadInput(_unknown_override(raw, sym, unit))
         kind = SYMBOLS[sym]
         parse_unit(unit, kind)
         units[kind] = unit
     system = UnitSystem(raw, tuple(sorted(units.items())))
     _system_convs(system)  # validate every unit now
     return system
+
+
+def _unknown_override(raw: str, sym: str, unit: str) -> str:
+    """The message of an override whose symbol is unknown."""
+    names = sorted(set(SYMBOLS) - {"Tsat", "Psat"}, key=str.lower)
+    return _unknown_symbol(f"units {raw!r}: unknown symbol {sym!r} in override", sym, unit, names)
+
+
+def _unknown_symbol(
+    head: str, sym: str, unit: str | None, names: tuple[str, ...] | list[str]
+) -> str:
+    """*head* and the symbols: first those the user most likely means (those of the unit's
+    quantity, those spelled alike), then the others, so that a message clipped to its
+    length never loses the one needed."""
+    import difflib
+
+    kind = kind_of_unit(unit, _quiet=True) if unit else None
+    likely = [n for n in names if SYMBOLS.get(n) == kind]
+    likely += [
+        n
+        for n in difflib.get_close_matches(sym, names, n=4, cutoff=0.5)
+        + [n for n in names if n.lower() == sym.lower()]
+        if n not in likely
+    ]
+    rest = [n for n in names if n not in likely]
+    if likely:
+        return f"{head}; did you mean {' or '.join(likely)}? Others: {' '.join(rest)}"
+    return f"{head}; use one of {' '.join(names)}"
 
 
 # ---------------------------------------------------------------------------------------
@@ -1079,8 +1174,9 @@ def parse_phrase(text: str, system: UnitSystem | None = None, allowed: tuple = (
     sym = m.group("sym")
     sym = _SYMBOL_ALIASES.get(sym, sym)
     if sym not in SYMBOLS or (allowed and sym not in allowed):
-        valid = " ".join(allowed) if allowed else " ".join(SYMBOLS)
-        raise BadInput(f"unknown property {m.group('sym')!r} in {text!r}; use one of {valid}")
+        head = f"unknown property {m.group('sym')!r} in {text!r}"
+        names = allowed or tuple(SYMBOLS)
+        raise BadInput(_unknown_symbol(head, m.group("sym"), m.group("unit"), names))
     kind = SYMBOLS[sym]
     unit = m.group("unit")
     if unit is None or unit == "":
@@ -1157,6 +1253,11 @@ def convert(value: Any, from_unit: str, to_unit: str) -> Any:
     ):
         # a temperature difference: a factor, no offset (delta_degC to delta_degF is 1.8)
         k1 = k2 = "temperature_difference"
+    if k1 == "pressure" and any(
+        _spelled(str(u).strip()) in _DIFFERENCE_ONLY for u in (from_unit, to_unit)
+    ):
+        # psi names no absolute pressure: a difference, converted by its factor alone
+        k1 = k2 = "pressure_difference"
     c1 = parse_unit(from_unit, k1)
     c2 = parse_unit(to_unit, k2)
     si = c1.to_si(value)

@@ -57,13 +57,16 @@ CONVS: dict[tuple[str, str], tuple[float, float]] = {
     ('L/kg', 'specific_volume'): (0.001, 0.0),
     ('L/min', 'volume_flow'): (1.666666666666667e-05, 0.0),
     ('MJ', 'energy'): (1000000.0, 0.0),
+    ('MMBtu', 'energy'): (1055055852.62, 0.0),
     ('MPa', 'modulus'): (1000000.0, 0.0),
     ('MPa', 'pressure'): (1000000.0, 0.0),
     ('N*m', 'torque'): (1.0, 0.0),
     ('N/m', 'surface_tension'): (1.0, 0.0),
     ('Pa', 'modulus'): (1.0, 0.0),
     ('Pa', 'pressure'): (1.0, 0.0),
+    ('Pa', 'pressure_difference'): (1.0, 0.0),
     ('Pa*s', 'dynamic_viscosity'): (1.0, 0.0),
+    ('TR', 'power'): (3516.8528420666676, 0.0),
     ('V', 'voltage'): (1.0, 0.0),
     ('W', 'power'): (1.0, 0.0),
     ('W/(m**2)', 'heat_flux'): (1.0, 0.0),
@@ -71,8 +74,10 @@ CONVS: dict[tuple[str, str], tuple[float, float]] = {
     ('W/K', 'heat_transfer_coefficient'): (1.0, 0.0),
     ('atm', 'pressure'): (101325.0, 0.0),
     ('bar', 'pressure'): (100000.0, 0.0),
+    ('bar', 'pressure_difference'): (100000.0, 0.0),
     ('cP', 'dynamic_viscosity'): (0.001, 0.0),
     ('cSt', 'kinematic_viscosity'): (1e-06, 0.0),
+    ('centimeter_water', 'pressure'): (98.0665, 0.0),
     ('degC', 'temperature'): (1.0, 273.15),
     ('degF', 'temperature'): (0.5555555555555556, 255.37222222222223),
     ('degR', 'temperature'): (0.5555555555555556, 0.0),
@@ -94,6 +99,8 @@ CONVS: dict[tuple[str, str], tuple[float, float]] = {
     ('gal/min', 'volume_flow'): (6.30901964e-05, 0.0),
     ('hour', 'time'): (3600.0, 0.0),
     ('hp', 'power'): (745.6998715822701, 0.0),
+    ('inHg', 'pressure'): (3386.3886403409997, 0.0),
+    ('inch_water', 'pressure'): (249.08891, 0.0),
     ('kJ', 'energy'): (1000.0, 0.0),
     ('kJ/(kg*K)', 'specific_entropy'): (1000.0, 0.0),
     ('kJ/(kg*K)', 'specific_heat'): (1000.0, 0.0),
@@ -101,6 +108,7 @@ CONVS: dict[tuple[str, str], tuple[float, float]] = {
     ('kJ/(kg*delta_degC)', 'specific_heat'): (1000.0, 0.0),
     ('kJ/kg', 'specific_energy'): (1000.0, 0.0),
     ('kPa', 'pressure'): (1000.0, 0.0),
+    ('kPa', 'pressure_difference'): (1000.0, 0.0),
     ('kW', 'power'): (1000.0, 0.0),
     ('kW/(m**2)', 'heat_flux'): (1000.0, 0.0),
     ('kW/K', 'heat_transfer_coefficient'): (1000.0, 0.0),
@@ -108,6 +116,7 @@ CONVS: dict[tuple[str, str], tuple[float, float]] = {
     ('kg', 'mass'): (1.0, 0.0),
     ('kg/(m**3)', 'density'): (1.0, 0.0),
     ('kg/kmol', 'molar_mass'): (0.001, 0.0),
+    ('kgf/(cm**2)', 'pressure'): (98066.5, 0.0),
     ('km/hour', 'speed'): (0.2777777777777778, 0.0),
     ('kmol', 'amount'): (1000.0, 0.0),
     ('lb', 'mass'): (0.45359237, 0.0),
@@ -127,17 +136,24 @@ CONVS: dict[tuple[str, str], tuple[float, float]] = {
     ('m/s', 'speed'): (1.0, 0.0),
     ('mN/m', 'surface_tension'): (0.001, 0.0),
     ('mPa*s', 'dynamic_viscosity'): (0.001, 0.0),
+    ('mbar', 'pressure'): (100.0, 0.0),
+    ('meter_water', 'pressure'): (9806.65, 0.0),
+    ('millimeter_water', 'pressure'): (9.80665, 0.0),
+    ('millimeter_water', 'pressure_difference'): (9.80665, 0.0),
     ('min', 'time'): (60.0, 0.0),
     ('mm', 'length'): (0.001, 0.0),
     ('mm**2/s', 'kinematic_viscosity'): (1e-06, 0.0),
+    ('mmHg', 'pressure'): (133.322387415, 0.0),
     ('mol', 'amount'): (1.0, 0.0),
     ('normal_cubic_meter', 'amount'): (44.615033405470314, 0.0),
     ('psi', 'modulus'): (6894.7572931683635, 0.0),
     ('psi', 'pressure'): (6894.7572931683635, 0.0),
+    ('psi', 'pressure_difference'): (6894.7572931683635, 0.0),
     ('s', 'time'): (1.0, 0.0),
     ('scf', 'amount'): (1.1952869398618748, 0.0),
     ('standard_cubic_meter', 'amount'): (42.292543379157436, 0.0),
     ('t', 'mass'): (1000.0, 0.0),
+    ('torr', 'pressure'): (133.32236842105263, 0.0),
 }
 KINDS: dict[str, str] = {
     '1/K': 'expansion_coefficient',
@@ -164,19 +180,23 @@ KINDS: dict[str, str] = {
     'L/kg': 'specific_volume',
     'L/min': 'volume_flow',
     'MJ': 'energy',
+    'MMBtu': 'energy',
     'MPa': 'pressure',
     'N*m': 'energy',
     'N/m': 'surface_tension',
     'Pa': 'pressure',
     'Pa*s': 'dynamic_viscosity',
+    'TR': 'power',
     'V': 'voltage',
     'W': 'power',
     'W/(m**2)': 'heat_flux',
     'W/(m*K)': 'thermal_conductivity',
     'W/K': 'heat_transfer_coefficient',
+    'atm': 'pressure',
     'bar': 'pressure',
     'cP': 'dynamic_viscosity',
     'cSt': 'kinematic_viscosity',
+    'centimeter_water': 'pressure',
     'degC': 'temperature',
     'degF': 'temperature',
     'degR': 'temperature',
@@ -192,6 +212,8 @@ KINDS: dict[str, str] = {
     'gal/min': 'volume_flow',
     'hour': 'time',
     'hp': 'power',
+    'inHg': 'pressure',
+    'inch_water': 'pressure',
     'kJ': 'energy',
     'kJ/(kg*K)': 'specific_entropy',
     'kJ/(kg*delta_degC)': 'specific_entropy',
@@ -204,6 +226,7 @@ KINDS: dict[str, str] = {
     'kg': 'mass',
     'kg/(m**3)': 'density',
     'kg/kmol': 'molar_mass',
+    'kgf/(cm**2)': 'pressure',
     'km/hour': 'speed',
     'kmol': 'amount',
     'lb': 'mass',
@@ -223,9 +246,13 @@ KINDS: dict[str, str] = {
     'm/s': 'speed',
     'mN/m': 'surface_tension',
     'mPa*s': 'dynamic_viscosity',
+    'mbar': 'pressure',
+    'meter_water': 'pressure',
+    'millimeter_water': 'pressure',
     'min': 'time',
     'mm': 'length',
     'mm**2/s': 'kinematic_viscosity',
+    'mmHg': 'pressure',
     'mol': 'amount',
     'normal_cubic_meter': 'amount',
     'psi': 'pressure',
@@ -233,6 +260,7 @@ KINDS: dict[str, str] = {
     'scf': 'amount',
     'standard_cubic_meter': 'amount',
     't': 'mass',
+    'torr': 'pressure',
 }
 DIMS: dict[str, tuple[tuple, str]] = {
     '1/K': ((('[temperature]', -1),), '1 / [temperature]'),
@@ -265,11 +293,13 @@ DIMS: dict[str, tuple[tuple, str]] = {
     'L/kg': ((('[length]', 3), ('[mass]', -1)), '[length] ** 3 / [mass]'),
     'L/min': ((('[length]', 3), ('[time]', -1)), '[length] ** 3 / [time]'),
     'MJ': ((('[length]', 2), ('[mass]', 1), ('[time]', -2)), '[mass] * [length] ** 2 / [time] ** 2'),
+    'MMBtu': ((('[length]', 2), ('[mass]', 1), ('[time]', -2)), '[mass] * [length] ** 2 / [time] ** 2'),
     'MPa': ((('[length]', -1), ('[mass]', 1), ('[time]', -2)), '[mass] / [length] / [time] ** 2'),
     'N*m': ((('[length]', 2), ('[mass]', 1), ('[time]', -2)), '[mass] * [length] ** 2 / [time] ** 2'),
     'N/m': ((('[mass]', 1), ('[time]', -2)), '[mass] / [time] ** 2'),
     'Pa': ((('[length]', -1), ('[mass]', 1), ('[time]', -2)), '[mass] / [length] / [time] ** 2'),
     'Pa*s': ((('[length]', -1), ('[mass]', 1), ('[time]', -1)), '[mass] / [length] / [time]'),
+    'TR': ((('[length]', 2), ('[mass]', 1), ('[time]', -3)), '[mass] * [length] ** 2 / [time] ** 3'),
     'V': ((('[current]', -1), ('[length]', 2), ('[mass]', 1), ('[time]', -3)), '[mass] * [length] ** 2 / [time] ** 3 / [current]'),
     'W': ((('[length]', 2), ('[mass]', 1), ('[time]', -3)), '[mass] * [length] ** 2 / [time] ** 3'),
     'W/(m**2)': ((('[mass]', 1), ('[time]', -3)), '[mass] / [time] ** 3'),
@@ -280,6 +310,7 @@ DIMS: dict[str, tuple[tuple, str]] = {
     'bar': ((('[length]', -1), ('[mass]', 1), ('[time]', -2)), '[mass] / [length] / [time] ** 2'),
     'cP': ((('[length]', -1), ('[mass]', 1), ('[time]', -1)), '[mass] / [length] / [time]'),
     'cSt': ((('[length]', 2), ('[time]', -1)), '[length] ** 2 / [time]'),
+    'centimeter_water': ((('[length]', -1), ('[mass]', 1), ('[time]', -2)), '[mass] / [length] / [time] ** 2'),
     'degC': ((('[temperature]', 1),), '[temperature]'),
     'degF': ((('[temperature]', 1),), '[temperature]'),
     'degR': ((('[temperature]', 1),), '[temperature]'),
@@ -300,6 +331,8 @@ DIMS: dict[str, tuple[tuple, str]] = {
     'gal/min': ((('[length]', 3), ('[time]', -1)), '[length] ** 3 / [time]'),
     'hour': ((('[time]', 1),), '[time]'),
     'hp': ((('[length]', 2), ('[mass]', 1), ('[time]', -3)), '[length] ** 2 * [mass] / [time] ** 3'),
+    'inHg': ((('[length]', -1), ('[mass]', 1), ('[time]', -2)), '[mass] / [length] / [time] ** 2'),
+    'inch_water': ((('[length]', -1), ('[mass]', 1), ('[time]', -2)), '[mass] / [length] / [time] ** 2'),
     'kJ': ((('[length]', 2), ('[mass]', 1), ('[time]', -2)), '[mass] * [length] ** 2 / [time] ** 2'),
     'kJ/(kg*K)': ((('[length]', 2), ('[temperature]', -1), ('[time]', -2)), '[length] ** 2 / [time] ** 2 / [temperature]'),
     'kJ/(kg*delta_degC)': ((('[length]', 2), ('[temperature]', -1), ('[time]', -2)), '[length] ** 2 / [time] ** 2 / [temperature]'),
@@ -314,6 +347,7 @@ DIMS: dict[str, tuple[tuple, str]] = {
     'kg/kmol': ((('[mass]', 1), ('[substance]', -1)), '[mass] / [substance]'),
     'kg/m**3': ((('[length]', -3), ('[mass]', 1)), '[mass] / [length] ** 3'),
     'kg/mol': ((('[mass]', 1), ('[substance]', -1)), '[mass] / [substance]'),
+    'kgf/(cm**2)': ((('[length]', -1), ('[mass]', 1), ('[time]', -2)), '[mass] / [length] / [time] ** 2'),
     'km/hour': ((('[length]', 1), ('[time]', -1)), '[length] / [time]'),
     'kmol': ((('[substance]', 1),), '[substance]'),
     'lb': ((('[mass]', 1),), '[mass]'),
@@ -334,9 +368,13 @@ DIMS: dict[str, tuple[tuple, str]] = {
     'm/s**2': ((('[length]', 1), ('[time]', -2)), '[length] / [time] ** 2'),
     'mN/m': ((('[mass]', 1), ('[time]', -2)), '[mass] / [time] ** 2'),
     'mPa*s': ((('[length]', -1), ('[mass]', 1), ('[time]', -1)), '[mass] / [length] / [time]'),
+    'mbar': ((('[length]', -1), ('[mass]', 1), ('[time]', -2)), '[mass] / [length] / [time] ** 2'),
+    'meter_water': ((('[length]', -1), ('[mass]', 1), ('[time]', -2)), '[mass] / [length] / [time] ** 2'),
+    'millimeter_water': ((('[length]', -1), ('[mass]', 1), ('[time]', -2)), '[mass] / [length] / [time] ** 2'),
     'min': ((('[time]', 1),), '[time]'),
     'mm': ((('[length]', 1),), '[length]'),
     'mm**2/s': ((('[length]', 2), ('[time]', -1)), '[length] ** 2 / [time]'),
+    'mmHg': ((('[length]', -1), ('[mass]', 1), ('[time]', -2)), '[mass] / [length] / [time] ** 2'),
     'mol': ((('[substance]', 1),), '[substance]'),
     'normal_cubic_meter': ((('[substance]', 1),), '[substance]'),
     'psi': ((('[length]', -1), ('[mass]', 1), ('[time]', -2)), '[mass] / [length] / [time] ** 2'),
@@ -344,6 +382,7 @@ DIMS: dict[str, tuple[tuple, str]] = {
     'scf': ((('[substance]', 1),), '[substance]'),
     'standard_cubic_meter': ((('[substance]', 1),), '[substance]'),
     't': ((('[mass]', 1),), '[mass]'),
+    'torr': ((('[length]', -1), ('[mass]', 1), ('[time]', -2)), '[mass] / [length] / [time] ** 2'),
 }
 # fmt: on
 # --- end of generated part ---
@@ -358,8 +397,9 @@ def dimensions(pint_text: str) -> tuple[tuple, str]:
 
 
 def generate() -> tuple[dict, dict, dict]:
-    """pint's map of every unit the named systems, the catalog's examples and the usual units
-    of each quantity kind read (the seed ignored while computing)."""
+    """pint's map of every unit the named systems, the catalog's examples, the usual units
+    of each quantity kind and the spellings engineers type read (the seed ignored while
+    computing)."""
     import joulebook.units as u
 
     from .catalog import CATALOG, call
@@ -406,6 +446,15 @@ def generate() -> tuple[dict, dict, dict]:
         for units in u._EXAMPLE_UNITS.values():
             for unit in units.split(", "):
                 u.kind_of_unit(unit, _quiet=True)
+        # the whole-unit spellings engineers type (kg/cm2g, mmH2O, Torr …), so that a label
+        # naming one is read without pint too
+        for unit in u.typed_spellings():
+            kind = u.kind_of_unit(unit, _quiet=True)
+            if kind is not None:
+                try:
+                    u.parse_unit(unit, kind)
+                except JoulebookError:
+                    pass
     finally:
         u._pint_conv, u._pint_kind = pint_conv, pint_kind
         u._SEED_CONVS.update(saved[0])

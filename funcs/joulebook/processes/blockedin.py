@@ -101,9 +101,9 @@ def compliance(shape: str, D: float, t: float, E: float, nu: float) -> float:
             f"{fmt_value(D / 2)} m"
         )
     if not E > 0:
-        raise BadInput(f"E = {fmt_value(E)} Pa: Young's modulus must be above 0")
+        raise BadInput(f"E_mod = {fmt_value(E)} Pa: Young's modulus must be above 0")
     if not 0 <= nu < 0.5:
-        raise BadInput(f"nu = {fmt_value(nu)}: Poisson's ratio must lie in 0 ≤ ν < 0.5")
+        raise BadInput(f"poisson = {fmt_value(nu)}: Poisson's ratio must lie in 0 ≤ ν < 0.5")
     if word == "cylinder":
         return D * (5 - 4 * nu) / (4 * t * E)
     return 3 * D * (1 - nu) / (4 * t * E)

@@ -18,7 +18,9 @@ volume π·B²/4·S.
 
 **Separate polytropic fits** of a measured closed loop: the compression branch (volume
 falling from its largest to its smallest value) and the expansion branch (rising back) are
-fitted in ln P – ln V apart, since their exponents differ (heat transfer, leakage).
+fitted in ln P – ln V apart, since their exponents differ (heat transfer, leakage); the
+valve-open lines of a compressor card (pressure plateaus) are found by a least-squares
+break point [3]_ and left out, and each turning point belongs to the branch it begins.
 
 References
 ----------
@@ -26,11 +28,15 @@ References
    (cylinder volume, eq. 2.4 and 2.5) and §2.4 (indicated work, mean effective pressure).
 .. [2] Reciprocating-compressor volumetric efficiency from the clearance re-expansion
    (common practice; textbooks of compressor engineering).
+.. [3] D. M. Hawkins, "Point estimation of the parameters of piecewise regression models",
+   Applied Statistics 25 (1976) 51–57 (from memory).
 """
 
 from __future__ import annotations
 
 import math
+
+import numpy as np
 
 from ..errors import BadInput, OutOfRange, fmt_value
 from .polytropic import fit
@@ -178,7 +184,7 @@ def volumetric_efficiency(c: float, P_s: float, P_d: float, n: float) -> float:
     c : float
         Clearance ratio V_c/V_d.
     P_s, P_d : float
-        Suction and discharge pressure (Pa, absolute).
+        Suction and discharge pressure (Pa, absolute), P_d ≥ P_s.
     n : float
         Polytropic exponent of the re-expansion.
 
@@ -203,6 +209,11 @@ def volumetric_efficiency(c: float, P_s: float, P_d: float, n: float) -> float:
         raise BadInput("P_suction and P_discharge are absolute and must be above 0")
     if not 1 <= n <= 1.7:
         raise BadInput(f"n = {fmt_value(n)}: the re-expansion exponent lies in 1 to 1.7")
+    if P_d < P_s:
+        raise BadInput(
+            f"P_discharge = {fmt_value(P_d)} Pa is below P_suction = {fmt_value(P_s)} Pa: a "
+            "compressor discharges at or above its suction pressure"
+        )
     eta = 1 + c - c * (P_d / P_s) ** (1 / n)
     if eta <= 0:
         raise OutOfRange(
@@ -212,49 +223,136 @@ def volumetric_efficiency(c: float, P_s: float, P_d: float, n: float) -> float:
     return eta
 
 
-def branch_fits(P, V) -> tuple[float, float]:
-    """Polytropic exponents of the compression and expansion branches of a closed loop.
+def branch_fits(P, V) -> tuple[float, float, float, float]:
+    r"""Polytropic exponents of the compression and expansion branches of a closed loop.
 
-    The points of the segments along which the volume falls form the compression branch, those
-    along which it rises the expansion branch (segments at constant volume, such as combustion
-    or blow-down, belong to neither); each is fitted to ln P = ln C − n·ln V.  For a compressor
-    card, give only the compression and re-expansion portions: its suction and discharge lines
-    would join them.
+    The loop is split where its volume turns: the points from which the volume falls form
+    the compression branch, those from which it rises the expansion branch, so a turning
+    point (the largest or the smallest volume) belongs to the branch it begins, never to both;
+    points at constant volume (combustion, blow-down) belong to neither.  On each branch, a
+    valve-open line of a compressor card (discharge or suction, P about constant while the
+    volume moves) is found as a pressure plateau at either end: the break point that
+    minimises the squared residuals of a line in ln P – ln V joined to a constant ln P
+    [3]_ is taken when it at least halves the residuals of the line alone and leaves a
+    plateau of 3 points or more.  The remaining polytropic points are fitted to
+
+    .. math:: \ln P = \ln C - n \ln V
 
     Parameters
     ----------
     P, V : array_like
-        Pressures (Pa) and volumes (m³) of the loop in path order.
+        Pressures (Pa, absolute) and volumes (m³) of the loop in the order measured (time
+        order around the cycle).
 
     Returns
     -------
     tuple of float
-        ``(n_compression, n_expansion)``.
+        ``(n_compression, n_expansion, R²_compression, R²_expansion)``, each R² that of the
+        branch's fit in ln P – ln V.
+
+    Raises
+    ------
+    BadInput
+        Fewer than 6 points, or a branch with fewer than 3 polytropic points.
 
     References
     ----------
     .. [1] J. B. Heywood, *Internal Combustion Engine Fundamentals*, McGraw-Hill, 1988, §2.2
        (cylinder volume, eq. 2.4 and 2.5) and §2.4 (indicated work, mean effective pressure).
     .. [2] Least squares in logarithmic coordinates (common practice).
+    .. [3] D. M. Hawkins, "Point estimation of the parameters of piecewise regression
+       models", Applied Statistics 25 (1976) 51–57 (the break point of a two-phase
+       regression by least squares over every candidate; from memory).
 
     Examples
     --------
     >>> V = [1.0, 0.5, 0.25, 0.25, 0.5, 1.0]
     >>> P = [1.0, 2 ** 1.3, 4 ** 1.3, 3 * 4 ** 1.3, 3 * 4 ** 1.3 / 2 ** 1.25, 3 * 4 ** 1.3 / 4 ** 1.25]
     >>> [round(n, 9) for n in branch_fits(P, V)]
-    [1.3, 1.25]
+    [1.3, 1.25, 1.0, 1.0]
     """
     P, V = _clean_pairs(P, V)
     if P.size < 6:
         raise BadInput(f"a closed loop needs at least 6 points (got {P.size})")
+    if (P <= 0).any() or (V <= 0).any():
+        raise OutOfRange("a branch fit needs every P > 0 and V > 0 (absolute)")
+    closed = (P[0], V[0]) == (P[-1], V[-1])
+    if closed:  # the last point repeats the first: one point, once
+        P, V = P[:-1], V[:-1]
     n = P.size
     falling: list[int] = []
     rising: list[int] = []
-    for i in range(n if (P[0], V[0]) != (P[-1], V[-1]) else n - 1):
-        j = (i + 1) % n
-        side = falling if V[j] < V[i] else rising if V[j] > V[i] else None
-        if side is not None:
-            side.extend(k for k in (i, j) if k not in side)
-    if len(falling) < 3 or len(rising) < 3:
-        raise BadInput("each branch of the loop needs at least 3 points")
-    return fit(P[falling], V[falling])[0], fit(P[rising], V[rising])[0]
+    for i in range(n):
+        after, before = V[(i + 1) % n] - V[i], V[i] - V[(i - 1) % n]
+        # the segment a point begins decides its branch; a point before a constant-volume
+        # step ends the branch it arrived by
+        step = after if after != 0 else before
+        if step < 0:
+            falling.append(i)
+        elif step > 0:
+            rising.append(i)
+    fits = []
+    for branch, what in ((falling, "compression"), (rising, "expansion")):
+        members = set(branch)
+        first = next((i for i in branch if (i - 1) % n not in members), branch[0] if branch else 0)
+        idx = sorted(branch, key=lambda i: (i - first) % n)  # path order from its first point
+        x, y = np.log(V[idx]), np.log(P[idx])
+        lo, hi = _polytropic_part(x, y) if len(idx) >= 3 else (0, len(idx))
+        if hi - lo < 3:
+            raise BadInput(
+                f"the {what} branch has {hi - lo} points off its valve plateaus: at least 3 "
+                "are needed"
+            )
+        fits.append(fit(P[idx][lo:hi], V[idx][lo:hi]))
+    (n_c, _, r2_c), (n_e, _, r2_e) = fits
+    return n_c, n_e, r2_c, r2_e
+
+
+def _sse_line(x: np.ndarray, y: np.ndarray) -> float:
+    """Squared residuals of the least-squares line y(x) (all of y's spread if x is constant)."""
+    xc, yc = x - x.mean(), y - y.mean()
+    sxx, sxy, syy = float(xc @ xc), float(xc @ yc), float(yc @ yc)
+    return max(syy - sxy * sxy / sxx, 0.0) if sxx > 0 else syy
+
+
+def _tail_break(x: np.ndarray, y: np.ndarray) -> tuple[int, float]:
+    """The best split into a line on [0, k) and a constant on [k, N), by cumulative sums:
+    ``(k, squared residuals)``, k = N when no split with 3 points a side exists."""
+    N = x.size
+    if N < 6:
+        return N, _sse_line(x, y)
+    # prefix sums for the line on the head, suffix sums for the constant on the tail
+    c = np.concatenate(([0.0], np.cumsum(np.ones(N))))
+    sx = np.concatenate(([0.0], np.cumsum(x)))
+    sy = np.concatenate(([0.0], np.cumsum(y)))
+    sxx = np.concatenate(([0.0], np.cumsum(x * x)))
+    sxy = np.concatenate(([0.0], np.cumsum(x * y)))
+    syy = np.concatenate(([0.0], np.cumsum(y * y)))
+    k = np.arange(3, N - 2)  # 3 points or more on each side
+    m = c[k]
+    vxx = sxx[k] - sx[k] ** 2 / m
+    vxy = sxy[k] - sx[k] * sy[k] / m
+    vyy = syy[k] - sy[k] ** 2 / m
+    with np.errstate(divide="ignore", invalid="ignore"):
+        head = np.where(vxx > 0, vyy - np.where(vxx > 0, vxy**2 / vxx, 0.0), vyy)
+    mt = N - m
+    ty = sy[N] - sy[k]
+    tail = (syy[N] - syy[k]) - ty**2 / mt
+    total = np.maximum(head, 0.0) + np.maximum(tail, 0.0)
+    best = int(np.argmin(total))
+    return int(k[best]), float(total[best])
+
+
+def _polytropic_part(x: np.ndarray, y: np.ndarray) -> tuple[int, int]:
+    """The slice [lo, hi) of a branch (ln V, ln P in path order) left when a valve plateau
+    at its end and one at its start are cut off; a plateau is cut only when it halves the
+    squared residuals of the line alone."""
+    lo, hi = 0, x.size
+    whole = _sse_line(x, y)
+    k, sse = _tail_break(x, y)
+    if k < hi and sse < 0.5 * whole:
+        hi, whole = k, _sse_line(x[:k], y[:k])
+    k, sse = _tail_break(x[lo:hi][::-1], y[lo:hi][::-1])  # a plateau at the start
+    if k < hi - lo and sse < 0.5 * whole:
+        lo = hi - k
+    return lo, hi

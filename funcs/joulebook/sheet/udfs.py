@@ -14,7 +14,7 @@ from joulebook.sheet.cells import why as _why
 
 
 
-__all__ = ['JB_STATE', 'JB_PROP', 'JB_PHASE', 'JB_PROP_SAT', 'JB_GAS_CP', 'JB_GAS_CV', 'JB_GAS_K', 'JB_GAS_R', 'JB_GAS_MOLAR_MASS', 'JB_GAS_DELTA_H', 'JB_GAS_DELTA_U', 'JB_GAS_CP_MEAN', 'JB_GAS_DELTA_S', 'JB_SOLID_C', 'JB_SOLID_C_MEAN', 'JB_SOLID_DELTA_U', 'JB_SOLID_HEAT', 'JB_WORK_ISOBARIC', 'JB_WORK_ISOTHERMAL', 'JB_WORK_ISOTHERMAL_MASS', 'JB_WORK_POLYTROPIC', 'JB_WORK_POLYTROPIC_N', 'JB_WORK_LINEAR', 'JB_WORK_PV', 'JB_WORK_PATH', 'JB_WORK_ELECTRIC_IN', 'JB_WORK_SHAFT_IN', 'JB_POLY_EXPONENT', 'JB_POLY_FIT', 'JB_POLY_P2', 'JB_POLY_V2', 'JB_POLY_T2_FROM_V', 'JB_POLY_T2_FROM_P', 'JB_BALANCE_HEAT', 'JB_BALANCE_GAP', 'JB_BALANCE_DELTA_KE', 'JB_BALANCE_DELTA_PE', 'JB_HEAT_ISOBARIC_GAS', 'JB_HEAT_RIGID_GAS', 'JB_PROCESS', 'JB_PROCESS_TABLE', 'JB_PROCESS_PATH', 'JB_CYCLE_NET', 'JB_CYCLE_GAP', 'JB_CYCLE_EFFICIENCY', 'JB_STORED_ISENTROPIC', 'JB_STORED_IDEAL_ISENTROPIC', 'JB_STORED_ISOCHORIC', 'JB_BLOCKED_IN_P2', 'JB_RELIEF_THERMAL_FLOW', 'JB_TIME_HEATING', 'JB_TIME_HEATING_TABLE', 'JB_FIRE_HEAT', 'JB_WETTED_AREA', 'JB_TIME_FIRE', 'JB_TIME_FIRE_TABLE', 'JB_TIME_BATCH', 'JB_BALANCE_RATE', 'JB_BLOCKED_IN_CUSHION_P2', 'JB_TIME_BLOCKED_IN', 'JB_WALL_HOOP_STRESS', 'JB_WALL_AXIAL_STRESS', 'JB_TIME_FIRE_GAS', 'JB_TIME_FIRE_GAS_TABLE', 'JB_TIME_BLOWDOWN', 'JB_BLOWDOWN_T_MIN', 'JB_TIME_BLOWDOWN_TABLE', 'JB_TEST_PNEUMATIC_ENERGY', 'JB_TEST_HYDRO_ENERGY', 'JB_TEST_TNT', 'JB_TEST_DISTANCE', 'JB_ENGINE_VOLUME', 'JB_ENGINE_POWER', 'JB_ENGINE_MEP', 'JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY', 'JB_POLY_FIT_BRANCHES', 'JB_HUMID_AIR', 'JB_HUMID_CONDENSATE', 'JB_CHART_DOME', 'JB_CHART_ISOLINE', 'JB_CONVERT', 'JB_WHY', 'JB_ABOUT']
+__all__ = ['JB_STATE', 'JB_PROP', 'JB_PHASE', 'JB_PROP_SAT', 'JB_GAS_CP', 'JB_GAS_CV', 'JB_GAS_K', 'JB_GAS_R', 'JB_GAS_MOLAR_MASS', 'JB_GAS_DELTA_H', 'JB_GAS_DELTA_U', 'JB_GAS_CP_MEAN', 'JB_GAS_DELTA_S', 'JB_SOLID_C', 'JB_SOLID_C_MEAN', 'JB_SOLID_DELTA_U', 'JB_SOLID_HEAT', 'JB_WORK_ISOBARIC', 'JB_WORK_ISOTHERMAL', 'JB_WORK_ISOTHERMAL_MASS', 'JB_WORK_POLYTROPIC', 'JB_WORK_POLYTROPIC_N', 'JB_WORK_LINEAR', 'JB_WORK_PV', 'JB_WORK_PATH', 'JB_WORK_ELECTRIC_IN', 'JB_WORK_SHAFT_IN', 'JB_POLY_EXPONENT', 'JB_POLY_FIT', 'JB_POLY_P2', 'JB_POLY_V2', 'JB_POLY_T2_FROM_V', 'JB_POLY_T2_FROM_P', 'JB_BALANCE_HEAT', 'JB_BALANCE_GAP', 'JB_BALANCE_DELTA_KE', 'JB_BALANCE_DELTA_PE', 'JB_HEAT_ISOBARIC_GAS', 'JB_HEAT_RIGID_GAS', 'JB_PROCESS', 'JB_PROCESS_TABLE', 'JB_PROCESS_PATH', 'JB_CYCLE_NET', 'JB_CYCLE_GAP', 'JB_CYCLE_EFFICIENCY', 'JB_STORED_ISENTROPIC', 'JB_STORED_FLASHING_LIQUID', 'JB_STORED_IDEAL_ISENTROPIC', 'JB_STORED_ISOCHORIC', 'JB_BLOCKED_IN_P2', 'JB_RELIEF_THERMAL_FLOW', 'JB_TIME_HEATING', 'JB_TIME_HEATING_TABLE', 'JB_FIRE_HEAT', 'JB_WETTED_AREA', 'JB_TIME_FIRE', 'JB_TIME_FIRE_TABLE', 'JB_TIME_BATCH', 'JB_BALANCE_RATE', 'JB_BLOCKED_IN_CUSHION_P2', 'JB_TIME_BLOCKED_IN', 'JB_WALL_HOOP_STRESS', 'JB_WALL_AXIAL_STRESS', 'JB_TIME_FIRE_GAS', 'JB_TIME_FIRE_GAS_TABLE', 'JB_TIME_BLOWDOWN', 'JB_BLOWDOWN_T_MIN', 'JB_TIME_BLOWDOWN_TABLE', 'JB_TEST_PNEUMATIC_ENERGY', 'JB_TEST_HYDRO_ENERGY', 'JB_TEST_TNT', 'JB_TEST_DISTANCE', 'JB_ENGINE_VOLUME', 'JB_ENGINE_POWER', 'JB_ENGINE_MEP', 'JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY', 'JB_POLY_FIT_BRANCHES', 'JB_HUMID_AIR', 'JB_HUMID_CONDENSATE', 'JB_CHART_DOME', 'JB_CHART_ISOLINE', 'JB_CONVERT', 'JB_WHY', 'JB_ABOUT']
 
 
 @_xw.func(category='joulebook · States and real-fluid properties')
@@ -436,7 +436,7 @@ def JB_HEAT_RIGID_GAS(gas, m, T_1, T_2, W_other=None, units=None, caller=None):
 @_xw.arg('path', ndim=2, err_to_str=True, doc="rigid, isobaric, isothermal, isentropic, 'polytropic n = 1.3', 'linear slope = 500 kPa/m3', 'stops P = 4 bar' or 'stops V = 0.02 m3' [text]")
 @_xw.arg('end_spec', ndim=2, err_to_str=True, doc="end condition with unit: V2, v2, P2, T2, x2, Q or W, e.g. 'T2 in degC' [text]")
 @_xw.arg('end_value', ndim=2, err_to_str=True, doc='value of the end condition, in its unit [number or range]')
-@_xw.arg('want', ndim=2, err_to_str=True, doc="P2 T2 v2 V2 x2 u2 h2 s2 phase2 W Q dU dH, with unit, e.g. 'P2 in MPa' [text]")
+@_xw.arg('want', ndim=2, err_to_str=True, doc="P2 T2 v2 V2 x2 u2 h2 s2 phase2 W Q dU dH (P means P2), with unit, e.g. 'P2 in MPa' [text]")
 @_xw.arg('mass', ndim=2, err_to_str=True, doc="mass of the system (default 1 of the mass unit) (optional) [number or range; mass in the units argument's unit (kg by default)]")
 @_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
 def JB_PROCESS(state1, path, end_spec, end_value, want, mass=None, units=None, caller=None):
@@ -501,8 +501,18 @@ def JB_CYCLE_EFFICIENCY(Q_values, W_values, units=None, caller=None):
 @_xw.arg('P_amb', ndim=2, err_to_str=True, doc="absolute ambient pressure (default 101.325 kPa) (optional) [number or range; pressure in the units argument's unit (kPa by default)]")
 @_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
 def JB_STORED_ISENTROPIC(state, V, P_amb=None, units=None, caller=None):
-    'Stored expansion energy of a gas volume: isentropic expansion to ambient on the real-fluid equation of state, m·(u1 − u2s). An estimate: pressure tests are governed by the codes.'
+    'Stored expansion energy of a gas volume: isentropic expansion to ambient on the real-fluid equation of state, m·(u1 − u2s); liquid contents: JB_STORED_FLASHING_LIQUID. An estimate: pressure tests are governed by the codes.'
     return _cell('JB_STORED_ISENTROPIC', state, V, P_amb, units, caller=caller)
+
+
+@_xw.func(category='joulebook · Stored expansion energy', call_in_wizard=False)
+@_xw.arg('state', ndim=2, err_to_str=True, doc='state text of the contents from JB_STATE: liquid, or liquid and vapour (x < 1) [text]')
+@_xw.arg('V', ndim=2, err_to_str=True, doc="volume the contents fill (the vessel volume) [number or range; volume in the units argument's unit (m3 by default)]")
+@_xw.arg('P_amb', ndim=2, err_to_str=True, doc="absolute ambient pressure (default 101.325 kPa) (optional) [number or range; pressure in the units argument's unit (kPa by default)]")
+@_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
+def JB_STORED_FLASHING_LIQUID(state, V, P_amb=None, units=None, caller=None):
+    'Expansion energy of a liquid stored above its boiling point (liquefied gas, hot water) that flashes on release: isentropic expansion of liquid and flash vapour to ambient, m·(u1 − u2). An estimate, not the blast.'
+    return _cell('JB_STORED_FLASHING_LIQUID', state, V, P_amb, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Stored expansion energy', call_in_wizard=False)
@@ -533,13 +543,13 @@ def JB_STORED_ISOCHORIC(P, V, k, P_amb=None, units=None, caller=None):
 @_xw.arg('shape', ndim=2, err_to_str=True, doc='rigid (default), cylinder (closed ends) or sphere (optional) [text]')
 @_xw.arg('D', ndim=2, err_to_str=True, doc="mean diameter of the wall (optional) [number or range; length in the units argument's unit (m by default)]")
 @_xw.arg('wall', ndim=2, err_to_str=True, doc="wall thickness (below D/2) (optional) [number or range; length in the units argument's unit (m by default)]")
-@_xw.arg('E', ndim=2, err_to_str=True, doc="Young's modulus of the wall (steel about 200 GPa) (optional) [number or range; modulus in the units argument's unit (GPa by default)]")
-@_xw.arg('nu', ndim=2, err_to_str=True, doc="Poisson's ratio of the wall, 0 to 0.5 (steel 0.3) (optional) [number or range]")
+@_xw.arg('E_mod', ndim=2, err_to_str=True, doc="Young's modulus of the wall (steel about 200 GPa) (optional) [number or range; modulus in the units argument's unit (GPa by default)]")
+@_xw.arg('poisson', ndim=2, err_to_str=True, doc="Poisson's ratio ν of the wall, 0 to 0.5 (steel 0.3) (optional) [number or range]")
 @_xw.arg('alpha_wall', ndim=2, err_to_str=True, doc="linear expansion coefficient of the wall (steel 1.2e-5 1/K) (optional) [number or range; expansion coefficient in the units argument's unit (1/K by default)]")
 @_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
-def JB_BLOCKED_IN_P2(state1, T_2, shape=None, D=None, wall=None, E=None, nu=None, alpha_wall=None, units=None, caller=None):
+def JB_BLOCKED_IN_P2(state1, T_2, shape=None, D=None, wall=None, E_mod=None, poisson=None, alpha_wall=None, units=None, caller=None):
     'Pressure after heating a blocked-in, liquid-full pipe or vessel to T_2: shape rigid (upper bound), cylinder or sphere (thin wall that stretches with P and T), solved on the equation of state. An estimate: relief is governed by the codes.'
-    return _cell('JB_BLOCKED_IN_P2', state1, T_2, shape, D, wall, E, nu, alpha_wall, units, caller=caller)
+    return _cell('JB_BLOCKED_IN_P2', state1, T_2, shape, D, wall, E_mod, poisson, alpha_wall, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Blocked-in liquid and thermal relief')
@@ -663,14 +673,14 @@ def JB_BALANCE_RATE(Q_dot, W_dot=None, units=None, caller=None):
 @_xw.arg('shape', ndim=2, err_to_str=True, doc='rigid (default), cylinder (closed ends) or sphere (optional) [text]')
 @_xw.arg('D', ndim=2, err_to_str=True, doc="mean diameter of the wall (optional) [number or range; length in the units argument's unit (m by default)]")
 @_xw.arg('wall', ndim=2, err_to_str=True, doc="wall thickness (below D/2) (optional) [number or range; length in the units argument's unit (m by default)]")
-@_xw.arg('E', ndim=2, err_to_str=True, doc="Young's modulus of the wall (steel about 200 GPa) (optional) [number or range; modulus in the units argument's unit (GPa by default)]")
-@_xw.arg('nu', ndim=2, err_to_str=True, doc="Poisson's ratio of the wall, 0 to 0.5 (steel 0.3) (optional) [number or range]")
+@_xw.arg('E_mod', ndim=2, err_to_str=True, doc="Young's modulus of the wall (steel about 200 GPa) (optional) [number or range; modulus in the units argument's unit (GPa by default)]")
+@_xw.arg('poisson', ndim=2, err_to_str=True, doc="Poisson's ratio ν of the wall, 0 to 0.5 (steel 0.3) (optional) [number or range]")
 @_xw.arg('alpha_wall', ndim=2, err_to_str=True, doc="linear expansion coefficient of the wall (steel 1.2e-5 1/K) (optional) [number or range; expansion coefficient in the units argument's unit (1/K by default)]")
 @_xw.arg('kappa', ndim=2, err_to_str=True, doc="compressibility of a glycol or oil fill (incompressible in the data; default 0) (optional) [number or range; compressibility in the units argument's unit (1/kPa by default)]")
 @_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
-def JB_BLOCKED_IN_CUSHION_P2(state1, T_2, V, V_gas, gas=None, shape=None, D=None, wall=None, E=None, nu=None, alpha_wall=None, kappa=None, units=None, caller=None):
+def JB_BLOCKED_IN_CUSHION_P2(state1, T_2, V, V_gas, gas=None, shape=None, D=None, wall=None, E_mod=None, poisson=None, alpha_wall=None, kappa=None, units=None, caller=None):
     'Pressure after heating a blocked-in liquid with a gas pocket (nitrogen or any gas, or its own vapour) to T_2, the wall rigid or stretching. An estimate: relief is governed by the codes.'
-    return _cell('JB_BLOCKED_IN_CUSHION_P2', state1, T_2, V, V_gas, gas, shape, D, wall, E, nu, alpha_wall, kappa, units, caller=caller)
+    return _cell('JB_BLOCKED_IN_CUSHION_P2', state1, T_2, V, V_gas, gas, shape, D, wall, E_mod, poisson, alpha_wall, kappa, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Heating with time and fire exposure')
@@ -685,14 +695,14 @@ def JB_BLOCKED_IN_CUSHION_P2(state1, T_2, V, V_gas, gas=None, shape=None, D=None
 @_xw.arg('shape', ndim=2, err_to_str=True, doc='rigid (default), cylinder (closed ends) or sphere (optional) [text]')
 @_xw.arg('D', ndim=2, err_to_str=True, doc="mean diameter of the wall (optional) [number or range; length in the units argument's unit (m by default)]")
 @_xw.arg('wall', ndim=2, err_to_str=True, doc="wall thickness (below D/2) (optional) [number or range; length in the units argument's unit (m by default)]")
-@_xw.arg('E', ndim=2, err_to_str=True, doc="Young's modulus of the wall (steel about 200 GPa) (optional) [number or range; modulus in the units argument's unit (GPa by default)]")
-@_xw.arg('nu', ndim=2, err_to_str=True, doc="Poisson's ratio of the wall, 0 to 0.5 (steel 0.3) (optional) [number or range]")
+@_xw.arg('E_mod', ndim=2, err_to_str=True, doc="Young's modulus of the wall (steel about 200 GPa) (optional) [number or range; modulus in the units argument's unit (GPa by default)]")
+@_xw.arg('poisson', ndim=2, err_to_str=True, doc="Poisson's ratio ν of the wall, 0 to 0.5 (steel 0.3) (optional) [number or range]")
 @_xw.arg('alpha_wall', ndim=2, err_to_str=True, doc="linear expansion coefficient of the wall (steel 1.2e-5 1/K) (optional) [number or range; expansion coefficient in the units argument's unit (1/K by default)]")
 @_xw.arg('kappa', ndim=2, err_to_str=True, doc="compressibility of a glycol or oil fill (incompressible in the data; default 0) (optional) [number or range; compressibility in the units argument's unit (1/kPa by default)]")
 @_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
-def JB_TIME_BLOCKED_IN(state1, V, V_gas, P_set, Q_dot=None, UA=None, T_source=None, gas=None, shape=None, D=None, wall=None, E=None, nu=None, alpha_wall=None, kappa=None, units=None, caller=None):
+def JB_TIME_BLOCKED_IN(state1, V, V_gas, P_set, Q_dot=None, UA=None, T_source=None, gas=None, shape=None, D=None, wall=None, E_mod=None, poisson=None, alpha_wall=None, kappa=None, units=None, caller=None):
     'Time for a heated blocked-in liquid (with an optional gas pocket, the wall rigid or stretching) to reach a set pressure, under Q_dot and/or UA·(T_source − T). An estimate: relief is governed by the codes.'
-    return _cell('JB_TIME_BLOCKED_IN', state1, V, V_gas, P_set, Q_dot, UA, T_source, gas, shape, D, wall, E, nu, alpha_wall, kappa, units, caller=caller)
+    return _cell('JB_TIME_BLOCKED_IN', state1, V, V_gas, P_set, Q_dot, UA, T_source, gas, shape, D, wall, E_mod, poisson, alpha_wall, kappa, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Blocked-in liquid and thermal relief')
@@ -816,13 +826,13 @@ def JB_TEST_PNEUMATIC_ENERGY(P_test, V, P_amb=None, units=None, caller=None):
 @_xw.arg('shape', ndim=2, err_to_str=True, doc='rigid (default, liquid only), cylinder or sphere (optional) [text]')
 @_xw.arg('D', ndim=2, err_to_str=True, doc="mean diameter of the wall (optional) [number or range; length in the units argument's unit (m by default)]")
 @_xw.arg('wall', ndim=2, err_to_str=True, doc="wall thickness (below D/2) (optional) [number or range; length in the units argument's unit (m by default)]")
-@_xw.arg('E', ndim=2, err_to_str=True, doc="Young's modulus of the wall (steel about 200 GPa) (optional) [number or range; modulus in the units argument's unit (GPa by default)]")
-@_xw.arg('nu', ndim=2, err_to_str=True, doc="Poisson's ratio of the wall, 0 to 0.5 (steel 0.3) (optional) [number or range]")
+@_xw.arg('E_mod', ndim=2, err_to_str=True, doc="Young's modulus of the wall (steel about 200 GPa) (optional) [number or range; modulus in the units argument's unit (GPa by default)]")
+@_xw.arg('poisson', ndim=2, err_to_str=True, doc="Poisson's ratio ν of the wall, 0 to 0.5 (steel 0.3) (optional) [number or range]")
 @_xw.arg('P_amb', ndim=2, err_to_str=True, doc="absolute ambient pressure (default 101.325 kPa) (optional) [number or range; pressure in the units argument's unit (kPa by default)]")
 @_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
-def JB_TEST_HYDRO_ENERGY(state, V, shape=None, D=None, wall=None, E=None, nu=None, P_amb=None, units=None, caller=None):
+def JB_TEST_HYDRO_ENERGY(state, V, shape=None, D=None, wall=None, E_mod=None, poisson=None, P_amb=None, units=None, caller=None):
     "Stored energy of a hydrostatic test: the liquid's isentropic expansion on its equation of state plus the stretched wall's elastic energy (cylinder or sphere). An estimate: tests are governed by the codes."
-    return _cell('JB_TEST_HYDRO_ENERGY', state, V, shape, D, wall, E, nu, P_amb, units, caller=caller)
+    return _cell('JB_TEST_HYDRO_ENERGY', state, V, shape, D, wall, E_mod, poisson, P_amb, units, caller=caller)
 
 
 @_xw.func(category='joulebook · Pressure tests')
@@ -891,7 +901,7 @@ def JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY(clearance, P_suction, P_discharge, n, un
 @_xw.arg('V_values', ndim=2, err_to_str=True, doc="volumes in the same order [range; volume in the units argument's unit (m3 by default)]")
 @_xw.arg('units', ndim=2, err_to_str=True, doc="unit system of numbers without a written unit: K-kPa-kJ (default), K-Pa-J, degC-bar-kJ, degF-psia-Btu, R-psia-Btu, or overrides like 'P=psig, V=L' (optional) [text]")
 def JB_POLY_FIT_BRANCHES(P_values, V_values, units=None, caller=None):
-    'Polytropic exponents of the compression and the expansion branch of a measured closed loop, fitted apart: a row (n compression, n expansion).'
+    'Polytropic exponents of the compression and expansion branches of a measured closed loop, fitted apart with valve plateaus (suction, discharge) left out: a row (n compression, n expansion, R² compression, R² expansion).'
     return _cell('JB_POLY_FIT_BRANCHES', P_values, V_values, units, caller=caller)
 
 

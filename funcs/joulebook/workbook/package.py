@@ -140,6 +140,8 @@ class Package:
     maps: list[tuple[str, str]]  # (heading, SVG)
     scope: str
     paper: str = "A4"
+    #: "Sheet!B12" -> its sensitivity result (u_c, U, k), when input uncertainties were given
+    uncertainty: dict = field(default_factory=dict)
 
     @property
     def sheets(self) -> list[str]:

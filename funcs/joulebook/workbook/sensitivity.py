@@ -59,6 +59,7 @@ __all__ = [
     "analyse",
     "Chain",
     "uncertainties_in_book",
+    "may_state_uncertainties",
     "to_json",
     "to_markdown",
     "console_lines",
@@ -547,6 +548,19 @@ def uncertainties_in_book(chain: Chain) -> dict:
                     )
                 break
     return out
+
+
+def may_state_uncertainties(book: Book) -> bool:
+    """A quick look, without reading any formula: does *book* have a ``u_…`` name or a text
+    cell that could head a column of uncertainties?"""
+    if any(n.upper().startswith("U_") for n in book.names):
+        return True
+    for c in book.cells.values():
+        if c.formula is None and isinstance(c.cached, str):
+            words = c.cached.strip().lower().split()
+            if words and (words[0] in _U_HEADINGS or c.cached.strip().lower() in _U_HEADINGS):
+                return True
+    return False
 
 
 def _heading(chain: Chain, s, r, c) -> str | None:
