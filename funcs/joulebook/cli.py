@@ -120,15 +120,22 @@ def _progress(quiet: bool = False) -> _Bar:
     return _Bar(0, "cells", quiet, least=0)
 
 
-def _load(path: str):
+def _load(path: str, budget=None):
     from .errors import JoulebookError
     from .runio import regular_file, shown
+    from .workbook.budget import TooLarge, run_within
     from .workbook.engine import Engine
     from .workbook.reader import read_book
 
-    try:
+    bar = _progress()
+
+    def work():
         regular_file(Path(path))
         book = read_book(path)
+        return book, Engine(book, progress=_cells_only(bar)).run()
+
+    try:
+        return run_within(budget, work)
     except (JoulebookError, OSError) as e:
         msg = (
             e.cell_text()
@@ -138,9 +145,9 @@ def _load(path: str):
         name = shown(Path(path).name)
         print(msg if name in msg else f"{shown(path)}: {msg}", file=sys.stderr)
         return None, None
-    bar = _progress()
-    try:
-        return book, Engine(book, progress=_cells_only(bar)).run()
+    except TooLarge as e:
+        print(_too_large(shown(path), e), file=sys.stderr)
+        return None, None
     finally:
         bar.close()
 
@@ -167,7 +174,10 @@ def _recalc(ns: argparse.Namespace) -> int:
     except JoulebookError as e:
         print(e.cell_text(), file=sys.stderr)
         return 2
-    book, outcomes = _load(ns.book)
+    budget = _budget(ns)
+    if budget is None:
+        return 2
+    book, outcomes = _load(ns.book, budget)
     if book is None:
         return 2
     try:
@@ -281,8 +291,11 @@ def _check(ns: argparse.Namespace) -> int:
     except BadInput as e:
         print(e.cell_text(), file=sys.stderr)
         return 2
+    budget = _budget(ns, min(len(paths), ns.jobs or os.cpu_count() or 1))
+    if budget is None:
+        return 2
     allow = (ns.allow_errors, ns.allow_unsupported, ns.allow_refusals, ns.allow_unit_clash)
-    jobs = [(str(p), ns.rtol, ns.atol, *allow) for p in paths]
+    jobs = [(str(p), ns.rtol, ns.atol, *allow[:2], budget, *allow[2:]) for p in paths]
     bar = _Bar(len(jobs), "workbooks", ns.quiet, least=2)
     try:
         if ns.cluster:
@@ -503,11 +516,15 @@ def check_one(job, shown_as: str | None = None) -> dict:
     *shown_as* is the path the verdict names when the file checked is a copy."""
     from .errors import JoulebookError
     from .runio import regular_file, shown, uri
+    from .workbook.budget import TooLarge, run_within
     from .workbook.check import compare, failing, summary, to_json, to_junit
     from .workbook.engine import Engine
     from .workbook.reader import read_book
+    from .workbook.status import Status
 
-    path, rtol, atol, *allow = job
+    path, rtol, atol, allow_errors, allow_unsupported, *rest = job
+    budget = rest[0] if rest else None
+    allow = (allow_errors, allow_unsupported, *rest[1:3])
     name = shown(shown_as or path)
     res = {
         "path": name,
@@ -517,15 +534,21 @@ def check_one(job, shown_as: str | None = None) -> dict:
         "failing": [],
         "summary": {},
     }
-    try:
+
+    def work():
         regular_file(Path(path))
         book = read_book(path)
         if shown_as or name != path:
             book.path = Path(name)
-        rows = compare(book, Engine(book).run(), rtol=rtol, atol=atol)
+        return book, compare(book, Engine(book).run(), rtol=rtol, atol=atol)
+
+    try:
+        book, rows = run_within(budget, work)
     except (JoulebookError, OSError) as e:
         why = e.cell_text() if isinstance(e, JoulebookError) else f"cannot read: {e.strerror}"
         return {**res, "code": 2, "message": why}
+    except TooLarge as e:
+        return {**res, "code": 2, "message": _too_large(None, e), "status": Status.TOO_LARGE.value}
     except Exception as e:  # a defect of ours, reported with this workbook's name
         return {**res, "code": 3, "message": f"internal error ({type(e).__name__}): {e}"}
     bad = failing(rows, *allow)
@@ -547,7 +570,10 @@ def _combined_json(results: list, ns, many: bool) -> str:
     books = []
     for r in results:
         if r["message"]:
-            books.append({"workbook": r["path"], "exit": r["code"], "reason": r["message"]})
+            books.append(
+                {"workbook": r["path"], "exit": r["code"], "reason": r["message"]}
+                | ({"status": r["status"]} if r.get("status") else {})
+            )
         else:
             books.append({**json.loads(r["json"]), "exit": r["code"]})
     return json.dumps(
@@ -696,7 +722,6 @@ def _audit(ns: argparse.Namespace) -> int:
     from .errors import BadInput
     from .files import atomic_write
     from .runio import guard_outputs, regular_file, shown
-    from .workbook.audit import build_audit
     from .workbook.reader import read_book
 
     out = Path(ns.output)
@@ -720,20 +745,24 @@ def _audit(ns: argparse.Namespace) -> int:
         named = shown(Path(ns.book).name) in msg
         print(msg if named else f"{shown(ns.book)}: {msg}", file=sys.stderr)
         return 2
+    budget = _budget(ns)
+    if budget is None:
+        return 2
+    from .workbook.budget import TooLarge, run_within
+
     bar = _progress()
     try:
-        report = build_audit(book, progress=_cells_only(bar), copies=False, maps=False)
-    finally:
-        bar.close()
-    from .workbook.package import build_package, render_package, write_pdf
-
-    package = build_package(report, ns.paper)
-    try:
-        _uncertain(package, book, ns)
-    except BadInput as e:
+        report, package, text = run_within(budget, _audit_work, book, ns, bar)
+    except TooLarge as e:
+        print(_too_large(shown(ns.book), e), file=sys.stderr)
+        return 2
+    except BadInput as e:  # a stated uncertainty not understood (--u)
         print(f"{shown(Path(ns.book).name)}: {e.message}", file=sys.stderr)
         return 2
-    text = render_package(package).encode("utf-8", "backslashreplace")
+    finally:
+        bar.close()
+    from .workbook.package import write_pdf
+
     target = out
     pages = 0
     try:
@@ -778,6 +807,53 @@ def _audit(ns: argparse.Namespace) -> int:
             print(f"flag {e.sheet}!{e.cell}: {f}", file=sys.stderr)
         return 1
     return 0
+
+
+def _audit_work(book, ns: argparse.Namespace, bar):
+    """The audit's report, its calculation package (with ± U where uncertainties are given
+    or stated) and the package's HTML: the work the budget bounds."""
+    from .workbook.audit import build_audit
+    from .workbook.package import build_package, render_package
+
+    report = build_audit(book, progress=_cells_only(bar), copies=False, maps=False)
+    package = build_package(report, ns.paper)
+    _uncertain(package, book, ns)
+    return report, package, render_package(package).encode("utf-8", "backslashreplace")
+
+
+# --- the budget of one workbook: --max-seconds, --max-memory (check, recalc, audit) ------
+def _add_budget(p: argparse.ArgumentParser) -> None:
+    p.add_argument(
+        "--max-seconds",
+        type=float,
+        default=600.0,
+        help="stop a workbook taking longer than this and report it too large to check "
+        "(exit 2; nothing written); default 600",
+    )
+    p.add_argument(
+        "--max-memory",
+        metavar="SIZE",
+        help="stop a workbook whose run needs more memory than this (800M, 2G; a plain number "
+        "is MiB) and report it too large (exit 2; nothing written); default half the "
+        "machine's memory shared by the workbooks run at once",
+    )
+
+
+def _budget(ns: argparse.Namespace, jobs: int = 1):
+    """The Budget of the options, or None (after saying why) when one is not valid."""
+    from .workbook.budget import Budget, default_memory, parse_memory
+
+    try:
+        memory = parse_memory(ns.max_memory) if ns.max_memory else default_memory(jobs)
+        return Budget(max_seconds=ns.max_seconds, max_memory=memory)
+    except ValueError as e:
+        msg = str(e).replace("max_seconds", "--max-seconds").replace("max_memory", "--max-memory")
+        print(msg, file=sys.stderr)
+        return None
+
+
+def _too_large(path, e) -> str:
+    return (f"{path}: " if path else "") + f"too large to check within the budget: {e.reason}"
 
 
 def _workbooks(ns: argparse.Namespace) -> int:
@@ -862,6 +938,7 @@ def build_parser() -> argparse.ArgumentParser:
     r.add_argument(
         "--json", help="write every changed cell and every cell left as saved (with why) here"
     )
+    _add_budget(r)
     r.set_defaults(run=_recalc)
 
     c = sub.add_parser(
@@ -938,6 +1015,7 @@ def build_parser() -> argparse.ArgumentParser:
         action="store_true",
         help="no progress bar (it is shown only on a terminal)",
     )
+    _add_budget(c)
     c.set_defaults(run=_check)
 
     dm = sub.add_parser(
@@ -995,6 +1073,7 @@ def build_parser() -> argparse.ArgumentParser:
         help="exit 1 when any flag is raised (the reports are written first)",
     )
     a.add_argument("--force", action="store_true", help="replace existing outputs")
+    _add_budget(a)
     a.set_defaults(run=_audit)
 
     # joulebook diff OLD NEW: two revisions compared (options and run in workbook/diffcmd.py)

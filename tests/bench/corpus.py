@@ -1,9 +1,12 @@
 """Agreement of the headless engine (and of the formula library used as-is) with the values
 a spreadsheet program saved, over a folder of workbooks.
 
-    python tests/bench/corpus.py FOLDER [--library] [--json out.json]
+    python tests/bench/corpus.py FOLDER [--library] [--json out.json] [--table]
 
-Each workbook runs in its own process with a time limit.  For every formula cell with a saved
+Each workbook runs in its own process with a time limit; its time and peak memory are
+printed beside its agreement.  ``--table`` adds a table of the disagreeing cells by function
+(each function named in the formula of a cell that does not agree) and by cause (the status
+and the first words of its reason).  For every formula cell with a saved
 value the engine's status is counted (pass, differs, unsupported, …); with ``--library`` the
 ``formulas`` library's ExcelModel is run on the same file and its values compared cell by cell
 with the saved ones, so the two agreement figures are measured on the same cells.
@@ -55,13 +58,18 @@ def _library(path: str) -> dict:
 def _run(kind: str, path: str, q) -> None:
     import io
     import os
+    import resource
+    import time
 
     sys.stderr = io.StringIO()  # count tracebacks instead of printing them
     try:
+        t0 = time.perf_counter()
         res = (_ours if kind == "ours" else _library)(path)
-        q.put(("ok", res, sys.stderr.getvalue()))
+        took = time.perf_counter() - t0
+        peak = resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024  # MiB (Linux: KiB)
+        q.put(("ok", res, sys.stderr.getvalue(), took, peak))
     except Exception:
-        q.put(("fail", traceback.format_exc(limit=3), sys.stderr.getvalue()))
+        q.put(("fail", traceback.format_exc(limit=3), sys.stderr.getvalue(), 0.0, 0.0))
     q.close()
     q.join_thread()
     os._exit(0)
@@ -74,11 +82,59 @@ def run_one(kind: str, path: str, timeout: float):
     try:
         res = q.get(timeout=timeout)
     except Exception:
-        res = ("timeout", None, "")
+        res = ("timeout", None, "", timeout, 0.0)
     p.join(5)
     if p.is_alive():
         p.kill()
     return res
+
+
+def _functions(formula: str) -> set[str]:
+    """The functions a formula calls (by the tokenizer), without the _xlfn. prefixes."""
+    from joulebook.workbook.refs import tokens
+
+    try:
+        toks = tokens(formula.lstrip("="))
+    except Exception:
+        return {"(formula not tokenized)"}
+    return {
+        v[:-1].upper().replace("_XLFN.", "").replace("_XLWS.", "")
+        for v, t, sub in toks
+        if t == "FUNC" and sub == "OPEN"
+    }
+
+
+def _cause(status: str, note: str) -> str:
+    """A cell's cause of disagreement: its status and the first words of its reason."""
+    if status == "differs" or not note:
+        return status
+    why = note.split(";")[0]
+    if why.startswith("not checked"):
+        inner = why.split("(", 1)[1] if "(" in why else why
+        return "not checked (" + inner.split(":")[0].strip(" )") + ")"
+    return why[:70]
+
+
+def _table(report: dict) -> str:
+    by_func: dict = {}
+    by_cause: dict = {}
+    for entry in report.values():
+        for v in entry.get("cells", {}).values():
+            status, note, formula = v[0], v[1], v[4]
+            cause = _cause(status, note)
+            by_cause[cause] = by_cause.get(cause, 0) + 1
+            for f in _functions(formula) or {"(no function)"}:
+                row = by_func.setdefault(f, {})
+                row[status] = row.get(status, 0) + 1
+    lines = ["", "disagreeing cells by cause", f"{'cells':>7}  cause"]
+    for cause, n in sorted(by_cause.items(), key=lambda x: -x[1]):
+        lines.append(f"{n:>7}  {cause}")
+    lines += ["", "disagreeing cells by function (a cell counts once per function it calls)"]
+    lines.append(f"{'cells':>7}  {'function':<22} statuses")
+    for f, row in sorted(by_func.items(), key=lambda x: -sum(x[1].values()))[:60]:
+        parts = ", ".join(f"{k} {n}" for k, n in sorted(row.items(), key=lambda x: -x[1]))
+        lines.append(f"{sum(row.values()):>7}  {f:<22} {parts}")
+    return "\n".join(lines)
 
 
 def main() -> int:
@@ -87,13 +143,22 @@ def main() -> int:
     ap.add_argument("--library", action="store_true")
     ap.add_argument("--json")
     ap.add_argument("--timeout", type=float, default=120)
+    ap.add_argument("--table", action="store_true", help="print the cause and function tables")
     ns = ap.parse_args()
     files = sorted(p for p in Path(ns.folder).rglob("*") if p.suffix.lower() in (".xlsx", ".xlsm"))
     total = {"cells": 0, "pass": 0, "lib_cells": 0, "lib_pass": 0, "stderr": 0}
     report = {}
+    shares: list = []  # agreement of each workbook (with cells)
+    slowest = (0.0, "")
+    peak_max = (0.0, "")
+    failures: list = []
     for f in files:
-        st, res, err = run_one("ours", str(f), ns.timeout)
-        entry = {"ours": st, "stderr": bool(err.strip())}
+        st, res, err, took, peak = run_one("ours", str(f), ns.timeout)
+        entry = {"ours": st, "stderr": bool(err.strip()), "seconds": took, "peak_mib": peak}
+        slowest = max(slowest, (took, f.name))
+        peak_max = max(peak_max, (peak, f.name))
+        if st != "ok":
+            failures.append(f"{f.name}: {st}")
         total["stderr"] += bool(err.strip())
         if st == "ok":
             statuses = {}
@@ -106,12 +171,14 @@ def main() -> int:
             n, ok = len(res), statuses.get("pass", 0) + statuses.get("error value", 0)
             total["cells"] += n
             total["pass"] += ok
+            if n:
+                shares.append(ok / n)
         else:
             entry["error"] = res
             n = ok = 0
-        line = f"{f.name:<40} ours {ok:>5}/{n:<5}"
+        line = f"{f.name:<40} ours {ok:>5}/{n:<5} {took:7.1f} s {peak:7.0f} MiB"
         if ns.library:
-            lst, lres, _ = run_one("library", str(f), ns.timeout)
+            lst, lres, _, _, _ = run_one("library", str(f), ns.timeout)
             lok = sum(bool(v) for v in lres.values()) if lst == "ok" else 0
             total["lib_pass"] += lok
             entry["library"] = lst
@@ -131,6 +198,16 @@ def main() -> int:
         + (f"; library {total['lib_pass']}" if ns.library else "")
         + f"; workbooks with stderr output: {total['stderr']}"
     )
+    if shares:
+        print(
+            f"mean agreement per workbook {100 * sum(shares) / len(shares):.1f} % ({len(shares)})"
+        )
+    print(
+        f"slowest {slowest[0]:.1f} s ({slowest[1]}); peak memory {peak_max[0]:.0f} MiB ({peak_max[1]})"
+    )
+    print(f"workbooks without a result: {len(failures)}" + "".join(f"\n  {x}" for x in failures))
+    if ns.table:
+        print(_table(report))
     if ns.json:
         Path(ns.json).write_text(json.dumps(report, indent=1, default=str))
     return 0

@@ -39,6 +39,8 @@ import numpy as np
 from ..catalog import CATALOG
 from ..cellvalues import ERRORS_NAME, ErrorValue, error_style, message_of
 from ..cellvalues import cell as shared_cell
+from .functions.lookup import generation as new_generation
+from .functions.lookup import tag as tag_range
 from .reader import Book, Cell, paused_gc
 from .refs import (
     _RUNS,
@@ -138,7 +140,7 @@ _VALUE_ARGS = frozenset(
     CONFIDENCE CONFIDENCE.NORM CONFIDENCE.T STANDARDIZE FISHER FISHERINV
     ERF ERFC ERF.PRECISE ERFC.PRECISE BESSELI BESSELJ BESSELK BESSELY DELTA GESTEP
     BIN2DEC BIN2HEX BIN2OCT DEC2BIN DEC2HEX DEC2OCT HEX2BIN HEX2DEC HEX2OCT OCT2BIN OCT2DEC
-    OCT2HEX BITAND BITOR BITXOR BITLSHIFT BITRSHIFT CONVERT""".split()
+    OCT2HEX BITAND BITOR BITXOR BITLSHIFT BITRSHIFT CONVERT _XLJB.ADD _XLJB.SUB""".split()
 )
 _VALUE_ARGS = _VALUE_ARGS | {"_XLFN." + n for n in _VALUE_ARGS}
 #: functions that evaluate their arguments as arrays even in a plain formula
@@ -168,6 +170,9 @@ _POSITIONAL = frozenset({"ROW", "COLUMN", "SINGLE", "_XLFN.SINGLE"})  # ROW() ne
 _MAX_NAME_DEPTH = 16
 _KEEP_CELLS = 200_000  # boxes up to this size are read whole; larger ones and whole rows or
 # columns are cut to the used part of the sheet
+_CACHED_BOX = 32  # ranges of at least this many cells are built once and kept while the
+# cells run in dependency order (every formula cell inside is final by then)
+_CACHED_CELLS = 5_000_000  # the most cells kept so (the kept ranges are dropped past it)
 
 
 def ERROR(code: str) -> tuple[str, str]:  # noqa: N802 - reads like Excel's error values
@@ -238,6 +243,12 @@ def _register_ours() -> None:
         from . import builtins
 
         builtins.install(table)  # built-ins the library lacks or gets wrong
+        from .functions import rounding
+
+        rounding.install(table)  # MROUND midpoints, IPMT of a negative present value
+        from .functions import lookup
+
+        lookup.install(table)  # a lookup array prepared once per range, not once per formula
         table["SUBTOTAL"] = wrap_func(_subtotal, ranges=True)
         table["COUNTBLANK"] = wrap_func(_countblank, ranges=True)
         for names, fn in (
@@ -265,6 +276,10 @@ def _register_ours() -> None:
         from formulas.functions.operators import OPERATORS
 
         OPERATORS[":"] = wrap_func(_range_op, ranges=True)
+        from .functions import operators as excel_operators
+
+        excel_operators.install(OPERATORS)  # + - * / ^ as Excel (#NUM!, text as numbers)
+        excel_operators.install_final_sums(table)  # a last + or -: Excel's cancellation
         # the library writes numpy booleans as "True" in text ("0"&ISNUMBER(A1)): TRUE, as
         # spreadsheets write them; its text functions and "&" look the helper up at call time
         from formulas.functions import operators, text
@@ -272,6 +287,8 @@ def _register_ours() -> None:
         library_str = text._str
 
         def as_text(x):
+            if isinstance(x, (int, float, np.number)) and not isinstance(x, (bool, np.bool_)):
+                return excel_operators.general_text(float(x))  # 15 digits, 1.00000013E+48
             return library_str(bool(x) if isinstance(x, np.bool_) else x)
 
         text._str = operators._str = as_text
@@ -291,7 +308,10 @@ def _register_ours() -> None:
             b[~flags] = criteria({"raw": raw[~flags]}, condition)
             return b
 
-        library_functions.__dict__["__xfilter"] = criteria_apart
+        from .functions.criteria import remembered
+
+        # once per distinct value of a criteria range, remembered per (range, criterion)
+        library_functions.__dict__["__xfilter"] = remembered(criteria_apart)
         _REGISTERED = True
 
 
@@ -479,6 +499,11 @@ def _offset(ref, rows, cols, height=None, width=None):
         return Error.errors["#VALUE!"]
     sheet, r1, c1, r2, c2 = _box(eng, ref.ranges[0])
     h0, w0 = r2 - r1 + 1, c2 - c1 + 1
+    import schedula as sh
+
+    # an omitted height or width (OFFSET(A1,1,0,,)) is the reference's own
+    height = None if height is sh.EMPTY else height
+    width = None if width is sh.EMPTY else width
     vals = []
     for v in (rows, cols, height, width):
         v = _scalar(v) if v is not None else None
@@ -1192,6 +1217,10 @@ class Engine:
         self._in_progress: set = set()
         self._late: set = set()
         self._late_now = False
+        self._box_cache: dict = {}  # (generation, sheet, r1, c1, r2, c2) -> values, _array
+        self._generation = new_generation()  # renewed whenever kept ranges are dropped
+        self._box_cache_on = False
+        self._box_cached_cells = 0
 
     # --- names, sheets, tables ------------------------------------------------------------
     def _sheet(self, name: str | None, here: str) -> str | None:
@@ -1258,6 +1287,9 @@ class Engine:
         marks: dict = {"where": set(), "whole": set()}
         problem = ""
         try:
+            from .functions.spelling import final_sum, normalized
+
+            formula = final_sum(normalized(formula))  # 1e6, OFFSET(A1,1,0,,), A1-B1 → SUB
             try:
                 formula = expand_let(formula)
             except ValueError as e:
@@ -1614,6 +1646,27 @@ class Engine:
             arr = np.empty((1, 1), dtype=object)
             arr[0, 0] = _as_formula_value(values.get((sheet, r1, c1), sh.EMPTY))
             return arr
+        cache = self._box_cache if self._box_cache_on and h * w >= _CACHED_BOX else None
+        if cache is not None:
+            key = (self._generation, sheet, r1, c1, r2, c2)
+            hit = cache.get(key)
+            if hit is None:
+                hit = self._fresh_array(sheet, r1, c1, r2, c2)
+                self._box_cached_cells += h * w
+                if self._box_cached_cells > _CACHED_CELLS:
+                    cache.clear()
+                    self._box_cached_cells = h * w
+                cache[key] = hit
+            # a copy (a function may write into what it is given), tagged with the range and
+            # the generation of values: exact lookups over it are answered from an index
+            return tag_range(hit.copy(), key)
+        return self._fresh_array(sheet, r1, c1, r2, c2)
+
+    def _fresh_array(self, sheet: str, r1: int, c1: int, r2: int, c2: int):
+        import schedula as sh
+
+        values = self._values
+        h, w = r2 - r1 + 1, c2 - c1 + 1
         arr = np.empty((h, w), dtype=object)
         arr[:] = sh.EMPTY
         for c in range(c1, c2 + 1):
@@ -1715,6 +1768,8 @@ class Engine:
             tpl, shift = self._template(c.sheet, c.formula, c.row, c.col)
             if tpl.problem:
                 out[key] = self._refused(c, tpl.problem)
+                if c.array_ref:  # the cells it fills keep their saved values too
+                    self._refuse_spill(c, tpl.problem)
                 continue
             try:
                 targets = self._targets(tpl, c, shift)
@@ -1756,6 +1811,7 @@ class Engine:
 
         graph: dict = {}
         tables = self._tables
+        box_deps: dict = {}  # (sheet, box) -> the formula cells in it
         for key, p in plans.items():
             deps = set()
             for i, t in enumerate(p.targets):
@@ -1784,18 +1840,16 @@ class Engine:
                         p.cell, "circular reference (the cell reads itself)", kind=Status.CIRCULAR
                     )
                 for s in t.sheets:
-                    r1, c1, r2, c2 = self._bounded(s, t.box)
-                    for cc in range(c1, c2 + 1):
-                        rows = self._rows_by_col.get((s, cc))
-                        if not rows:
-                            continue
-                        for r in rows[bisect_left(rows, r1) : bisect_right(rows, r2)]:
-                            dep = owner.get((s, r, cc), (s, r, cc))
-                            # a cell refused before it could run (its formula not
-                            # understood) is a dependency too: its readers are not checked
-                            if dep != key and (dep in plans or dep in out or dep in tables):
-                                deps.add(dep)
+                    box = self._bounded(s, t.box)
+                    found = box_deps.get((s, box))
+                    if found is None:
+                        found = self._cells_in(s, box, owner, tables)
+                        if (box[2] - box[0] + 1) * (box[3] - box[1] + 1) >= _CACHED_BOX:
+                            box_deps[(s, box)] = found  # read by many: found once
+                    deps.update(found)
+            deps.discard(key)
             graph[key] = tuple(deps)  # a tuple: a set per cell costs 216 bytes
+        box_deps.clear()
         for key, t in self._tables.items():
             formula, subs = _table_parts(t, key)
             deps = {k for k in (formula, *(v for _, v in subs)) if k in plans or k in out}
@@ -1861,23 +1915,50 @@ class Engine:
         total = len(order) + len(late_order)
         _CURRENT.engine = self
         try:
+            # in dependency order a range read is final: its values are built once (_array)
+            self._box_cache_on = True
             for i, node in enumerate(order):
                 if node in batches:
                     self._run_batch(batches[node])
                 elif node in self._tables and node not in out:
+                    self._box_cache_on = False  # the table changes its inputs for a while
+                    self._box_cache.clear()
                     self._run_table(node)
+                    self._generation = new_generation()
+                    self._box_cache_on = True
                 elif node in plans and node not in out:
                     self._run_cell(node)
                 if self.progress and (i % 200 == 0 or i == total - 1):
                     self.progress(i + 1, total)
+            self._box_cache_on = False
+            self._box_cache.clear()
             if late_order:
                 self._run_late(late_order)
                 if self.progress:
                     self.progress(total, total)
         finally:
             _CURRENT.engine = None
+            self._box_cache_on = False
+            self._box_cache.clear()
         self._taint()
         return out
+
+    def _cells_in(self, s: str, box, owner: dict, tables: dict) -> tuple:
+        """The formula cells (array anchors for the cells they fill) in *box* of sheet *s*.
+        A cell refused before it could run (its formula not understood) is one too: its
+        readers are not checked."""
+        plans, out = self._plans, self._out
+        r1, c1, r2, c2 = box
+        found = set()
+        for cc in range(c1, c2 + 1):
+            rows = self._rows_by_col.get((s, cc))
+            if not rows:
+                continue
+            for r in rows[bisect_left(rows, r1) : bisect_right(rows, r2)]:
+                dep = owner.get((s, r, cc), (s, r, cc))
+                if dep in plans or dep in out or dep in tables:
+                    found.add(dep)
+        return tuple(found)
 
     def _run_table(self, key) -> None:
         """One cell of a What-If data table: the table's formula cell recomputed with its
@@ -1912,11 +1993,20 @@ class Engine:
                 continue
             above.add(k)
             stack.extend(graph.get(k, ()))
-        order = list(
-            graphlib.TopologicalSorter(
-                {k: [d for d in graph[k] if d in above] for k in above}
-            ).static_order()
-        )
+        try:
+            order = list(
+                graphlib.TopologicalSorter(
+                    {k: [d for d in graph[k] if d in above] for k in above}
+                ).static_order()
+            )
+        except graphlib.CycleError as e:  # the formula cell reads a circular reference
+            loop = e.args[1][0]
+            self._out[key] = self._refused(
+                cell,
+                f"not checked: depends on {loop[0]}!{col_letters(loop[2])}{loop[1]} "
+                "(circular reference)",
+            )
+            return
         redo: list = []
         for k in order:
             p = plans[k]
@@ -2022,6 +2112,16 @@ class Engine:
         return Outcome(
             v if v is not None else (shown or ERROR("#N/A")), problem, kind=kind, cause=cause
         )
+
+    def _refuse_spill(self, c: Cell, problem: str, kind: Status = Status.UNSUPPORTED) -> None:
+        """The cells of array formula *c* other than its anchor refused as it is."""
+        r1, c1, r2, c2 = _array_box(c)
+        for r in range(r1, r2 + 1):
+            for cc in range(c1, c2 + 1):
+                k = (c.sheet, r, cc)
+                if (r, cc) != (c.row, c.col) and k not in self._out:
+                    spilled = self.book.cells.get(k) or Cell(c.sheet, r, cc)
+                    self._out[k] = self._refused(spilled, problem, kind=kind)
 
     def _taint(self) -> None:
         """Cells reading a refused cell are not checked; cells reading a volatile one are
@@ -2270,6 +2370,8 @@ class Engine:
                 for key in cycle:
                     cell = self._plans[key].cell if key in self._plans else self.book.cells[key]
                     self._out[key] = self._refused(cell, "circular reference", kind=Status.CIRCULAR)
+                    if cell.array_ref:  # the cells an array formula fills go with it
+                        self._refuse_spill(cell, "circular reference", Status.CIRCULAR)
                     graph.pop(key, None)
                 for deps in graph.values():
                     deps -= cycle
@@ -2381,10 +2483,25 @@ def _next_is(toks, i: int, types: tuple) -> bool:
     return False
 
 
+#: functions that read the network, a data service or linked data types: refused by name
+_NETWORK = frozenset(
+    """STOCKHISTORY WEBSERVICE RTD CUBEVALUE CUBEMEMBER CUBESET CUBESETCOUNT CUBERANKEDMEMBER
+    CUBEMEMBERPROPERTY CUBEKPIMEMBER _FV FIELDVALUE IMAGE TRANSLATE DETECTLANGUAGE
+    COPILOT""".split()
+)
+
+
 def _refuse_lambda(formula: str) -> None:
     """Functions a workbook defines for itself (LAMBDA, and the names bound by LAMBDA or by
     the helpers that take one) and What-If data tables are not evaluated: refused by name."""
     for v, t, sub in tokens(formula):
+        if t == "FUNC" and sub == "OPEN":
+            bare = v[:-1].upper().removeprefix("_XLFN.").removeprefix("_XLWS.")
+            if bare in _NETWORK:
+                raise _Unsupported(
+                    f"{bare} needs the network or a data service (not evaluated offline; "
+                    "its saved value is kept)"
+                )
         if t == "FUNC" and sub == "OPEN" and v.upper() == "TABLE(":
             raise _Unsupported(
                 "a What-If data table {=TABLE(…)}: each of its cells is the table's formula "
@@ -2610,6 +2727,8 @@ def _range_dict_cached(sheet: str, box):
 
 # built-ins that act cell by cell on arrays (aggregates such as SUM or MIN are not)
 _ELEMENTWISE = {
+    "_XLJB.ADD",
+    "_XLJB.SUB",
     "IF",
     "IFERROR",
     "IFNA",

@@ -526,10 +526,8 @@ def _read_tables(zf: zipfile.ZipFile, part: str, sheet: str) -> list[Table]:
         root = _parse(zf, target)
         if root is None or not root.get("ref"):
             continue
-        a, _, b = root.get("ref").partition(":")
         try:
-            r1, c1 = split_ref(a)
-            r2, c2 = split_ref(b or a)
+            r1, c1, r2, c2 = _table_box(root.get("ref"))
         except BadInput:
             continue
         cols = [tc.get("name", "") for tc in root.iter(NS + "tableColumn")]
@@ -547,6 +545,20 @@ def _read_tables(zf: zipfile.ZipFile, part: str, sheet: str) -> list[Table]:
             )
         )
     return out
+
+
+def _table_box(ref: str) -> tuple[int, int, int, int]:
+    """(r1, c1, r2, c2) of a table's range: ``A1:E20``, or whole columns ``A:E`` (as
+    LibreOffice saves a table over whole columns) or whole rows ``1:20``."""
+    a, _, b = ref.partition(":")
+    b = b or a
+    if a.isascii() and b.isascii() and a.isalpha() and b.isalpha():  # whole columns
+        return 1, col_number(a.upper()), 1_048_576, col_number(b.upper())
+    if a.isdigit() and b.isdigit():  # whole rows
+        return int(a), 1, int(b), 16_384
+    r1, c1 = split_ref(a)
+    r2, c2 = split_ref(b)
+    return r1, c1, r2, c2
 
 
 def _shared_strings(zf: zipfile.ZipFile, limits: Limits) -> list[str]:

@@ -1,0 +1,1 @@
+"""Built-ins of the headless engine by category, kept out of engine.py (design §1)."""
