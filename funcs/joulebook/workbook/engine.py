@@ -2005,6 +2005,8 @@ class Engine:
                 cell,
                 f"not checked: depends on {loop[0]}!{col_letters(loop[2])}{loop[1]} "
                 "(circular reference)",
+                kind=Status.NOT_CHECKED,
+                cause=Status.CIRCULAR,
             )
             return
         redo: list = []
