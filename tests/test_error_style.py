@@ -96,7 +96,14 @@ def test_check_fails_error_values_unless_allowed_and_recalc_writes_them(tmp_path
     assert main(["check", str(out), "--json", str(tmp_path / "r.json")]) == 1
     report = capsys.readouterr().out
     assert "S!B1" in report and "error" in report
-    assert main(["check", str(out), "--allow-errors"]) == 0
+    # IFERROR swallowing the refusal, and a blank call read on, are red too (design §3);
+    # ISERROR and JB_WHY only look at it
+    assert main(["check", str(out), "--allow-errors"]) == 1
+    report = capsys.readouterr().out
+    assert "S!C1 " in report and "refusal used" in report  # =IFERROR(B1,-1)
+    assert "S!C8 " in report and "blank input" in report  # =B3, B3 blank
+    assert "S!C6 " not in report and "S!C2 " not in report  # =ISERROR(B1), =JB_WHY(B1)
+    assert main(["check", str(out), "--allow-errors", "--allow-refusals"]) == 0
 
 
 # ---------------------------------------------------------------------------------------

@@ -112,17 +112,19 @@ def test_check_reports_missing_values_then_passes_after_recalc(
     # left: the deliberate cycle, the out-of-range call in D1 (a joulebook error fails
     # the check even though the file saved the same text) and D4 = 1/0 (an error value is
     # no pass, even saved alike); the spill cells E2:E3 that openpyxl wrote no <c> element
-    # for were inserted by the writer, so they hold values now
+    # for were inserted by the writer, so they hold values now; D2 = IFERROR(D1*1, …)
+    # swallows D1's refusal: "refusal used" (design §3)
     assert open_ == {
         ("Calc Sheet", "A5"): "circular",
         ("Calc Sheet", "A6"): "circular",
         ("Inputs", "D1"): "error",
+        ("Inputs", "D2"): "refusal used",
         ("Inputs", "D4"): "error value",
     }
     assert code == 1
     assert data["summary"]["circular"] == 2 and data["summary"]["saved_error_values"] == 1
     xml = junit.read_text()
-    assert 'errors="2"' in xml and 'failures="2"' in xml
+    assert 'errors="2"' in xml and 'failures="3"' in xml
     assert (_sha(fixture_book), _sha(recalculated)) == before  # check never writes its input
 
 
@@ -237,7 +239,10 @@ def test_strict_check_relaxed_by_name_and_its_exit_codes(recalculated, tmp_path,
     # D1 holds an out-of-range joulebook error; A5/A6 are a deliberate cycle
     assert main(["check", str(recalculated), "--allow-errors"]) == 1  # the cycle still fails
     out = capsys.readouterr().out
-    assert "relaxed: errors allowed" in out and "rtol=1e-09" in out and "Inputs!D1" not in out
+    assert "relaxed: errors allowed" in out and "rtol=1e-09" in out
+    assert "\nInputs!D1 " not in out  # relaxed: no row of its own
+    # D2 = IFERROR(D1*1, …) swallows D1's refusal: a row with its reason, naming D1
+    assert "\nInputs!D2 " in out and "holds the refusal 'OutOfRange" in out
     reports = tmp_path / "reports" / "deep"  # output folders are created
     code = main(
         [

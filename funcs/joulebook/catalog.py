@@ -26,7 +26,17 @@ from .quantities import cell_values
 from .units import DEFAULT_SYSTEM, unit_system
 from .working import Step, Working
 
-__all__ = ["Arg", "Example", "Func", "CATALOG", "FAMILIES", "lookup", "call", "UNITS_ARG"]
+__all__ = [
+    "Arg",
+    "Example",
+    "Validity",
+    "Func",
+    "CATALOG",
+    "FAMILIES",
+    "lookup",
+    "call",
+    "UNITS_ARG",
+]
 
 
 @dataclass(frozen=True)
@@ -49,6 +59,30 @@ class Example:
     value: object
     rtol: float = 1e-6
     match: str = "equal"  # or "prefix" for text whose tail names library versions
+
+
+@dataclass(frozen=True)
+class Validity:
+    """A limit of the model's physics, declared on an entry and checked by ``check`` and the
+    audit on every call of it (they never name a function: they read these).
+
+    ``value`` is a working expression (:mod:`joulebook.working`) in the entry's argument
+    names, ``result`` and the names of ``defaults``, all SI; the call is inside the model
+    when the value lies within ``low``..``high`` (a bound is a number or one of those
+    names) and, for a text value, is none of ``not_text``.  ``when`` (an expression) must be
+    above zero for the check to apply; a value that cannot be evaluated (an argument left
+    out) is no verdict.  Each default states its source."""
+
+    says: str  # what the value is, in the flag: "hoop stress (P2 − P_amb)·D/(2·wall)"
+    value: str
+    model: str  # the model whose physics ends there
+    low: float | str | None = None
+    high: float | str | None = None
+    when: str = ""
+    not_text: tuple[str, ...] = ()
+    defaults: tuple[tuple[str, float, str], ...] = ()  # (name, SI value, its source)
+    kind: str | None = None  # the units kind of the value and its bounds, for the flag
+    item: int | None = None  # the value is this item of a row the expression returns
 
 
 @dataclass(frozen=True)
@@ -76,6 +110,8 @@ class Func:
     reads_message: bool = False
     # how the result is worked out, in the entry's argument names (the audit and docs show it)
     working: Working | None = None
+    # limits of the model's physics, checked on every call by check and the audit
+    validity: tuple[Validity, ...] = ()
 
     @property
     def all_args(self) -> tuple[Arg, ...]:
@@ -917,6 +953,23 @@ CATALOG: tuple[Func, ...] = (
         Example(([[100], [189.8], [378.7]], [[0.8], [0.5], [0.3]]), 1.3575233586851823, 1e-6),
         elementwise=False,
         working=Working("n", figure="points", columns=("n", "C", "R²")),
+        validity=(
+            Validity(
+                "fitted polytropic exponent n",
+                "result",
+                "a polytropic compression or expansion of a gas",
+                low=1.0,
+                high=1.67,
+            ),
+            Validity(
+                "R² of the fit in ln P – ln V",
+                "JB_POLY_FIT(P_values, V_values, 'all')",
+                "one polytropic path P·V^n = C through the points (a lower R² mixes branches "
+                "or valve events: fit each branch apart)",
+                low=0.99,
+                item=2,
+            ),
+        ),
     ),
     Func(
         "JB_POLY_P2",
@@ -965,6 +1018,16 @@ CATALOG: tuple[Func, ...] = (
         (_REF_WORK,),
         Example((300, 100, 600, 1.3), 453.6225339017037),
         working=Working("T2", "T_1*(P_2/P_1)**((n - 1)/n)", band=_N_BAND),
+        validity=(
+            Validity(
+                "end temperature of a compression (P_2 > P_1) minus its start T_1",
+                "result - T_1",
+                "a polytropic compression of a gas (n ≥ 1: the gas warms as it is compressed)",
+                low=0.0,
+                when="P_2 - P_1",
+                kind="temperature_difference",
+            ),
+        ),
     ),
     # ------------------------------------------------------------------ first law
     Func(
@@ -1264,6 +1327,15 @@ CATALOG: tuple[Func, ...] = (
             ),
             defaults=(("P_amb", 101325.0),),
         ),
+        validity=(
+            Validity(
+                "phase of the contents",
+                "JB_PHASE(state)",
+                "the expansion of a gas (a liquid stores next to no expansion energy: "
+                "treat it as a hydrostatic test)",
+                not_text=("compressed liquid", "saturated liquid"),
+            ),
+        ),
     ),
     Func(
         "JB_STORED_FLASHING_LIQUID",
@@ -1385,6 +1457,26 @@ CATALOG: tuple[Func, ...] = (
                 Step("beta", "JB_PROP(state1, 'beta in 1/K')", "expansion_coefficient"),
                 Step("kappa", "JB_PROP(state1, 'kappa in 1/Pa')", "compressibility"),
             )
+        ),
+        validity=(
+            Validity(
+                "hoop stress (P_2 − P_amb)·D/(2·wall) of the wall",
+                "(result - P_amb)*D/(2*wall)",
+                "a thin wall that stretches elastically (beyond yield the wall deforms "
+                "plastically or fails, and the pressure found does not arise)",
+                high="yield_strength",
+                when="D*wall",
+                defaults=(
+                    ("P_amb", 101325.0, "the standard atmosphere (ISO 2533)"),
+                    (
+                        "yield_strength",
+                        240e6,
+                        "ASTM A106/A106M Grade B carbon-steel pipe, specified minimum yield "
+                        "strength 35 ksi (240 MPa)",
+                    ),
+                ),
+                kind="pressure",
+            ),
         ),
     ),
     Func(
@@ -2047,6 +2139,17 @@ CATALOG: tuple[Func, ...] = (
         working=Working(
             figure="points",
             columns=("n compression", "n expansion", "R² compression", "R² expansion"),
+        ),
+        validity=tuple(
+            Validity(
+                f"fitted polytropic exponent of the {branch} branch",
+                "JB_POLY_FIT_BRANCHES(P_values, V_values)",
+                "a polytropic compression or expansion of a gas",
+                low=1.0,
+                high=1.67,
+                item=i,
+            )
+            for i, branch in enumerate(("compression", "expansion"))
         ),
     ),
     # ------------------------------------------------------------------ humid air

@@ -31,6 +31,7 @@ from .errors import INTERNAL_LABEL, BadInput, BlankInput, JoulebookError, cell_t
 
 __all__ = [
     "ERRORS_NAME",
+    "NEW_WORKBOOK_STYLE",
     "ERROR_CODES",
     "ErrorValue",
     "cell",
@@ -43,6 +44,10 @@ __all__ = [
 #: the workbook-level defined name that sets the error style ("text" or "values")
 ERRORS_NAME = "JB_ERRORS"
 STYLES = ("text", "values")
+#: the style a workbook joulebook makes declares (design §3): real error values, so that SUM,
+#: MAX and every reader propagate a refusal in Excel and Calc too; a workbook without the
+#: name keeps the text style it always had
+NEW_WORKBOOK_STYLE = "values"
 
 #: the error value of each failure label in the "values" style
 ERROR_CODES = {

@@ -195,7 +195,7 @@ def _recalc(ns: argparse.Namespace) -> int:
             file=sys.stderr,
         )
         return 3
-    rows = compare(book, outcomes)
+    rows = compare(book, outcomes, signed=False)  # what changed; no verdict is signed here
     s = summary(rows)
     kept = [r for r in rows if _kept(r)]
     changed = [
@@ -254,7 +254,9 @@ _SHOWN = 10  # cells listed on the console per group
 
 def _kept(r) -> bool:
     """A row of a cell that recalc left with its saved value."""
-    return r.status in ("unsupported", "circular", "error", "not checked")
+    from .workbook.status import Status
+
+    return r.status in (Status.UNSUPPORTED, Status.CIRCULAR, Status.ERROR, Status.NOT_CHECKED)
 
 
 def _write_text(path: str, text: str) -> bool:
@@ -292,9 +294,8 @@ def _check(ns: argparse.Namespace) -> int:
     budget = _budget(ns, min(len(paths), ns.jobs or os.cpu_count() or 1))
     if budget is None:
         return 2
-    jobs = [
-        (str(p), ns.rtol, ns.atol, ns.allow_errors, ns.allow_unsupported, budget) for p in paths
-    ]
+    allow = (ns.allow_errors, ns.allow_unsupported, ns.allow_refusals, ns.allow_unit_clash)
+    jobs = [(str(p), ns.rtol, ns.atol, *allow[:2], budget, *allow[2:]) for p in paths]
     bar = _Bar(len(jobs), "workbooks", ns.quiet, least=2)
     try:
         if ns.cluster:
@@ -315,11 +316,19 @@ def _check(ns: argparse.Namespace) -> int:
         bad = res["failing"]
         if bad:
             print("\n".join(failing_rows(bad[: ns.max_rows])))
+            for r in bad[: ns.max_rows]:  # why a cell that recomputes cannot be signed
+                if r["status"] in _SIGNED_REASONS and r["note"]:
+                    print(f"  {r['sheet']}!{r['cell']} {r['status']}: {r['note'][:300]}")
             if len(bad) > ns.max_rows:
                 print(f"… {len(bad) - ns.max_rows} more (see --json)")
         relaxed = [
             w
-            for w, on in (("errors", ns.allow_errors), ("unsupported", ns.allow_unsupported))
+            for w, on in (
+                ("errors", ns.allow_errors),
+                ("unsupported", ns.allow_unsupported),
+                ("refusals", ns.allow_refusals),
+                ("unit clash", ns.allow_unit_clash),
+            )
             if on
         ]
         print(
@@ -344,6 +353,10 @@ def _check(ns: argparse.Namespace) -> int:
     if ns.sarif and not _write_text(ns.sarif, _sarif(results)):
         return 2
     return code
+
+
+#: the statuses of a value that recomputes but cannot be signed: their reason is printed
+_SIGNED_REASONS = ("unit clash", "refusal used", "blank input", "outside the model")
 
 
 def _on_this_machine(jobs: list, n: int, bar: _Bar) -> list[dict]:
@@ -511,6 +524,7 @@ def check_one(job, shown_as: str | None = None) -> dict:
 
     path, rtol, atol, allow_errors, allow_unsupported, *rest = job
     budget = rest[0] if rest else None
+    allow = (allow_errors, allow_unsupported, *rest[1:3])
     name = shown(shown_as or path)
     res = {
         "path": name,
@@ -537,7 +551,7 @@ def check_one(job, shown_as: str | None = None) -> dict:
         return {**res, "code": 2, "message": _too_large(None, e), "status": Status.TOO_LARGE.value}
     except Exception as e:  # a defect of ours, reported with this workbook's name
         return {**res, "code": 3, "message": f"internal error ({type(e).__name__}): {e}"}
-    bad = failing(rows, allow_errors, allow_unsupported)
+    bad = failing(rows, *allow)
     res.update(
         code=1 if bad else 0,
         summary=summary(rows),
@@ -589,17 +603,12 @@ def _combined_junit(results: list, many: bool) -> str:
     return head + "\n<testsuites>\n" + "\n".join(suites) + "\n</testsuites>\n"
 
 
-_SARIF_RULES = {
-    "differs": "the saved value differs from the recomputed one",
-    "error": "the cell holds a joulebook or engine error",
-    "error value": "the cell holds a spreadsheet error value (#DIV/0!, #N/A …), as saved",
-    "no cached value": "the file holds no saved value for the cell",
-    "unsupported": "the cell uses a function or feature the engine does not evaluate",
-    "not checked": "the cell reads a cell that could not be evaluated",
-    "circular": "the cell is part of a circular reference",
-    "volatile": "the cell depends on NOW, TODAY, RAND or RANDBETWEEN",
-    "unreadable": "the workbook could not be read",
-}
+def _sarif_rules() -> dict[str, str]:
+    """One SARIF rule per failing status (the one Status list), and an unreadable workbook."""
+    from .workbook.status import STATUSES, Status
+
+    rules = {s.value: s.describe() for s in STATUSES if s is not Status.PASS}
+    return {**rules, "unreadable": "the workbook could not be read"}
 
 
 def _sarif(results: list) -> str:
@@ -607,9 +616,10 @@ def _sarif(results: list) -> str:
     cell (Sheet!A1) in the region's message."""
     import json
 
-    from .workbook.check import fmt
+    from .workbook.check import VALUE_STATUSES, fmt
 
-    ids = list(_SARIF_RULES)
+    rules = _sarif_rules()
+    ids = list(rules)
     artifacts, found = [], []
     from .runio import uri as as_uri
 
@@ -637,7 +647,7 @@ def _sarif(results: list) -> str:
                 {
                     "ruleId": c["status"],
                     "ruleIndex": ids.index(c["status"]) if c["status"] in ids else 0,
-                    "level": "error" if c["status"] in ("differs", "error") else "warning",
+                    "level": "error" if c["status"] in VALUE_STATUSES else "warning",
                     "message": {"text": text},
                     "locations": [
                         {
@@ -661,8 +671,7 @@ def _sarif(results: list) -> str:
                         "name": "joulebook check",
                         "version": __version__,
                         "rules": [
-                            {"id": k, "shortDescription": {"text": v}}
-                            for k, v in _SARIF_RULES.items()
+                            {"id": k, "shortDescription": {"text": v}} for k, v in rules.items()
                         ],
                     }
                 },
@@ -936,8 +945,10 @@ def build_parser() -> argparse.ArgumentParser:
         "check",
         help="recompute a workbook and compare with the values Excel saved",
         description="Exit 0 when every formula cell holds; 1 when at least one cell fails "
-        "(differs, holds a joulebook or engine error, unsupported, not checked, circular; "
-        "--allow-errors and --allow-unsupported relax it by name); 2 on a usage error or a "
+        "(differs, holds a joulebook or engine error, unit clash, refusal used, blank input, "
+        "outside the model, unsupported, not checked, circular; --allow-errors, "
+        "--allow-unsupported, --allow-refusals and --allow-unit-clash relax it by name); "
+        "2 on a usage error or a "
         "workbook that cannot be read; 3 on an internal failure.",
     )
     c.add_argument(
@@ -969,6 +980,17 @@ def build_parser() -> argparse.ArgumentParser:
         "--allow-unsupported",
         action="store_true",
         help="do not fail on unsupported cells and the cells depending on them",
+    )
+    c.add_argument(
+        "--allow-refusals",
+        action="store_true",
+        help="do not fail on cells computing on a joulebook refusal or a blank required input "
+        "(they are still counted)",
+    )
+    c.add_argument(
+        "--allow-unit-clash",
+        action="store_true",
+        help="do not fail on cells combining quantities whose units disagree (still counted)",
     )
     c.add_argument(
         "--max-rows", type=int, default=50, help="rows of the table printed (default 50)"

@@ -731,12 +731,27 @@ WORKBOOKS = {
 XLSM = "receiver_pneumatic_test_with_macros.xlsm"
 
 
+def new_workbook():
+    """An empty openpyxl workbook as joulebook makes one: its ``JB_ERRORS`` name declares
+    real error values (``#VALUE!``, ``#NUM!``, ``#N/A``), so that a refusal propagates through
+    SUM, MAX and every reader in Excel and Calc, the message behind it through ``JB_WHY``
+    and the audit."""
+    import openpyxl
+    from openpyxl.workbook.defined_name import DefinedName
+
+    from .cellvalues import ERRORS_NAME, NEW_WORKBOOK_STYLE
+
+    wb = openpyxl.Workbook()
+    wb.properties.creator = "joulebook demo"
+    wb.defined_names[ERRORS_NAME] = DefinedName(ERRORS_NAME, attr_text=f'"{NEW_WORKBOOK_STYLE}"')
+    return wb
+
+
 def build_xlsm(folder: str | Path) -> Path:
     """The receiver workbook as a macro-enabled .xlsm carrying joulebook's VBA wrappers and
     xlwings' own VBA module, configured (sheet ``xlwings.conf``) to call joulebook.sheet.udfs."""
     from pathlib import Path as _P
 
-    import openpyxl
     import xlwings
 
     from .sheet.generate import vba_source
@@ -746,8 +761,7 @@ def build_xlsm(folder: str | Path) -> Path:
     from .workbook.writer import write_copy
 
     folder = _P(folder)
-    wb = openpyxl.Workbook()
-    wb.properties.creator = "joulebook demo"
+    wb = new_workbook()
     receiver_test(wb)
     wb.code_name = "ThisWorkbook"
     wb["Receiver"].sheet_properties.codeName = "Sheet1"
@@ -772,7 +786,6 @@ def build_xlsm(folder: str | Path) -> Path:
 
 def build_workbooks(folder: str | Path, recalculate: bool = True) -> list[Path]:
     """Write every demo workbook into *folder* (with saved values when *recalculate*)."""
-    import openpyxl
 
     from .workbook.engine import Engine
     from .workbook.reader import read_book
@@ -782,8 +795,7 @@ def build_workbooks(folder: str | Path, recalculate: bool = True) -> list[Path]:
     folder.mkdir(parents=True, exist_ok=True)
     out = []
     for name, build in WORKBOOKS.items():
-        wb = openpyxl.Workbook()
-        wb.properties.creator = "joulebook demo"
+        wb = new_workbook()
         build(wb)
         path = folder / name
         raw = folder / ("." + name + ".raw.xlsx")

@@ -83,6 +83,8 @@ def functions_markdown() -> str:
             ]
             if f.notes:
                 out.append(f"- **Note:** {f.notes}")
+            for v in f.validity:  # read by check and the audit: "outside the model"
+                out.append(f"- **Validity:** {_validity_text(v)}")
             if f.caution:
                 out.append(
                     "- **Caution:** an engineering estimate; pressure equipment, trapped liquid and "
@@ -110,6 +112,23 @@ def _working_lines(f) -> list[str]:
         who = w.symbol if name == "=" else name
         out.append(f"- **Flagged by the audit:** {who} outside {lo:g}–{hi:g} ({what})")
     return out
+
+
+def _validity_text(v) -> str:
+    """One validity check of an entry, as docs/functions.md states it."""
+    bounds = []
+    if v.low is not None:
+        bounds.append(f"at least {v.low:g}" if isinstance(v.low, float) else f"at least {v.low}")
+    if v.high is not None:
+        bounds.append(f"at most {v.high:g}" if isinstance(v.high, float) else f"at most {v.high}")
+    if v.not_text:
+        bounds.append("not " + " or ".join(f"'{t}'" for t in v.not_text))
+    when = f" when {v.when} > 0" if v.when else ""
+    item = f", item {v.item + 1} of its row" if v.item is not None else ""
+    text = f"{v.says} (`{v.value}`{item}) {' and '.join(bounds)}{when}: {v.model}"
+    for name, value, src in v.defaults:
+        text += f"; by default {name} = {value:g} in SI units ({src})"
+    return text
 
 
 def _materials_section() -> list[str]:

@@ -33,10 +33,13 @@ from ..working import work_out
 from . import auditflags as eye
 from .auditfig import figure, pretty_unit
 from .calcmap import Node, calc_map
+from .cellunits import declared_units
 from .check import Row, compare, fmt, summary
 from .engine import Engine
 from .reader import Book, Cell, col_letters
 from .refs import cell_refs, our_name, parse_ref, texts, tokens
+from .status import STATUSES, Status
+from .validity import violations
 
 __all__ = ["Input", "Line", "SubCall", "Entry", "Audit", "build_audit", "render_html", "to_json"]
 
@@ -524,14 +527,14 @@ def _status_flags(e: Entry, message: str) -> list[str]:
     row, out = e.row, []
     if row is None:
         return ["not recalculated by the engine"]
-    if row.status == "differs":
+    if row.status is Status.DIFFERS:
         out.append(
             f"saved value {fmt(row.cached)} differs from the recomputed {fmt(row.recomputed)}: "
             "the workbook was not recalculated, or its inputs changed"
         )
-    elif row.status == "no cached value":
+    elif row.status is Status.NO_CACHED_VALUE:
         out.append("no saved value in the file: open and recalculate before sending it out")
-    elif row.status == "error":
+    elif row.status is Status.ERROR:
         what = message or row.note or fmt(row.recomputed)
         if isinstance(row.recomputed, str) and row.recomputed.startswith("OutOfRange:"):
             out.append(
@@ -539,14 +542,21 @@ def _status_flags(e: Entry, message: str) -> list[str]:
             )
         else:
             out.append("the formula returns an error: " + what[:200])
-    elif row.status in ("unsupported", "not checked", "circular"):
-        note = row.note if row.note.startswith(row.status) else f"{row.status}: {row.note}"
+    elif row.status in (Status.UNSUPPORTED, Status.NOT_CHECKED, Status.CIRCULAR):
+        note = row.note if row.note.startswith(row.status.value) else f"{row.status}: {row.note}"
         out.append(note[:220])
-    elif row.status == "volatile":
+    elif row.status is Status.VOLATILE:
         note = row.note if row.note.startswith("volatile") else f"volatile: {row.note}"
         out.append(f"{note[:160]} (recomputed here, not compared)")
-    elif row.status == "error value":
+    elif row.status is Status.ERROR_VALUE:
         out.append(row.note)
+    elif row.status in (
+        Status.UNIT_CLASH,
+        Status.REFUSAL_USED,
+        Status.BLANK_INPUT,
+        Status.OUTSIDE_MODEL,
+    ):
+        out.append(f"{row.status}: {row.note}"[:400])
     return out
 
 
@@ -622,6 +632,18 @@ def _call_flags(sc: SubCall, c: Cell, book: Book) -> list[str]:
     ):
         out += _state_flags(argvals)  # a state that comes from another cell is flagged there
     return out
+
+
+def _validity_flags(sc: SubCall) -> list[str]:
+    """The catalog's validity checks of a call nested in a formula (workbook/validity.py)."""
+    f: Func = sc._f  # type: ignore[attr-defined]
+    if not f.validity:
+        return []
+    res = sc.result
+    units = sc._argvals.get("units")  # type: ignore[attr-defined]
+    if isinstance(res, float) and f.result not in ("text", "number", "asked"):
+        res = sc._system.conv(f.result).to_si(res)  # type: ignore[attr-defined]
+    return violations(f, sc._si, res, units if isinstance(units, str) else None)  # type: ignore[attr-defined]
 
 
 def _standard_atmosphere(v: float, kind: str, system, unit: str) -> bool:
@@ -715,9 +737,10 @@ def _gauge_refs(book: Book, c: Cell, formula: str) -> list[str]:
 # ordinary formulas: precedents, substitution, comparisons
 
 
-def _cell_unit(book: Book, key, by_key: dict) -> tuple[str, str]:
+def _cell_unit(book: Book, key, by_key: dict, declared=None) -> tuple[str, str]:
     """(unit, label) of a cell: the result unit of a joulebook cell, else a unit its label
-    names."""
+    names, else the unit its number format, unit cell or header writes (*declared*,
+    :func:`joulebook.workbook.cellunits.declared_units`)."""
     lab = _label(book, *key)
     e = by_key.get(key)
     if e is not None and e.function and e.result_unit:
@@ -726,6 +749,10 @@ def _cell_unit(book: Book, key, by_key: dict) -> tuple[str, str]:
         k = eye.unit_kind(text)
         if k is not None:
             return text, lab
+    if declared is not None:
+        unit, source = declared(key)
+        if unit:
+            return unit, (lab + "; " if lab else "") + "unit from the " + source
     return "", lab
 
 
@@ -937,6 +964,7 @@ def build_audit(
     entries: list[Entry] = []
     by_key: dict = {}
     drawn: dict[str, str] = {}  # figure hash -> where it was first drawn
+    declared = None  # units the sheet writes beside its inputs (read on first need)
     firsts = None
     if not copies:
         from .groups import runs
@@ -987,7 +1015,7 @@ def build_audit(
             "",
             "",
             row,
-            status=row.status if row is not None else "not checked",
+            status=row.status if row is not None else Status.NOT_CHECKED,
             note=row.note if row is not None else "",
             calls=calls,
         )
@@ -998,7 +1026,9 @@ def build_audit(
             e.table_head, e.table = _table(book, c, values, _columns(top))
         else:
             for k in dict.fromkeys(cell_refs(c.formula, c.sheet)):
-                unit, lab = _cell_unit(book, k, by_key)
+                if declared is None:
+                    declared = declared_units(book, values)
+                unit, lab = _cell_unit(book, k, by_key, declared)
                 src = book.cells.get(k)
                 kind = "formula" if src is not None and src.formula else "cell"
                 e.inputs.append(
@@ -1015,6 +1045,8 @@ def build_audit(
         e.flags += _status_flags(e, o.message if o is not None else "")
         if o is not None and o.message and isinstance(result, tuple):
             e.flags.insert(0, f"the cell shows {result[1]}: {o.message}")
+        for sc in calls if not whole else ():  # a whole call's validity is its status
+            e.flags += [f"{sc.function}: {fl}" for fl in _validity_flags(sc)]
         for sc in calls:
             for fl in _call_flags(sc, c, book):
                 if fl.startswith("note: "):
@@ -1025,7 +1057,8 @@ def build_audit(
             for g in _gauge_refs(book, c, c.formula):
                 if g not in e.flags:
                     e.flags.append(g)
-        e.flags += _comparison_flags(book, c, by_key)
+        if e.status is not Status.UNIT_CLASH:  # else the clash is the flag (verdict.py)
+            e.flags += _comparison_flags(book, c, by_key)
         if whole and calls:
             e.flags += _own_label_flags(e) + _cut_off_flags(c, calls[0], engine, values)
         if not calls:
@@ -1321,16 +1354,22 @@ def _badge(e: Entry) -> str:
     return _BADGE.get(e.status, "bad")
 
 
+#: the badge of each status (the one Status list): green only for a pass; amber for cells
+#: whose value could not be compared; red for every other verdict
 _BADGE = {
-    "pass": "pass",
-    "differs": "bad",
-    "error": "bad",
-    "circular": "bad",
-    "unsupported": "bad",
-    "not checked": "warn",
-    "no cached value": "warn",
-    "volatile": "warn",
+    s: (
+        "pass"
+        if s is Status.PASS
+        else "warn"
+        if s in (Status.NOT_CHECKED, Status.NO_CACHED_VALUE, Status.VOLATILE)
+        else "bad"
+    )
+    for s in STATUSES
 }
+
+
+#: the statuses of a value that recomputes but cannot be signed (design §3)
+_SIGNED = (Status.UNIT_CLASH, Status.REFUSAL_USED, Status.BLANK_INPUT, Status.OUTSIDE_MODEL)
 
 
 def render_html(a: Audit) -> str:
@@ -1364,10 +1403,14 @@ def render_html(a: Audit) -> str:
         ("formula cells audited", len(es)),
         ("of them calling joulebook", sum(1 for e in es if e.calls)),
         ("passes (recomputed = saved, not an error)", sum(_badge(e) == "pass" for e in es)),
-        ("differences", sum(e.status == "differs" for e in es)),
+        ("differences", sum(e.status == Status.DIFFERS for e in es)),
         (
             "errors (joulebook refusals and error values)",
-            sum(e.status in ("error", "error value") for e in es),
+            sum(e.status in (Status.ERROR, Status.ERROR_VALUE) for e in es),
+        ),
+        (
+            "unit clashes, refusals used, blank inputs, outside the model",
+            sum(e.status in _SIGNED for e in es),
         ),
         ("unsupported / circular", sum(e.status in ("unsupported", "circular") for e in es)),
         ("not checked (a precedent was not evaluated)", sum(e.status == "not checked" for e in es)),

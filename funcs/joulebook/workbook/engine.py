@@ -55,6 +55,7 @@ from .refs import (
     split_sheet,
     tokens,
 )
+from .status import Status
 
 __all__ = ["Engine", "Outcome", "ERROR", "VOLATILE"]
 
@@ -190,11 +191,13 @@ class Outcome:
     problem: str = ""
     note: str = ""
     message: str = ""  # the joulebook message behind a failure (its text or error value)
+    kind: Status | None = None  # the typed status of ``problem`` (None: computed)
+    cause: Status | None = None  # for NOT_CHECKED: the status of the cell it depends on
 
     @property
     def kept(self) -> bool:
         """True when the value was not computed here: the saved value must stay."""
-        return bool(self.problem) and not self.problem.startswith("volatile")
+        return bool(self.problem) and self.kind is not Status.VOLATILE
 
 
 class _Unsupported(Exception):
@@ -555,8 +558,11 @@ def _collected(refs, skip_hidden: bool, skip_nested: bool, who: str, filtered_ok
                 and any(r1 <= r <= r2 for r in hidden)
             ):
                 _CURRENT.problems.append(
-                    f"unsupported: {who} over hidden rows of a filtered sheet (filtered and "
-                    "hidden rows are not told apart in the file)"
+                    (
+                        Status.UNSUPPORTED,
+                        f"unsupported: {who} over hidden rows of a filtered sheet (filtered "
+                        "and hidden rows are not told apart in the file)",
+                    )
                 )
                 return "refused"
             for r in range(r1, r2 + 1) if r2 - r1 < 4096 else _rows_in(eng, sheet, r1, r2, c1, c2):
@@ -826,8 +832,11 @@ def _database_function(name: str):
                 h = head.strip().casefold() if isinstance(head, str) else head
                 if h not in heads:
                     _CURRENT.problems.append(
-                        f"unsupported: {name} with a computed criterion (the criteria header "
-                        f"{head!r} names no field)"
+                        (
+                            Status.UNSUPPORTED,
+                            f"unsupported: {name} with a computed criterion (the criteria "
+                            f"header {head!r} names no field)",
+                        )
                     )
                     return Error.errors["#VALUE!"]
                 if _is_error(cond) or isinstance(cond, tuple):
@@ -953,7 +962,9 @@ def _cell_info(info, ref=None):
         return Error.errors["#VALUE!"]
     kind = kind.lower()
     if kind not in _CELL_KINDS:
-        _CURRENT.problems.append(f'unsupported: CELL("{kind}") (formatting and window facts)')
+        _CURRENT.problems.append(
+            (Status.UNSUPPORTED, f'unsupported: CELL("{kind}") (formatting and window facts)')
+        )
         return Error.errors["#VALUE!"]
     if ref is None or ref is sh_empty():
         sheet, r, c = _CURRENT.sheet, _CURRENT.row, _CURRENT.col
@@ -969,7 +980,9 @@ def _cell_info(info, ref=None):
     if kind == "col":
         return float(c)
     if kind == "filename":
-        _CURRENT.problems.append('volatile: CELL("filename") holds where the file is saved')
+        _CURRENT.problems.append(
+            (Status.VOLATILE, 'volatile: CELL("filename") holds where the file is saved')
+        )
         path = eng.book.path
         return f"{path.parent}{os.sep}[{path.name}]{sheet}"
     v = eng._values.get((sheet, r, c))
@@ -1111,7 +1124,7 @@ def _indirect(ref_text, a1=True):
     if not isinstance(text, str):
         return Error.errors["#REF!"]
     if a1 is False or a1 == 0:
-        _CURRENT.problems.append("unsupported: INDIRECT with R1C1-style text")
+        _CURRENT.problems.append((Status.UNSUPPORTED, "unsupported: INDIRECT with R1C1-style text"))
         return Error.errors["#REF!"]
     ref = parse_ref(text.strip())
     if ref is None:
@@ -1809,7 +1822,9 @@ class Engine:
                     dep = (t.sheets[0], r1, c1)
                     if dep == key and key not in out:
                         out[key] = self._refused(
-                            p.cell, "circular reference (the cell reads itself)"
+                            p.cell,
+                            "circular reference (the cell reads itself)",
+                            kind=Status.CIRCULAR,
                         )
                     dep = owner.get(dep, dep)
                     if dep != key and (dep in plans or dep in out or dep in tables):
@@ -1821,7 +1836,9 @@ class Engine:
                     and key not in out
                 ):
                     # the cell reads itself (SUM(3:3) in row 3): Excel's circular reference
-                    out[key] = self._refused(p.cell, "circular reference (the cell reads itself)")
+                    out[key] = self._refused(
+                        p.cell, "circular reference (the cell reads itself)", kind=Status.CIRCULAR
+                    )
                 for s in t.sheets:
                     box = self._bounded(s, t.box)
                     found = box_deps.get((s, box))
@@ -1954,12 +1971,17 @@ class Engine:
         where = f"{formula[0]}!{col_letters(formula[2])}{formula[1]}"
         if formula not in plans:
             o = out.get(formula)
-            self._out[key] = self._refused(
-                cell,
-                f"not checked: depends on {where} ({o.problem})"
-                if o is not None and o.problem
-                else f"unsupported: a data table whose formula cell {where} holds no formula",
-            )
+            if o is not None and o.problem:
+                self._out[key] = self._refused(
+                    cell,
+                    f"not checked: depends on {where} ({o.problem})",
+                    kind=Status.NOT_CHECKED,
+                    cause=o.cause or o.kind,
+                )
+            else:
+                self._out[key] = self._refused(
+                    cell, f"unsupported: a data table whose formula cell {where} holds no formula"
+                )
             return
         inputs = {x for x, _ in subs}
         # the formula cell and what it reads, then those of them that read an input
@@ -1983,6 +2005,8 @@ class Engine:
                 cell,
                 f"not checked: depends on {loop[0]}!{col_letters(loop[2])}{loop[1]} "
                 "(circular reference)",
+                kind=Status.NOT_CHECKED,
+                cause=Status.CIRCULAR,
             )
             return
         redo: list = []
@@ -2031,7 +2055,12 @@ class Engine:
                     out[k] = o_
         if o is None or o.problem:
             problem = o.problem if o is not None else "not evaluated"
-            self._out[key] = self._refused(cell, f"not checked: depends on {where} ({problem})")
+            self._out[key] = self._refused(
+                cell,
+                f"not checked: depends on {where} ({problem})",
+                kind=Status.NOT_CHECKED,
+                cause=(o.cause or o.kind) if o is not None else Status.NOT_CHECKED,
+            )
             return
         if result is not None:
             values[key] = result
@@ -2062,10 +2091,19 @@ class Engine:
             before = now
         for key in changed:
             out[key] = self._refused(
-                plans[key].cell, "circular reference (through run-time references)"
+                plans[key].cell,
+                "circular reference (through run-time references)",
+                kind=Status.CIRCULAR,
             )
 
-    def _refused(self, c: Cell, problem: str, shown=None) -> Outcome:
+    def _refused(
+        self,
+        c: Cell,
+        problem: str,
+        shown=None,
+        kind: Status = Status.UNSUPPORTED,
+        cause: Status | None = None,
+    ) -> Outcome:
         """A cell not evaluated: its saved value stays, and the reason goes with it.  With
         no saved value the cell reads as *shown* (what a spreadsheet program would show,
         when that is known) or #N/A."""
@@ -2073,9 +2111,11 @@ class Engine:
         v = c.cached if c.has_cached else None
         if v is not None:
             self._values[key] = v
-        return Outcome(v if v is not None else (shown or ERROR("#N/A")), problem)
+        return Outcome(
+            v if v is not None else (shown or ERROR("#N/A")), problem, kind=kind, cause=cause
+        )
 
-    def _refuse_spill(self, c: Cell, problem: str) -> None:
+    def _refuse_spill(self, c: Cell, problem: str, kind: Status = Status.UNSUPPORTED) -> None:
         """The cells of array formula *c* other than its anchor refused as it is."""
         r1, c1, r2, c2 = _array_box(c)
         for r in range(r1, r2 + 1):
@@ -2083,7 +2123,7 @@ class Engine:
                 k = (c.sheet, r, cc)
                 if (r, cc) != (c.row, c.col) and k not in self._out:
                     spilled = self.book.cells.get(k) or Cell(c.sheet, r, cc)
-                    self._out[k] = self._refused(spilled, problem)
+                    self._out[k] = self._refused(spilled, problem, kind=kind)
 
     def _taint(self) -> None:
         """Cells reading a refused cell are not checked; cells reading a volatile one are
@@ -2104,14 +2144,15 @@ class Engine:
                 if od is None or not od.problem:
                     continue
                 where = f"{d[0]}!{col_letters(d[2])}{d[1]}"
-                if od.problem.startswith("volatile"):
-                    o.problem = f"volatile: depends on {where}"
+                if od.kind is Status.VOLATILE:
+                    o.problem, o.kind = f"volatile: depends on {where}", Status.VOLATILE
                     continue
                 root = od.problem
-                if root.startswith("not checked"):
-                    o.problem = root
+                if od.kind is Status.NOT_CHECKED:
+                    o.problem, o.cause = root, od.cause
                 else:
-                    o.problem = f"not checked: depends on {where} ({root})"
+                    o.problem, o.cause = f"not checked: depends on {where} ({root})", od.kind
+                o.kind = Status.NOT_CHECKED
                 break
 
     def evaluate(self, sheet: str, row: int, col: int, formula: str, values: dict):
@@ -2231,13 +2272,16 @@ class Engine:
             self._out[key] = self._refused(c, f"unsupported: {e}")
             return
         except Exception as e:
-            self._out[key] = self._refused(c, f"engine: {type(e).__name__} evaluating the formula")
+            self._out[key] = self._refused(
+                c, f"engine: {type(e).__name__} evaluating the formula", kind=Status.ERROR
+            )
             return
         finally:
             self._in_progress.discard(key)
             _CURRENT.min_shape = None
         if _CURRENT.problems:
-            self._out[key] = self._refused(c, _CURRENT.problems[0])
+            kind, problem = _CURRENT.problems[0]
+            self._out[key] = self._refused(c, problem, kind=kind)
             return
         self._store(p, res)
 
@@ -2327,9 +2371,9 @@ class Engine:
                 cycle = set(e.args[1])
                 for key in cycle:
                     cell = self._plans[key].cell if key in self._plans else self.book.cells[key]
-                    self._out[key] = self._refused(cell, "circular reference")
+                    self._out[key] = self._refused(cell, "circular reference", kind=Status.CIRCULAR)
                     if cell.array_ref:  # the cells an array formula fills go with it
-                        self._refuse_spill(cell, "circular reference")
+                        self._refuse_spill(cell, "circular reference", Status.CIRCULAR)
                     graph.pop(key, None)
                 for deps in graph.values():
                     deps -= cycle
@@ -2338,9 +2382,10 @@ class Engine:
         c = p.cell
         key = (c.sheet, c.row, c.col)
         note = "; ".join(sorted({t.note for t in p.targets if isinstance(t, _Target) and t.note}))
-        problem = ""
+        problem, kind = "", None
         if p.tpl.volatile:
             problem = "volatile: " + ", ".join(sorted(p.tpl.volatile))
+            kind = Status.VOLATILE
         last = getattr(_CURRENT, "last_ref", None)
         if p.tpl.top_ref and not c.array_ref and last is not None and len(last.ranges) == 1:
             res = _intersect_result(last, c)  # a reference as a plain formula's result
@@ -2366,7 +2411,7 @@ class Engine:
                     v = _plain(raw) if raw is not None else ERROR("#N/A")
                     self._values[(c.sheet, r, cc)] = v
                     self._out[(c.sheet, r, cc)] = Outcome(
-                        v, problem, note, _message_of_library(raw)
+                        v, problem, note, _message_of_library(raw), kind
                     )
             return
         # a plain formula shows the top-left value of an array result
@@ -2383,7 +2428,7 @@ class Engine:
             return
         self._values[key] = v
         message = _message_of_library(arr.reshape(-1)[0]) if arr.size >= 1 else ""
-        self._out[key] = Outcome(v, problem, note, message)
+        self._out[key] = Outcome(v, problem, note, message, kind)
 
 
 _NOTHING = object()

@@ -152,6 +152,10 @@ class Package:
 # items
 
 
+#: the verdicts of a value that recomputes but cannot be signed (workbook/verdict.py)
+_SIGNED = (Status.UNIT_CLASH, Status.REFUSAL_USED, Status.BLANK_INPUT, Status.OUTSIDE_MODEL)
+
+
 def _good(e: Entry) -> bool:
     return e.status == Status.PASS and not isinstance(e.result, tuple)
 
@@ -204,7 +208,10 @@ def _item(run: Run, by_key: dict[tuple, Entry]) -> Item:
     ]
     it.columns = [_column_name(head.inputs[i]) for i in varying]
     for m in members:
-        own = not _good(m) or any(_shape(f) not in shapes for f in m.flags)
+        # a row failing as the first row does, for the same reason (a unit clash copied
+        # down), is no row of its own: its status shows in the table
+        same = m.status == head.status in _SIGNED and _shape(m.note) == _shape(head.note)
+        own = (not _good(m) and not same) or any(_shape(f) not in shapes for f in m.flags)
         if own and m is not head:
             it.own.append(m)
         it.rows.append(
