@@ -160,3 +160,22 @@ def test_work_within_budget_returns_its_value_and_raises_its_own_errors():
         run_within(Budget(max_seconds=5), lambda: 1 / 0)
     with pytest.raises(ValueError, match="max_seconds = -1"):
         Budget(max_seconds=-1)
+
+
+def test_diff_and_sensitivity_keep_the_budget_of_every_verb(slow_book, tmp_path, capsys):
+    # the slow workbook compared with itself and analysed: both stop past 0.3 s, exit 2,
+    # nothing written; the clean twin (a small workbook) runs within the same budget
+    out = tmp_path / "d.json"
+    t0 = time.perf_counter()
+    assert (
+        main(["diff", str(slow_book), str(slow_book), "--json", str(out), "--max-seconds", "0.3"])
+        == 2
+    )
+    assert main(["sensitivity", str(slow_book), "--json", str(out), "--max-seconds", "0.3"]) == 2
+    assert time.perf_counter() - t0 < 60 and not out.exists()
+    err = capsys.readouterr().err
+    assert err.count("too large to check within the budget") == 2
+    small = _small_book(tmp_path / "small.xlsx")
+    assert main(["diff", str(small), str(small), "--max-seconds", "30"]) == 0
+    assert main(["sensitivity", str(small), "--json", str(out), "--max-seconds", "30"]) == 0
+    assert main(["sensitivity", str(small), "--max-memory", "nonsense"]) == 2

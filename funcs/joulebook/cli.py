@@ -821,7 +821,7 @@ def _audit_work(book, ns: argparse.Namespace, bar):
     return report, package, render_package(package).encode("utf-8", "backslashreplace")
 
 
-# --- the budget of one workbook: --max-seconds, --max-memory (check, recalc, audit) ------
+# --- the budget of one workbook: --max-seconds, --max-memory (every verb on workbooks) -----
 def _add_budget(p: argparse.ArgumentParser) -> None:
     p.add_argument(
         "--max-seconds",
@@ -850,6 +850,28 @@ def _budget(ns: argparse.Namespace, jobs: int = 1):
         msg = str(e).replace("max_seconds", "--max-seconds").replace("max_memory", "--max-memory")
         print(msg, file=sys.stderr)
         return None
+
+
+def _budgeted(p: argparse.ArgumentParser) -> None:
+    """Give a verb registered by its own module (diff, sensitivity) the budget options, and
+    run it within them: past the budget it stops and the workbook is too large (exit 2)."""
+    _add_budget(p)
+    run = p.get_default("run")
+
+    def within(ns: argparse.Namespace) -> int:
+        budget = _budget(ns)
+        if budget is None:
+            return 2
+        from .runio import shown
+        from .workbook.budget import TooLarge, run_within
+
+        try:
+            return run_within(budget, run, ns)
+        except TooLarge as e:
+            print(_too_large(shown(getattr(ns, "book", None) or ns.new), e), file=sys.stderr)
+            return 2
+
+    p.set_defaults(run=within)
 
 
 def _too_large(path, e) -> str:
@@ -1079,12 +1101,12 @@ def build_parser() -> argparse.ArgumentParser:
     # joulebook diff OLD NEW: two revisions compared (options and run in workbook/diffcmd.py)
     from .workbook.diffcmd import add_parser as add_diff_parser
 
-    add_diff_parser(sub)
+    _budgeted(add_diff_parser(sub))
 
     # joulebook sensitivity BOOK: coefficients and uncertainty (workbook/sensitivitycmd.py)
     from .workbook.sensitivitycmd import add_parser as add_sensitivity_parser
 
-    add_sensitivity_parser(sub)
+    _budgeted(add_sensitivity_parser(sub))
 
     x = sub.add_parser(
         "calc-extension",
