@@ -420,12 +420,10 @@ def test_outputs_never_overwrite_inputs(tmp_path, capsys):
 
 
 def test_demo_writes_a_revision_and_its_review(tmp_path):
-    import openpyxl
-
-    from joulebook.demo import WORKBOOKS
+    from joulebook.demo import WORKBOOKS, new_workbook
     from joulebook.demodiff import REVISED, review
 
-    wb = openpyxl.Workbook()
+    wb = new_workbook()  # revision A as the demo makes it (its error style declared)
     WORKBOOKS[REVISED](wb)
     raw = tmp_path / "raw.xlsx"
     wb.save(raw)
@@ -440,6 +438,8 @@ def test_demo_writes_a_revision_and_its_review(tmp_path):
     got = {(c["cell"], c["old"], c["new"]) for c in doc["changes"] if c["kind"] == "input"}
     assert got == {("B10", 15, 12), ("B14", 16, 20)}
     assert doc["summary"]["unexplained"] == 0 and doc["summary"]["formula"] == 0
+    # revision B changes the two inputs and nothing else (its error-style name kept)
+    assert {c["kind"] for c in doc["changes"]} == {"input", "result"}
     p2 = next(c for c in doc["changes"] if c["cell"] == "B19")
     # a colder fill warms through more kelvin to the same 45 degC: the trapped pressure rises
     # (common practice), all of it from the fill temperature

@@ -15,19 +15,26 @@ _EDITS = (
 )
 
 
+#: the plural of each kind of change in the console line ("2 inputs", "1 deleted")
+_PLURAL = {
+    "deleted": "deleted",
+    "inserted": "inserted",
+    "renamed": "renamed",
+    "extended": "extended",
+    "unexplained": "unexplained",
+}
+
+
 def write_revision(folder: str | Path) -> Path:
     """Revision B of the blocked-in line (see ``_EDITS``), recalculated, in *folder*."""
-    import openpyxl
-
-    from .demo import WORKBOOKS
+    from .demo import WORKBOOKS, new_workbook
     from .workbook.engine import Engine
     from .workbook.reader import read_book
     from .workbook.writer import write_copy
 
     folder = Path(folder)
     folder.mkdir(parents=True, exist_ok=True)
-    wb = openpyxl.Workbook()
-    wb.properties.creator = "joulebook demo"
+    wb = new_workbook()  # as revision A was made: the same error style, nothing else changed
     WORKBOOKS[REVISED](wb)
     ws = wb["Line"]
     for cell, value, _why in _EDITS:
@@ -65,6 +72,8 @@ def review(old: Path, reports: Path, echo=print) -> dict:
         data = text.encode("utf-8")
         atomic_write(paths[key], lambda fh, data=data: fh.write(data))
     counts = summary(d)
-    shown = ", ".join(f"{n} {k}" for k, n in counts.items() if n)
+    shown = ", ".join(
+        f"{n} {_PLURAL.get(k, k + 's') if n != 1 else k}" for k, n in counts.items() if n
+    )
     echo(f"revision B of {REVISED} ({new.name}): {shown}  -> {paths['html']}")
     return {"new": new, "counts": counts, **paths}
