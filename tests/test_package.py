@@ -397,3 +397,32 @@ def test_weasyprint_is_imported_only_for_a_pdf(record, tmp_path):
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
     assert out.stdout.strip().splitlines()[-1] == "False"
     assert (tmp_path / "r.html").exists()
+
+
+def test_labelled_inputs_in_a_column_stay_rows_of_their_own(tmp_path):
+    # five inputs one under the other, each with its own label and unit (the way engineers
+    # lay out a calc): five rows; the clean twin, a table column under one heading, is one row
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws.title = "Calc"
+    rows = [
+        ("Fill temperature", 15, "degC"),
+        ("Fill pressure", 4, "bar"),
+        ("Wall temperature", 45, "degC"),
+        ("Water mass", 312, "kg"),
+        ("Design pressure", 16, "barg"),
+    ]
+    for i, (label, value, unit) in enumerate(rows, start=1):
+        ws.cell(i, 1, label), ws.cell(i, 2, value), ws.cell(i, 3, unit)
+    ws["B7"] = "=B1+B2+B3+B4+B5"
+    ws["E1"] = "P [kPa]"
+    for r in range(2, 8):
+        ws.cell(r, 5, 100.0 * r)
+        ws.cell(r, 6, f"=E{r}*2")  # copied down: reads the column cell by cell
+    path = tmp_path / "layout.xlsx"
+    wb.save(path)
+    p = build_package(build_audit(read_book(path)))
+    ins = {i.where: i for i in p.inputs}
+    assert [ins[f"Calc!B{r}"].label for r in range(1, 6)] == [r[0] for r in rows]
+    assert ins["Calc!B5"].unit == "barg" and ins["Calc!B2"].unit == "bar"
+    assert ins["Calc!E2:E7"].value.startswith("6 values")

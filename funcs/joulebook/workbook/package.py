@@ -317,7 +317,9 @@ def _inputs(book: Book, items: list[Item], _refs) -> list[InputRow]:
             j += 1
         block = keys[i : j + 1]
         lab = _label(book, s, r, c)
-        if len(block) > 3:  # a column of values: one row
+        # a column of values (a table's column under one heading) is one row; inputs that
+        # each carry a label of their own stay rows of their own, whatever their layout
+        if len(block) > 3 and not any(_left_text(book, k) for k in block[1:]):
             vals = [_cell_value(book, k) for k in block]
             where = f"{s}!{col_letters(c)}{r}:{col_letters(c)}{block[-1][1]}"
             unit, src = _unit_of(book, block[0], lab, call_units)
@@ -332,6 +334,18 @@ def _inputs(book: Book, items: list[Item], _refs) -> list[InputRow]:
                 out.append(InputRow(where, lab, _cell_value(book, k), unit, src))
         i = j + 1
     return out
+
+
+def _left_text(book: Book, key: tuple) -> bool:
+    """True when the cell just left of *key* holds text: *key* has a label of its own."""
+    s, r, c = key
+    left = book.cells.get((s, r, c - 1))
+    return bool(
+        left is not None
+        and left.formula is None
+        and isinstance(left.cached, str)
+        and left.cached.strip()
+    )
 
 
 def _spills(book: Book, items: list[Item]) -> dict[tuple, Item]:
