@@ -2000,7 +2000,7 @@ class Engine:
                 ).static_order()
             )
         except graphlib.CycleError as e:  # the formula cell reads a circular reference
-            loop = e.args[1][0]
+            loop = min(e.args[1])  # the loop's first cell: the same whatever the set order
             self._out[key] = self._refused(
                 cell,
                 f"not checked: depends on {loop[0]}!{col_letters(loop[2])}{loop[1]} "
