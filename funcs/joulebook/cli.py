@@ -865,9 +865,15 @@ def _budgeted(p: argparse.ArgumentParser) -> None:
         from .runio import shown
         from .workbook.budget import TooLarge, run_within
 
+        outputs = [Path(x) for x in (ns.output, ns.json, ns.summary) if x]
+        before = {p for p in outputs if p.exists()}
         try:
             return run_within(budget, run, ns)
         except TooLarge as e:
+            # the budget passed while the reports were being written: none of them stands
+            for p in outputs:
+                if p not in before:
+                    p.unlink(missing_ok=True)
             print(_too_large(shown(getattr(ns, "book", None) or ns.new), e), file=sys.stderr)
             return 2
 
