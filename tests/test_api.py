@@ -23,7 +23,7 @@ from iapws import IAPWS95
 
 import joulebook
 from joulebook import Q_, State
-from joulebook.errors import BadInput, OutOfRange
+from joulebook.core.errors import BadInput, OutOfRange
 from refcheck import check
 
 IAPWS = "iapws 1.5.5 (PyPI), independent IAPWS-95 implementation"
@@ -45,7 +45,7 @@ def test_import_is_light_and_the_api_is_lazy():
 
 
 def test_one_registry():
-    from joulebook.units import registry
+    from joulebook.core.units import registry
 
     assert Q_(1, "bar")._REGISTRY is registry()
     assert State("water", T=300, P=1e5).h._REGISTRY is registry()

@@ -18,8 +18,8 @@ from iapws import IAPWS95
 import joulebook
 from joulebook import Q_, State
 from joulebook.catalog import CATALOG, UNITS_ARG
-from joulebook.errors import BadInput, OutOfRange
-from joulebook.units import KINDS, set_gauge_atmosphere, unit_system
+from joulebook.core.errors import BadInput, OutOfRange
+from joulebook.core.units import KINDS, set_gauge_atmosphere, unit_system
 from refcheck import check
 
 IAPWS = "iapws 1.5.5 (PyPI), independent IAPWS-95 implementation"

@@ -9,10 +9,10 @@ from pathlib import Path
 import openpyxl
 import pytest
 
-from joulebook.cli import main
-from joulebook.workbook.audit import build_audit, render_html
-from joulebook.workbook.reader import read_book
-from joulebook.workbook.writer import patch_sheet_xml
+from joulebook.faces.cli import main
+from joulebook.faces.workbook.audit import build_audit, render_html
+from joulebook.faces.workbook.reader import read_book
+from joulebook.faces.workbook.writer import patch_sheet_xml
 from wbtools import chromium, rewrite_part
 
 

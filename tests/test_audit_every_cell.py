@@ -13,13 +13,13 @@ import openpyxl
 import pytest
 from openpyxl.worksheet.formula import ArrayFormula
 
-from joulebook.cli import main
-from joulebook.workbook.audit import build_audit, render_html, to_json
-from joulebook.workbook.reader import read_book
+from joulebook.faces.cli import main
+from joulebook.faces.workbook.audit import build_audit, render_html, to_json
+from joulebook.faces.workbook.reader import read_book
 from wbtools import chromium
 
 WORKBOOKS = Path(__file__).resolve().parents[1] / "workbooks"
-AUDIT_CODE = Path(__file__).resolve().parents[1] / "funcs" / "joulebook" / "workbook"
+AUDIT_CODE = Path(__file__).resolve().parents[1] / "funcs" / "joulebook" / "faces" / "workbook"
 
 
 def _planted(path: Path) -> Path:

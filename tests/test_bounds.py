@@ -7,8 +7,8 @@ import time
 import pytest
 
 from joulebook.catalog import call
-from joulebook.errors import BadInput
-from joulebook.units import MAX_UNIT_CHARS
+from joulebook.core.errors import BadInput
+from joulebook.core.units import MAX_UNIT_CHARS
 
 CELL_MAX = 32_767  # Excel's cell-text limit (Microsoft, "Excel specifications and limits")
 

@@ -11,8 +11,8 @@ from pathlib import Path
 
 import pytest
 
-from joulebook.cli import main
-from joulebook.workbook.budget import (
+from joulebook.faces.cli import main
+from joulebook.faces.workbook.budget import (
     DEFAULT_SECONDS,
     Budget,
     TooLarge,
@@ -20,7 +20,7 @@ from joulebook.workbook.budget import (
     parse_memory,
     run_within,
 )
-from joulebook.workbook.status import Status
+from joulebook.faces.workbook.status import Status
 from wbtools import build
 
 
@@ -60,7 +60,7 @@ def test_check_stops_past_max_seconds_and_reports_too_large(slow_book, tmp_path,
     import jsonschema
 
     schema = json.loads(
-        resources.files("joulebook.workbook").joinpath("check.schema.json").read_text()
+        resources.files("joulebook.faces.workbook").joinpath("check.schema.json").read_text()
     )
     jsonschema.Draft202012Validator(schema).validate(data)  # the shipped schema holds it
 

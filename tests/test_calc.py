@@ -19,15 +19,16 @@ from xml.etree import ElementTree
 import pytest
 
 import joulebook
-from joulebook.arghelp import arg_doc
-from joulebook.calc import generate
-from joulebook.calc.typelib import MAGIC, type_library
-from joulebook.calc.worker import answer, serve
 from joulebook.catalog import CATALOG
-from joulebook.cellvalues import cell
-from joulebook.cli import main
+from joulebook.catalog.arghelp import arg_doc
+from joulebook.catalog.cellvalues import cell
+from joulebook.faces import calc as joulebook_calc
+from joulebook.faces.calc.typelib import MAGIC, type_library
+from joulebook.faces.calc.worker import answer, serve
+from joulebook.faces.cli import main
+from joulebook.tools import calcgen as generate
 
-COMPONENT = Path(generate.__file__).with_name("component.py")
+COMPONENT = Path(joulebook_calc.__file__).with_name("component.py")
 
 
 def _component():
@@ -220,7 +221,7 @@ def test_worker_serves_lines_and_never_a_traceback():
 
 def test_worker_process_keeps_its_channel_clean():
     code = (
-        "import joulebook.calc.worker as w; plain = w.answer; "
+        "import joulebook.faces.calc.worker as w; plain = w.answer; "
         "w.answer = lambda r: (print('noise'), plain(r))[1]; w.main()"
     )
     proc = subprocess.run(

@@ -29,12 +29,12 @@ import pytest
 from openpyxl.workbook.defined_name import DefinedName
 from openpyxl.worksheet.formula import ArrayFormula
 
-from joulebook.arghelp import arg_doc
 from joulebook.catalog import CATALOG
-from joulebook.cellvalues import cell
-from joulebook.cli import main
-from joulebook.workbook.engine import Engine
-from joulebook.workbook.reader import read_book
+from joulebook.catalog.arghelp import arg_doc
+from joulebook.catalog.cellvalues import cell
+from joulebook.faces.cli import main
+from joulebook.faces.workbook.engine import Engine
+from joulebook.faces.workbook.reader import read_book
 
 pytestmark = pytest.mark.client
 

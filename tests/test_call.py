@@ -6,8 +6,8 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 import joulebook
-from joulebook.errors import BadInput, cell_text
-from joulebook.states import format_state, parse_state
+from joulebook.core.errors import BadInput, cell_text
+from joulebook.core.states import format_state, parse_state
 
 
 def test_column_in_column_out():
@@ -118,9 +118,9 @@ def test_blank_value_of_a_named_property_is_a_blank_result_in_every_path(tmp_pat
     engine agree (common practice; design §4).  A property left unnamed is a bad formula."""
     import openpyxl
 
-    from joulebook.cellvalues import cell
-    from joulebook.workbook.engine import Engine
-    from joulebook.workbook.reader import read_book
+    from joulebook.catalog.cellvalues import cell
+    from joulebook.faces.workbook.engine import Engine
+    from joulebook.faces.workbook.reader import read_book
 
     args = ("water", "h", "T in degC")
     assert cell("JB_PROP", *args, None, "P in kPa", 100) is None

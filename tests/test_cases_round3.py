@@ -24,10 +24,10 @@ from scipy.integrate import quad, solve_ivp
 from scipy.optimize import brentq, minimize_scalar
 
 from joulebook import call
-from joulebook.errors import BadInput, OutOfRange
-from joulebook.media import medium
-from joulebook.processes import blowdown, gasfire, wall
-from joulebook.substances import solids
+from joulebook.core.errors import BadInput, OutOfRange
+from joulebook.core.media import medium
+from joulebook.core.processes import blowdown, gasfire, wall
+from joulebook.core.substances import solids
 from refcheck import check
 
 CP_SRC = f"CoolProp {CoolProp.__version__} PropsSI, state arithmetic written in the test"
@@ -342,9 +342,9 @@ def _stress_book(path: Path, P_bar: float) -> Path:
 @pytest.mark.parametrize("P_bar, flagged", [(80.0, False), (180.0, True)])
 def test_audit_flags_a_wall_stress_above_yield_and_not_below(tmp_path, P_bar, flagged):
     # planted fault (180 bar: 298 MPa > 235 MPa) and its clean twin (80 bar: 132 MPa)
-    from joulebook.cli import main
-    from joulebook.workbook.audit import build_audit
-    from joulebook.workbook.reader import read_book
+    from joulebook.faces.cli import main
+    from joulebook.faces.workbook.audit import build_audit
+    from joulebook.faces.workbook.reader import read_book
 
     src = _stress_book(tmp_path / "w.xlsx", P_bar)
     out = tmp_path / "w-r.xlsx"
@@ -476,7 +476,7 @@ def test_glycol_and_oil_fills_by_name():
     rho = call("JB_PROP", "ethylene glycol 40 % | T = 20 degC | P = 2 bar", "rho in kg/m3")
     check(rho, 1052.0, rtol=3e-3, quantity="density", conditions="ethylene glycol 40 %, 20 °C",
           source="ASHRAE Handbook — Fundamentals, glycol tables (from memory)")  # fmt: skip
-    from joulebook.substances import liquids
+    from joulebook.core.substances import liquids
 
     check(liquids.liquid("ethylene glycol 40 %").T_min - 273.15, -24.0, rtol=0.04,
           quantity="freezing point", conditions="ethylene glycol 40 %",
@@ -551,9 +551,9 @@ def test_audit_of_a_glycol_fill_and_a_fill_below_its_freezing_point(tmp_path, T_
     # clean twin: every cell passes with no flag; planted fault: a 40 % solution at −30 °C is
     # below its freezing point (about −24 °C, ASHRAE glycol tables, from memory): refused, and
     # the cells that use it are not shown as passes
-    from joulebook.cli import main
-    from joulebook.workbook.audit import build_audit
-    from joulebook.workbook.reader import read_book
+    from joulebook.faces.cli import main
+    from joulebook.faces.workbook.audit import build_audit
+    from joulebook.faces.workbook.reader import read_book
 
     src = _glycol_book(tmp_path / "g.xlsx", T_fill)
     out = tmp_path / "g-r.xlsx"

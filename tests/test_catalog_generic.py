@@ -7,8 +7,8 @@ import pytest
 
 import joulebook
 from joulebook.catalog import CATALOG, FAMILIES, lookup
-from joulebook.errors import BadInput, JoulebookError
-from joulebook.units import KINDS
+from joulebook.core.errors import BadInput, JoulebookError
+from joulebook.core.units import KINDS
 
 IDS = [f.name for f in CATALOG]
 VBA_KEYWORDS = {
@@ -265,7 +265,7 @@ def test_errors_are_project_types_only():
 @pytest.mark.parametrize("f", CATALOG, ids=IDS)
 def test_entry_points_at_its_adapter_by_reference(f):
     """An entry holds its adapter itself (a reader can follow it), not a name in a string."""
-    import joulebook.formulas as adapters
+    import joulebook.catalog.adapters as adapters
 
     assert callable(f.impl) and getattr(adapters, f.impl.__name__) is f.impl
     assert f.column is None or getattr(adapters, f.column.__name__) is f.column

@@ -11,11 +11,11 @@ import jsonschema
 import openpyxl
 import pytest
 
-from joulebook.cli import main
+from joulebook.faces.cli import main
 
 
 def _schema() -> dict:
-    text = resources.files("joulebook.workbook").joinpath("check.schema.json")
+    text = resources.files("joulebook.faces.workbook").joinpath("check.schema.json")
     return json.loads(text.read_text(encoding="utf-8"))
 
 

@@ -5,8 +5,8 @@ import sys
 from pathlib import Path
 
 from joulebook.catalog import CATALOG
-from joulebook.cli import main
-from joulebook.docgen import functions_markdown
+from joulebook.faces.cli import main
+from joulebook.tools.docgen import functions_markdown
 
 ROOT = Path(__file__).resolve().parents[1]
 
@@ -29,7 +29,7 @@ def test_eval_prints_value(capsys):
 
 
 def test_help_does_not_import_the_property_library():
-    code = "import sys; from joulebook.cli import main\ntry:\n main(['--help'])\nexcept SystemExit: pass\nprint('CoolProp' in sys.modules, 'pint' in sys.modules)"
+    code = "import sys; from joulebook.faces.cli import main\ntry:\n main(['--help'])\nexcept SystemExit: pass\nprint('CoolProp' in sys.modules, 'pint' in sys.modules)"
     r = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
     assert r.stdout.strip().endswith("False False")
 
@@ -43,7 +43,7 @@ def test_result_labels_come_from_the_quantity_table_for_every_entry():
     from pathlib import Path
 
     from joulebook.catalog import CATALOG
-    from joulebook.units import KIND_WORDS
+    from joulebook.core.units import KIND_WORDS
 
     doc = (Path(__file__).resolve().parents[1] / "docs" / "functions.md").read_text()
     for f in CATALOG:

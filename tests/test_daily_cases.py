@@ -11,7 +11,7 @@ import math
 import pytest
 
 from joulebook import call
-from joulebook.errors import BadInput, OutOfRange
+from joulebook.core.errors import BadInput, OutOfRange
 from refcheck import check
 
 IAPWS = "iapws 1.5.5 (PyPI), independent IAPWS-95 implementation"

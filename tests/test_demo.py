@@ -5,8 +5,8 @@ from pathlib import Path
 import openpyxl
 import pytest
 
-from joulebook.cli import main
-from joulebook.demo import WORKBOOKS, build_workbooks
+from joulebook.faces.cli import main
+from joulebook.tools.demo import WORKBOOKS, build_workbooks
 
 ROOT = Path(__file__).resolve().parents[1]
 
@@ -32,8 +32,8 @@ def test_macro_enabled_copy_carries_the_vba_wrappers():
     # independent reader of VBA projects: oletools' olevba (PyPI)
     from oletools.olevba import VBA_Parser
 
-    from joulebook.demo import XLSM
-    from joulebook.sheet.generate import vba_source
+    from joulebook.tools.demo import XLSM
+    from joulebook.tools.sheetgen import vba_source
 
     path = ROOT / "workbooks" / XLSM
     modules = {name: code for _f, _s, name, code in VBA_Parser(str(path)).extract_macros()}
@@ -50,7 +50,7 @@ def test_macro_enabled_copy_carries_the_vba_wrappers():
     assert got.rstrip("\n") == vba_source().rstrip("\n")
     assert modules["xlwings.bas"].startswith('Attribute VB_Name = "xlwings"')
     wb = openpyxl.load_workbook(path, keep_vba=True)
-    assert wb["xlwings.conf"]["B1"].value == "joulebook.sheet.udfs"
+    assert wb["xlwings.conf"]["B1"].value == "joulebook.faces.sheet.udfs"
     assert main(["check", str(path)]) == 0
 
 

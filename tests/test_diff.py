@@ -13,12 +13,12 @@ import shutil
 
 import pytest
 
-from joulebook.cli import main
-from joulebook.workbook.diff import diff_books, render_html, schema, to_json, to_markdown
-from joulebook.workbook.engine import Engine
-from joulebook.workbook.reader import read_book
-from joulebook.workbook.status import Status
-from joulebook.workbook.writer import write_copy
+from joulebook.faces.cli import main
+from joulebook.faces.workbook.diff import diff_books, render_html, schema, to_json, to_markdown
+from joulebook.faces.workbook.engine import Engine
+from joulebook.faces.workbook.reader import read_book
+from joulebook.faces.workbook.status import Status
+from joulebook.faces.workbook.writer import write_copy
 from wbtools import build, with_saved
 
 BASE = {
@@ -420,8 +420,8 @@ def test_outputs_never_overwrite_inputs(tmp_path, capsys):
 
 
 def test_demo_writes_a_revision_and_its_review(tmp_path):
-    from joulebook.demo import WORKBOOKS, new_workbook
-    from joulebook.demodiff import REVISED, review
+    from joulebook.tools.demo import WORKBOOKS, new_workbook
+    from joulebook.tools.demodiff import REVISED, review
 
     wb = new_workbook()  # revision A as the demo makes it (its error style declared)
     WORKBOOKS[REVISED](wb)
@@ -431,7 +431,7 @@ def test_demo_writes_a_revision_and_its_review(tmp_path):
     (tmp_path / "recalculated").mkdir()
     old = write_copy(book, Engine(book).run(), tmp_path / "recalculated" / REVISED)
     lines = []
-    r = review(old, tmp_path / "reports", echo=lines.append)
+    r = review(old, tmp_path / "reports", WORKBOOKS, new_workbook, echo=lines.append)
     assert r["new"].parent == tmp_path / "revisions" and r["html"].exists()
     doc = json.loads(r["json"].read_text())
     _validate(doc)
@@ -492,7 +492,7 @@ def test_html_report_renders_in_a_browser(tmp_path):
 
 
 def test_internal_failure_exits_3_without_a_traceback(tmp_path, capsys, monkeypatch):
-    import joulebook.workbook.diff as diff_module
+    import joulebook.faces.workbook.diff as diff_module
 
     def broken(*args, **kwargs):
         raise RuntimeError("planted defect")

@@ -6,8 +6,8 @@ without the loop whose values are derived by hand."""
 from openpyxl.workbook.defined_name import DefinedName
 from openpyxl.worksheet.formula import ArrayFormula, DataTableFormula
 
-from joulebook.cli import main
-from joulebook.workbook.status import Status
+from joulebook.faces.cli import main
+from joulebook.faces.workbook.status import Status
 from wbtools import build, outcomes
 
 

@@ -23,9 +23,9 @@ from hypothesis import strategies as st
 from openpyxl.formula.translate import Translator
 from openpyxl.workbook.defined_name import DefinedName
 
-from joulebook.workbook.engine import Engine
-from joulebook.workbook.reader import read_book
-from joulebook.workbook.refs import texts
+from joulebook.faces.workbook.engine import Engine
+from joulebook.faces.workbook.reader import read_book
+from joulebook.faces.workbook.refs import texts
 from wbtools import library_values
 
 ROWS, COLS = 8, 5  # the data grid A1:E8 on both sheets

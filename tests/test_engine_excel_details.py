@@ -11,9 +11,9 @@ Sources of the expected values, named beside each check:
 
 from pathlib import Path
 
-from joulebook.workbook.functions.operators import cancel_sum, general_text, power
-from joulebook.workbook.functions.rounding import ipmt, mround
-from joulebook.workbook.functions.spelling import normalized
+from joulebook.faces.workbook.functions.operators import cancel_sum, general_text, power
+from joulebook.faces.workbook.functions.rounding import ipmt, mround
+from joulebook.faces.workbook.functions.spelling import normalized
 from wbtools import build, outcomes
 
 
@@ -140,7 +140,7 @@ def test_the_pieces_alone():
 def test_network_and_data_service_functions_are_refused_by_name(tmp_path):
     from openpyxl.worksheet.formula import ArrayFormula
 
-    from joulebook.workbook.status import Status
+    from joulebook.faces.workbook.status import Status
 
     def spill(wb):
         wb["S"]["D1"] = ArrayFormula("D1:D3", '=_xlfn.STOCKHISTORY("XYZ",1)')

@@ -13,9 +13,9 @@ import numpy as np
 from openpyxl.worksheet.formula import ArrayFormula
 from openpyxl.worksheet.table import Table, TableColumn, TableStyleInfo
 
-from joulebook.workbook.engine import Engine
-from joulebook.workbook.functions.criteria import remembered
-from joulebook.workbook.reader import read_book
+from joulebook.faces.workbook.engine import Engine
+from joulebook.faces.workbook.functions.criteria import remembered
+from joulebook.faces.workbook.reader import read_book
 from wbtools import build, outcomes, rewrite_part
 
 
@@ -56,7 +56,7 @@ def test_a_table_saved_over_whole_columns_is_found(tmp_path):
 
 
 def test_a_table_range_of_whole_columns_or_rows_is_read():
-    from joulebook.workbook.reader import _table_box
+    from joulebook.faces.workbook.reader import _table_box
 
     assert _table_box("A:E") == (1, 1, 1_048_576, 5)
     assert _table_box("B2:D9") == (2, 2, 9, 4)

@@ -15,10 +15,10 @@ from openpyxl.workbook.defined_name import DefinedName
 from openpyxl.worksheet.formula import ArrayFormula
 from openpyxl.worksheet.table import Table, TableColumn, TableStyleInfo
 
-from joulebook.cli import main
-from joulebook.workbook.check import compare
-from joulebook.workbook.engine import ERROR, Engine
-from joulebook.workbook.reader import read_book
+from joulebook.faces.cli import main
+from joulebook.faces.workbook.check import compare
+from joulebook.faces.workbook.engine import ERROR, Engine
+from joulebook.faces.workbook.reader import read_book
 from wbtools import build, outcomes, rewrite_part, with_saved
 
 
@@ -641,9 +641,9 @@ def test_what_if_data_table_cells_are_the_formula_recomputed_per_input(tmp_path)
 
 
 def test_data_table_recalc_writes_the_results_and_check_tells_a_stale_one(tmp_path):
-    from joulebook.workbook.engine import Engine
-    from joulebook.workbook.reader import read_book
-    from joulebook.workbook.writer import write_copy
+    from joulebook.faces.workbook.engine import Engine
+    from joulebook.faces.workbook.reader import read_book
+    from joulebook.faces.workbook.writer import write_copy
 
     path = _data_table_book(tmp_path, {"S!B5": 0.0})
     book = read_book(path)

@@ -11,10 +11,10 @@ import openpyxl
 import pytest
 from openpyxl.workbook.defined_name import DefinedName
 
-from joulebook.cli import main
-from joulebook.errors import BadInput
-from joulebook.workbook.engine import ERROR, Engine
-from joulebook.workbook.reader import read_book
+from joulebook.core.errors import BadInput
+from joulebook.faces.cli import main
+from joulebook.faces.workbook.engine import ERROR, Engine
+from joulebook.faces.workbook.reader import read_book
 from wbtools import build
 
 CELLS = {
@@ -107,7 +107,7 @@ def test_check_fails_error_values_unless_allowed_and_recalc_writes_them(tmp_path
 
 
 # ---------------------------------------------------------------------------------------
-# the sheet face: the same cells through joulebook.sheet.cells with a stand-in caller
+# the sheet face: the same cells through joulebook.faces.sheet.cells with a stand-in caller
 
 
 class _Names(list):
@@ -129,11 +129,11 @@ def _caller(address, style=None, book="calc.xlsx"):
 def sheet_cells():
     import sys
 
-    from joulebook.sheet.generate import windows_stubs
+    from joulebook.tools.sheetgen import windows_stubs
 
     for name, mod in windows_stubs().items():
         sys.modules.setdefault(name, mod)
-    import joulebook.sheet.cells as cells
+    import joulebook.faces.sheet.cells as cells
 
     cells._STYLES.clear()
     cells._MESSAGES.clear()
@@ -179,7 +179,7 @@ def test_sheet_face_spills_error_values_per_element(sheet_cells):
 
 
 def test_the_audit_says_why_a_cell_shows_an_error_value(tmp_path):
-    from joulebook.workbook.audit import build_audit
+    from joulebook.faces.workbook.audit import build_audit
 
     report = build_audit(read_book(_book(tmp_path, '"values"')), figures=False)
     b1 = next(e for e in report.entries if e.cell == "B1")

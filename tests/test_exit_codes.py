@@ -14,7 +14,7 @@ from pathlib import Path
 import pytest
 
 from handmade import _book, _sheet
-from joulebook.cli import main
+from joulebook.faces.cli import main
 
 ROOT = Path(__file__).resolve().parents[1]
 
@@ -206,7 +206,7 @@ def test_a_lost_cluster_is_exit_2_naming_what_was_not_checked(tmp_path, capsys):
 
 
 def test_an_internal_failure_is_exit_3_with_a_message(tmp_path, monkeypatch, capsys):
-    from joulebook.workbook import engine
+    from joulebook.faces.workbook import engine
 
     src = _fresh(tmp_path)
 
@@ -279,7 +279,7 @@ def test_a_file_name_that_is_not_utf8_is_checked_and_reported(tmp_path, capsys):
 
 
 def test_a_full_disk_leaves_the_old_report_and_names_the_target(tmp_path, monkeypatch, capsys):
-    import joulebook.files as files
+    import joulebook.faces.files as files
 
     src = _stale(tmp_path)
     rep = tmp_path / "r.json"
@@ -300,7 +300,7 @@ def test_a_full_disk_leaves_the_old_report_and_names_the_target(tmp_path, monkey
 
 
 def test_a_read_only_target_is_exit_2_naming_it(tmp_path, monkeypatch, capsys):
-    import joulebook.files as files
+    import joulebook.faces.files as files
 
     src = _stale(tmp_path)
 

@@ -10,7 +10,7 @@ ordinary water substance" (melting temperatures); IAPWS R6-95(2018), the IAPWS-9
 import pytest
 
 from joulebook import call
-from joulebook.errors import BadInput, OutOfRange
+from joulebook.core.errors import BadInput, OutOfRange
 
 
 def test_cold_liquid_by_t_and_h_is_two_states_not_the_wet_one():

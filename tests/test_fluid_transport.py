@@ -8,7 +8,7 @@ designations (isomer letters lower case, blend letters upper case), from memory.
 import pytest
 
 from joulebook import call
-from joulebook.errors import BadInput, OutOfRange
+from joulebook.core.errors import BadInput, OutOfRange
 from refcheck import check
 
 IAPWS = "iapws 1.5.5 (PyPI), IAPWS transport formulations"
@@ -47,7 +47,7 @@ def test_surface_tension_on_the_saturation_line_only():
 
 
 def test_fluid_names_read_naturally_and_library_keys_stay_internal():
-    from joulebook.substances.fluids import fluid_names
+    from joulebook.core.substances.fluids import fluid_names
 
     names = set(fluid_names())
     for good in ("cyclohexane", "isobutene", "R152a", "R236fa", "R410A", "R1234ze(E)"):

@@ -13,7 +13,7 @@ Sources
 import pytest
 from iapws import IAPWS95, IAPWS97
 
-from joulebook.errors import BadInput, OutOfRange
+from joulebook.core.errors import BadInput, OutOfRange
 from refcheck import check
 
 T7 = "IAPWS-95 (2018) Table 7 (recalled from memory; agrees with iapws 1.5.5 to 4e-9)"
@@ -323,7 +323,7 @@ def test_ambiguous_T_h_is_refused(call):
 
 
 def test_every_fluid_has_a_valid_state(call):
-    from joulebook.substances.fluids import fluid_info, fluid_names
+    from joulebook.core.substances.fluids import fluid_info, fluid_names
 
     names = fluid_names()
     assert len(names) >= 100

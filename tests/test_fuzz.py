@@ -28,9 +28,9 @@ from pathlib import Path
 import pytest
 
 from handmade import SHEET, _book, _sheet
-from joulebook.cli import main
-from joulebook.workbook.reader import read_book
-from joulebook.workbook.xmlspans import scan
+from joulebook.faces.cli import main
+from joulebook.faces.workbook.reader import read_book
+from joulebook.faces.workbook.xmlspans import scan
 
 FUZZ_DEFAULT = 32
 MEMORY_CAP_MB = 300.0  # peak of Python allocations per run (tracemalloc)
@@ -210,7 +210,7 @@ def _same_but_cached(src: Path, out: Path) -> str:
     boxes = set()
     for (s, _r, _c), (f, _raw, arr, *_rest) in a.items():
         if f is not None and arr:
-            from joulebook.workbook.reader import Limits, declared_range
+            from joulebook.faces.workbook.reader import Limits, declared_range
 
             r1, c1, r2, c2 = declared_range(arr, "fuzz", Limits())
             boxes |= {(s, rr, cc) for rr in range(r1, r2 + 1) for cc in range(c1, c2 + 1)}

@@ -13,7 +13,7 @@ import cantera as ct
 import numpy as np
 import pytest
 
-from joulebook.errors import BadInput, OutOfRange
+from joulebook.core.errors import BadInput, OutOfRange
 from refcheck import check
 
 NASA_SRC = "NASA TM-4513 polynomials via Cantera 3.2.0 (nasa_gas.yaml)"

@@ -22,11 +22,11 @@ from hypothesis import strategies as st
 
 import joulebook
 from joulebook.catalog import CATALOG
-from joulebook.cli import main
-from joulebook.errors import BadInput, JoulebookError
-from joulebook.sheet.cells import cell
-from joulebook.workbook.engine import Engine
-from joulebook.workbook.reader import Limits, read_book
+from joulebook.core.errors import BadInput, JoulebookError
+from joulebook.faces.cli import main
+from joulebook.faces.sheet.cells import cell
+from joulebook.faces.workbook.engine import Engine
+from joulebook.faces.workbook.reader import Limits, read_book
 from wbtools import rewrite_part
 
 SHEET_HEAD = b'<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n'
@@ -258,7 +258,7 @@ def test_interrupted_write_leaves_the_old_output(tmp_path, monkeypatch):
     assert main(["recalc", str(src), "-o", str(out)]) == 0
     before_in, before_out = _sha(src), _sha(out)
 
-    import joulebook.workbook.writer as w
+    import joulebook.faces.workbook.writer as w
 
     real = zipfile.ZipFile.writestr
     calls = {"n": 0}
@@ -449,8 +449,8 @@ def test_an_ods_file_is_named_as_such(tmp_path):
     `mimetype` holding the media type)."""
     import zipfile
 
-    from joulebook.errors import BadInput
-    from joulebook.workbook.reader import read_book
+    from joulebook.core.errors import BadInput
+    from joulebook.faces.workbook.reader import read_book
 
     p = tmp_path / "calc.ods"
     with zipfile.ZipFile(p, "w") as z:

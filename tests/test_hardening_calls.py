@@ -11,10 +11,10 @@ import threading
 import pytest
 
 import joulebook
-from joulebook.calc.worker import lines, serve
 from joulebook.catalog import CATALOG, call
-from joulebook.cellvalues import cell
-from joulebook.errors import BadInput
+from joulebook.catalog.cellvalues import cell
+from joulebook.core.errors import BadInput
+from joulebook.faces.calc.worker import lines, serve
 
 HUGE = 10**400  # beyond the largest float, 1.797e308 (IEEE 754 binary64)
 
@@ -69,7 +69,7 @@ GOOD = b'{"f": "JB_CONVERT", "a": [1.0, "m", "ft"]}\n'
 def test_the_worker_process_answers_every_malformed_request_and_survives():
     feed = GOOD + b"".join(MALFORMED) + GOOD
     proc = subprocess.run(
-        [sys.executable, "-m", "joulebook.calc.worker"],
+        [sys.executable, "-m", "joulebook.faces.calc.worker"],
         input=feed,
         capture_output=True,
         timeout=120,

@@ -10,7 +10,7 @@ SR5-05): Table 33's pressures are met to their stated consistency, 2e-4 here.
 import pytest
 
 from joulebook import call
-from joulebook.errors import OutOfRange
+from joulebook.core.errors import OutOfRange
 from refcheck import check
 
 IF97 = "IAPWS R7-97(2012) verification tables (from memory)"

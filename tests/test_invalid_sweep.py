@@ -14,7 +14,7 @@ from hypothesis import strategies as st
 
 from joulebook import call
 from joulebook.catalog import CATALOG
-from joulebook.errors import JoulebookError
+from joulebook.core.errors import JoulebookError
 
 _NUMERIC = [(f, i) for f in CATALOG for i, a in enumerate(f.args) if a.type == "number"]
 

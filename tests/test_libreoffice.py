@@ -16,9 +16,9 @@ from pathlib import Path
 import openpyxl
 import pytest
 
-from joulebook.cli import main
-from joulebook.workbook.engine import Engine
-from joulebook.workbook.reader import read_book
+from joulebook.faces.cli import main
+from joulebook.faces.workbook.engine import Engine
+from joulebook.faces.workbook.reader import read_book
 
 SOFFICE = shutil.which("soffice") or shutil.which("libreoffice")
 # not in the default run (it needs LibreOffice); .ci/run installs it and runs `pytest -m client`

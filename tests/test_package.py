@@ -16,12 +16,12 @@ import pytest
 from openpyxl.workbook.defined_name import DefinedName
 from openpyxl.worksheet.formula import ArrayFormula
 
-from joulebook.cli import main
-from joulebook.workbook.audit import build_audit
-from joulebook.workbook.groups import relative_form, runs
-from joulebook.workbook.package import ROW_LIMIT, build_package, render_package
-from joulebook.workbook.reader import read_book
-from joulebook.workbook.titleblock import read_title_block
+from joulebook.faces.cli import main
+from joulebook.faces.workbook.audit import build_audit
+from joulebook.faces.workbook.groups import relative_form, runs
+from joulebook.faces.workbook.package import ROW_LIMIT, build_package, render_package
+from joulebook.faces.workbook.reader import read_book
+from joulebook.faces.workbook.titleblock import read_title_block
 from wbtools import chromium, with_saved
 
 N = 500
@@ -262,7 +262,7 @@ def test_package_renders_in_chromium(record, tmp_path):
 def test_demo_writes_an_html_and_a_pdf_package_per_workbook(tmp_path):
     from pypdf import PdfReader
 
-    from joulebook.demo import WORKBOOKS, run_demo
+    from joulebook.tools.demo import WORKBOOKS, run_demo
 
     results = run_demo(tmp_path / "d", echo=lambda *a: None)
     assert len(results) == len(WORKBOOKS)
@@ -390,7 +390,7 @@ def test_weasyprint_is_imported_only_for_a_pdf(record, tmp_path):
     import sys
 
     code = (
-        "import sys; from joulebook.cli import main; "
+        "import sys; from joulebook.faces.cli import main; "
         f"main(['audit', {str(record)!r}, '-o', {str(tmp_path / 'r.html')!r}]); "
         "print('weasyprint' in sys.modules)"
     )

@@ -10,10 +10,10 @@ import openpyxl
 import pytest
 from openpyxl.worksheet.formula import ArrayFormula
 
-from joulebook.cli import main
-from joulebook.workbook.audit import build_audit
-from joulebook.workbook.auditfig import pretty_unit
-from joulebook.workbook.reader import read_book
+from joulebook.faces.cli import main
+from joulebook.faces.workbook.audit import build_audit
+from joulebook.faces.workbook.auditfig import pretty_unit
+from joulebook.faces.workbook.reader import read_book
 
 WORKBOOKS = Path(__file__).resolve().parents[1] / "workbooks"
 
@@ -129,7 +129,7 @@ def test_hydrotest_working_has_its_numbers_substituted():
 
 
 def test_a_spilled_table_is_the_result_not_its_first_heading(tmp_path):
-    from joulebook.workbook.package import build_package, render_package
+    from joulebook.faces.workbook.package import build_package, render_package
 
     html = render_package(
         build_package(build_audit(read_book(WORKBOOKS / "piston_on_stops.xlsx"), figures=False))

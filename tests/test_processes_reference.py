@@ -16,7 +16,7 @@ import numpy as np
 import pytest
 from iapws import IAPWS95
 
-from joulebook.errors import BadInput, OutOfRange
+from joulebook.core.errors import BadInput, OutOfRange
 from refcheck import check
 
 IAPWS = "iapws 1.5.5 (PyPI), independent IAPWS-95 implementation"

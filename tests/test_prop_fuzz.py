@@ -9,7 +9,7 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 import joulebook
-from joulebook.errors import JoulebookError
+from joulebook.core.errors import JoulebookError
 
 SPECS = {
     "T in K": st.floats(min_value=-50, max_value=3000),

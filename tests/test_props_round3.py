@@ -13,7 +13,7 @@ import math
 import pytest
 
 from joulebook import call
-from joulebook.errors import BadInput, OutOfRange
+from joulebook.core.errors import BadInput, OutOfRange
 from refcheck import check
 
 IF97 = "water (IF97)"
@@ -445,9 +445,9 @@ def test_blend_isentropic_discharge_from_either_function_agrees():
 
 
 def test_the_audit_names_the_blend_model(tmp_path):
-    from joulebook.cli import main
-    from joulebook.workbook.audit import build_audit
-    from joulebook.workbook.reader import read_book
+    from joulebook.faces.cli import main
+    from joulebook.faces.workbook.audit import build_audit
+    from joulebook.faces.workbook.reader import read_book
     from wbtools import build
 
     src = build(tmp_path / "blend.xlsx", {
@@ -608,7 +608,7 @@ def test_derivative_properties_of_saturated_liquid_and_vapour(T, x):
 
 
 def test_mixture_phase_never_assumed_when_nothing_can_establish_it(monkeypatch):
-    from joulebook.substances import mixtures
+    from joulebook.core.substances import mixtures
 
     mix = mixtures.parse(NG4)
     # planted fault: no envelope can be traced and the bubble/dew solver fails

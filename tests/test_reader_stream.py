@@ -3,8 +3,8 @@ as the element tree read it (ECMA-376 Part 1 §18.3.1.4 c, §18.3.1.96 v, §18.4
 
 import pytest
 
-from joulebook.errors import BadInput
-from joulebook.workbook.reader import read_book
+from joulebook.core.errors import BadInput
+from joulebook.faces.workbook.reader import read_book
 from wbtools import build, rewrite_part
 
 HEAD = (

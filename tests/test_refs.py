@@ -1,4 +1,4 @@
-"""References read from the formula tokenizer (joulebook.workbook.refs).
+"""References read from the formula tokenizer (joulebook.faces.workbook.refs).
 
 Expected readings follow the A1 reference grammar of ECMA-376 Part 1, §18.17 (common
 practice: what the spreadsheet programs write in saved files).
@@ -6,7 +6,7 @@ practice: what the spreadsheet programs write in saved files).
 
 import pytest
 
-from joulebook.workbook.refs import (
+from joulebook.faces.workbook.refs import (
     MAX_COL,
     MAX_ROW,
     calls_ours,

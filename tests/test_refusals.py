@@ -11,7 +11,7 @@ import math
 import pytest
 
 from joulebook import call
-from joulebook.errors import BadInput
+from joulebook.core.errors import BadInput
 
 
 @pytest.mark.parametrize(
@@ -76,7 +76,7 @@ def test_adiabatic_is_not_silently_isentropic():
     ],
 )
 def test_messages_name_the_argument_not_an_exception_class(args, words):
-    from joulebook.errors import JoulebookError
+    from joulebook.core.errors import JoulebookError
 
     with pytest.raises(JoulebookError) as e:
         call(*args)

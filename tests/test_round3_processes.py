@@ -12,7 +12,7 @@ import numpy as np
 import pytest
 
 from joulebook import call
-from joulebook.errors import BadInput, OutOfRange
+from joulebook.core.errors import BadInput, OutOfRange
 from refcheck import check
 
 IAPWS = "iapws 1.5.5 (PyPI), independent IAPWS-95 implementation"
@@ -170,7 +170,7 @@ def _card(n_c=1.33, n_e=1.24, noise=0.005, seed=1, step=1.0):
     centre down to 1 bar, a suction plateau at 1 bar, compression P·V^1.33 from 1 bar at
     bottom dead centre up to 4 bar, a discharge plateau at 4 bar; valve flutter of ±2 % on
     both plateaus and multiplicative noise on every pressure (seeded)."""
-    from joulebook.processes import engines
+    from joulebook.core.processes import engines
 
     th = np.arange(0.0, 360.0, step)
     V = np.array([engines.volume(t, 0.1, 0.08, 0.16, 2e-5) for t in th])
@@ -209,7 +209,7 @@ def test_branch_fits_of_a_noise_free_card_are_exact_to_the_break_sample():
 def test_whole_branch_fits_of_the_card_would_be_far_off():
     # the planted fault of the old behaviour: the plateaus fitted with the polytropes give
     # exponents of about 0.46 and 0.25 (the issue saw 0.59 and 0.44 on its card)
-    from joulebook.processes.polytropic import fit
+    from joulebook.core.processes.polytropic import fit
 
     P, V = _card()
     falling = np.diff(np.r_[V, V[0]]) < 0
@@ -339,7 +339,7 @@ def test_a_liquid_below_its_boiling_point_does_not_flash():
 def test_heating_to_a_billionth_of_a_kelvin_from_the_source_is_refused_not_guessed():
     # the integrand's rounding (T from u to 1e-13) is larger than the distance to the source:
     # no time can be stated to 1e-10, so it is refused, naming the target
-    from joulebook.errors import NoConvergence
+    from joulebook.core.errors import NoConvergence
 
     with pytest.raises(NoConvergence, match=r"target T = 399\.999999999 K lies too close"):
         call("JB_TIME_HEATING", AIR, 1, "T in K", 400 - 1e-9, None, 0.05, 400)

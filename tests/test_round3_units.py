@@ -9,8 +9,8 @@ import pytest
 
 import joulebook
 from joulebook import call
-from joulebook.errors import BadInput
-from joulebook.units import SYMBOLS, convert, parse_phrase, parse_unit, unit_system
+from joulebook.core.errors import BadInput
+from joulebook.core.units import SYMBOLS, convert, parse_phrase, parse_unit, unit_system
 from refcheck import check
 
 NIST = "NIST SP 811 (2008) Appendix B.8 (from memory)"
@@ -193,8 +193,8 @@ def test_the_wall_messages_name_the_new_arguments():
 
 def test_the_new_spellings_are_seeded_so_labels_are_read_without_pint():
     # a label such as "Pressure (kg/cm2g)" is read from the unit seed (hand: the same maps)
-    from joulebook.units import known_unit
-    from joulebook.unitseed import CONVS
+    from joulebook.core.units import known_unit
+    from joulebook.core.unitseed import CONVS
 
     assert CONVS[("millimeter_water", "pressure")] == (9.80665, 0.0)
     assert CONVS[("meter_water", "pressure")] == (9806.65, 0.0)

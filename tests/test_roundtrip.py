@@ -15,11 +15,11 @@ from pathlib import Path
 import pytest
 
 from handmade import SHEET, _book, _sheet
-from joulebook.cli import main
-from joulebook.errors import BadInput
-from joulebook.workbook.engine import Engine
-from joulebook.workbook.reader import read_book
-from joulebook.workbook.roundtrip import CopyMismatch, prove_copy
+from joulebook.core.errors import BadInput
+from joulebook.faces.cli import main
+from joulebook.faces.workbook.engine import Engine
+from joulebook.faces.workbook.reader import read_book
+from joulebook.faces.workbook.roundtrip import CopyMismatch, prove_copy
 from wbtools import rewrite_part
 
 
@@ -90,7 +90,7 @@ def test_an_array_range_not_starting_at_its_cell_is_refused(tmp_path, capsys):
 def test_the_proof_aborts_a_copy_that_lost_a_cell(tmp_path, monkeypatch, capsys):
     """A planted writer fault (a label dropped) must abort the write with exit 3, the
     target untouched; the clean twin passes the same proof."""
-    import joulebook.workbook.writer as w
+    import joulebook.faces.workbook.writer as w
 
     src = _book(tmp_path, "in.xlsx", _sheet())
     out = tmp_path / "out.xlsx"

@@ -13,10 +13,10 @@ from pathlib import Path
 
 import pytest
 
-from joulebook.cli import main
-from joulebook.errors import BadInput
-from joulebook.workbook.reader import read_book
-from joulebook.workbook.sensitivity import (
+from joulebook.core.errors import BadInput
+from joulebook.faces.cli import main
+from joulebook.faces.workbook.reader import read_book
+from joulebook.faces.workbook.sensitivity import (
     TEXT_INPUT,
     Uncertainty,
     analyse,
@@ -60,7 +60,7 @@ def one(report, cell: str):
 
 
 def _a1(key) -> str:
-    from joulebook.workbook.reader import col_letters
+    from joulebook.faces.workbook.reader import col_letters
 
     return f"{col_letters(key[2])}{key[1]}"
 

@@ -13,8 +13,8 @@ from pathlib import Path
 import pytest
 
 from joulebook.catalog import CATALOG, FAMILIES
-from joulebook.sheet import cells
-from joulebook.sheet.generate import load_udf_module, paths, udf_source, vba_source
+from joulebook.faces.sheet import cells
+from joulebook.tools.sheetgen import load_udf_module, paths, udf_source, vba_source
 
 ROOT = Path(__file__).resolve().parents[1]
 PY, BAS = paths(ROOT)
@@ -123,8 +123,8 @@ def test_cell_shapes():
 
 
 def test_a_library_failure_is_labelled_text_not_a_traceback(monkeypatch):
-    import joulebook.cellvalues as shared
-    import joulebook.sheet.cells as c
+    import joulebook.catalog.cellvalues as shared
+    import joulebook.faces.sheet.cells as c
 
     def boom(*a):
         raise KeyError("x")

@@ -14,8 +14,8 @@ import numpy as np
 import pytest
 from iapws import IAPWS95
 
-from joulebook.errors import BadInput, OutOfRange
-from joulebook.substances import solids
+from joulebook.core.errors import BadInput, OutOfRange
+from joulebook.core.substances import solids
 from refcheck import check
 
 COND = {s.name: s for s in ct.Species.list_from_file("nasa_condensed.yaml")}

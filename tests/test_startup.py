@@ -9,7 +9,7 @@ from wbtools import build
 
 _PROBE = """
 import sys
-from joulebook.cli import main
+from joulebook.faces.cli import main
 code = main(["check", sys.argv[1]])
 names = ("CoolProp", "pint", "scipy.stats", "scipy.interpolate", "openpyxl")
 print(code, *(m in sys.modules for m in names))
@@ -25,7 +25,7 @@ def _check_imports(path) -> list[str]:
 
 @pytest.fixture
 def saved(tmp_path):
-    from joulebook.cli import main
+    from joulebook.faces.cli import main
 
     def make(formula: str):
         raw = build(tmp_path / "raw.xlsx", {"Calc!A1": 25.0, "Calc!B1": formula})
@@ -50,8 +50,8 @@ def test_one_property_formula_imports_the_property_library_only(saved):
 def test_statistics_functions_work_with_scipy_deferred(tmp_path):
     # the library's statistics module is imported with scipy deferred; functions that use
     # scipy (KURT, NORM.S.DIST, PERCENTILE) import it when they run and give its values
-    from joulebook.workbook.engine import Engine
-    from joulebook.workbook.reader import read_book
+    from joulebook.faces.workbook.engine import Engine
+    from joulebook.faces.workbook.reader import read_book
 
     path = build(
         tmp_path / "stat.xlsx",

@@ -5,8 +5,8 @@ import math
 import pytest
 
 import joulebook
-from joulebook.errors import BadInput, OutOfRange
-from joulebook.units import convert, parse_phrase, parse_unit, unit_system
+from joulebook.core.errors import BadInput, OutOfRange
+from joulebook.core.units import convert, parse_phrase, parse_unit, unit_system
 
 
 # NIST Special Publication 811 (2008 ed.), Appendix B.8/B.9 exact factors
@@ -180,7 +180,7 @@ def test_every_quantity_has_its_unit_in_every_named_system_as_documented():
     # be what the systems do
     from pathlib import Path
 
-    from joulebook.units import KIND_WORDS, KINDS, unit_system
+    from joulebook.core.units import KIND_WORDS, KINDS, unit_system
 
     doc = (Path(__file__).resolve().parents[1] / "docs" / "units.md").read_text()
     for kind in KINDS:
@@ -197,7 +197,7 @@ def test_english_systems_leave_no_catalog_argument_in_si_units(system):
     # every numeric argument of every catalog entry reads English units in an English
     # system (a speed in ft/s, a torque in lbf·ft), except the electrical ones and time
     from joulebook.catalog import CATALOG
-    from joulebook.units import unit_system
+    from joulebook.core.units import unit_system
 
     us = unit_system(system)
     for f in CATALOG:
@@ -271,28 +271,29 @@ def test_rates_and_heat_flux_units():
 
 
 def test_unit_seed_holds_exactly_what_pint_computes():
-    # the seed (joulebook.unitseed) spares a check the import of pint for the common units;
+    # the seed (joulebook.core.unitseed) spares a check the import of pint for the common units;
     # each entry must be pint's own result (pint, the version installed), and regenerating
     # it must give the committed table
-    from joulebook import units, unitseed
+    from joulebook.core import units, unitseed
+    from joulebook.tools import unitseedgen
 
     for (pint_text, kind), (factor, offset) in unitseed.CONVS.items():
         assert units._pint_conv(pint_text, kind, pint_text) == (factor, offset), pint_text
     for pint_text, kind in unitseed.KINDS.items():
         assert units._pint_kind(pint_text, pint_text, False) == kind, pint_text
     for pint_text, dims in unitseed.DIMS.items():
-        assert unitseed.dimensions(pint_text) == dims, pint_text
-    # generated in a process of its own, as `python -m joulebook.unitseed` does (in this one,
+        assert unitseedgen.dimensions(pint_text) == dims, pint_text
+    # generated in a process of its own, as `python -m joulebook.tools.unitseedgen` does (in this one,
     # caches filled by other tests would hide some of the units the examples read)
     import ast
     import subprocess
     import sys
 
-    code = "from joulebook.unitseed import generate; print(repr(generate()))"
+    code = "from joulebook.tools.unitseedgen import generate; print(repr(generate()))"
     done = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
     fresh = ast.literal_eval(done.stdout)
     assert fresh == (unitseed.CONVS, unitseed.KINDS, unitseed.DIMS), (
-        "joulebook/unitseed.py is stale: run `python -m joulebook.unitseed`"
+        "joulebook/core/unitseed.py is stale: run `python -m joulebook.tools.unitseedgen`"
     )
     assert parse_unit("kJ/kg", "specific_energy").factor == 1000.0
 
@@ -301,7 +302,7 @@ def test_unit_seed_holds_exactly_what_pint_computes():
     "unit, kind", [("J", "temperature"), ("kJ/kg", "pressure"), ("m3", "mass"), ("K", "energy")]
 )
 def test_a_unit_of_another_quantity_is_refused_alike_with_or_without_the_seed(unit, kind):
-    from joulebook import units
+    from joulebook.core import units
 
     with pytest.raises(BadInput) as seeded:
         parse_unit(unit, kind)

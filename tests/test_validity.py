@@ -12,14 +12,14 @@ import pytest
 
 from joulebook import call
 from joulebook.catalog import CATALOG
-from joulebook.workbook.audit import build_audit, render_html
-from joulebook.workbook.check import compare, failing
-from joulebook.workbook.engine import Engine
-from joulebook.workbook.reader import read_book
-from joulebook.workbook.status import Status
-from joulebook.workbook.validity import violations
-from joulebook.workbook.writer import write_copy
-from joulebook.working import names_in
+from joulebook.core.working import names_in
+from joulebook.faces.workbook.audit import build_audit, render_html
+from joulebook.faces.workbook.check import compare, failing
+from joulebook.faces.workbook.engine import Engine
+from joulebook.faces.workbook.reader import read_book
+from joulebook.faces.workbook.status import Status
+from joulebook.faces.workbook.validity import violations
+from joulebook.faces.workbook.writer import write_copy
 from wbtools import build
 
 _WATER = "water | T = 15 degC | P = 4 bar"

@@ -6,7 +6,7 @@ import olefile
 import pytest
 from oletools.olevba import decompress_stream
 
-from joulebook.sheet.vbaproject import _pad, compress, vba_project
+from joulebook.faces.sheet.vbaproject import _pad, compress, vba_project
 
 
 @pytest.mark.parametrize("n", [1, 8, 100, 3640, 4096, 4096 + 3000, 3 * 4096 + 17])

@@ -13,12 +13,12 @@ from pathlib import Path
 
 import pytest
 
-from joulebook.workbook.cellunits import clash_of, unit_of_text, units_in_label
-from joulebook.workbook.check import compare, failing, to_junit
-from joulebook.workbook.engine import Engine
-from joulebook.workbook.reader import read_book
-from joulebook.workbook.status import Status
-from joulebook.workbook.writer import write_copy
+from joulebook.faces.workbook.cellunits import clash_of, unit_of_text, units_in_label
+from joulebook.faces.workbook.check import compare, failing, to_junit
+from joulebook.faces.workbook.engine import Engine
+from joulebook.faces.workbook.reader import read_book
+from joulebook.faces.workbook.status import Status
+from joulebook.faces.workbook.writer import write_copy
 from wbtools import build
 
 WORKBOOKS = Path(__file__).resolve().parent.parent / "workbooks"
@@ -377,9 +377,9 @@ def test_a_plain_arithmetic_check_never_imports_pint(tmp_path):
     path = _saved(tmp_path, "plain", plain)
     code = (
         "import sys\n"
-        "from joulebook.workbook.reader import read_book\n"
-        "from joulebook.workbook.engine import Engine\n"
-        "from joulebook.workbook.check import compare\n"
+        "from joulebook.faces.workbook.reader import read_book\n"
+        "from joulebook.faces.workbook.engine import Engine\n"
+        "from joulebook.faces.workbook.check import compare\n"
         f"b = read_book({str(path)!r})\n"
         "rows = compare(b, Engine(b).run())\n"
         "assert any(r.status == 'unit clash' for r in rows)\n"
@@ -392,14 +392,14 @@ def test_a_plain_arithmetic_check_never_imports_pint(tmp_path):
 @pytest.mark.parametrize("path", sorted(WORKBOOKS.glob("*.xls*")), ids=lambda p: p.stem)
 def test_workbooks_joulebook_makes_declare_real_error_values(path):
     # design §3: a refusal must propagate through SUM and MAX in the spreadsheet too
-    from joulebook.cellvalues import ERRORS_NAME, error_style
+    from joulebook.catalog.cellvalues import ERRORS_NAME, error_style
 
     assert error_style(read_book(path).names.get(ERRORS_NAME)) == "values"
 
 
 def test_a_workbook_without_the_name_keeps_the_text_style(tmp_path):
-    from joulebook.cellvalues import ERRORS_NAME, error_style
-    from joulebook.demo import new_workbook
+    from joulebook.catalog.cellvalues import ERRORS_NAME, error_style
+    from joulebook.tools.demo import new_workbook
 
     plain = build(tmp_path / "plain.xlsx", {"S!A1": 1})
     assert error_style(read_book(plain).names.get(ERRORS_NAME)) == "text"
@@ -471,7 +471,7 @@ def test_outcomes_carry_their_status_typed(tmp_path):
 def test_json_junit_and_sarif_carry_the_new_verdicts(tmp_path, capsys):
     import json
 
-    from joulebook.cli import main
+    from joulebook.faces.cli import main
 
     cells = _sheet(SLIPS[:2]) | _refusal_cells(True)
     path = _saved(tmp_path, "reports", cells)
@@ -490,7 +490,7 @@ def test_json_junit_and_sarif_carry_the_new_verdicts(tmp_path, capsys):
 
     import jsonschema
 
-    schema = importlib.resources.files("joulebook.workbook") / "check.schema.json"
+    schema = importlib.resources.files("joulebook.faces.workbook") / "check.schema.json"
     jsonschema.validate(report, json.loads(schema.read_text(encoding="utf-8")))
     junit = out["xml"].read_text()
     assert 'failure message="refusal used' in junit and 'failure message="blank input' in junit

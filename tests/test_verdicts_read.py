@@ -10,8 +10,8 @@ from pathlib import Path
 import pytest
 
 from handmade import SHEET, _book, _sheet
-from joulebook.cli import main
-from joulebook.workbook.reader import read_book
+from joulebook.faces.cli import main
+from joulebook.faces.workbook.reader import read_book
 
 
 def _strict_json(text: str):
@@ -40,7 +40,7 @@ def test_a_saved_value_that_is_not_finite_never_passes(tmp_path, saved, capsys):
 
     import jsonschema
 
-    schema = resources.files("joulebook.workbook").joinpath("check.schema.json")
+    schema = resources.files("joulebook.faces.workbook").joinpath("check.schema.json")
     jsonschema.validate(data, json.loads(schema.read_text(encoding="utf-8")))
     # the clean twin, 500 saved, holds
     twin = _book(tmp_path, "ok.xlsx", sheet.replace(f"<v>{saved}</v>".encode(), b"<v>500</v>"))

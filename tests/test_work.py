@@ -9,7 +9,7 @@ import math
 import numpy as np
 import pytest
 
-from joulebook.errors import BadInput
+from joulebook.core.errors import BadInput
 
 
 def test_rigid_work_is_exactly_zero(call):

@@ -15,11 +15,11 @@ from openpyxl.workbook.defined_name import DefinedName
 from openpyxl.worksheet.formula import ArrayFormula
 
 import joulebook
-from joulebook.cli import main
-from joulebook.errors import BadInput
-from joulebook.workbook.engine import Engine
-from joulebook.workbook.reader import Limits, read_book
-from joulebook.workbook.writer import patch_sheet_xml
+from joulebook.core.errors import BadInput
+from joulebook.faces.cli import main
+from joulebook.faces.workbook.engine import Engine
+from joulebook.faces.workbook.reader import Limits, read_book
+from joulebook.faces.workbook.writer import patch_sheet_xml
 from wbtools import rewrite_part
 
 
@@ -263,7 +263,7 @@ def test_strict_check_relaxed_by_name_and_its_exit_codes(recalculated, tmp_path,
 
 
 def test_an_internal_failure_exits_3_with_its_message(recalculated, monkeypatch, capsys):
-    import joulebook.workbook.check as check
+    import joulebook.faces.workbook.check as check
 
     def broken(*a, **k):
         raise RuntimeError("simulated defect")
@@ -400,7 +400,7 @@ def test_check_on_a_dask_cluster_gives_the_local_verdicts(
     }
     assert exits == _MIXED_EXITS
     # no cluster there: a usage error that names the address, never a traceback
-    monkeypatch.setattr("joulebook.cli._CLUSTER_CONNECT", "2s")
+    monkeypatch.setattr("joulebook.faces.cli._CLUSTER_CONNECT", "2s")
     assert main(["check", str(calcs / "fresh.xlsx"), "--cluster", "tcp://127.0.0.1:9"]) == 2
     err = capsys.readouterr().err
     assert "tcp://127.0.0.1:9" in err and "Traceback" not in err
@@ -409,7 +409,7 @@ def test_check_on_a_dask_cluster_gives_the_local_verdicts(
 def test_progress_bar_only_on_a_terminal_and_never_with_quiet(monkeypatch):
     import io
 
-    from joulebook.cli import _Bar
+    from joulebook.faces.cli import _Bar
 
     class Terminal(io.StringIO):
         def isatty(self):

@@ -1,4 +1,4 @@
-"""Every catalog entry's working (joulebook.working) reproduces the entry's own result.
+"""Every catalog entry's working (joulebook.core.working) reproduces the entry's own result.
 
 The working is what the audit shows a checker and docs/functions.md prints: the result as an
 expression of the entry's arguments, with intermediate steps.  Evaluated on each entry's
@@ -11,8 +11,8 @@ import math
 import pytest
 
 from joulebook.catalog import _AS_IS, CATALOG, UNITS_ARG, call, working_call
-from joulebook.units import unit_system
-from joulebook.working import Working, evaluate, names_in, show, work_out
+from joulebook.core.units import unit_system
+from joulebook.core.working import Working, evaluate, names_in, show, work_out
 
 WITH = [f for f in CATALOG if f.working is not None]
 IDS = [f.name for f in WITH]

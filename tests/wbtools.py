@@ -44,8 +44,8 @@ def outcomes(path: Path) -> dict:
     """The engine's outcome of every formula cell, keyed "Sheet!A1"."""
     from openpyxl.utils import get_column_letter
 
-    from joulebook.workbook.engine import Engine
-    from joulebook.workbook.reader import read_book
+    from joulebook.faces.workbook.engine import Engine
+    from joulebook.faces.workbook.reader import read_book
 
     out = Engine(read_book(path)).run()
     return {f"{s}!{get_column_letter(c)}{r}": o for (s, r, c), o in out.items()}

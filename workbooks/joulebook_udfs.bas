@@ -4,10 +4,10 @@ Attribute VB_Name = "xlwings_udfs"
 Function JB_ABOUT(Optional topic)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_ABOUT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_ABOUT", Array(topic, Nothing), ThisWorkbook, Application.Caller)
+        JB_ABOUT = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_ABOUT", Array(topic, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_ABOUT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_ABOUT", Array(topic, Nothing))
+        JB_ABOUT = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_ABOUT", Array(topic, Nothing))
         Exit Function
     #End If
 failed:
@@ -17,10 +17,10 @@ End Function
 Function JB_BALANCE_DELTA_KE(m, vel_1, vel_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_BALANCE_DELTA_KE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_DELTA_KE", Array(m, vel_1, vel_2, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_BALANCE_DELTA_KE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_BALANCE_DELTA_KE", Array(m, vel_1, vel_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_BALANCE_DELTA_KE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_DELTA_KE", Array(m, vel_1, vel_2, units, Nothing))
+        JB_BALANCE_DELTA_KE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_BALANCE_DELTA_KE", Array(m, vel_1, vel_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -30,10 +30,10 @@ End Function
 Function JB_BALANCE_DELTA_PE(m, z_1, z_2, Optional g, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_BALANCE_DELTA_PE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_DELTA_PE", Array(m, z_1, z_2, g, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_BALANCE_DELTA_PE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_BALANCE_DELTA_PE", Array(m, z_1, z_2, g, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_BALANCE_DELTA_PE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_DELTA_PE", Array(m, z_1, z_2, g, units, Nothing))
+        JB_BALANCE_DELTA_PE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_BALANCE_DELTA_PE", Array(m, z_1, z_2, g, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -43,10 +43,10 @@ End Function
 Function JB_BALANCE_GAP(Q, W_b, dU, Optional W_other, Optional dKE, Optional dPE, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_BALANCE_GAP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_GAP", Array(Q, W_b, dU, W_other, dKE, dPE, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_BALANCE_GAP = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_BALANCE_GAP", Array(Q, W_b, dU, W_other, dKE, dPE, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_BALANCE_GAP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_GAP", Array(Q, W_b, dU, W_other, dKE, dPE, units, Nothing))
+        JB_BALANCE_GAP = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_BALANCE_GAP", Array(Q, W_b, dU, W_other, dKE, dPE, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -56,10 +56,10 @@ End Function
 Function JB_BALANCE_HEAT(dU, W_b, Optional W_other, Optional dKE, Optional dPE, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_BALANCE_HEAT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_HEAT", Array(dU, W_b, W_other, dKE, dPE, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_BALANCE_HEAT = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_BALANCE_HEAT", Array(dU, W_b, W_other, dKE, dPE, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_BALANCE_HEAT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_HEAT", Array(dU, W_b, W_other, dKE, dPE, units, Nothing))
+        JB_BALANCE_HEAT = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_BALANCE_HEAT", Array(dU, W_b, W_other, dKE, dPE, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -69,10 +69,10 @@ End Function
 Function JB_BALANCE_RATE(Q_dot, Optional W_dot, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_BALANCE_RATE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_RATE", Array(Q_dot, W_dot, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_BALANCE_RATE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_BALANCE_RATE", Array(Q_dot, W_dot, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_BALANCE_RATE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BALANCE_RATE", Array(Q_dot, W_dot, units, Nothing))
+        JB_BALANCE_RATE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_BALANCE_RATE", Array(Q_dot, W_dot, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -82,10 +82,10 @@ End Function
 Function JB_BLOCKED_IN_CUSHION_P2(state1, T_2, V, V_gas, Optional gas, Optional shape, Optional D, Optional wall, Optional E_mod, Optional poisson, Optional alpha_wall, Optional kappa, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_BLOCKED_IN_CUSHION_P2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BLOCKED_IN_CUSHION_P2", Array(state1, T_2, V, V_gas, gas, shape, D, wall, E_mod, poisson, alpha_wall, kappa, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_BLOCKED_IN_CUSHION_P2 = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_BLOCKED_IN_CUSHION_P2", Array(state1, T_2, V, V_gas, gas, shape, D, wall, E_mod, poisson, alpha_wall, kappa, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_BLOCKED_IN_CUSHION_P2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BLOCKED_IN_CUSHION_P2", Array(state1, T_2, V, V_gas, gas, shape, D, wall, E_mod, poisson, alpha_wall, kappa, units, Nothing))
+        JB_BLOCKED_IN_CUSHION_P2 = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_BLOCKED_IN_CUSHION_P2", Array(state1, T_2, V, V_gas, gas, shape, D, wall, E_mod, poisson, alpha_wall, kappa, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -95,10 +95,10 @@ End Function
 Function JB_BLOCKED_IN_P2(state1, T_2, Optional shape, Optional D, Optional wall, Optional E_mod, Optional poisson, Optional alpha_wall, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_BLOCKED_IN_P2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BLOCKED_IN_P2", Array(state1, T_2, shape, D, wall, E_mod, poisson, alpha_wall, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_BLOCKED_IN_P2 = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_BLOCKED_IN_P2", Array(state1, T_2, shape, D, wall, E_mod, poisson, alpha_wall, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_BLOCKED_IN_P2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BLOCKED_IN_P2", Array(state1, T_2, shape, D, wall, E_mod, poisson, alpha_wall, units, Nothing))
+        JB_BLOCKED_IN_P2 = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_BLOCKED_IN_P2", Array(state1, T_2, shape, D, wall, E_mod, poisson, alpha_wall, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -108,10 +108,10 @@ End Function
 Function JB_BLOWDOWN_T_MIN(state1, V, d, P_target, Optional Cd, Optional P_back, Optional m_wall, Optional UA_wall, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_BLOWDOWN_T_MIN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BLOWDOWN_T_MIN", Array(state1, V, d, P_target, Cd, P_back, m_wall, UA_wall, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_BLOWDOWN_T_MIN = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_BLOWDOWN_T_MIN", Array(state1, V, d, P_target, Cd, P_back, m_wall, UA_wall, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_BLOWDOWN_T_MIN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_BLOWDOWN_T_MIN", Array(state1, V, d, P_target, Cd, P_back, m_wall, UA_wall, units, Nothing))
+        JB_BLOWDOWN_T_MIN = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_BLOWDOWN_T_MIN", Array(state1, V, d, P_target, Cd, P_back, m_wall, UA_wall, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -121,10 +121,10 @@ End Function
 Function JB_CHART_DOME(substance, coordinates, Optional points, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_CHART_DOME = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CHART_DOME", Array(substance, coordinates, points, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_CHART_DOME = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_CHART_DOME", Array(substance, coordinates, points, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_CHART_DOME = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CHART_DOME", Array(substance, coordinates, points, units, Nothing))
+        JB_CHART_DOME = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_CHART_DOME", Array(substance, coordinates, points, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -134,10 +134,10 @@ End Function
 Function JB_CHART_ISOLINE(substance, coordinates, fixed, fixed_value, x_from, x_to, Optional points, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_CHART_ISOLINE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CHART_ISOLINE", Array(substance, coordinates, fixed, fixed_value, x_from, x_to, points, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_CHART_ISOLINE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_CHART_ISOLINE", Array(substance, coordinates, fixed, fixed_value, x_from, x_to, points, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_CHART_ISOLINE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CHART_ISOLINE", Array(substance, coordinates, fixed, fixed_value, x_from, x_to, points, units, Nothing))
+        JB_CHART_ISOLINE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_CHART_ISOLINE", Array(substance, coordinates, fixed, fixed_value, x_from, x_to, points, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -147,10 +147,10 @@ End Function
 Function JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY(clearance, P_suction, P_discharge, n, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY", Array(clearance, P_suction, P_discharge, n, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY", Array(clearance, P_suction, P_discharge, n, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY", Array(clearance, P_suction, P_discharge, n, units, Nothing))
+        JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_COMPRESSOR_VOLUMETRIC_EFFICIENCY", Array(clearance, P_suction, P_discharge, n, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -160,10 +160,10 @@ End Function
 Function JB_CONVERT(value, from_unit, to_unit)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_CONVERT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CONVERT", Array(value, from_unit, to_unit, Nothing), ThisWorkbook, Application.Caller)
+        JB_CONVERT = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_CONVERT", Array(value, from_unit, to_unit, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_CONVERT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CONVERT", Array(value, from_unit, to_unit, Nothing))
+        JB_CONVERT = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_CONVERT", Array(value, from_unit, to_unit, Nothing))
         Exit Function
     #End If
 failed:
@@ -173,10 +173,10 @@ End Function
 Function JB_CYCLE_EFFICIENCY(Q_values, W_values, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_CYCLE_EFFICIENCY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CYCLE_EFFICIENCY", Array(Q_values, W_values, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_CYCLE_EFFICIENCY = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_CYCLE_EFFICIENCY", Array(Q_values, W_values, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_CYCLE_EFFICIENCY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CYCLE_EFFICIENCY", Array(Q_values, W_values, units, Nothing))
+        JB_CYCLE_EFFICIENCY = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_CYCLE_EFFICIENCY", Array(Q_values, W_values, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -186,10 +186,10 @@ End Function
 Function JB_CYCLE_GAP(Q_values, W_values, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_CYCLE_GAP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CYCLE_GAP", Array(Q_values, W_values, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_CYCLE_GAP = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_CYCLE_GAP", Array(Q_values, W_values, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_CYCLE_GAP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CYCLE_GAP", Array(Q_values, W_values, units, Nothing))
+        JB_CYCLE_GAP = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_CYCLE_GAP", Array(Q_values, W_values, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -199,10 +199,10 @@ End Function
 Function JB_CYCLE_NET(values, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_CYCLE_NET = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CYCLE_NET", Array(values, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_CYCLE_NET = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_CYCLE_NET", Array(values, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_CYCLE_NET = XLPy.CallUDF("joulebook.sheet.udfs", "JB_CYCLE_NET", Array(values, units, Nothing))
+        JB_CYCLE_NET = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_CYCLE_NET", Array(values, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -212,10 +212,10 @@ End Function
 Function JB_ENGINE_MEP(W_cycle, V_d, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_ENGINE_MEP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_ENGINE_MEP", Array(W_cycle, V_d, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_ENGINE_MEP = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_ENGINE_MEP", Array(W_cycle, V_d, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_ENGINE_MEP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_ENGINE_MEP", Array(W_cycle, V_d, units, Nothing))
+        JB_ENGINE_MEP = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_ENGINE_MEP", Array(W_cycle, V_d, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -225,10 +225,10 @@ End Function
 Function JB_ENGINE_POWER(W_cycle, speed, cylinders, revs_per_cycle, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_ENGINE_POWER = XLPy.CallUDF("joulebook.sheet.udfs", "JB_ENGINE_POWER", Array(W_cycle, speed, cylinders, revs_per_cycle, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_ENGINE_POWER = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_ENGINE_POWER", Array(W_cycle, speed, cylinders, revs_per_cycle, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_ENGINE_POWER = XLPy.CallUDF("joulebook.sheet.udfs", "JB_ENGINE_POWER", Array(W_cycle, speed, cylinders, revs_per_cycle, units, Nothing))
+        JB_ENGINE_POWER = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_ENGINE_POWER", Array(W_cycle, speed, cylinders, revs_per_cycle, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -238,10 +238,10 @@ End Function
 Function JB_ENGINE_VOLUME(crank_angle, bore, stroke, rod, V_c, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_ENGINE_VOLUME = XLPy.CallUDF("joulebook.sheet.udfs", "JB_ENGINE_VOLUME", Array(crank_angle, bore, stroke, rod, V_c, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_ENGINE_VOLUME = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_ENGINE_VOLUME", Array(crank_angle, bore, stroke, rod, V_c, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_ENGINE_VOLUME = XLPy.CallUDF("joulebook.sheet.udfs", "JB_ENGINE_VOLUME", Array(crank_angle, bore, stroke, rod, V_c, units, Nothing))
+        JB_ENGINE_VOLUME = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_ENGINE_VOLUME", Array(crank_angle, bore, stroke, rod, V_c, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -251,10 +251,10 @@ End Function
 Function JB_FIRE_HEAT(A_wet, Optional F, Optional drainage, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_FIRE_HEAT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_FIRE_HEAT", Array(A_wet, F, drainage, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_FIRE_HEAT = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_FIRE_HEAT", Array(A_wet, F, drainage, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_FIRE_HEAT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_FIRE_HEAT", Array(A_wet, F, drainage, units, Nothing))
+        JB_FIRE_HEAT = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_FIRE_HEAT", Array(A_wet, F, drainage, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -264,10 +264,10 @@ End Function
 Function JB_GAS_CP(gas, T, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_GAS_CP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_CP", Array(gas, T, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_GAS_CP = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_GAS_CP", Array(gas, T, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_GAS_CP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_CP", Array(gas, T, units, Nothing))
+        JB_GAS_CP = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_GAS_CP", Array(gas, T, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -277,10 +277,10 @@ End Function
 Function JB_GAS_CP_MEAN(gas, T_1, T_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_GAS_CP_MEAN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_CP_MEAN", Array(gas, T_1, T_2, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_GAS_CP_MEAN = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_GAS_CP_MEAN", Array(gas, T_1, T_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_GAS_CP_MEAN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_CP_MEAN", Array(gas, T_1, T_2, units, Nothing))
+        JB_GAS_CP_MEAN = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_GAS_CP_MEAN", Array(gas, T_1, T_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -290,10 +290,10 @@ End Function
 Function JB_GAS_CV(gas, T, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_GAS_CV = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_CV", Array(gas, T, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_GAS_CV = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_GAS_CV", Array(gas, T, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_GAS_CV = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_CV", Array(gas, T, units, Nothing))
+        JB_GAS_CV = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_GAS_CV", Array(gas, T, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -303,10 +303,10 @@ End Function
 Function JB_GAS_DELTA_H(gas, T_1, T_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_GAS_DELTA_H = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_DELTA_H", Array(gas, T_1, T_2, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_GAS_DELTA_H = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_GAS_DELTA_H", Array(gas, T_1, T_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_GAS_DELTA_H = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_DELTA_H", Array(gas, T_1, T_2, units, Nothing))
+        JB_GAS_DELTA_H = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_GAS_DELTA_H", Array(gas, T_1, T_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -316,10 +316,10 @@ End Function
 Function JB_GAS_DELTA_S(gas, T_1, T_2, Optional P_1, Optional P_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_GAS_DELTA_S = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_DELTA_S", Array(gas, T_1, T_2, P_1, P_2, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_GAS_DELTA_S = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_GAS_DELTA_S", Array(gas, T_1, T_2, P_1, P_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_GAS_DELTA_S = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_DELTA_S", Array(gas, T_1, T_2, P_1, P_2, units, Nothing))
+        JB_GAS_DELTA_S = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_GAS_DELTA_S", Array(gas, T_1, T_2, P_1, P_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -329,10 +329,10 @@ End Function
 Function JB_GAS_DELTA_U(gas, T_1, T_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_GAS_DELTA_U = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_DELTA_U", Array(gas, T_1, T_2, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_GAS_DELTA_U = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_GAS_DELTA_U", Array(gas, T_1, T_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_GAS_DELTA_U = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_DELTA_U", Array(gas, T_1, T_2, units, Nothing))
+        JB_GAS_DELTA_U = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_GAS_DELTA_U", Array(gas, T_1, T_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -342,10 +342,10 @@ End Function
 Function JB_GAS_K(gas, T, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_GAS_K = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_K", Array(gas, T, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_GAS_K = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_GAS_K", Array(gas, T, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_GAS_K = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_K", Array(gas, T, units, Nothing))
+        JB_GAS_K = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_GAS_K", Array(gas, T, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -355,10 +355,10 @@ End Function
 Function JB_GAS_MOLAR_MASS(gas, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_GAS_MOLAR_MASS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_MOLAR_MASS", Array(gas, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_GAS_MOLAR_MASS = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_GAS_MOLAR_MASS", Array(gas, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_GAS_MOLAR_MASS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_MOLAR_MASS", Array(gas, units, Nothing))
+        JB_GAS_MOLAR_MASS = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_GAS_MOLAR_MASS", Array(gas, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -368,10 +368,10 @@ End Function
 Function JB_GAS_R(gas, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_GAS_R = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_R", Array(gas, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_GAS_R = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_GAS_R", Array(gas, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_GAS_R = XLPy.CallUDF("joulebook.sheet.udfs", "JB_GAS_R", Array(gas, units, Nothing))
+        JB_GAS_R = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_GAS_R", Array(gas, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -381,10 +381,10 @@ End Function
 Function JB_HEAT_ISOBARIC_GAS(gas, m, T_1, T_2, Optional W_other, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_HEAT_ISOBARIC_GAS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_HEAT_ISOBARIC_GAS", Array(gas, m, T_1, T_2, W_other, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_HEAT_ISOBARIC_GAS = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_HEAT_ISOBARIC_GAS", Array(gas, m, T_1, T_2, W_other, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_HEAT_ISOBARIC_GAS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_HEAT_ISOBARIC_GAS", Array(gas, m, T_1, T_2, W_other, units, Nothing))
+        JB_HEAT_ISOBARIC_GAS = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_HEAT_ISOBARIC_GAS", Array(gas, m, T_1, T_2, W_other, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -394,10 +394,10 @@ End Function
 Function JB_HEAT_RIGID_GAS(gas, m, T_1, T_2, Optional W_other, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_HEAT_RIGID_GAS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_HEAT_RIGID_GAS", Array(gas, m, T_1, T_2, W_other, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_HEAT_RIGID_GAS = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_HEAT_RIGID_GAS", Array(gas, m, T_1, T_2, W_other, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_HEAT_RIGID_GAS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_HEAT_RIGID_GAS", Array(gas, m, T_1, T_2, W_other, units, Nothing))
+        JB_HEAT_RIGID_GAS = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_HEAT_RIGID_GAS", Array(gas, m, T_1, T_2, W_other, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -407,10 +407,10 @@ End Function
 Function JB_HUMID_AIR(want, P, spec1, value1, spec2, value2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_HUMID_AIR = XLPy.CallUDF("joulebook.sheet.udfs", "JB_HUMID_AIR", Array(want, P, spec1, value1, spec2, value2, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_HUMID_AIR = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_HUMID_AIR", Array(want, P, spec1, value1, spec2, value2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_HUMID_AIR = XLPy.CallUDF("joulebook.sheet.udfs", "JB_HUMID_AIR", Array(want, P, spec1, value1, spec2, value2, units, Nothing))
+        JB_HUMID_AIR = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_HUMID_AIR", Array(want, P, spec1, value1, spec2, value2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -420,10 +420,10 @@ End Function
 Function JB_HUMID_CONDENSATE(P_1, T_1, RH_1, P_2, T_2, V_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_HUMID_CONDENSATE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_HUMID_CONDENSATE", Array(P_1, T_1, RH_1, P_2, T_2, V_2, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_HUMID_CONDENSATE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_HUMID_CONDENSATE", Array(P_1, T_1, RH_1, P_2, T_2, V_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_HUMID_CONDENSATE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_HUMID_CONDENSATE", Array(P_1, T_1, RH_1, P_2, T_2, V_2, units, Nothing))
+        JB_HUMID_CONDENSATE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_HUMID_CONDENSATE", Array(P_1, T_1, RH_1, P_2, T_2, V_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -433,10 +433,10 @@ End Function
 Function JB_PHASE(substance, Optional spec1, Optional value1, Optional spec2, Optional value2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_PHASE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PHASE", Array(substance, spec1, value1, spec2, value2, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_PHASE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_PHASE", Array(substance, spec1, value1, spec2, value2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_PHASE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PHASE", Array(substance, spec1, value1, spec2, value2, units, Nothing))
+        JB_PHASE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_PHASE", Array(substance, spec1, value1, spec2, value2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -446,10 +446,10 @@ End Function
 Function JB_POLY_EXPONENT(P_1, V_1, P_2, V_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_POLY_EXPONENT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_EXPONENT", Array(P_1, V_1, P_2, V_2, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_POLY_EXPONENT = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_POLY_EXPONENT", Array(P_1, V_1, P_2, V_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_POLY_EXPONENT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_EXPONENT", Array(P_1, V_1, P_2, V_2, units, Nothing))
+        JB_POLY_EXPONENT = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_POLY_EXPONENT", Array(P_1, V_1, P_2, V_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -459,10 +459,10 @@ End Function
 Function JB_POLY_FIT(P_values, V_values, Optional show, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_POLY_FIT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_FIT", Array(P_values, V_values, show, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_POLY_FIT = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_POLY_FIT", Array(P_values, V_values, show, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_POLY_FIT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_FIT", Array(P_values, V_values, show, units, Nothing))
+        JB_POLY_FIT = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_POLY_FIT", Array(P_values, V_values, show, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -472,10 +472,10 @@ End Function
 Function JB_POLY_FIT_BRANCHES(P_values, V_values, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_POLY_FIT_BRANCHES = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_FIT_BRANCHES", Array(P_values, V_values, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_POLY_FIT_BRANCHES = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_POLY_FIT_BRANCHES", Array(P_values, V_values, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_POLY_FIT_BRANCHES = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_FIT_BRANCHES", Array(P_values, V_values, units, Nothing))
+        JB_POLY_FIT_BRANCHES = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_POLY_FIT_BRANCHES", Array(P_values, V_values, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -485,10 +485,10 @@ End Function
 Function JB_POLY_P2(P_1, V_1, V_2, n, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_POLY_P2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_P2", Array(P_1, V_1, V_2, n, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_POLY_P2 = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_POLY_P2", Array(P_1, V_1, V_2, n, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_POLY_P2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_P2", Array(P_1, V_1, V_2, n, units, Nothing))
+        JB_POLY_P2 = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_POLY_P2", Array(P_1, V_1, V_2, n, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -498,10 +498,10 @@ End Function
 Function JB_POLY_T2_FROM_P(T_1, P_1, P_2, n, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_POLY_T2_FROM_P = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_T2_FROM_P", Array(T_1, P_1, P_2, n, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_POLY_T2_FROM_P = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_POLY_T2_FROM_P", Array(T_1, P_1, P_2, n, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_POLY_T2_FROM_P = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_T2_FROM_P", Array(T_1, P_1, P_2, n, units, Nothing))
+        JB_POLY_T2_FROM_P = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_POLY_T2_FROM_P", Array(T_1, P_1, P_2, n, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -511,10 +511,10 @@ End Function
 Function JB_POLY_T2_FROM_V(T_1, V_1, V_2, n, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_POLY_T2_FROM_V = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_T2_FROM_V", Array(T_1, V_1, V_2, n, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_POLY_T2_FROM_V = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_POLY_T2_FROM_V", Array(T_1, V_1, V_2, n, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_POLY_T2_FROM_V = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_T2_FROM_V", Array(T_1, V_1, V_2, n, units, Nothing))
+        JB_POLY_T2_FROM_V = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_POLY_T2_FROM_V", Array(T_1, V_1, V_2, n, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -524,10 +524,10 @@ End Function
 Function JB_POLY_V2(P_1, V_1, P_2, n, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_POLY_V2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_V2", Array(P_1, V_1, P_2, n, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_POLY_V2 = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_POLY_V2", Array(P_1, V_1, P_2, n, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_POLY_V2 = XLPy.CallUDF("joulebook.sheet.udfs", "JB_POLY_V2", Array(P_1, V_1, P_2, n, units, Nothing))
+        JB_POLY_V2 = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_POLY_V2", Array(P_1, V_1, P_2, n, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -538,10 +538,10 @@ Function JB_PROCESS(state1, path, end_spec, end_value, want, Optional mass, Opti
     If (Not Application.CommandBars("Standard").Controls(1).Enabled) Then Exit Function
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_PROCESS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROCESS", Array(state1, path, end_spec, end_value, want, mass, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_PROCESS = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_PROCESS", Array(state1, path, end_spec, end_value, want, mass, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_PROCESS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROCESS", Array(state1, path, end_spec, end_value, want, mass, units, Nothing))
+        JB_PROCESS = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_PROCESS", Array(state1, path, end_spec, end_value, want, mass, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -552,10 +552,10 @@ Function JB_PROCESS_PATH(state1, path, end_spec, end_value, Optional points, Opt
     If (Not Application.CommandBars("Standard").Controls(1).Enabled) Then Exit Function
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_PROCESS_PATH = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROCESS_PATH", Array(state1, path, end_spec, end_value, points, mass, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_PROCESS_PATH = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_PROCESS_PATH", Array(state1, path, end_spec, end_value, points, mass, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_PROCESS_PATH = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROCESS_PATH", Array(state1, path, end_spec, end_value, points, mass, units, Nothing))
+        JB_PROCESS_PATH = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_PROCESS_PATH", Array(state1, path, end_spec, end_value, points, mass, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -566,10 +566,10 @@ Function JB_PROCESS_TABLE(state1, path, end_spec, end_value, Optional mass, Opti
     If (Not Application.CommandBars("Standard").Controls(1).Enabled) Then Exit Function
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_PROCESS_TABLE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROCESS_TABLE", Array(state1, path, end_spec, end_value, mass, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_PROCESS_TABLE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_PROCESS_TABLE", Array(state1, path, end_spec, end_value, mass, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_PROCESS_TABLE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROCESS_TABLE", Array(state1, path, end_spec, end_value, mass, units, Nothing))
+        JB_PROCESS_TABLE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_PROCESS_TABLE", Array(state1, path, end_spec, end_value, mass, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -579,10 +579,10 @@ End Function
 Function JB_PROP(substance, want, Optional spec1, Optional value1, Optional spec2, Optional value2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_PROP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROP", Array(substance, want, spec1, value1, spec2, value2, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_PROP = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_PROP", Array(substance, want, spec1, value1, spec2, value2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_PROP = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROP", Array(substance, want, spec1, value1, spec2, value2, units, Nothing))
+        JB_PROP = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_PROP", Array(substance, want, spec1, value1, spec2, value2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -592,10 +592,10 @@ End Function
 Function JB_PROP_SAT(substance, want, given, value, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_PROP_SAT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROP_SAT", Array(substance, want, given, value, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_PROP_SAT = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_PROP_SAT", Array(substance, want, given, value, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_PROP_SAT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_PROP_SAT", Array(substance, want, given, value, units, Nothing))
+        JB_PROP_SAT = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_PROP_SAT", Array(substance, want, given, value, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -605,10 +605,10 @@ End Function
 Function JB_RELIEF_THERMAL_FLOW(state, Q_dot, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_RELIEF_THERMAL_FLOW = XLPy.CallUDF("joulebook.sheet.udfs", "JB_RELIEF_THERMAL_FLOW", Array(state, Q_dot, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_RELIEF_THERMAL_FLOW = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_RELIEF_THERMAL_FLOW", Array(state, Q_dot, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_RELIEF_THERMAL_FLOW = XLPy.CallUDF("joulebook.sheet.udfs", "JB_RELIEF_THERMAL_FLOW", Array(state, Q_dot, units, Nothing))
+        JB_RELIEF_THERMAL_FLOW = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_RELIEF_THERMAL_FLOW", Array(state, Q_dot, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -618,10 +618,10 @@ End Function
 Function JB_SOLID_C(material, T, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_SOLID_C = XLPy.CallUDF("joulebook.sheet.udfs", "JB_SOLID_C", Array(material, T, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_SOLID_C = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_SOLID_C", Array(material, T, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_SOLID_C = XLPy.CallUDF("joulebook.sheet.udfs", "JB_SOLID_C", Array(material, T, units, Nothing))
+        JB_SOLID_C = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_SOLID_C", Array(material, T, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -631,10 +631,10 @@ End Function
 Function JB_SOLID_C_MEAN(material, T_1, T_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_SOLID_C_MEAN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_SOLID_C_MEAN", Array(material, T_1, T_2, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_SOLID_C_MEAN = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_SOLID_C_MEAN", Array(material, T_1, T_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_SOLID_C_MEAN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_SOLID_C_MEAN", Array(material, T_1, T_2, units, Nothing))
+        JB_SOLID_C_MEAN = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_SOLID_C_MEAN", Array(material, T_1, T_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -644,10 +644,10 @@ End Function
 Function JB_SOLID_DELTA_U(material, T_1, T_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_SOLID_DELTA_U = XLPy.CallUDF("joulebook.sheet.udfs", "JB_SOLID_DELTA_U", Array(material, T_1, T_2, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_SOLID_DELTA_U = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_SOLID_DELTA_U", Array(material, T_1, T_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_SOLID_DELTA_U = XLPy.CallUDF("joulebook.sheet.udfs", "JB_SOLID_DELTA_U", Array(material, T_1, T_2, units, Nothing))
+        JB_SOLID_DELTA_U = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_SOLID_DELTA_U", Array(material, T_1, T_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -657,10 +657,10 @@ End Function
 Function JB_SOLID_HEAT(material, m, T_1, T_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_SOLID_HEAT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_SOLID_HEAT", Array(material, m, T_1, T_2, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_SOLID_HEAT = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_SOLID_HEAT", Array(material, m, T_1, T_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_SOLID_HEAT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_SOLID_HEAT", Array(material, m, T_1, T_2, units, Nothing))
+        JB_SOLID_HEAT = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_SOLID_HEAT", Array(material, m, T_1, T_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -670,10 +670,10 @@ End Function
 Function JB_STATE(substance, Optional spec1, Optional value1, Optional spec2, Optional value2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_STATE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STATE", Array(substance, spec1, value1, spec2, value2, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_STATE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_STATE", Array(substance, spec1, value1, spec2, value2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_STATE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STATE", Array(substance, spec1, value1, spec2, value2, units, Nothing))
+        JB_STATE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_STATE", Array(substance, spec1, value1, spec2, value2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -684,10 +684,10 @@ Function JB_STORED_FLASHING_LIQUID(state, V, Optional P_amb, Optional units)
     If (Not Application.CommandBars("Standard").Controls(1).Enabled) Then Exit Function
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_STORED_FLASHING_LIQUID = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STORED_FLASHING_LIQUID", Array(state, V, P_amb, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_STORED_FLASHING_LIQUID = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_STORED_FLASHING_LIQUID", Array(state, V, P_amb, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_STORED_FLASHING_LIQUID = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STORED_FLASHING_LIQUID", Array(state, V, P_amb, units, Nothing))
+        JB_STORED_FLASHING_LIQUID = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_STORED_FLASHING_LIQUID", Array(state, V, P_amb, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -698,10 +698,10 @@ Function JB_STORED_IDEAL_ISENTROPIC(P, V, k, Optional P_amb, Optional units)
     If (Not Application.CommandBars("Standard").Controls(1).Enabled) Then Exit Function
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_STORED_IDEAL_ISENTROPIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STORED_IDEAL_ISENTROPIC", Array(P, V, k, P_amb, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_STORED_IDEAL_ISENTROPIC = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_STORED_IDEAL_ISENTROPIC", Array(P, V, k, P_amb, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_STORED_IDEAL_ISENTROPIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STORED_IDEAL_ISENTROPIC", Array(P, V, k, P_amb, units, Nothing))
+        JB_STORED_IDEAL_ISENTROPIC = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_STORED_IDEAL_ISENTROPIC", Array(P, V, k, P_amb, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -712,10 +712,10 @@ Function JB_STORED_ISENTROPIC(state, V, Optional P_amb, Optional units)
     If (Not Application.CommandBars("Standard").Controls(1).Enabled) Then Exit Function
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_STORED_ISENTROPIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STORED_ISENTROPIC", Array(state, V, P_amb, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_STORED_ISENTROPIC = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_STORED_ISENTROPIC", Array(state, V, P_amb, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_STORED_ISENTROPIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STORED_ISENTROPIC", Array(state, V, P_amb, units, Nothing))
+        JB_STORED_ISENTROPIC = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_STORED_ISENTROPIC", Array(state, V, P_amb, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -726,10 +726,10 @@ Function JB_STORED_ISOCHORIC(P, V, k, Optional P_amb, Optional units)
     If (Not Application.CommandBars("Standard").Controls(1).Enabled) Then Exit Function
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_STORED_ISOCHORIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STORED_ISOCHORIC", Array(P, V, k, P_amb, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_STORED_ISOCHORIC = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_STORED_ISOCHORIC", Array(P, V, k, P_amb, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_STORED_ISOCHORIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_STORED_ISOCHORIC", Array(P, V, k, P_amb, units, Nothing))
+        JB_STORED_ISOCHORIC = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_STORED_ISOCHORIC", Array(P, V, k, P_amb, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -739,10 +739,10 @@ End Function
 Function JB_TEST_DISTANCE(W_TNT, Z, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_TEST_DISTANCE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TEST_DISTANCE", Array(W_TNT, Z, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_TEST_DISTANCE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TEST_DISTANCE", Array(W_TNT, Z, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_TEST_DISTANCE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TEST_DISTANCE", Array(W_TNT, Z, units, Nothing))
+        JB_TEST_DISTANCE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TEST_DISTANCE", Array(W_TNT, Z, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -752,10 +752,10 @@ End Function
 Function JB_TEST_HYDRO_ENERGY(state, V, Optional shape, Optional D, Optional wall, Optional E_mod, Optional poisson, Optional P_amb, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_TEST_HYDRO_ENERGY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TEST_HYDRO_ENERGY", Array(state, V, shape, D, wall, E_mod, poisson, P_amb, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_TEST_HYDRO_ENERGY = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TEST_HYDRO_ENERGY", Array(state, V, shape, D, wall, E_mod, poisson, P_amb, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_TEST_HYDRO_ENERGY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TEST_HYDRO_ENERGY", Array(state, V, shape, D, wall, E_mod, poisson, P_amb, units, Nothing))
+        JB_TEST_HYDRO_ENERGY = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TEST_HYDRO_ENERGY", Array(state, V, shape, D, wall, E_mod, poisson, P_amb, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -765,10 +765,10 @@ End Function
 Function JB_TEST_PNEUMATIC_ENERGY(P_test, V, Optional P_amb, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_TEST_PNEUMATIC_ENERGY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TEST_PNEUMATIC_ENERGY", Array(P_test, V, P_amb, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_TEST_PNEUMATIC_ENERGY = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TEST_PNEUMATIC_ENERGY", Array(P_test, V, P_amb, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_TEST_PNEUMATIC_ENERGY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TEST_PNEUMATIC_ENERGY", Array(P_test, V, P_amb, units, Nothing))
+        JB_TEST_PNEUMATIC_ENERGY = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TEST_PNEUMATIC_ENERGY", Array(P_test, V, P_amb, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -778,10 +778,10 @@ End Function
 Function JB_TEST_TNT(E, Optional basis, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_TEST_TNT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TEST_TNT", Array(E, basis, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_TEST_TNT = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TEST_TNT", Array(E, basis, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_TEST_TNT = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TEST_TNT", Array(E, basis, units, Nothing))
+        JB_TEST_TNT = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TEST_TNT", Array(E, basis, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -791,10 +791,10 @@ End Function
 Function JB_TIME_BATCH(material, m, T_1, T_2, UA, T_source, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_TIME_BATCH = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_BATCH", Array(material, m, T_1, T_2, UA, T_source, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_TIME_BATCH = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TIME_BATCH", Array(material, m, T_1, T_2, UA, T_source, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_TIME_BATCH = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_BATCH", Array(material, m, T_1, T_2, UA, T_source, units, Nothing))
+        JB_TIME_BATCH = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TIME_BATCH", Array(material, m, T_1, T_2, UA, T_source, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -804,10 +804,10 @@ End Function
 Function JB_TIME_BLOCKED_IN(state1, V, V_gas, P_set, Optional Q_dot, Optional UA, Optional T_source, Optional gas, Optional shape, Optional D, Optional wall, Optional E_mod, Optional poisson, Optional alpha_wall, Optional kappa, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_TIME_BLOCKED_IN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_BLOCKED_IN", Array(state1, V, V_gas, P_set, Q_dot, UA, T_source, gas, shape, D, wall, E_mod, poisson, alpha_wall, kappa, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_TIME_BLOCKED_IN = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TIME_BLOCKED_IN", Array(state1, V, V_gas, P_set, Q_dot, UA, T_source, gas, shape, D, wall, E_mod, poisson, alpha_wall, kappa, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_TIME_BLOCKED_IN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_BLOCKED_IN", Array(state1, V, V_gas, P_set, Q_dot, UA, T_source, gas, shape, D, wall, E_mod, poisson, alpha_wall, kappa, units, Nothing))
+        JB_TIME_BLOCKED_IN = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TIME_BLOCKED_IN", Array(state1, V, V_gas, P_set, Q_dot, UA, T_source, gas, shape, D, wall, E_mod, poisson, alpha_wall, kappa, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -817,10 +817,10 @@ End Function
 Function JB_TIME_BLOWDOWN(state1, V, d, P_target, Optional Cd, Optional P_back, Optional m_wall, Optional UA_wall, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_TIME_BLOWDOWN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_BLOWDOWN", Array(state1, V, d, P_target, Cd, P_back, m_wall, UA_wall, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_TIME_BLOWDOWN = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TIME_BLOWDOWN", Array(state1, V, d, P_target, Cd, P_back, m_wall, UA_wall, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_TIME_BLOWDOWN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_BLOWDOWN", Array(state1, V, d, P_target, Cd, P_back, m_wall, UA_wall, units, Nothing))
+        JB_TIME_BLOWDOWN = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TIME_BLOWDOWN", Array(state1, V, d, P_target, Cd, P_back, m_wall, UA_wall, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -830,10 +830,10 @@ End Function
 Function JB_TIME_BLOWDOWN_TABLE(state1, V, d, P_target, Optional Cd, Optional P_back, Optional m_wall, Optional UA_wall, Optional points, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_TIME_BLOWDOWN_TABLE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_BLOWDOWN_TABLE", Array(state1, V, d, P_target, Cd, P_back, m_wall, UA_wall, points, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_TIME_BLOWDOWN_TABLE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TIME_BLOWDOWN_TABLE", Array(state1, V, d, P_target, Cd, P_back, m_wall, UA_wall, points, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_TIME_BLOWDOWN_TABLE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_BLOWDOWN_TABLE", Array(state1, V, d, P_target, Cd, P_back, m_wall, UA_wall, points, units, Nothing))
+        JB_TIME_BLOWDOWN_TABLE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TIME_BLOWDOWN_TABLE", Array(state1, V, d, P_target, Cd, P_back, m_wall, UA_wall, points, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -843,10 +843,10 @@ End Function
 Function JB_TIME_FIRE(state1, shape, D, L, target, target_value, Optional F, Optional drainage, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_TIME_FIRE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_FIRE", Array(state1, shape, D, L, target, target_value, F, drainage, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_TIME_FIRE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TIME_FIRE", Array(state1, shape, D, L, target, target_value, F, drainage, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_TIME_FIRE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_FIRE", Array(state1, shape, D, L, target, target_value, F, drainage, units, Nothing))
+        JB_TIME_FIRE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TIME_FIRE", Array(state1, shape, D, L, target, target_value, F, drainage, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -856,10 +856,10 @@ End Function
 Function JB_TIME_FIRE_GAS(state1, D, L, wall, P_set, Optional fire, Optional q, Optional UA_in, Optional f_y, Optional P_amb, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_TIME_FIRE_GAS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_FIRE_GAS", Array(state1, D, L, wall, P_set, fire, q, UA_in, f_y, P_amb, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_TIME_FIRE_GAS = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TIME_FIRE_GAS", Array(state1, D, L, wall, P_set, fire, q, UA_in, f_y, P_amb, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_TIME_FIRE_GAS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_FIRE_GAS", Array(state1, D, L, wall, P_set, fire, q, UA_in, f_y, P_amb, units, Nothing))
+        JB_TIME_FIRE_GAS = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TIME_FIRE_GAS", Array(state1, D, L, wall, P_set, fire, q, UA_in, f_y, P_amb, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -869,10 +869,10 @@ End Function
 Function JB_TIME_FIRE_GAS_TABLE(state1, D, L, wall, P_set, Optional fire, Optional q, Optional UA_in, Optional f_y, Optional P_amb, Optional points, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_TIME_FIRE_GAS_TABLE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_FIRE_GAS_TABLE", Array(state1, D, L, wall, P_set, fire, q, UA_in, f_y, P_amb, points, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_TIME_FIRE_GAS_TABLE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TIME_FIRE_GAS_TABLE", Array(state1, D, L, wall, P_set, fire, q, UA_in, f_y, P_amb, points, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_TIME_FIRE_GAS_TABLE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_FIRE_GAS_TABLE", Array(state1, D, L, wall, P_set, fire, q, UA_in, f_y, P_amb, points, units, Nothing))
+        JB_TIME_FIRE_GAS_TABLE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TIME_FIRE_GAS_TABLE", Array(state1, D, L, wall, P_set, fire, q, UA_in, f_y, P_amb, points, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -882,10 +882,10 @@ End Function
 Function JB_TIME_FIRE_TABLE(state1, shape, D, L, target, target_value, Optional F, Optional drainage, Optional points, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_TIME_FIRE_TABLE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_FIRE_TABLE", Array(state1, shape, D, L, target, target_value, F, drainage, points, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_TIME_FIRE_TABLE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TIME_FIRE_TABLE", Array(state1, shape, D, L, target, target_value, F, drainage, points, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_TIME_FIRE_TABLE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_FIRE_TABLE", Array(state1, shape, D, L, target, target_value, F, drainage, points, units, Nothing))
+        JB_TIME_FIRE_TABLE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TIME_FIRE_TABLE", Array(state1, shape, D, L, target, target_value, F, drainage, points, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -895,10 +895,10 @@ End Function
 Function JB_TIME_HEATING(state1, V, target, target_value, Optional Q_dot, Optional UA, Optional T_source, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_TIME_HEATING = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_HEATING", Array(state1, V, target, target_value, Q_dot, UA, T_source, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_TIME_HEATING = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TIME_HEATING", Array(state1, V, target, target_value, Q_dot, UA, T_source, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_TIME_HEATING = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_HEATING", Array(state1, V, target, target_value, Q_dot, UA, T_source, units, Nothing))
+        JB_TIME_HEATING = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TIME_HEATING", Array(state1, V, target, target_value, Q_dot, UA, T_source, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -908,10 +908,10 @@ End Function
 Function JB_TIME_HEATING_TABLE(state1, V, target, target_value, Optional Q_dot, Optional UA, Optional T_source, Optional points, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_TIME_HEATING_TABLE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_HEATING_TABLE", Array(state1, V, target, target_value, Q_dot, UA, T_source, points, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_TIME_HEATING_TABLE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TIME_HEATING_TABLE", Array(state1, V, target, target_value, Q_dot, UA, T_source, points, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_TIME_HEATING_TABLE = XLPy.CallUDF("joulebook.sheet.udfs", "JB_TIME_HEATING_TABLE", Array(state1, V, target, target_value, Q_dot, UA, T_source, points, units, Nothing))
+        JB_TIME_HEATING_TABLE = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_TIME_HEATING_TABLE", Array(state1, V, target, target_value, Q_dot, UA, T_source, points, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -921,10 +921,10 @@ End Function
 Function JB_WALL_AXIAL_STRESS(P, D, wall, Optional P_out, Optional f_y, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_WALL_AXIAL_STRESS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WALL_AXIAL_STRESS", Array(P, D, wall, P_out, f_y, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_WALL_AXIAL_STRESS = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WALL_AXIAL_STRESS", Array(P, D, wall, P_out, f_y, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_WALL_AXIAL_STRESS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WALL_AXIAL_STRESS", Array(P, D, wall, P_out, f_y, units, Nothing))
+        JB_WALL_AXIAL_STRESS = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WALL_AXIAL_STRESS", Array(P, D, wall, P_out, f_y, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -934,10 +934,10 @@ End Function
 Function JB_WALL_HOOP_STRESS(P, D, wall, Optional P_out, Optional f_y, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_WALL_HOOP_STRESS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WALL_HOOP_STRESS", Array(P, D, wall, P_out, f_y, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_WALL_HOOP_STRESS = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WALL_HOOP_STRESS", Array(P, D, wall, P_out, f_y, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_WALL_HOOP_STRESS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WALL_HOOP_STRESS", Array(P, D, wall, P_out, f_y, units, Nothing))
+        JB_WALL_HOOP_STRESS = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WALL_HOOP_STRESS", Array(P, D, wall, P_out, f_y, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -947,10 +947,10 @@ End Function
 Function JB_WETTED_AREA(shape, D, L, level, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_WETTED_AREA = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WETTED_AREA", Array(shape, D, L, level, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_WETTED_AREA = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WETTED_AREA", Array(shape, D, L, level, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_WETTED_AREA = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WETTED_AREA", Array(shape, D, L, level, units, Nothing))
+        JB_WETTED_AREA = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WETTED_AREA", Array(shape, D, L, level, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -960,10 +960,10 @@ End Function
 Function JB_WHY(cell)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_WHY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WHY", Array(cell, Nothing), ThisWorkbook, Application.Caller)
+        JB_WHY = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WHY", Array(cell, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_WHY = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WHY", Array(cell, Nothing))
+        JB_WHY = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WHY", Array(cell, Nothing))
         Exit Function
     #End If
 failed:
@@ -973,10 +973,10 @@ End Function
 Function JB_WORK_ELECTRIC_IN(voltage, current, duration, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_WORK_ELECTRIC_IN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_ELECTRIC_IN", Array(voltage, current, duration, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_WORK_ELECTRIC_IN = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WORK_ELECTRIC_IN", Array(voltage, current, duration, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_WORK_ELECTRIC_IN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_ELECTRIC_IN", Array(voltage, current, duration, units, Nothing))
+        JB_WORK_ELECTRIC_IN = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WORK_ELECTRIC_IN", Array(voltage, current, duration, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -986,10 +986,10 @@ End Function
 Function JB_WORK_ISOBARIC(P, V_1, V_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_WORK_ISOBARIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_ISOBARIC", Array(P, V_1, V_2, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_WORK_ISOBARIC = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WORK_ISOBARIC", Array(P, V_1, V_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_WORK_ISOBARIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_ISOBARIC", Array(P, V_1, V_2, units, Nothing))
+        JB_WORK_ISOBARIC = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WORK_ISOBARIC", Array(P, V_1, V_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -999,10 +999,10 @@ End Function
 Function JB_WORK_ISOTHERMAL(P_1, V_1, V_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_WORK_ISOTHERMAL = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_ISOTHERMAL", Array(P_1, V_1, V_2, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_WORK_ISOTHERMAL = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WORK_ISOTHERMAL", Array(P_1, V_1, V_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_WORK_ISOTHERMAL = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_ISOTHERMAL", Array(P_1, V_1, V_2, units, Nothing))
+        JB_WORK_ISOTHERMAL = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WORK_ISOTHERMAL", Array(P_1, V_1, V_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -1012,10 +1012,10 @@ End Function
 Function JB_WORK_ISOTHERMAL_MASS(gas, m, T, V_1, V_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_WORK_ISOTHERMAL_MASS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_ISOTHERMAL_MASS", Array(gas, m, T, V_1, V_2, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_WORK_ISOTHERMAL_MASS = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WORK_ISOTHERMAL_MASS", Array(gas, m, T, V_1, V_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_WORK_ISOTHERMAL_MASS = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_ISOTHERMAL_MASS", Array(gas, m, T, V_1, V_2, units, Nothing))
+        JB_WORK_ISOTHERMAL_MASS = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WORK_ISOTHERMAL_MASS", Array(gas, m, T, V_1, V_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -1025,10 +1025,10 @@ End Function
 Function JB_WORK_LINEAR(P_1, V_1, P_2, V_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_WORK_LINEAR = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_LINEAR", Array(P_1, V_1, P_2, V_2, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_WORK_LINEAR = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WORK_LINEAR", Array(P_1, V_1, P_2, V_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_WORK_LINEAR = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_LINEAR", Array(P_1, V_1, P_2, V_2, units, Nothing))
+        JB_WORK_LINEAR = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WORK_LINEAR", Array(P_1, V_1, P_2, V_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -1038,10 +1038,10 @@ End Function
 Function JB_WORK_PATH(state1, path, end_spec, end_value, Optional mass, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_WORK_PATH = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_PATH", Array(state1, path, end_spec, end_value, mass, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_WORK_PATH = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WORK_PATH", Array(state1, path, end_spec, end_value, mass, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_WORK_PATH = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_PATH", Array(state1, path, end_spec, end_value, mass, units, Nothing))
+        JB_WORK_PATH = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WORK_PATH", Array(state1, path, end_spec, end_value, mass, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -1051,10 +1051,10 @@ End Function
 Function JB_WORK_POLYTROPIC(P_1, V_1, P_2, V_2, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_WORK_POLYTROPIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_POLYTROPIC", Array(P_1, V_1, P_2, V_2, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_WORK_POLYTROPIC = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WORK_POLYTROPIC", Array(P_1, V_1, P_2, V_2, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_WORK_POLYTROPIC = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_POLYTROPIC", Array(P_1, V_1, P_2, V_2, units, Nothing))
+        JB_WORK_POLYTROPIC = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WORK_POLYTROPIC", Array(P_1, V_1, P_2, V_2, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -1064,10 +1064,10 @@ End Function
 Function JB_WORK_POLYTROPIC_N(P_1, V_1, V_2, n, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_WORK_POLYTROPIC_N = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_POLYTROPIC_N", Array(P_1, V_1, V_2, n, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_WORK_POLYTROPIC_N = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WORK_POLYTROPIC_N", Array(P_1, V_1, V_2, n, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_WORK_POLYTROPIC_N = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_POLYTROPIC_N", Array(P_1, V_1, V_2, n, units, Nothing))
+        JB_WORK_POLYTROPIC_N = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WORK_POLYTROPIC_N", Array(P_1, V_1, V_2, n, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -1077,10 +1077,10 @@ End Function
 Function JB_WORK_PV(P_values, V_values, Optional method, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_WORK_PV = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_PV", Array(P_values, V_values, method, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_WORK_PV = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WORK_PV", Array(P_values, V_values, method, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_WORK_PV = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_PV", Array(P_values, V_values, method, units, Nothing))
+        JB_WORK_PV = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WORK_PV", Array(P_values, V_values, method, units, Nothing))
         Exit Function
     #End If
 failed:
@@ -1090,10 +1090,10 @@ End Function
 Function JB_WORK_SHAFT_IN(torque, revolutions, Optional units)
     #If App = "Microsoft Excel" Then
         If TypeOf Application.Caller Is Range Then On Error GoTo failed
-        JB_WORK_SHAFT_IN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_SHAFT_IN", Array(torque, revolutions, units, Nothing), ThisWorkbook, Application.Caller)
+        JB_WORK_SHAFT_IN = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WORK_SHAFT_IN", Array(torque, revolutions, units, Nothing), ThisWorkbook, Application.Caller)
         Exit Function
     #Else
-        JB_WORK_SHAFT_IN = XLPy.CallUDF("joulebook.sheet.udfs", "JB_WORK_SHAFT_IN", Array(torque, revolutions, units, Nothing))
+        JB_WORK_SHAFT_IN = XLPy.CallUDF("joulebook.faces.sheet.udfs", "JB_WORK_SHAFT_IN", Array(torque, revolutions, units, Nothing))
         Exit Function
     #End If
 failed:

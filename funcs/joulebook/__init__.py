@@ -4,7 +4,7 @@ The Python faces:
 
 * ``joulebook.call("JB_NAME", *cell_values)`` evaluates any worksheet function exactly as a
   cell would;
-* ``joulebook.State``, ``joulebook.Q_`` and the helpers of :mod:`joulebook.api` take and
+* ``joulebook.State``, ``joulebook.Q_`` and the helpers of :mod:`joulebook.faces.api` take and
   return pint quantities (or SI numbers, numpy arrays) over the same core.
 
 Importing the package is instant: the API, pint and the property library load on first use.
@@ -15,7 +15,8 @@ from __future__ import annotations
 from typing import TYPE_CHECKING, Any
 
 if TYPE_CHECKING:  # the real types for type checkers; at run time they load on first use
-    from .api import (
+    from joulebook.core.units import registry, set_gauge_atmosphere
+    from joulebook.faces.api import (
         Q_,
         Process,
         State,
@@ -31,9 +32,8 @@ if TYPE_CHECKING:  # the real types for type checkers; at run time they load on 
         work_polytropic,
         work_pv,
     )
-    from .units import registry, set_gauge_atmosphere
 
-__version__ = "0.1.0"
+from .core.version import __version__
 
 __all__ = [
     "__version__",
@@ -56,7 +56,7 @@ __all__ = [
     "relief_thermal_flow",
 ]
 
-#: names served lazily by joulebook.api (and the registry by joulebook.units)
+#: names served lazily by joulebook.faces.api (and the registry by joulebook.core.units)
 _API = frozenset(__all__) - {"__version__", "call", "registry", "set_gauge_atmosphere"}
 
 
@@ -71,7 +71,7 @@ def __getattr__(name: str) -> Any:
 
     ``joulebook.call`` is the catalog's own function (:func:`joulebook.catalog.call`:
     evaluate worksheet function *name* with cell values, as a cell would), bound here when
-    first named so a call pays no wrapper; the Pythonic API (:mod:`joulebook.api`) and the
+    first named so a call pays no wrapper; the Pythonic API (:mod:`joulebook.faces.api`) and the
     unit registry load when first named.
     """
     if name == "call":
@@ -80,11 +80,11 @@ def __getattr__(name: str) -> Any:
         globals()["call"] = call
         return call
     if name in _API:
-        from . import api
+        from joulebook.faces import api
 
         return getattr(api, name)
     if name in ("registry", "set_gauge_atmosphere"):
-        from . import units
+        from joulebook.core import units
 
         return getattr(units, name)
     raise AttributeError(f"module 'joulebook' has no attribute {name!r}")

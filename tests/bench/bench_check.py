@@ -32,7 +32,7 @@ from pathlib import Path
 def build(folder: Path, books: int, rows: int = 10) -> list[Path]:
     import openpyxl
 
-    from joulebook.cli import main
+    from joulebook.faces.cli import main
 
     folder.mkdir(parents=True, exist_ok=True)
     made = []
@@ -66,7 +66,7 @@ ROOT = Path(__file__).resolve().parents[2]
 _ENV = {k: v for k, v in os.environ.items() if k != "PYTHONDONTWRITEBYTECODE"}
 _PROBE = """
 import sys
-from joulebook.cli import main
+from joulebook.faces.cli import main
 code = main(["check", sys.argv[1]])
 print(code, *(m in sys.modules for m in ("CoolProp", "pint", "scipy.stats")))
 """
@@ -79,7 +79,7 @@ def _run(cmd: list[str]) -> tuple[float, subprocess.CompletedProcess]:
 
 
 def _time(args: list[str], ok=(0,)) -> float:
-    dt, done = _run([sys.executable, "-m", "joulebook.cli", *args])
+    dt, done = _run([sys.executable, "-m", "joulebook.faces.cli", *args])
     if done.returncode not in ok:
         raise SystemExit(f"joulebook {' '.join(args)} exited {done.returncode}:\n{done.stderr}")
     return dt
@@ -88,7 +88,7 @@ def _time(args: list[str], ok=(0,)) -> float:
 def _one_formula_book(folder: Path, formula: str, name: str) -> Path:
     import openpyxl
 
-    from joulebook.cli import main
+    from joulebook.faces.cli import main
 
     wb = openpyxl.Workbook()
     ws = wb.active

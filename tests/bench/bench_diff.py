@@ -68,7 +68,7 @@ def _formulas(r: int) -> dict:
 def build(folder: Path, rows: int) -> tuple[Path, Path]:
     import openpyxl
 
-    from joulebook.cli import main
+    from joulebook.faces.cli import main
 
     paths = []
     for name, revised in (("rev_a", False), ("rev_b", True)):

@@ -67,15 +67,15 @@ def peak_mb() -> float:
 def _warm() -> None:
     """Start-up: the engine's imports and registrations, the property library, a state."""
     import joulebook
-    from joulebook.workbook.engine import warm_up
+    from joulebook.faces.workbook.engine import warm_up
 
     warm_up()
     joulebook.call("JB_PROP", "water", "h in kJ/kg", "T in degC", 25.0, "P in kPa", 101.325)
 
 
 def _engine_once(path: Path) -> tuple[float, int]:
-    from joulebook.workbook.engine import Engine
-    from joulebook.workbook.reader import read_book
+    from joulebook.faces.workbook.engine import Engine
+    from joulebook.faces.workbook.reader import read_book
 
     t = time.perf_counter()
     out = Engine(read_book(path)).run()

@@ -56,8 +56,8 @@ def build(path: Path, n: int, kind: str) -> None:
 def child(path: Path) -> None:
     import resource
 
-    from joulebook.workbook.engine import Engine, warm_up
-    from joulebook.workbook.reader import read_book
+    from joulebook.faces.workbook.engine import Engine, warm_up
+    from joulebook.faces.workbook.reader import read_book
 
     warm_up()
     t0 = time.perf_counter()

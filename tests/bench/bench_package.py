@@ -27,7 +27,7 @@ from pathlib import Path
 def build(path: Path, cells: int) -> Path:
     import openpyxl
 
-    from joulebook.cli import main
+    from joulebook.faces.cli import main
 
     rows = cells // 2
     wb = openpyxl.Workbook()

@@ -134,7 +134,7 @@ def main() -> None:
     for _ in range(5):
         t = time.perf_counter()
         subprocess.run(
-            [sys.executable, "-m", "joulebook.cli", "--help"], check=True, capture_output=True
+            [sys.executable, "-m", "joulebook.faces.cli", "--help"], check=True, capture_output=True
         )
         runs.append(time.perf_counter() - t)
     print(

@@ -66,9 +66,9 @@ def main() -> None:
     ap.add_argument("--repeat", type=int, default=3)
     ns = ap.parse_args()
 
-    from joulebook.workbook.engine import Engine
-    from joulebook.workbook.reader import read_book
-    from joulebook.workbook.sensitivity import Chain, Uncertainty, analyse, monte_carlo
+    from joulebook.faces.workbook.engine import Engine
+    from joulebook.faces.workbook.reader import read_book
+    from joulebook.faces.workbook.sensitivity import Chain, Uncertainty, analyse, monte_carlo
 
     with tempfile.TemporaryDirectory() as tmp:
         path = build(Path(tmp) / "chain.xlsx", ns.cells)

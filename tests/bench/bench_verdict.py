@@ -35,7 +35,7 @@ _INPUTS = [  # label, unit, value
 def build(folder: Path, rows: int) -> Path:
     import openpyxl
 
-    from joulebook.cli import main
+    from joulebook.faces.cli import main
 
     wb = openpyxl.Workbook()
     ws = wb.active
@@ -81,9 +81,9 @@ def main() -> None:
     ns = ap.parse_args()
     with tempfile.TemporaryDirectory() as tmp:
         path = build(Path(tmp), ns.rows)
-        from joulebook.workbook.check import compare
-        from joulebook.workbook.engine import Engine
-        from joulebook.workbook.reader import read_book
+        from joulebook.faces.workbook.check import compare
+        from joulebook.faces.workbook.engine import Engine
+        from joulebook.faces.workbook.reader import read_book
 
         book = read_book(path)
         out = Engine(book).run()

@@ -23,9 +23,9 @@ from pathlib import Path
 
 
 def _ours(path: str) -> dict:
-    from joulebook.workbook.check import compare
-    from joulebook.workbook.engine import Engine
-    from joulebook.workbook.reader import read_book
+    from joulebook.faces.workbook.check import compare
+    from joulebook.faces.workbook.engine import Engine
+    from joulebook.faces.workbook.reader import read_book
 
     book = read_book(path)
     outcomes = Engine(book).run()
@@ -39,8 +39,8 @@ def _ours(path: str) -> dict:
 
 def _library(path: str) -> dict:
     sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
-    from joulebook.workbook.check import _same
-    from joulebook.workbook.reader import col_letters, read_book
+    from joulebook.faces.workbook.check import _same
+    from joulebook.faces.workbook.reader import col_letters, read_book
     from wbtools import library_values
 
     book = read_book(path)
@@ -91,7 +91,7 @@ def run_one(kind: str, path: str, timeout: float):
 
 def _functions(formula: str) -> set[str]:
     """The functions a formula calls (by the tokenizer), without the _xlfn. prefixes."""
-    from joulebook.workbook.refs import tokens
+    from joulebook.faces.workbook.refs import tokens
 
     try:
         toks = tokens(formula.lstrip("="))

@@ -271,9 +271,9 @@ def main() -> int:
     n = build(src, ns.seed, ns.per, only)
     saved = libreoffice(src, work)
 
-    from joulebook.workbook.check import compare
-    from joulebook.workbook.engine import Engine
-    from joulebook.workbook.reader import read_book
+    from joulebook.faces.workbook.check import compare
+    from joulebook.faces.workbook.engine import Engine
+    from joulebook.faces.workbook.reader import read_book
 
     book = read_book(saved)
     rows = [r for r in compare(book, Engine(book).run()) if r.sheet == "T"]

@@ -13,7 +13,7 @@ import sys
 import types
 from pathlib import Path
 
-from joulebook.sheet.generate import load_xlwings_udfs, windows_stubs
+from joulebook.tools.sheetgen import load_xlwings_udfs, windows_stubs
 
 for name, mod in windows_stubs().items():
     sys.modules.setdefault(name, mod)
@@ -112,6 +112,6 @@ cases = {
 out = {}
 for key, (fname, args) in cases.items():
     # the VBA wrapper passes Nothing in the slot of the reserved `caller` argument
-    res = udfs.call_udf("joulebook.sheet.udfs", fname, (*args, None))
+    res = udfs.call_udf("joulebook.faces.sheet.udfs", fname, (*args, None))
     out[key] = res
 print(json.dumps(out))
